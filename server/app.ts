@@ -1,0 +1,95 @@
+import { existsSync } from 'node:fs';
+import path from 'node:path';
+import connectSessionSequelize from 'connect-session-sequelize';
+import { csrfSync } from 'csrf-sync';
+import express from 'express';
+import session from 'express-session';
+import helmet from 'helmet';
+import { adminRoutes } from './components/admin/admin.routes';
+import { authRoutes } from './components/auth/auth.routes';
+import { createPassport } from './components/auth/passport';
+import { projectRoutes } from './components/projects/project.routes';
+import type { AppContext } from './context';
+import { apiNotFound, errorHandler } from './lib/error-handler';
+
+const SessionStore = connectSessionSequelize(session.Store);
+
+/** Builds the Express app (API + built client) around its context; supertest imports this directly. */
+export function createApp(ctx: AppContext) {
+  const { config, logger } = ctx;
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          defaultSrc: ["'self'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          fontSrc: ["'self'", 'data:'],
+          connectSrc: ["'self'"],
+          workerSrc: ["'self'", 'blob:'],
+          upgradeInsecureRequests: null,
+        },
+      },
+      hsts: config.publicUrl.startsWith('https://'),
+    }),
+  );
+  app.use((req, res, next) => {
+    const started = process.hrtime.bigint();
+    res.on('finish', () => {
+      const ms = Number(process.hrtime.bigint() - started) / 1e6;
+      logger.debug({ method: req.method, url: req.originalUrl, status: res.statusCode, ms: Math.round(ms) }, 'request');
+    });
+    next();
+  });
+
+  const store = new SessionStore({ db: ctx.sequelize, table: 'Session', checkExpirationInterval: 15 * 60_000 });
+  app.use(
+    session({
+      name: 'pw.sid',
+      secret: config.SESSION_SECRET,
+      store,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: {
+        httpOnly: true,
+        sameSite: 'lax',
+        secure: config.publicUrl.startsWith('https://'),
+        maxAge: 14 * 24 * 60 * 60 * 1000,
+      },
+    }),
+  );
+  const passport = createPassport();
+  app.use(passport.initialize());
+  app.use(passport.session());
+
+  const { csrfSynchronisedProtection, generateToken } = csrfSync({
+    getTokenFromRequest: (req) => req.get('x-csrf-token'),
+  });
+
+  const api = express.Router();
+  api.use(express.json({ limit: '256kb' }));
+  api.use(csrfSynchronisedProtection);
+  api.use('/auth', authRoutes(ctx, passport as never, generateToken));
+  api.use('/projects', projectRoutes(ctx));
+  api.use('/admin', adminRoutes(ctx));
+  api.get('/health', (_req, res) => {
+    res.json({ ok: true });
+  });
+  api.use(apiNotFound);
+  app.use('/api', api);
+
+  const clientDir = path.resolve(config.CLIENT_DIST);
+  if (existsSync(path.join(clientDir, 'index.html'))) {
+    app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+    app.get('/{*splat}', (_req, res) => {
+      res.sendFile(path.join(clientDir, 'index.html'));
+    });
+  }
+
+  app.use(errorHandler(logger));
+  return { app, sessionStore: store };
+}

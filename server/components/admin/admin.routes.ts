@@ -1,0 +1,30 @@
+import { Router } from 'express';
+import { createUserSchema, updateUserSchema } from '../../../shared/schemas/admin';
+import type { AppContext } from '../../context';
+import { parseId, parseInput } from '../../lib/validate';
+import { currentUser, requireAdmin } from '../auth/auth.middleware';
+import { inviteUser } from '../auth/auth.service';
+import { toUserDto } from '../users/user.service';
+import { listUsers, updateUser } from './admin.service';
+
+export function adminRoutes(ctx: AppContext) {
+  const router = Router();
+  router.use(requireAdmin);
+
+  router.get('/users', async (_req, res) => {
+    res.json({ users: await listUsers() });
+  });
+
+  router.post('/users', async (req, res) => {
+    const input = parseInput(createUserSchema, req.body);
+    const user = await inviteUser(ctx, input, currentUser(req));
+    res.status(201).json({ user: toUserDto(user) });
+  });
+
+  router.patch('/users/:userId', async (req, res) => {
+    const input = parseInput(updateUserSchema, req.body);
+    res.json({ user: await updateUser(currentUser(req), parseId(req.params.userId, 'userId'), input) });
+  });
+
+  return router;
+}

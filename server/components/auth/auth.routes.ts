@@ -1,0 +1,124 @@
+import { Router, type Request } from 'express';
+import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
+import type { PassportStatic } from 'passport';
+import {
+  acceptInvitationSchema,
+  changePasswordSchema,
+  resetPasswordSchema,
+  resetRequestSchema,
+  signInSchema,
+  signUpSchema,
+  updateProfileSchema,
+} from '../../../shared/schemas/auth';
+import type { AppContext } from '../../context';
+import { AppError } from '../../lib/app-error';
+import { parseInput } from '../../lib/validate';
+import { changePassword, toUserDto, updateProfile } from '../users/user.service';
+import type { UserModel } from '../users/user.model';
+import { currentUser, requireUser } from './auth.middleware';
+import { acceptInvitation, requestPasswordReset, resetPassword, signUp } from './auth.service';
+
+type CsrfTokenFn = (req: Request, overwrite?: boolean) => string;
+
+/** Rate-limit key: the caller's address (IPv6 folded to its /56) together with the account e-mail. */
+function perAccount(req: Request): string {
+  return `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').trim().toLowerCase()}`;
+}
+
+function tooMany(message: string) {
+  return (_req: unknown, _res: unknown, next: (err: AppError) => void) => next(new AppError(429, message));
+}
+
+export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken: CsrfTokenFn) {
+  const router = Router();
+  const windowMs = ctx.config.SIGNIN_WINDOW_MINUTES * 60_000;
+  const signInLimiter = rateLimit({
+    windowMs,
+    limit: ctx.config.SIGNIN_LIMIT,
+    skipSuccessfulRequests: true,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: perAccount,
+    handler: tooMany(`Too many failed sign-in attempts — wait ${ctx.config.SIGNIN_WINDOW_MINUTES} minutes and try again`),
+  });
+  const resetMailLimiter = rateLimit({
+    windowMs,
+    limit: ctx.config.SIGNIN_LIMIT,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: perAccount,
+    handler: tooMany('Too many requests for reset links — wait a while and try again'),
+  });
+
+  const signInAs = (req: Request, user: UserModel) =>
+    new Promise<void>((resolve, reject) => req.login(user, (err) => (err ? reject(err) : resolve())));
+  const signedIn = async (req: Request, user: UserModel) => {
+    await signInAs(req, user);
+    user.lastSignInAt = new Date();
+    await user.save();
+    return { user: toUserDto(user), csrfToken: csrfToken(req, true) };
+  };
+
+  router.get('/csrf', (req, res) => {
+    res.json({ csrfToken: csrfToken(req) });
+  });
+
+  router.get('/me', (req, res) => {
+    res.json({ user: req.user ? toUserDto(req.user) : null, signupOpen: ctx.config.ALLOW_SIGNUP });
+  });
+
+  router.post('/sign-in', signInLimiter, async (req, res) => {
+    parseInput(signInSchema, req.body);
+    const user = await new Promise<UserModel | false>((resolve, reject) =>
+      passport.authenticate('local', { session: false }, (err: Error | null, found: UserModel | false) =>
+        err ? reject(err) : resolve(found),
+      )(req, res, () => undefined),
+    );
+    if (!user) throw new AppError(401, 'E-mail or password is not correct, or the account is disabled');
+    res.json(await signedIn(req, user));
+  });
+
+  router.post('/sign-out', (req, res, next) => {
+    req.logout((err) => {
+      if (err) return next(err);
+      res.json({ ok: true, csrfToken: csrfToken(req, true) });
+    });
+  });
+
+  router.post('/sign-up', async (req, res) => {
+    const input = parseInput(signUpSchema, req.body);
+    const user = await signUp(ctx, input);
+    res.status(201).json(await signedIn(req, user));
+  });
+
+  router.post('/password-reset/request', resetMailLimiter, async (req, res) => {
+    const { email } = parseInput(resetRequestSchema, req.body);
+    await requestPasswordReset(ctx, email);
+    res.status(202).json({ message: 'If an account uses this e-mail, a reset link is on its way' });
+  });
+
+  router.post('/password-reset/complete', async (req, res) => {
+    const { token, password } = parseInput(resetPasswordSchema, req.body);
+    const user = await resetPassword(ctx, token, password);
+    res.json(await signedIn(req, user));
+  });
+
+  router.post('/invitation/accept', async (req, res) => {
+    const { token, name, password } = parseInput(acceptInvitationSchema, req.body);
+    const user = await acceptInvitation(ctx, token, name, password);
+    res.json(await signedIn(req, user));
+  });
+
+  router.post('/password', requireUser, async (req, res) => {
+    const { currentPassword, newPassword } = parseInput(changePasswordSchema, req.body);
+    await changePassword(currentUser(req), currentPassword, newPassword, ctx.config.BCRYPT_COST);
+    res.json({ ok: true });
+  });
+
+  router.patch('/profile', requireUser, async (req, res) => {
+    const { name } = parseInput(updateProfileSchema, req.body);
+    res.json({ user: await updateProfile(currentUser(req), name) });
+  });
+
+  return router;
+}

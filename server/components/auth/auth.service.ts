@@ -1,0 +1,113 @@
+import { Op } from 'sequelize';
+import type { AppContext } from '../../context';
+import { AppError } from '../../lib/app-error';
+import { hashToken, newToken } from '../../lib/tokens';
+import { UserModel } from '../users/user.model';
+import { hashPassword } from '../users/user.service';
+import { AuthTokenModel, type AuthTokenPurpose } from './auth-token.model';
+
+const RESET_LIFETIME_MS = 60 * 60 * 1000;
+const INVITE_LIFETIME_MS = 7 * 24 * 60 * 60 * 1000;
+
+async function issueToken(userId: number, purpose: AuthTokenPurpose, lifetimeMs: number): Promise<string> {
+  const { token, hash } = newToken();
+  await AuthTokenModel.create({ userId, purpose, tokenHash: hash, expiresAt: new Date(Date.now() + lifetimeMs) });
+  return token;
+}
+
+/** Finds a usable token (right purpose, unused, unexpired) and marks it used, atomically. */
+async function consumeToken(ctx: AppContext, token: string, purpose: AuthTokenPurpose): Promise<UserModel> {
+  return ctx.sequelize.transaction(async (transaction) => {
+    const row = await AuthTokenModel.findOne({
+      where: { tokenHash: hashToken(token), purpose },
+      lock: transaction.LOCK.UPDATE,
+      transaction,
+    });
+    const expired = row && row.expiresAt.getTime() < Date.now();
+    if (!row || row.usedAt || expired) {
+      const what = purpose === 'reset' ? 'reset link' : 'invitation link';
+      throw new AppError(400, `This ${what} is invalid, already used or expired — ask for a new one`);
+    }
+    const user = await UserModel.findByPk(row.userId, { transaction });
+    if (!user || user.disabledAt) throw new AppError(400, 'This account is disabled');
+    row.usedAt = new Date();
+    await row.save({ transaction });
+    await AuthTokenModel.update(
+      { usedAt: new Date() },
+      { where: { userId: user.id, purpose, usedAt: { [Op.is]: null } }, transaction },
+    );
+    return user;
+  });
+}
+
+export async function requestPasswordReset(ctx: AppContext, email: string) {
+  const user = await UserModel.findOne({ where: { email } });
+  if (!user || user.disabledAt) return;
+  const token = await issueToken(user.id, 'reset', RESET_LIFETIME_MS);
+  const link = `${ctx.config.publicUrl}/reset-password?token=${token}`;
+  ctx.mailer.enqueue({
+    to: user.email,
+    subject: 'Phasewright: set a new password',
+    text: [
+      `Hello ${user.name},`,
+      '',
+      'Someone (hopefully you) asked to reset the password of your Phasewright account.',
+      `Open this link within one hour to choose a new one:`,
+      link,
+      '',
+      'If you did not ask for this, ignore this message; your password stays as it is.',
+    ].join('\n'),
+  });
+}
+
+export async function resetPassword(ctx: AppContext, token: string, password: string) {
+  const user = await consumeToken(ctx, token, 'reset');
+  user.passwordHash = await hashPassword(password, ctx.config.BCRYPT_COST);
+  await user.save();
+  return user;
+}
+
+/** Creates an account without a password and mails its owner a link to choose one. */
+export async function inviteUser(
+  ctx: AppContext,
+  input: { email: string; name: string; siteRole: 'admin' | 'member' },
+  invitedBy: UserModel,
+) {
+  if (await UserModel.findOne({ where: { email: input.email } })) {
+    throw new AppError(409, 'An account with this e-mail already exists', { email: 'Already registered' });
+  }
+  const user = await UserModel.create({ ...input, passwordHash: null });
+  const token = await issueToken(user.id, 'invite', INVITE_LIFETIME_MS);
+  ctx.mailer.enqueue({
+    to: user.email,
+    subject: `${invitedBy.name} invited you to Phasewright`,
+    text: [
+      `Hello ${user.name},`,
+      '',
+      `${invitedBy.name} created a Phasewright account for you.`,
+      'Open this link within seven days to choose your password and sign in:',
+      `${ctx.config.publicUrl}/welcome?token=${token}`,
+    ].join('\n'),
+  });
+  return user;
+}
+
+export async function acceptInvitation(ctx: AppContext, token: string, name: string, password: string) {
+  const user = await consumeToken(ctx, token, 'invite');
+  user.name = name;
+  user.passwordHash = await hashPassword(password, ctx.config.BCRYPT_COST);
+  await user.save();
+  return user;
+}
+
+export async function signUp(ctx: AppContext, input: { email: string; name: string; password: string }) {
+  if (!ctx.config.ALLOW_SIGNUP) throw new AppError(403, 'Open sign-up is turned off here — ask an admin for an invitation');
+  if (await UserModel.findOne({ where: { email: input.email } })) {
+    throw new AppError(409, 'An account with this e-mail already exists', { email: 'Already registered' });
+  }
+  return UserModel.create({
+    email: input.email,
+    name: input.name,
+    passwordHash: await hashPassword(input.password, ctx.config.BCRYPT_COST),
+  });
+}

@@ -1,0 +1,49 @@
+import type { NextFunction, Request, Response } from 'express';
+import { projectRoleAllows, type ProjectAbility, type ProjectRole } from '../../../shared/roles';
+import { AppError } from '../../lib/app-error';
+import { parseId } from '../../lib/validate';
+import type { UserModel } from '../users/user.model';
+import { MembershipModel } from './membership.model';
+import { ProjectModel } from './project.model';
+
+export interface ProjectAccess {
+  project: ProjectModel;
+  role: ProjectRole;
+}
+
+declare module 'express-serve-static-core' {
+  interface Request {
+    projectAccess?: ProjectAccess;
+  }
+}
+
+/** A site admin acts as owner on every project; everyone else has their membership role or none. */
+export async function effectiveRole(user: UserModel, projectId: number): Promise<ProjectRole | null> {
+  if (user.siteRole === 'admin') return 'owner';
+  const membership = await MembershipModel.findOne({ where: { projectId, userId: user.id } });
+  return membership?.role ?? null;
+}
+
+/**
+ * Route guard for `/projects/:projectId/…`: 401 when signed out, 404 when the project does not exist or the
+ * user is not a member (so project names never leak), 403 when the role lacks `ability`.
+ */
+export function requireProject(ability: ProjectAbility) {
+  return async (req: Request, _res: Response, next: NextFunction) => {
+    if (!req.user) throw new AppError(401, 'Sign in to continue');
+    const projectId = parseId(req.params.projectId, 'projectId');
+    const project = await ProjectModel.findByPk(projectId);
+    const role = project ? await effectiveRole(req.user, project.id) : null;
+    if (!project || !role) throw new AppError(404, 'Project not found');
+    if (!projectRoleAllows(role, ability)) {
+      throw new AppError(403, `Your role on this project (${role}) does not allow this`);
+    }
+    req.projectAccess = { project, role };
+    next();
+  };
+}
+
+export function projectAccess(req: Request): ProjectAccess {
+  if (!req.projectAccess) throw new Error('requireProject() must run before this handler');
+  return req.projectAccess;
+}

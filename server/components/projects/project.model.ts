@@ -1,0 +1,30 @@
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
+import type { UserModel } from '../users/user.model';
+import type { MembershipModel } from './membership.model';
+
+export class ProjectModel extends Model<InferAttributes<ProjectModel>, InferCreationAttributes<ProjectModel>> {
+  declare id: CreationOptional<number>;
+  declare name: string;
+  declare description: CreationOptional<string>;
+  declare archivedAt: CreationOptional<Date | null>;
+  declare createdById: ForeignKey<UserModel['id']> | null;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+  declare createdBy?: NonAttribute<UserModel | null>;
+  declare memberships?: NonAttribute<MembershipModel[]>;
+
+  static initModel(sequelize: Sequelize) {
+    ProjectModel.init(
+      {
+        id: { type: DataTypes.INTEGER.UNSIGNED, autoIncrement: true, primaryKey: true },
+        name: { type: DataTypes.STRING(120), allowNull: false, validate: { len: [1, 120] } },
+        description: { type: DataTypes.TEXT, allowNull: false, defaultValue: '' },
+        archivedAt: { type: DataTypes.DATE, allowNull: true },
+        createdById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+        createdAt: DataTypes.DATE,
+        updatedAt: DataTypes.DATE,
+      },
+      { sequelize, modelName: 'Project', tableName: 'projects', underscored: true },
+    );
+  }
+}

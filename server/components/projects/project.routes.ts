@@ -1,0 +1,87 @@
+import { Router } from 'express';
+import {
+  addMemberSchema,
+  changeMemberRoleSchema,
+  createProjectSchema,
+  listProjectsQuerySchema,
+  updateProjectSchema,
+} from '../../../shared/schemas/projects';
+import type { AppContext } from '../../context';
+import { AppError } from '../../lib/app-error';
+import { parseId, parseInput } from '../../lib/validate';
+import { currentUser, requireUser } from '../auth/auth.middleware';
+import { projectAccess, requireProject } from './project-access';
+import {
+  addMember,
+  changeMemberRole,
+  createProject,
+  getProject,
+  listMembers,
+  listProjects,
+  removeMember,
+  setArchived,
+  updateProject,
+} from './project.service';
+
+export function projectRoutes(ctx: AppContext) {
+  const router = Router();
+
+  router.get('/', requireUser, async (req, res) => {
+    const query = parseInput(listProjectsQuerySchema, req.query, 'query');
+    res.json({ projects: await listProjects(currentUser(req), query) });
+  });
+
+  router.post('/', requireUser, async (req, res) => {
+    const input = parseInput(createProjectSchema, req.body);
+    res.status(201).json({ project: await createProject(ctx, currentUser(req), input) });
+  });
+
+  router.get('/:projectId', requireProject('read'), async (req, res) => {
+    const { project, role } = projectAccess(req);
+    res.json({ project: await getProject(project.id, role) });
+  });
+
+  router.patch('/:projectId', requireProject('manage'), async (req, res) => {
+    const { project, role } = projectAccess(req);
+    const input = parseInput(updateProjectSchema, req.body);
+    res.json({ project: await updateProject(project, role, input) });
+  });
+
+  router.post('/:projectId/archive', requireProject('manage'), async (req, res) => {
+    const { project, role } = projectAccess(req);
+    res.json({ project: await setArchived(project, role, true) });
+  });
+
+  router.post('/:projectId/unarchive', requireProject('manage'), async (req, res) => {
+    const { project, role } = projectAccess(req);
+    res.json({ project: await setArchived(project, role, false) });
+  });
+
+  router.get('/:projectId/members', requireProject('read'), async (req, res) => {
+    res.json({ members: await listMembers(projectAccess(req).project.id) });
+  });
+
+  router.post('/:projectId/members', requireProject('manage'), async (req, res) => {
+    const input = parseInput(addMemberSchema, req.body);
+    res.status(201).json({ member: await addMember(projectAccess(req).project.id, input) });
+  });
+
+  router.patch('/:projectId/members/:userId', requireProject('manage'), async (req, res) => {
+    const { role } = parseInput(changeMemberRoleSchema, req.body);
+    const userId = parseId(req.params.userId, 'userId');
+    res.json({ member: await changeMemberRole(projectAccess(req).project.id, userId, role) });
+  });
+
+  /** Owners remove anyone; every member may remove themselves (leave). */
+  router.delete('/:projectId/members/:userId', requireProject('read'), async (req, res) => {
+    const { project, role } = projectAccess(req);
+    const userId = parseId(req.params.userId, 'userId');
+    if (role !== 'owner' && userId !== currentUser(req).id) {
+      throw new AppError(403, `Your role on this project (${role}) does not allow removing other members`);
+    }
+    await removeMember(project.id, userId);
+    res.status(204).end();
+  });
+
+  return router;
+}

@@ -1,0 +1,140 @@
+import { Op, literal, type Order, type WhereOptions } from 'sequelize';
+import type { ProjectRole } from '../../../shared/roles';
+import type { ListProjectsQuery, Member, Project } from '../../../shared/schemas/projects';
+import type { AppContext } from '../../context';
+import { AppError } from '../../lib/app-error';
+import { UserModel } from '../users/user.model';
+import { MembershipModel } from './membership.model';
+import { ProjectModel } from './project.model';
+
+const memberCount = literal('(SELECT COUNT(*) FROM project_members pm WHERE pm.project_id = `Project`.`id`)');
+
+function toProjectDto(project: ProjectModel, myRole: ProjectRole | null): Project {
+  const createdBy = project.createdBy;
+  return {
+    id: project.id,
+    name: project.name,
+    description: project.description,
+    archived: project.archivedAt != null,
+    createdAt: project.createdAt.toISOString(),
+    updatedAt: project.updatedAt.toISOString(),
+    memberCount: Number(project.get('memberCount') ?? 0),
+    myRole,
+    createdBy: createdBy ? { id: createdBy.id, name: createdBy.name } : null,
+  };
+}
+
+function toMemberDto(m: MembershipModel): Member {
+  return { userId: m.userId, name: m.user!.name, email: m.user!.email, role: m.role, addedAt: m.createdAt.toISOString() };
+}
+
+/** Projects the user belongs to (every project for a site admin), filtered and sorted. */
+export async function listProjects(user: UserModel, query: ListProjectsQuery): Promise<Project[]> {
+  const isAdmin = user.siteRole === 'admin';
+  const memberships = await MembershipModel.findAll({ where: { userId: user.id } });
+  const roles = new Map(memberships.map((m) => [m.projectId, m.role]));
+  const where: WhereOptions[] = [];
+  if (!isAdmin) where.push({ id: { [Op.in]: [...roles.keys()] } });
+  if (query.status === 'active') where.push({ archivedAt: { [Op.is]: null } });
+  if (query.status === 'archived') where.push({ archivedAt: { [Op.not]: null } });
+  if (query.q) {
+    const like = `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    where.push({ [Op.or]: [{ name: { [Op.like]: like } }, { description: { [Op.like]: like } }] });
+  }
+  const dir = query.dir.toUpperCase();
+  const order: Order =
+    query.sort === 'memberCount' ? [[memberCount, dir], ['id', 'ASC']] : [[query.sort, dir], ['id', 'ASC']];
+  const projects = await ProjectModel.findAll({
+    where: { [Op.and]: where },
+    attributes: { include: [[memberCount, 'memberCount']] },
+    include: [{ model: UserModel, as: 'createdBy', attributes: ['id', 'name'] }],
+    order,
+    limit: 500,
+  });
+  return projects.map((p) => toProjectDto(p, isAdmin ? 'owner' : (roles.get(p.id) ?? null)));
+}
+
+export async function getProject(projectId: number, role: ProjectRole): Promise<Project> {
+  const project = await ProjectModel.findByPk(projectId, {
+    attributes: { include: [[memberCount, 'memberCount']] },
+    include: [{ model: UserModel, as: 'createdBy', attributes: ['id', 'name'] }],
+  });
+  if (!project) throw new AppError(404, 'Project not found');
+  return toProjectDto(project, role);
+}
+
+export async function createProject(ctx: AppContext, user: UserModel, input: { name: string; description: string }) {
+  const project = await ctx.sequelize.transaction(async (transaction) => {
+    const created = await ProjectModel.create({ ...input, createdById: user.id }, { transaction });
+    await MembershipModel.create({ projectId: created.id, userId: user.id, role: 'owner' }, { transaction });
+    return created;
+  });
+  return getProject(project.id, 'owner');
+}
+
+export async function updateProject(project: ProjectModel, role: ProjectRole, input: { name?: string; description?: string }) {
+  if (input.name !== undefined) project.name = input.name;
+  if (input.description !== undefined) project.description = input.description;
+  await project.save();
+  return getProject(project.id, role);
+}
+
+export async function setArchived(project: ProjectModel, role: ProjectRole, archived: boolean) {
+  project.archivedAt = archived ? new Date() : null;
+  await project.save();
+  return getProject(project.id, role);
+}
+
+export async function listMembers(projectId: number): Promise<Member[]> {
+  const members = await MembershipModel.findAll({
+    where: { projectId },
+    include: [{ model: UserModel, as: 'user', attributes: ['id', 'name', 'email'] }],
+    order: [['createdAt', 'ASC'], ['id', 'ASC']],
+  });
+  return members.map(toMemberDto);
+}
+
+async function findMembership(projectId: number, userId: number) {
+  const membership = await MembershipModel.findOne({
+    where: { projectId, userId },
+    include: [{ model: UserModel, as: 'user', attributes: ['id', 'name', 'email'] }],
+  });
+  if (!membership) throw new AppError(404, 'This person is not a member of the project');
+  return membership;
+}
+
+async function assertOwnerRemains(projectId: number, leavingUserId: number) {
+  const owners = await MembershipModel.count({ where: { projectId, role: 'owner', userId: { [Op.ne]: leavingUserId } } });
+  if (owners === 0) {
+    throw new AppError(409, 'A project needs at least one owner — make someone else owner first');
+  }
+}
+
+export async function addMember(projectId: number, input: { email: string; role: ProjectRole }) {
+  const user = await UserModel.findOne({ where: { email: input.email } });
+  if (!user) {
+    throw new AppError(404, 'No Phasewright account uses this e-mail — ask an admin to invite them first', {
+      email: 'No account with this e-mail',
+    });
+  }
+  if (user.disabledAt) throw new AppError(409, 'This account is disabled', { email: 'Account disabled' });
+  if (await MembershipModel.findOne({ where: { projectId, userId: user.id } })) {
+    throw new AppError(409, 'This person is already a member', { email: 'Already a member' });
+  }
+  await MembershipModel.create({ projectId, userId: user.id, role: input.role });
+  return toMemberDto(await findMembership(projectId, user.id));
+}
+
+export async function changeMemberRole(projectId: number, userId: number, role: ProjectRole) {
+  const membership = await findMembership(projectId, userId);
+  if (membership.role === 'owner' && role !== 'owner') await assertOwnerRemains(projectId, userId);
+  membership.role = role;
+  await membership.save();
+  return toMemberDto(membership);
+}
+
+export async function removeMember(projectId: number, userId: number) {
+  const membership = await findMembership(projectId, userId);
+  if (membership.role === 'owner') await assertOwnerRemains(projectId, userId);
+  await membership.destroy();
+}

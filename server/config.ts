@@ -1,0 +1,40 @@
+import { z } from 'zod';
+
+const flag = z
+  .enum(['true', 'false', '1', '0', 'yes', 'no'])
+  .transform((v) => v === 'true' || v === '1' || v === 'yes');
+
+const envSchema = z.object({
+  NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
+  HOST: z.string().default('127.0.0.1'),
+  PORT: z.coerce.number().int().min(1).max(65535).default(5180),
+  PUBLIC_URL: z.string().url().optional(),
+  DB_HOST: z.string().default('127.0.0.1'),
+  DB_PORT: z.coerce.number().int().min(1).max(65535).default(3407),
+  DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only').default('phasewright'),
+  DB_USER: z.string().default('phasewright'),
+  DB_PASSWORD: z.string().default('phasewright-local'),
+  SESSION_SECRET: z.string().min(16, 'use at least 16 characters').default('phasewright-local-session-secret'),
+  SMTP_HOST: z.string().default('127.0.0.1'),
+  SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(1025),
+  MAIL_FROM: z.string().default('Phasewright <no-reply@phasewright.local>'),
+  ALLOW_SIGNUP: flag.default(false),
+  SIGNIN_LIMIT: z.coerce.number().int().min(1).default(10),
+  SIGNIN_WINDOW_MINUTES: z.coerce.number().min(0.01).default(15),
+  BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(12),
+  LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  CLIENT_DIST: z.string().default('dist'),
+});
+
+export type AppConfig = z.infer<typeof envSchema> & { publicUrl: string };
+
+/** Reads and validates the environment; fails fast with one line per bad variable. */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
+  const parsed = envSchema.safeParse(env);
+  if (!parsed.success) {
+    const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
+    throw new Error(`Invalid configuration:\n${lines.join('\n')}`);
+  }
+  const c = parsed.data;
+  return { ...c, publicUrl: (c.PUBLIC_URL ?? `http://${c.HOST}:${c.PORT}`).replace(/\/$/, '') };
+}

@@ -1,0 +1,48 @@
+import './mariadb-compat';
+import { Sequelize } from 'sequelize';
+import { SequelizeStorage, Umzug } from 'umzug';
+import type { AppConfig } from '../config';
+import { AuthTokenModel } from '../components/auth/auth-token.model';
+import { SessionModel } from '../components/auth/session.model';
+import { MembershipModel } from '../components/projects/membership.model';
+import { ProjectModel } from '../components/projects/project.model';
+import { UserModel } from '../components/users/user.model';
+import { migrations } from './migrations/index';
+
+export type DbConfig = Pick<AppConfig, 'DB_HOST' | 'DB_PORT' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD'>;
+
+/** Opens the connection pool and binds every model to it. */
+export function createSequelize(config: DbConfig, log?: (sql: string) => void): Sequelize {
+  const sequelize = new Sequelize(config.DB_NAME, config.DB_USER, config.DB_PASSWORD, {
+    host: config.DB_HOST,
+    port: config.DB_PORT,
+    dialect: 'mariadb',
+    logging: log ?? false,
+    dialectOptions: { connectTimeout: 5000, charset: 'utf8mb4' },
+    define: { charset: 'utf8mb4', collate: 'utf8mb4_unicode_ci' },
+    pool: { max: 10, min: 0, idle: 10_000 },
+  });
+  for (const model of [UserModel, AuthTokenModel, SessionModel, ProjectModel, MembershipModel]) {
+    model.initModel(sequelize);
+  }
+  ProjectModel.belongsTo(UserModel, { as: 'createdBy', foreignKey: 'createdById' });
+  ProjectModel.hasMany(MembershipModel, { as: 'memberships', foreignKey: 'projectId' });
+  MembershipModel.belongsTo(UserModel, { as: 'user', foreignKey: 'userId' });
+  MembershipModel.belongsTo(ProjectModel, { as: 'project', foreignKey: 'projectId' });
+  return sequelize;
+}
+
+export function createMigrator(sequelize: Sequelize) {
+  return new Umzug({
+    migrations: migrations.map((m) => ({ name: m.name, up: m.up, down: m.down })),
+    context: sequelize.getQueryInterface(),
+    storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),
+    logger: undefined,
+  });
+}
+
+/** Applies every pending migration; returns the names applied. */
+export async function migrateUp(sequelize: Sequelize): Promise<string[]> {
+  const applied = await createMigrator(sequelize).up();
+  return applied.map((m) => m.name);
+}

@@ -1,0 +1,118 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
+
+let t: TestApp;
+let owner: ApiClient;
+let ownerUser: Awaited<ReturnType<typeof makeUser>>;
+beforeAll(async () => {
+  t = await createTestApp();
+  ownerUser = await makeUser({ name: 'Owner One' });
+  owner = await signedInClient(t.app, ownerUser);
+});
+afterAll(async () => {
+  await t?.close();
+});
+
+describe('projects', () => {
+  it('creates, renames, describes, archives and unarchives a project', async () => {
+    const created = await owner.post('/api/projects', { name: '  Twin-image hologram  ', description: 'Two images, one array' });
+    expect(created.status).toBe(201);
+    expect(created.body.project).toMatchObject({ name: 'Twin-image hologram', myRole: 'owner', memberCount: 1, archived: false });
+    const id = created.body.project.id;
+
+    const renamed = await owner.patch(`/api/projects/${id}`, { name: 'Twin hologram v2', description: 'Updated' });
+    expect(renamed.body.project).toMatchObject({ name: 'Twin hologram v2', description: 'Updated' });
+
+    expect((await owner.post(`/api/projects/${id}/archive`)).body.project.archived).toBe(true);
+    const active = await owner.get('/api/projects');
+    expect(active.body.projects.map((p: { id: number }) => p.id)).not.toContain(id);
+    const archived = await owner.get('/api/projects?status=archived');
+    expect(archived.body.projects.map((p: { id: number }) => p.id)).toContain(id);
+    expect((await owner.post(`/api/projects/${id}/unarchive`)).body.project.archived).toBe(false);
+  });
+
+  it('lists only my projects, filtered by text and sorted by the chosen column', async () => {
+    const me = await makeUser();
+    const client = await signedInClient(t.app, me);
+    for (const name of ['Bessel axis study', 'Alpha deflector', 'Charge-2 vortex']) {
+      expect((await client.post('/api/projects', { name })).status).toBe(201);
+    }
+    const list = await client.get('/api/projects?sort=name&dir=asc');
+    expect(list.body.projects.map((p: { name: string }) => p.name)).toEqual(['Alpha deflector', 'Bessel axis study', 'Charge-2 vortex']);
+    const desc = await client.get('/api/projects?sort=name&dir=desc');
+    expect(desc.body.projects[0].name).toBe('Charge-2 vortex');
+    const filtered = await client.get('/api/projects?q=vortex');
+    expect(filtered.body.projects.map((p: { name: string }) => p.name)).toEqual(['Charge-2 vortex']);
+    const bad = await client.get('/api/projects?sort=colour');
+    expect(bad.status).toBe(400);
+    expect(bad.body.details.sort).toBeDefined();
+  });
+
+  it('rejects an empty or overlong name with the field named', async () => {
+    const empty = await owner.post('/api/projects', { name: '   ' });
+    expect(empty.status).toBe(400);
+    expect(empty.body.details.name).toMatch(/Enter a project name/);
+    const long = await owner.post('/api/projects', { name: 'x'.repeat(121) });
+    expect(long.status).toBe(400);
+    const wrongType = await owner.post('/api/projects', { name: 12 });
+    expect(wrongType.status).toBe(400);
+  });
+
+  it('answers an unknown or malformed project id with 404 / 400', async () => {
+    expect((await owner.get('/api/projects/999999')).status).toBe(404);
+    expect((await owner.get('/api/projects/abc')).status).toBe(400);
+  });
+});
+
+describe('membership', () => {
+  it('adds an existing user by e-mail with a role, changes the role and removes them', async () => {
+    const project = (await owner.post('/api/projects', { name: 'Members project' })).body.project;
+    const colleague = await makeUser({ name: 'Colleague' });
+    const added = await owner.post(`/api/projects/${project.id}/members`, { email: colleague.email, role: 'reviewer' });
+    expect(added.status).toBe(201);
+    expect(added.body.member).toMatchObject({ userId: colleague.id, role: 'reviewer', name: 'Colleague' });
+
+    const dup = await owner.post(`/api/projects/${project.id}/members`, { email: colleague.email, role: 'viewer' });
+    expect(dup.status).toBe(409);
+    const nobody = await owner.post(`/api/projects/${project.id}/members`, { email: 'no.account@lab.example', role: 'viewer' });
+    expect(nobody.status).toBe(404);
+    expect(nobody.body.error).toMatch(/No Phasewright account/);
+    const badRole = await owner.post(`/api/projects/${project.id}/members`, { email: colleague.email, role: 'boss' });
+    expect(badRole.status).toBe(400);
+    expect(badRole.body.details.role).toBeDefined();
+
+    const members = await owner.get(`/api/projects/${project.id}/members`);
+    expect(members.body.members.map((m: { role: string }) => m.role)).toEqual(['owner', 'reviewer']);
+
+    const changed = await owner.patch(`/api/projects/${project.id}/members/${colleague.id}`, { role: 'designer' });
+    expect(changed.body.member.role).toBe('designer');
+    expect((await owner.delete(`/api/projects/${project.id}/members/${colleague.id}`)).status).toBe(204);
+    expect((await owner.get(`/api/projects/${project.id}/members`)).body.members).toHaveLength(1);
+  });
+
+  it('never lets the last owner leave or be demoted', async () => {
+    const project = (await owner.post('/api/projects', { name: 'Last owner project' })).body.project;
+    const leave = await owner.delete(`/api/projects/${project.id}/members/${ownerUser.id}`);
+    expect(leave.status).toBe(409);
+    expect(leave.body.error).toMatch(/at least one owner/);
+    const demote = await owner.patch(`/api/projects/${project.id}/members/${ownerUser.id}`, { role: 'viewer' });
+    expect(demote.status).toBe(409);
+
+    const second = await makeUser();
+    await owner.post(`/api/projects/${project.id}/members`, { email: second.email, role: 'owner' });
+    expect((await owner.delete(`/api/projects/${project.id}/members/${ownerUser.id}`)).status).toBe(204);
+    expect((await owner.get(`/api/projects/${project.id}`)).status).toBe(404);
+  });
+
+  it('lets a non-owner leave but not remove others', async () => {
+    const project = (await owner.post('/api/projects', { name: 'Leaving project' })).body.project;
+    const a = await makeUser();
+    const b = await makeUser();
+    await owner.post(`/api/projects/${project.id}/members`, { email: a.email, role: 'designer' });
+    await owner.post(`/api/projects/${project.id}/members`, { email: b.email, role: 'viewer' });
+    const client = await signedInClient(t.app, a);
+    expect((await client.delete(`/api/projects/${project.id}/members/${b.id}`)).status).toBe(403);
+    expect((await client.delete(`/api/projects/${project.id}/members/${a.id}`)).status).toBe(204);
+    expect((await client.get(`/api/projects/${project.id}`)).status).toBe(404);
+  });
+});
