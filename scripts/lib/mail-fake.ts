@@ -13,7 +13,7 @@ export async function startMailFake(smtpPort: number, webPort: number, root = pr
   const child = spawn(
     bin,
     ['--smtp', String(smtpPort), '--web', String(webPort), '--ip', '127.0.0.1', '--web-ip', '127.0.0.1', '--silent'],
-    { stdio: ['ignore', 'ignore', 'pipe'] },
+    { stdio: ['ignore', 'ignore', 'pipe'], detached: true },
   );
   let stderr = '';
   child.stderr?.on('data', (chunk) => (stderr += String(chunk)));

@@ -91,7 +91,7 @@ export async function startMariaDb(options: MariaDbOptions): Promise<RunningMari
         '--innodb-buffer-pool-size=256M',
         '--innodb-flush-log-at-trx-commit=2',
       ],
-      { stdio: ['ignore', out, out], detached: false },
+      { stdio: ['ignore', out, out], detached: true },
     );
     let exited = false;
     child.on('exit', () => (exited = true));

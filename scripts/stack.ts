@@ -1,0 +1,117 @@
+/**
+ * Runs the whole local stack for `npm start` (and `npm run dev` with --dev): private MariaDB on loopback,
+ * the mail fake, migrations, demo seed, client build, and the server. Ctrl-C stops everything it started:
+ * children run in their own process groups (detached) so a terminal Ctrl-C reaches only this script, which
+ * then stops them in order — server, mail fake, MariaDB.
+ */
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { loadConfig } from '../server/config';
+import { createSequelize, migrateUp } from '../server/db/database';
+import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemo } from '../server/db/seed-demo';
+import { startMailFake } from './lib/mail-fake';
+import { startMariaDb } from './lib/mariadb';
+
+const dev = process.argv.includes('--dev');
+const say = (line: string) => console.log(`› ${line}`);
+
+const stoppers: (() => Promise<void>)[] = [];
+const children: ChildProcess[] = [];
+let stopping = false;
+
+async function stopAll(code: number) {
+  if (stopping) return;
+  stopping = true;
+  say('Stopping…');
+  for (const child of children) if (child.exitCode === null) child.kill('SIGTERM');
+  await Promise.all(children.map((c) => (c.exitCode === null ? new Promise((r) => c.once('exit', r)) : null)));
+  for (const stop of stoppers.reverse()) await stop().catch(() => undefined);
+  say('Stopped.');
+  process.exit(code);
+}
+process.on('SIGINT', () => void stopAll(0));
+process.on('SIGTERM', () => void stopAll(0));
+
+async function main() {
+  const config = loadConfig();
+  const mailWebPort = Number(process.env.MAIL_WEB_PORT ?? 1080);
+
+  say(`Starting MariaDB on 127.0.0.1:${config.DB_PORT} (data in .data/mariadb)`);
+  const db = await startMariaDb({
+    dataDir: '.data/mariadb',
+    port: config.DB_PORT,
+    user: config.DB_USER,
+    password: config.DB_PASSWORD,
+    databases: [config.DB_NAME],
+  });
+  stoppers.push(() => db.stop());
+
+  say(`Starting the mail fake: SMTP 127.0.0.1:${config.SMTP_PORT}, inbox http://127.0.0.1:${mailWebPort}`);
+  const mail = await startMailFake(config.SMTP_PORT, mailWebPort);
+  stoppers.push(() => mail.stop());
+
+  const sequelize = createSequelize(config);
+  const applied = await migrateUp(sequelize);
+  say(applied.length ? `Applied migrations: ${applied.join(', ')}` : 'Database schema is up to date');
+  const { created } = await seedDemo(sequelize, config.BCRYPT_COST);
+  say(created.length ? `Seeded demo data: ${created.join(', ')}` : 'Demo data already present; kept as it is');
+  await sequelize.close();
+
+  if (!dev) {
+    say('Building the client');
+    const build = spawnSync('node_modules/.bin/vite', ['build', '--logLevel', 'warn'], { stdio: 'inherit' });
+    if (build.status !== 0) throw new Error('The client build failed (see above)');
+  }
+
+  const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    stdio: 'inherit',
+    detached: true,
+    env: { ...process.env, NODE_ENV: dev ? 'development' : 'production' },
+  });
+  children.push(server);
+  server.on('exit', (code) => {
+    if (!stopping) {
+      console.error(`The server exited (code ${code}); stopping the rest.`);
+      void stopAll(code || 1);
+    }
+  });
+  let url = config.publicUrl;
+  if (dev) {
+    const vite = spawn('node_modules/.bin/vite', ['--host', '127.0.0.1', '--port', '5173', '--strictPort'], {
+      stdio: 'inherit',
+      detached: true,
+    });
+    children.push(vite);
+    url = 'http://127.0.0.1:5173';
+  }
+  await waitForHealth(`http://${config.HOST}:${config.PORT}/api/health`);
+  const people = DEMO_PEOPLE.map((p) => `    ${p.email.padEnd(36)} ${p.name}${p.siteRole === 'admin' ? ' (admin)' : ''}`);
+  console.log(
+    [
+      '',
+      `  Phasewright is running at ${url}`,
+      `  Demo sign-in (password for all: ${DEMO_PASSWORD}):`,
+      ...people,
+      `  Mail sent by the app: http://127.0.0.1:${mailWebPort}  (or: npm run mail:list)`,
+      '  Press Ctrl-C to stop.',
+      '',
+    ].join('\n'),
+  );
+}
+
+async function waitForHealth(url: string) {
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    try {
+      if ((await fetch(url)).ok) return;
+    } catch {
+      // not up yet
+    }
+    if (Date.now() > deadline) throw new Error(`The server did not answer at ${url}`);
+    await new Promise((r) => setTimeout(r, 250));
+  }
+}
+
+main().catch((err) => {
+  console.error(err instanceof Error ? err.message : err);
+  void stopAll(1);
+});
