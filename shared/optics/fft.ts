@@ -1,0 +1,395 @@
+/**
+ * Two-dimensional complex FFT of the optics engine, on square power-of-two grids (N = 64…4096;
+ * 64…2048 for designs, 4096 for zero-padded propagation of the largest designs).
+ *
+ * Backend: PFFFT compiled to WebAssembly with SIMD (`@echogarden/pffft-wasm/simd`, single precision),
+ * chosen by benchmark (bench/fft-bench.ts) over fft.js and ndarray-fft; it runs in Node and in browsers.
+ * Data live in one interleaved float32 buffer (re, im, re, im…) inside the WebAssembly memory, allocated
+ * once per plan. Rows are transformed one at a time and the square buffer is transposed in place
+ * (8×8 tiles), so a 2-D transform is: rows, transpose, rows, transpose.
+ *
+ * Conventions (same as numpy.fft.fft2 / ifft2):
+ * - forward  F[ky, kx] = Σ f[y, x] · exp(−2πi (ky·y + kx·x)/N), unscaled;
+ * - inverse  f[y, x] = (1/N²) Σ F[ky, kx] · exp(+2πi (ky·y + kx·x)/N).
+ * - Row-major, index = y·N + x. Spectra are unshifted (zero frequency at index 0); `fftshift2d` moves it to
+ *   index (N/2, N/2), the centre used by every far-field map of the engine.
+ * - Precision: float32 storage and arithmetic; against numpy complex128 the error is a few 1e-7 of the
+ *   largest value (tests/unit/fft.test.ts).
+ *
+ * Usage: `await initFft()` once per thread (worker or page), then `createFft2d(n)` per size (or `getFft2d`
+ * for a cached plan), and reuse the plan: every call works in place on `plan.data`.
+ */
+import type { PffftModule, PffftModuleOptions } from '@echogarden/pffft-wasm';
+import type { ComplexField } from './types';
+
+const PFFFT_FORWARD = 0;
+const PFFFT_BACKWARD = 1;
+const PFFFT_COMPLEX = 1;
+/** Tile edge of the in-place transpose, in complex elements (measured fastest on this engine's target CPUs). */
+const TRANSPOSE_TILE = 8;
+
+export const MIN_FFT_SIZE = 64;
+export const MAX_FFT_SIZE = 4096;
+
+let pffft: PffftModule | null = null;
+let loading: Promise<PffftModule> | null = null;
+let simdBackend = false;
+
+export interface FftInitOptions {
+  /** Where to load `pffft.wasm` from (browsers with bundlers); receives the file name and the script folder. */
+  locateWasm?: (fileName: string, scriptDirectory: string) => string;
+}
+
+/**
+ * Loads the WebAssembly FFT backend once per thread (SIMD build; scalar build if SIMD is unavailable).
+ * Must be awaited before `createFft2d`. Example: `await initFft(); fftBackend()` → "pffft-wasm-simd".
+ */
+export async function initFft(options: FftInitOptions = {}): Promise<void> {
+  if (pffft) return;
+  if (!loading) {
+    const moduleOptions: PffftModuleOptions = options.locateWasm ? { locateFile: options.locateWasm } : {};
+    loading = (async () => {
+      try {
+        const simd = await import('@echogarden/pffft-wasm/simd');
+        return await simd.default(moduleOptions);
+      } catch {
+        const scalar = await import('@echogarden/pffft-wasm');
+        return await scalar.default(moduleOptions);
+      }
+    })();
+  }
+  try {
+    pffft = await loading;
+    simdBackend = pffft._pffft_simd_size() === 4;
+  } catch (error) {
+    loading = null;
+    throw error;
+  }
+}
+
+/** True once `initFft()` has completed in this thread. */
+export function fftReady(): boolean {
+  return pffft !== null;
+}
+
+/** Name of the loaded backend: "pffft-wasm-simd" or "pffft-wasm" (scalar). Throws before `initFft()`. */
+export function fftBackend(): string {
+  requireModule();
+  return simdBackend ? 'pffft-wasm-simd' : 'pffft-wasm';
+}
+
+function requireModule(): PffftModule {
+  if (!pffft) throw new Error('FFT backend not loaded: call `await initFft()` once in this thread first');
+  return pffft;
+}
+
+/** Throws RangeError unless n is a power of two in [MIN_FFT_SIZE, MAX_FFT_SIZE]. */
+export function assertFftSize(n: number): void {
+  if (!Number.isInteger(n) || n < MIN_FFT_SIZE || n > MAX_FFT_SIZE || (n & (n - 1)) !== 0) {
+    throw new RangeError(`FFT size must be a power of two from ${MIN_FFT_SIZE} to ${MAX_FFT_SIZE}, got ${n}`);
+  }
+}
+
+/**
+ * Operation applied to one row of the plan's buffer while that row is in cache.
+ * `data` is the interleaved buffer, `offset` the float index of the row's first real part, `row` its index.
+ */
+export type RowOperation = (data: Float32Array, offset: number, row: number) => void;
+
+/**
+ * A 2-D FFT plan for one size n: its own interleaved complex float32 buffer `data` (length 2n²) in the
+ * WebAssembly memory, a work buffer and precomputed twiddles. Not shareable between threads.
+ */
+export class Fft2d {
+  readonly n: number;
+  private readonly module: PffftModule;
+  private setup: number;
+  private dataPointer: number;
+  private workPointer: number;
+  private view: Float32Array;
+  private pairs: Float64Array;
+  private chained = false;
+
+  constructor(n: number) {
+    assertFftSize(n);
+    const module = requireModule();
+    this.n = n;
+    this.module = module;
+    this.setup = module._pffft_new_setup(n, PFFFT_COMPLEX);
+    this.dataPointer = module._pffft_aligned_malloc(8 * n * n);
+    this.workPointer = module._pffft_aligned_malloc(8 * n);
+    if (!this.setup || !this.dataPointer || !this.workPointer) {
+      throw new RangeError(`Not enough WebAssembly memory for a ${n}×${n} FFT plan`);
+    }
+    this.view = new Float32Array(module.HEAPF32.buffer, this.dataPointer, 2 * n * n);
+    this.pairs = new Float64Array(module.HEAPF32.buffer, this.dataPointer, n * n);
+  }
+
+  /**
+   * Interleaved complex buffer (re at 2i, im at 2i+1, i = y·n + x). The view is re-created if the
+   * WebAssembly memory grew, so read this property again after creating another plan.
+   */
+  get data(): Float32Array {
+    this.refreshViews();
+    return this.view;
+  }
+
+  private refreshViews(): void {
+    if (this.dataPointer === 0) throw new Error('FFT plan used after dispose()');
+    const buffer = this.module.HEAPF32.buffer;
+    if (this.view.buffer !== buffer) {
+      this.view = new Float32Array(buffer, this.dataPointer, 2 * this.n * this.n);
+      this.pairs = new Float64Array(buffer, this.dataPointer, this.n * this.n);
+    }
+  }
+
+  private assertNotChained(): void {
+    if (this.chained) throw new Error('A chained cycle is pending: finish it with cycle(…, chainForward = false)');
+  }
+
+  /** Copies real and imaginary planes (length n², row-major) into the buffer; `im` omitted means zero. */
+  load(re: ArrayLike<number>, im?: ArrayLike<number> | null): void {
+    const size = this.n * this.n;
+    if (re.length !== size || (im && im.length !== size)) {
+      throw new RangeError(`Expected planes of length ${size} (${this.n}×${this.n}), got ${re.length}/${im ? im.length : '-'}`);
+    }
+    this.chained = false;
+    const data = this.data;
+    if (im) {
+      for (let i = 0, j = 0; i < size; i++, j += 2) {
+        data[j] = re[i];
+        data[j + 1] = im[i];
+      }
+    } else {
+      for (let i = 0, j = 0; i < size; i++, j += 2) {
+        data[j] = re[i];
+        data[j + 1] = 0;
+      }
+    }
+  }
+
+  /** Copies the buffer out into real and imaginary planes of length n², multiplied by `scale`. */
+  store(re: Float64Array, im: Float64Array, scale = 1): void {
+    const size = this.n * this.n;
+    if (re.length !== size || im.length !== size) throw new RangeError(`Expected output planes of length ${size}`);
+    const data = this.data;
+    for (let i = 0, j = 0; i < size; i++, j += 2) {
+      re[i] = data[j] * scale;
+      im[i] = data[j + 1] * scale;
+    }
+  }
+
+  /**
+   * Forward 2-D FFT in place, exp(−2πi k·n/N), unscaled, zero frequency at index 0 (numpy.fft.fft2).
+   * Example: a unit impulse at index 0 gives 1 + 0i in every bin.
+   */
+  forward(): void {
+    this.assertNotChained();
+    this.rowPass(PFFFT_FORWARD, null, -1, 1);
+    this.transpose();
+    this.rowPass(PFFFT_FORWARD, null, -1, 1);
+    this.transpose();
+  }
+
+  /**
+   * Inverse 2-D FFT in place, exp(+2πi k·n/N), scaled by 1/N² (numpy.fft.ifft2), so inverse(forward(f)) = f.
+   * Example: all bins equal to 1 give a unit impulse at index 0.
+   */
+  inverse(): void {
+    this.assertNotChained();
+    this.rowPass(PFFFT_BACKWARD, null, -1, 1);
+    this.transpose();
+    this.rowPass(PFFFT_BACKWARD, null, -1, 1 / (this.n * this.n));
+    this.transpose();
+  }
+
+  /**
+   * Forward 2-D FFT leaving the spectrum transposed: afterwards element (ky, kx) sits at index kx·n + ky
+   * (one transpose fewer than `forward`). Unscaled, unshifted. Pair with `inverseTransposed`.
+   */
+  forwardTransposed(): void {
+    this.assertNotChained();
+    this.rowPass(PFFFT_FORWARD, null, -1, 1);
+    this.transpose();
+    this.rowPass(PFFFT_FORWARD, null, -1, 1);
+  }
+
+  /** Inverse of `forwardTransposed`: transposed spectrum in, field out in normal order, scaled by 1/N². */
+  inverseTransposed(): void {
+    this.assertNotChained();
+    this.rowPass(PFFFT_BACKWARD, null, -1, 1);
+    this.transpose();
+    this.rowPass(PFFFT_BACKWARD, null, -1, 1 / (this.n * this.n));
+  }
+
+  /**
+   * One fused round trip field → spectrum → field, the building block of iterative retrieval:
+   * forward FFT, `spectrumRow` on every spectrum row, inverse FFT (UNSCALED: the field comes back
+   * multiplied by N² unless `spectrumRow` divides), `fieldRow` on every field row.
+   * The spectrum is seen transposed and unshifted: row r holds kx index r, element j of that row is
+   * ky index j (frequency index m means m for m < N/2, m − N otherwise).
+   * With `chainForward`, the forward row transforms of the next cycle are done while each field row is
+   * still in cache; the buffer is then half-transformed until a cycle with `chainForward = false`.
+   * Example: with no-op callbacks and chainForward = false, `data` ends as N²·(its initial value).
+   */
+  cycle(spectrumRow: RowOperation | null, fieldRow: RowOperation | null, chainForward: boolean): void {
+    if (!this.chained) this.rowPass(PFFFT_FORWARD, null, -1, 1);
+    this.transpose();
+    this.rowPass(PFFFT_FORWARD, spectrumRow, PFFFT_BACKWARD, 1);
+    this.transpose();
+    this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1);
+    this.chained = chainForward;
+  }
+
+  /** Frees the plan's WebAssembly memory; the plan cannot be used afterwards. */
+  dispose(): void {
+    if (this.dataPointer === 0) return;
+    const module = this.module;
+    module._pffft_aligned_free(this.dataPointer);
+    module._pffft_aligned_free(this.workPointer);
+    module._pffft_destroy_setup(this.setup);
+    this.dataPointer = 0;
+    this.workPointer = 0;
+    this.setup = 0;
+    if (cachedPlans.get(this.n) === this) cachedPlans.delete(this.n);
+  }
+
+  /** Transforms every row (`first` direction), then optionally scales it, applies `op` and transforms it again (`second`, −1 for none). */
+  private rowPass(first: number, op: RowOperation | null, second: number, scale: number): void {
+    const module = this.module;
+    const n = this.n;
+    const setup = this.setup;
+    const work = this.workPointer;
+    const rowBytes = 8 * n;
+    const data = this.data;
+    let pointer = this.dataPointer;
+    for (let row = 0; row < n; row++, pointer += rowBytes) {
+      module._pffft_transform_ordered(setup, pointer, pointer, work, first);
+      const offset = 2 * n * row;
+      if (scale !== 1) {
+        const end = offset + 2 * n;
+        for (let i = offset; i < end; i++) data[i] *= scale;
+      }
+      if (op) op(data, offset, row);
+      if (second >= 0) module._pffft_transform_ordered(setup, pointer, pointer, work, second);
+    }
+  }
+
+  /** In-place transpose of the n×n complex matrix, moving each (re, im) float32 pair as one 8-byte word. */
+  private transpose(): void {
+    this.refreshViews();
+    const a = this.pairs;
+    const n = this.n;
+    const tile = TRANSPOSE_TILE;
+    for (let i0 = 0; i0 < n; i0 += tile) {
+      for (let i = i0; i < i0 + tile; i++) {
+        for (let j = i + 1; j < i0 + tile; j++) {
+          const p = i * n + j;
+          const q = j * n + i;
+          const t = a[p];
+          a[p] = a[q];
+          a[q] = t;
+        }
+      }
+      for (let j0 = i0 + tile; j0 < n; j0 += tile) {
+        for (let i = i0; i < i0 + tile; i++) {
+          const rowI = i * n;
+          for (let j = j0; j < j0 + tile; j++) {
+            const p = rowI + j;
+            const q = j * n + i;
+            const t = a[p];
+            a[p] = a[q];
+            a[q] = t;
+          }
+        }
+      }
+    }
+  }
+}
+
+/** Creates a new plan of size n (power of two, 64…4096). Requires `await initFft()` first. */
+export function createFft2d(n: number): Fft2d {
+  return new Fft2d(n);
+}
+
+const cachedPlans = new Map<number, Fft2d>();
+
+/** Returns this thread's shared plan of size n, creating it on first use (buffers allocated once). */
+export function getFft2d(n: number): Fft2d {
+  let plan = cachedPlans.get(n);
+  if (!plan) {
+    plan = new Fft2d(n);
+    cachedPlans.set(n, plan);
+  }
+  return plan;
+}
+
+function fieldTransform(field: ComplexField, out: ComplexField | undefined, inverse: boolean): ComplexField {
+  const n = field.n;
+  if (field.re.length !== n * n || field.im.length !== n * n) throw new RangeError(`Field planes must have length ${n * n}`);
+  const result = out ?? { n, re: new Float64Array(n * n), im: new Float64Array(n * n) };
+  if (result.n !== n) throw new RangeError(`Output field size ${result.n} differs from input size ${n}`);
+  const plan = getFft2d(n);
+  plan.load(field.re, field.im);
+  if (inverse) plan.inverse();
+  else plan.forward();
+  plan.store(result.re, result.im);
+  return result;
+}
+
+/**
+ * numpy.fft.fft2 of a ComplexField: exp(−2πi k·n/N), unscaled, zero frequency at index 0 (not shifted).
+ * Example: fft2 of a field equal to 1 everywhere (N = 64) is 4096 at index 0 and 0 elsewhere.
+ */
+export function fft2(field: ComplexField, out?: ComplexField): ComplexField {
+  return fieldTransform(field, out, false);
+}
+
+/**
+ * numpy.fft.ifft2 of a ComplexField: exp(+2πi k·n/N), scaled by 1/N², input unshifted.
+ * Example: ifft2(fft2(f)) equals f to float32 precision (≈1e-7 relative).
+ */
+export function ifft2(field: ComplexField, out?: ComplexField): ComplexField {
+  return fieldTransform(field, out, true);
+}
+
+type RealPlane = Float64Array | Float32Array;
+
+function shift2d<T extends RealPlane>(input: T, n: number, output: T | undefined, s: number): T {
+  if (input.length !== n * n) throw new RangeError(`Plane length ${input.length} is not ${n}×${n}`);
+  const out = output ?? (new (input.constructor as new (length: number) => T)(n * n));
+  if (out === input) throw new RangeError('fftshift2d/ifftshift2d work out of place: pass a distinct output');
+  if (out.length !== n * n) throw new RangeError(`Output length ${out.length} is not ${n}×${n}`);
+  for (let y = 0; y < n; y++) {
+    const ty = ((y + s) % n) * n;
+    const sy = y * n;
+    for (let x = 0; x < n; x++) out[ty + ((x + s) % n)] = input[sy + x];
+  }
+  return out;
+}
+
+/**
+ * numpy.fft.fftshift over both axes of an n×n row-major plane: moves index 0 to (⌊n/2⌋, ⌊n/2⌋).
+ * Out of place. Example (n = 4): the value at index 0 moves to index 2·4 + 2 = 10.
+ */
+export function fftshift2d<T extends RealPlane>(input: T, n: number, output?: T): T {
+  return shift2d(input, n, output, Math.floor(n / 2));
+}
+
+/**
+ * numpy.fft.ifftshift over both axes: inverse of fftshift2d (moves (⌊n/2⌋, ⌊n/2⌋) back to index 0).
+ * Out of place. Example (n = 4): the value at index 10 moves to index 0.
+ */
+export function ifftshift2d<T extends RealPlane>(input: T, n: number, output?: T): T {
+  return shift2d(input, n, output, n - Math.floor(n / 2));
+}
+
+/** fftshift2d applied to both planes of a ComplexField (centres the zero frequency). */
+export function fftshiftField(field: ComplexField): ComplexField {
+  return { n: field.n, re: fftshift2d(field.re, field.n), im: fftshift2d(field.im, field.n) };
+}
+
+/** ifftshift2d applied to both planes of a ComplexField. */
+export function ifftshiftField(field: ComplexField): ComplexField {
+  return { n: field.n, re: ifftshift2d(field.re, field.n), im: ifftshift2d(field.im, field.n) };
+}

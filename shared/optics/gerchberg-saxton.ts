@@ -1,0 +1,298 @@
+/**
+ * Phase retrieval of an image hologram: find a phase-only device (amplitude fixed by the illumination)
+ * whose image-plane amplitude matches a target (target.ts).
+ *
+ * Algorithms, all alternating between device plane and image plane with a float32 FFT (fft.ts):
+ * - 'gs': Gerchberg–Saxton error reduction (Gerchberg & Saxton, Optik 35, 237 (1972)): image-plane modulus
+ *   replaced by the target everywhere (zero outside the window), device modulus by the illumination.
+ * - 'weighted-gs': weighted GS (Di Leonardo, Ianni & Ruocco, Opt. Express 15, 1913 (2007)): inside the
+ *   window the target is multiplied by weights w ← w·⟨|G|/T⟩/(|G|/T), the mean taken over the bright
+ *   window pixels of the previous iteration (first iteration: w = 1).
+ * - 'mraf': mixed-region amplitude freedom (Pasienski & DeMarco, Opt. Express 16, 2176 (2008)):
+ *   G' = m·T·G/|G| in the signal region (the window), (1 − m)·G in the rest of the propagating region.
+ *
+ * Geometry: 'fourier' — image plane = far field, G = FFT of the device field; 'fresnel' — image plane at
+ * distance z, G = angular-spectrum propagation (propagation.ts, band-limited) of the device field.
+ * Evanescent far-field pixels are always set to zero.
+ *
+ * Scaling: the target is scaled so that Σ T² equals the incident power Σ a² (Parseval, unitary transform).
+ * Errors recorded per iteration k, all from the image-plane field G_k before its modulus is replaced:
+ * - fourierError  E_k = √(Σ_all (|G_k| − T)² / Σ T²), the full-plane Fourier-domain error of Fienup
+ *   (Appl. Opt. 21, 2758 (1982), eq. 15 normalized); non-increasing for 'gs' (error-reduction property).
+ * - windowError   ε_k = √(min_α Σ_win (α|G_k| − T)² / Σ_win T²), RMS amplitude error inside the window
+ *   after the best overall scale α (insensitive to efficiency).
+ * - windowEfficiency η_k = Σ_win |G_k|² / Σ a², fraction of incident power in the window.
+ */
+import { getFft2d, type Fft2d, type RowOperation } from './fft';
+import { illuminationAmplitude, incidentPower, type Illumination } from './illumination';
+import { transferFunction } from './propagation';
+import { mulberry32 } from './random';
+import type { TargetPlane } from './target';
+import type { CancelSignal, CellGrid, ProgressCallback } from './types';
+
+export type RetrievalAlgorithm = 'gs' | 'weighted-gs' | 'mraf';
+
+export interface RetrievalOptions {
+  grid: CellGrid;
+  /** Target amplitude in the centred image-plane layout (target.ts); its geometry selects Fourier or Fresnel. */
+  target: TargetPlane;
+  /** Default 'gs'. */
+  algorithm?: RetrievalAlgorithm;
+  /** Number of iterations (≥ 1). Default 50. */
+  iterations?: number;
+  /** Seed of the uniform random start phase (mulberry32). Default 1. */
+  seed?: number;
+  /** Start phase (radians, N×N) instead of a random one. */
+  initialPhase?: ArrayLike<number>;
+  /** MRAF mixing parameter m in (0, 1]. Default 0.5. */
+  mixing?: number;
+  /** Default flat. */
+  illumination?: Illumination;
+  /** Image distance z in metres, required for the Fresnel geometry. */
+  fresnelDistance?: number;
+  onProgress?: ProgressCallback;
+  signal?: CancelSignal;
+}
+
+export interface RetrievalResult {
+  /** Retrieved device phase, radians in (−π, π], N×N row-major on the cell grid. */
+  phase: Float64Array;
+  fourierError: Float64Array;
+  windowError: Float64Array;
+  windowEfficiency: Float64Array;
+  iterations: number;
+}
+
+/** Region codes of image-plane pixels. */
+const EVANESCENT = 0;
+const NOISE = 1;
+const SIGNAL = 2;
+
+/** Accumulator slots of one iteration's image-plane pass. */
+const ACC_FIENUP = 0;
+const ACC_GT = 1;
+const ACC_GG = 2;
+const ACC_TT = 3;
+const ACC_RATIO = 4;
+const ACC_BRIGHT = 5;
+
+/**
+ * Runs GS / weighted GS / MRAF and returns the device phase with the per-iteration error history.
+ * Needs `await initFft()` in this thread first. Cancellation is checked and progress reported between
+ * iterations. Example: a Fourier target of one bright pixel 8 px right of the zero order → after the first
+ * iteration the phase is the matching tilt, and windowEfficiency[1] ≈ 1.
+ */
+export function retrievePhase(options: RetrievalOptions): RetrievalResult {
+  const { grid, target } = options;
+  const n = grid.n;
+  if (target.n !== n || target.amplitude.length !== n * n) throw new RangeError(`Target is ${target.n}×${target.n}, grid has N = ${n}`);
+  const algorithm = options.algorithm ?? 'gs';
+  const iterations = options.iterations ?? 50;
+  if (!Number.isInteger(iterations) || iterations < 1) throw new RangeError(`Iterations must be a positive integer, got ${iterations}`);
+  const mixing = options.mixing ?? 0.5;
+  if (algorithm === 'mraf' && !(mixing > 0 && mixing <= 1)) throw new RangeError(`MRAF mixing m must lie in (0, 1], got ${mixing}`);
+  const fresnel = target.geometry === 'fresnel';
+  const z = options.fresnelDistance;
+  if (fresnel && !(z !== undefined && Number.isFinite(z) && z > 0)) throw new RangeError('Fresnel geometry needs a positive fresnelDistance (metres)');
+
+  const plan = getFft2d(n);
+  const illumination = illuminationAmplitude(grid, options.illumination);
+  const power = incidentPower(illumination);
+  const deviceAmplitude = Float32Array.from(illumination);
+
+  // Image-plane arrays in the layout the plan presents them: transposed and unshifted spectrum (Fourier),
+  // normal centred rows (Fresnel image plane).
+  const targetScaled = new Float32Array(n * n);
+  const region = new Uint8Array(n * n);
+  let targetPower = 0;
+  for (let i = 0; i < n * n; i++) targetPower += target.amplitude[i] ** 2;
+  if (!(targetPower > 0)) throw new RangeError('Target is dark: no pixel of the window has a positive value');
+  // Fourier: FFT units (unscaled transform, Σ|G|² = N²·Σ a²); Fresnel: the propagated field is unitary.
+  const scale = Math.sqrt(power / targetPower) * (fresnel ? 1 : n);
+  const { x0, y0, width, height } = target.window;
+  const half = n / 2;
+  const deltaU = grid.lambda / (n * grid.period);
+  for (let r = 0; r < n; r++) {
+    for (let j = 0; j < n; j++) {
+      const ix = fresnel ? j : (r + half) % n;
+      const iy = fresnel ? r : (j + half) % n;
+      const u = (ix - half) * deltaU;
+      const v = (iy - half) * deltaU;
+      const inWindow = ix >= x0 && ix < x0 + width && iy >= y0 && iy < y0 + height;
+      const index = r * n + j;
+      targetScaled[index] = target.amplitude[iy * n + ix] * scale;
+      region[index] = inWindow ? SIGNAL : !fresnel && u * u + v * v > 1 ? EVANESCENT : NOISE;
+    }
+  }
+  const weights = algorithm === 'weighted-gs' ? new Float32Array(n * n).fill(1) : null;
+  const accumulator = new Float64Array(6);
+  let previousMeanRatio = 0;
+
+  const imagePlaneOp = makeImagePlaneOp(algorithm, n, targetScaled, region, weights, accumulator, mixing, () => previousMeanRatio);
+  const deviceOp: RowOperation = (data, offset, row) => {
+    const base = row * n;
+    for (let j = 0; j < n; j++) {
+      const q = offset + 2 * j;
+      const re = data[q];
+      const im = data[q + 1];
+      const a = deviceAmplitude[base + j];
+      const magnitude = Math.sqrt(re * re + im * im);
+      if (magnitude > 0) {
+        const s = a / magnitude;
+        data[q] = re * s;
+        data[q + 1] = im * s;
+      } else {
+        data[q] = a;
+        data[q + 1] = 0;
+      }
+    }
+  };
+
+  let forwardOp: RowOperation | null = null;
+  let backwardOp: RowOperation | null = null;
+  if (fresnel) {
+    const h = transferFunction(n, grid.period, grid.lambda, z as number, true);
+    const norm = 1 / (n * n);
+    forwardOp = (data, offset, row) => multiplyRow(data, offset, h.re, h.im, row * n, n, norm, 1);
+    backwardOp = (data, offset, row) => multiplyRow(data, offset, h.re, h.im, row * n, n, norm, -1);
+  }
+
+  loadStartField(plan, n, deviceAmplitude, options.initialPhase, options.seed ?? 1);
+  const fourierError = new Float64Array(iterations);
+  const windowError = new Float64Array(iterations);
+  const windowEfficiency = new Float64Array(iterations);
+  const fftUnits = fresnel ? 1 : n * n;
+
+  try {
+    for (let k = 0; k < iterations; k++) {
+      options.signal?.throwIfAborted();
+      accumulator.fill(0);
+      const last = k === iterations - 1;
+      if (fresnel) {
+        plan.cycle(forwardOp, imagePlaneOp, true);
+        plan.cycle(backwardOp, deviceOp, !last);
+      } else {
+        plan.cycle(imagePlaneOp, deviceOp, !last);
+      }
+      fourierError[k] = Math.sqrt(accumulator[ACC_FIENUP] / (power * fftUnits));
+      const tt = accumulator[ACC_TT];
+      const gg = accumulator[ACC_GG];
+      const residual = gg > 0 ? Math.max(0, tt - (accumulator[ACC_GT] * accumulator[ACC_GT]) / gg) : tt;
+      windowError[k] = tt > 0 ? Math.sqrt(residual / tt) : 0;
+      windowEfficiency[k] = gg / (power * fftUnits);
+      previousMeanRatio = accumulator[ACC_BRIGHT] > 0 ? accumulator[ACC_RATIO] / accumulator[ACC_BRIGHT] : 0;
+      options.onProgress?.((k + 1) / iterations, 'phase retrieval', {
+        iteration: k + 1,
+        fourierError: fourierError[k],
+        windowError: windowError[k],
+        windowEfficiency: windowEfficiency[k],
+      });
+    }
+  } catch (error) {
+    plan.load(deviceAmplitude);
+    throw error;
+  }
+
+  const data = plan.data;
+  const phase = new Float64Array(n * n);
+  for (let i = 0; i < n * n; i++) {
+    const angle = Math.atan2(data[2 * i + 1], data[2 * i]);
+    phase[i] = angle === -Math.PI ? Math.PI : angle;
+  }
+  return { phase, fourierError, windowError, windowEfficiency, iterations };
+}
+
+function loadStartField(plan: Fft2d, n: number, amplitude: Float32Array, initialPhase: ArrayLike<number> | undefined, seed: number): void {
+  if (initialPhase && initialPhase.length !== n * n) throw new RangeError(`Initial phase must have ${n * n} values, got ${initialPhase.length}`);
+  const random = mulberry32(seed);
+  const re = new Float64Array(n * n);
+  const im = new Float64Array(n * n);
+  for (let i = 0; i < n * n; i++) {
+    const phi = initialPhase ? initialPhase[i] : 2 * Math.PI * random() - Math.PI;
+    re[i] = amplitude[i] * Math.cos(phi);
+    im[i] = amplitude[i] * Math.sin(phi);
+  }
+  plan.load(re, im);
+}
+
+/** data[row] ← data[row]·norm·H (sign 1) or ·norm·H* (sign −1). */
+function multiplyRow(data: Float32Array, offset: number, hRe: Float32Array, hIm: Float32Array, base: number, n: number, norm: number, sign: number): void {
+  for (let j = 0; j < n; j++) {
+    const q = offset + 2 * j;
+    const a = data[q];
+    const b = data[q + 1];
+    const c = hRe[base + j] * norm;
+    const d = hIm[base + j] * norm * sign;
+    data[q] = a * c - b * d;
+    data[q + 1] = a * d + b * c;
+  }
+}
+
+/** Image-plane modulus constraint of each algorithm, also accumulating the error sums of the iteration. */
+function makeImagePlaneOp(
+  algorithm: RetrievalAlgorithm,
+  n: number,
+  target: Float32Array,
+  region: Uint8Array,
+  weights: Float32Array | null,
+  acc: Float64Array,
+  mixing: number,
+  previousMeanRatio: () => number,
+): RowOperation {
+  return (data, offset, row) => {
+    const base = row * n;
+    const meanRatio = previousMeanRatio();
+    let fienup = 0;
+    let gt = 0;
+    let gg = 0;
+    let tt = 0;
+    let ratioSum = 0;
+    let bright = 0;
+    for (let j = 0; j < n; j++) {
+      const q = offset + 2 * j;
+      const re = data[q];
+      const im = data[q + 1];
+      const index = base + j;
+      const t = target[index];
+      const magnitude = Math.sqrt(re * re + im * im);
+      const difference = magnitude - t;
+      fienup += difference * difference;
+      const code = region[index];
+      if (code !== SIGNAL) {
+        const keep = algorithm === 'mraf' && code === NOISE ? 1 - mixing : 0;
+        data[q] = re * keep;
+        data[q + 1] = im * keep;
+        continue;
+      }
+      gt += magnitude * t;
+      gg += magnitude * magnitude;
+      tt += t * t;
+      let amplitude = t;
+      if (weights) {
+        if (t > 0 && magnitude > 0) {
+          const ratio = magnitude / t;
+          ratioSum += ratio;
+          bright++;
+          if (meanRatio > 0) weights[index] *= meanRatio / ratio;
+        }
+        amplitude = t * weights[index];
+      } else if (algorithm === 'mraf') {
+        amplitude = mixing * t;
+      }
+      if (magnitude > 0) {
+        const s = amplitude / magnitude;
+        data[q] = re * s;
+        data[q + 1] = im * s;
+      } else {
+        data[q] = amplitude;
+        data[q + 1] = 0;
+      }
+    }
+    acc[ACC_FIENUP] += fienup;
+    acc[ACC_GT] += gt;
+    acc[ACC_GG] += gg;
+    acc[ACC_TT] += tt;
+    acc[ACC_RATIO] += ratioSum;
+    acc[ACC_BRIGHT] += bright;
+  };
+}
