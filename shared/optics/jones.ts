@@ -10,6 +10,7 @@
  * and δ is defined mod 2π. The canonical form returned here has θ ∈ (−π/4, π/4] and
  * δx, δy ∈ (−π, π]. A cell with δx = δy (|e^{iδx} − e^{iδy}| < 1e-12) has no preferred axis: θ = 0.
  */
+import { wrapPhase } from './phase-terms';
 import type { CancelSignal, ComplexField, JonesField, JonesVector, ProgressCallback } from './types';
 import type { Handedness, PolarizationPair } from './polarization';
 
@@ -41,12 +42,6 @@ export type CellValues = number | Float64Array;
 const TWO_PI = 2 * Math.PI;
 const DEGENERATE_LIMIT = 1e-12;
 
-/** Wraps an angle to (−π, π]. Example: wrapPhase(3 * Math.PI / 2) → −π/2. */
-export function wrapPhase(phi: number): number {
-  let r = phi - TWO_PI * Math.floor((phi + Math.PI) / TWO_PI);
-  if (r <= -Math.PI) r += TWO_PI;
-  return r;
-}
 
 function sideOf(length: number, what: string): number {
   const n = Math.round(Math.sqrt(length));

@@ -13,8 +13,8 @@ import {
   retarderJones,
   synthesizeDecomposition,
   synthesizeJones,
-  wrapPhase,
 } from '../../shared/optics/jones';
+import { wrapPhase } from '../../shared/optics/phase-terms';
 import type { JonesMatrix } from '../../shared/optics/jones';
 import { circularState, innerProduct, polarizationPair } from '../../shared/optics/polarization';
 import type { PolarizationSpec } from '../../shared/optics/polarization';
