@@ -1,0 +1,77 @@
+import type { QueryClient } from '@tanstack/react-query';
+import { Link } from 'react-router-dom';
+import { PageHeader } from '@/components/layouts/page-header';
+import { StatusPage } from '@/components/layouts/status-page';
+import { Banner } from '@/components/ui/banner';
+import { Button, buttonClasses } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { PageLoader } from '@/components/ui/spinner';
+import { paths } from '@/config/paths';
+import { meQueryOptions, useCurrentUser } from '@/features/auth/api/get-me';
+import { usersQueryOptions, useUsers } from '@/features/admin/api/get-users';
+import { InviteUserForm } from '@/features/admin/components/invite-user-form';
+import { UsersTable } from '@/features/admin/components/users-table';
+
+export const clientLoader = (queryClient: QueryClient) => async () => {
+  const me = await queryClient.ensureQueryData(meQueryOptions());
+  if (me.user?.siteRole === 'admin') await queryClient.prefetchQuery(usersQueryOptions());
+  return null;
+};
+
+function AdminOnly() {
+  return (
+    <StatusPage
+      code="403"
+      title="This page is for site admins"
+      actions={
+        <Link to={paths.home.getHref()} className={buttonClasses('primary')}>
+          Back to projects
+        </Link>
+      }
+    >
+      <title>Admins only · Phasewright</title>
+      Accounts and invitations are managed by the people who run this Phasewright site.
+    </StatusPage>
+  );
+}
+
+function AdminPage({ currentUserId }: { currentUserId: number }) {
+  const users = useUsers();
+  return (
+    <>
+      <title>Admin · Phasewright</title>
+      <PageHeader
+        title="People and access"
+        description="Invite colleagues, choose who runs the site, and switch off accounts that should no longer sign in."
+      />
+      <div className="grid gap-6">
+        <Card
+          title="Invite someone"
+          description="We create the account and e-mail a link; they choose their own password when they open it."
+        >
+          <InviteUserForm />
+        </Card>
+        <Card title="Accounts">
+          {users.isPending ? (
+            <PageLoader label="Loading accounts" />
+          ) : users.isError ? (
+            <Banner title="The account list did not load">
+              <p>{users.error.message}</p>
+              <Button variant="secondary" size="sm" className="mt-3" onClick={() => void users.refetch()}>
+                Try again
+              </Button>
+            </Banner>
+          ) : (
+            <UsersTable users={users.data} currentUserId={currentUserId} />
+          )}
+        </Card>
+      </div>
+    </>
+  );
+}
+
+export default function AdminRoute() {
+  const user = useCurrentUser();
+  if (user.siteRole !== 'admin') return <AdminOnly />;
+  return <AdminPage currentUserId={user.id} />;
+}

@@ -1,0 +1,17 @@
+export function Spinner({ className = 'size-4' }: { className?: string }) {
+  return (
+    <svg className={`animate-spin ${className}`} viewBox="0 0 24 24" fill="none" aria-hidden="true">
+      <circle cx="12" cy="12" r="9" stroke="currentColor" strokeOpacity="0.25" strokeWidth="3" />
+      <path d="M21 12a9 9 0 0 0-9-9" stroke="currentColor" strokeWidth="3" strokeLinecap="round" />
+    </svg>
+  );
+}
+
+export function PageLoader({ label = 'Loading' }: { label?: string }) {
+  return (
+    <div role="status" className="flex min-h-48 items-center justify-center gap-3 text-ink-soft">
+      <Spinner className="size-5 text-ember" />
+      <span>{label}…</span>
+    </div>
+  );
+}

@@ -1,0 +1,56 @@
+function withRedirect(path: string, redirectTo?: string | null) {
+  return redirectTo && redirectTo !== '/' ? `${path}?redirectTo=${encodeURIComponent(redirectTo)}` : path;
+}
+
+export const paths = {
+  home: {
+    path: '/',
+    getHref: () => '/',
+  },
+  auth: {
+    signIn: {
+      path: '/sign-in',
+      getHref: (redirectTo?: string | null) => withRedirect('/sign-in', redirectTo),
+    },
+    signUp: {
+      path: '/sign-up',
+      getHref: () => '/sign-up',
+    },
+    forgotPassword: {
+      path: '/forgot-password',
+      getHref: () => '/forgot-password',
+    },
+    resetPassword: {
+      path: '/reset-password',
+      getHref: () => '/reset-password',
+    },
+    welcome: {
+      path: '/welcome',
+      getHref: () => '/welcome',
+    },
+  },
+  projects: {
+    detail: {
+      path: '/projects/:projectId',
+      getHref: (projectId: number | string) => `/projects/${projectId}`,
+    },
+    members: {
+      path: '/projects/:projectId/members',
+      getHref: (projectId: number | string) => `/projects/${projectId}/members`,
+    },
+  },
+  settings: {
+    path: '/settings',
+    getHref: () => '/settings',
+  },
+  admin: {
+    path: '/admin',
+    getHref: () => '/admin',
+  },
+} as const;
+
+/** Accepts only in-app paths so a crafted `redirectTo` cannot send the user to another site. */
+export function safeRedirect(target: string | null | undefined, fallback: string = paths.home.getHref()): string {
+  if (!target || !target.startsWith('/') || target.startsWith('//') || target.startsWith('/\\')) return fallback;
+  return target;
+}

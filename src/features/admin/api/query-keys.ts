@@ -1,0 +1,4 @@
+export const adminKeys = {
+  all: ['admin'] as const,
+  users: () => [...adminKeys.all, 'users'] as const,
+};
