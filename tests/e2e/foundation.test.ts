@@ -1,0 +1,102 @@
+/**
+ * In a real browser: a demo designer signs in, creates a project, finds it in the table and adds a member;
+ * a demo viewer sees the project but none of the owner's controls.
+ */
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchBrowser, screenshot } from '../support/browser';
+import { startServerWithDemo, type RunningServer } from '../support/running-server';
+import { DEMO_PASSWORD } from '../../server/db/seed-demo';
+
+let server: RunningServer;
+let browser: Awaited<ReturnType<typeof launchBrowser>>;
+
+beforeAll(async () => {
+  server = await startServerWithDemo();
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+});
+
+async function signIn(page: Page, email: string) {
+  await browser.context.clearCookies();
+  await page.goto(`${server.url}/`);
+  await page.waitForURL(/\/sign-in/);
+  const form = page.getByRole('form', { name: 'Sign in' });
+  await form.getByLabel('E-mail').fill(email);
+  await form.getByLabel('Password').fill(DEMO_PASSWORD);
+  await form.getByRole('button', { name: 'Sign in' }).click();
+  await page.getByRole('heading', { name: 'Projects', exact: true }).waitFor();
+}
+
+describe('foundation in the browser', () => {
+  it('a designer signs in, creates a project, sees it in the table and adds a member', async () => {
+    const page = await browser.context.newPage();
+    const consoleErrors: string[] = [];
+    page.on('console', (m) => m.type() === 'error' && consoleErrors.push(m.text()));
+
+    await page.goto(`${server.url}/`);
+    await page.waitForURL(/\/sign-in/);
+    await screenshot(page, 'foundation-01-sign-in');
+
+    // A wrong password shows the server's message without leaving the page.
+    const form = page.getByRole('form', { name: 'Sign in' });
+    await form.getByLabel('E-mail').fill('tomas.reyes@harbourlight.example');
+    await form.getByLabel('Password').fill('not the password');
+    await form.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByText(/not correct/).waitFor();
+
+    await signIn(page, 'tomas.reyes@harbourlight.example');
+    const table = page.getByRole('table', { name: 'Projects' });
+    await table.getByText('Twin-image security tag').waitFor();
+    await screenshot(page, 'foundation-02-dashboard');
+
+    await page.getByRole('button', { name: 'New project' }).click();
+    await page.getByLabel('Project name').fill('Metalens for a fibre tip');
+    await page.getByLabel('Description').fill('A 0.3 NA lens on x and a deflector on y, 780 nm.');
+    await page.getByRole('button', { name: 'Create project' }).click();
+    await page.getByRole('heading', { name: 'Metalens for a fibre tip' }).waitFor();
+
+    await page.goto(`${server.url}/?sort=name&dir=asc`);
+    await table.getByText('Metalens for a fibre tip').waitFor();
+    const names = await table.locator('tbody tr').allInnerTexts();
+    expect(names.findIndex((r) => r.includes('Metalens'))).toBeLessThan(names.findIndex((r) => r.includes('Twin-image')));
+    await page.getByLabel('Filter projects').fill('fibre');
+    await expect.poll(async () => table.locator('tbody tr').count()).toBe(1);
+    await screenshot(page, 'foundation-03-table-filtered');
+
+    await table.getByText('Metalens for a fibre tip').click();
+    await page.getByRole('link', { name: 'Members' }).click();
+    const addForm = page.getByRole('form', { name: 'Add a member' });
+    await addForm.getByLabel("Member's e-mail").fill('kai.brenner@harbourlight.example');
+    await addForm.getByLabel('Role on this project').selectOption('reviewer');
+    await addForm.getByRole('button', { name: 'Add member' }).click();
+    await page.getByLabel('Role of Kai Brenner').waitFor();
+    expect(await page.getByLabel('Role of Kai Brenner').inputValue()).toBe('reviewer');
+
+    // Someone without an account gets the server's message at the field.
+    await addForm.getByLabel("Member's e-mail").fill('stranger@elsewhere.example');
+    await addForm.getByRole('button', { name: 'Add member' }).click();
+    await page.getByText(/No Phasewright account/).first().waitFor();
+    await screenshot(page, 'foundation-04-members');
+    // Refused requests (401, 404, 409) are logged by the browser itself; anything else would be a client bug.
+    expect(consoleErrors.filter((e) => !/Failed to load resource/.test(e))).toEqual([]);
+    await page.close();
+  });
+
+  it('a viewer sees the project but not the owner controls', async () => {
+    const page = await browser.context.newPage();
+    await signIn(page, 'kai.brenner@harbourlight.example');
+    await page.getByRole('table', { name: 'Projects' }).getByText('Bessel and charge-2 vortex pair').click();
+    await page.getByRole('heading', { name: 'Bessel and charge-2 vortex pair' }).waitFor();
+    expect(await page.getByRole('button', { name: 'Edit details' }).count()).toBe(0);
+    expect(await page.getByRole('button', { name: 'Archive project' }).count()).toBe(0);
+    await page.getByRole('link', { name: 'Members' }).click();
+    await page.getByText('Tomás Reyes').first().waitFor();
+    expect(await page.getByRole('form', { name: 'Add a member' }).count()).toBe(0);
+    await screenshot(page, 'foundation-05-viewer-members');
+    await page.close();
+  });
+});
