@@ -1,0 +1,21 @@
+export const UPLOAD_KINDS = ['image', 'phase-map'] as const;
+export type UploadKind = (typeof UPLOAD_KINDS)[number];
+
+/** Limits checked before an upload is decoded. */
+export const UPLOAD_LIMITS = {
+  maxBytes: 16 * 1024 * 1024,
+  maxSide: 4096,
+  mimeTypes: ['image/png', 'image/jpeg', 'application/x-npy'],
+} as const;
+
+export interface Upload {
+  id: number;
+  kind: UploadKind;
+  name: string;
+  mime: string;
+  width: number;
+  height: number;
+  size: number;
+  createdAt: string;
+  createdBy: { id: number; name: string } | null;
+}
