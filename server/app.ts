@@ -9,6 +9,9 @@ import { adminRoutes } from './components/admin/admin.routes';
 import { authRoutes } from './components/auth/auth.routes';
 import { createPassport } from './components/auth/passport';
 import { projectRoutes } from './components/projects/project.routes';
+import { revisionRoutes } from './components/revisions/revision.routes';
+import { runRoutes } from './components/runs/run.routes';
+import { uploadRoutes } from './components/uploads/upload.routes';
 import type { AppContext } from './context';
 import { apiNotFound, errorHandler } from './lib/error-handler';
 
@@ -74,6 +77,9 @@ export function createApp(ctx: AppContext) {
   api.use(express.json({ limit: '256kb' }));
   api.use(csrfSynchronisedProtection);
   api.use('/auth', authRoutes(ctx, passport as never, generateToken));
+  api.use('/projects/:projectId/revisions', revisionRoutes());
+  api.use('/projects/:projectId/uploads', uploadRoutes());
+  api.use('/projects/:projectId', runRoutes(ctx));
   api.use('/projects', projectRoutes(ctx));
   api.use('/admin', adminRoutes(ctx));
   api.get('/health', (_req, res) => {

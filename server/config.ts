@@ -24,6 +24,8 @@ const envSchema = z.object({
   BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(12),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   CLIENT_DIST: z.string().default('dist'),
+  /** Worker threads of the run queue; omitted: one per core (os.availableParallelism()). */
+  RUN_WORKERS: z.coerce.number().int().min(1, 'use at least 1').max(256).optional(),
 });
 
 export type AppConfig = z.infer<typeof envSchema> & { publicUrl: string };

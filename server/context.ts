@@ -1,5 +1,6 @@
 import type { Logger } from 'pino';
 import type { Sequelize } from 'sequelize';
+import type { RunQueue } from './components/runs/run-queue';
 import type { AppConfig } from './config';
 import type { Mailer } from './lib/mailer';
 
@@ -9,4 +10,6 @@ export interface AppContext {
   sequelize: Sequelize;
   mailer: Mailer;
   logger: Logger;
+  /** Executes design runs off the request thread. */
+  runQueue: RunQueue;
 }

@@ -1,11 +1,16 @@
 import type { Server } from 'node:http';
 import pino from 'pino';
 import { createApp } from './app';
+import { createEmbeddedRunQueue } from './components/runs/run-queue';
 import { loadConfig } from './config';
 import { createSequelize, migrateUp } from './db/database';
 import { createMailer } from './lib/mailer';
 
-/** Connects, migrates, listens; stops accepting, finishes in-flight requests and closes the pool on SIGTERM/SIGINT. */
+/**
+ * Connects, migrates, starts the run queue (which queues runs interrupted by the last stop again), listens.
+ * On SIGTERM/SIGINT: stops accepting, stops the run queue (running runs stay 'running' and are picked up
+ * by the next start), finishes in-flight requests and closes the pool.
+ */
 async function main() {
   const config = loadConfig();
   const logger = pino({ level: config.LOG_LEVEL });
@@ -14,7 +19,9 @@ async function main() {
   const applied = await migrateUp(sequelize);
   if (applied.length) logger.info({ applied }, 'migrations applied');
   const mailer = createMailer(config, logger);
-  const { app } = createApp({ config, sequelize, mailer, logger });
+  const runQueue = createEmbeddedRunQueue({ logger, threads: config.RUN_WORKERS });
+  const { app } = createApp({ config, sequelize, mailer, logger, runQueue });
+  await runQueue.start();
   const server: Server = app.listen(config.PORT, config.HOST, () => {
     logger.info(`Phasewright listening on ${config.publicUrl}`);
   });
@@ -29,10 +36,15 @@ async function main() {
       process.exit(1);
     }, 10_000);
     force.unref();
-    await new Promise<void>((resolve) => {
+    const closing = new Promise<void>((resolve) => {
       server.close(() => resolve());
       server.closeIdleConnections();
     });
+    await runQueue.stop();
+    // Requests in flight get 5 s; long-lived ones (run event streams) are then cut, clients reconnect.
+    await Promise.race([closing, new Promise((resolve) => setTimeout(resolve, 5_000).unref())]);
+    server.closeAllConnections();
+    await closing;
     await mailer.drain();
     await sequelize.close();
     process.exit(0);

@@ -6,6 +6,9 @@ import { AuthTokenModel } from '../components/auth/auth-token.model';
 import { SessionModel } from '../components/auth/session.model';
 import { MembershipModel } from '../components/projects/membership.model';
 import { ProjectModel } from '../components/projects/project.model';
+import { RevisionModel } from '../components/revisions/revision.model';
+import { RunArtifactChunkModel, RunArtifactModel, RunEventModel, RunModel } from '../components/runs/run.model';
+import { UploadModel } from '../components/uploads/upload.model';
 import { UserModel } from '../components/users/user.model';
 import { migrations } from './migrations/index';
 
@@ -22,13 +25,29 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
     define: { charset: 'utf8mb4', collate: 'utf8mb4_unicode_ci' },
     pool: { max: 10, min: 0, idle: 10_000 },
   });
-  for (const model of [UserModel, AuthTokenModel, SessionModel, ProjectModel, MembershipModel]) {
+  for (const model of [
+    UserModel,
+    AuthTokenModel,
+    SessionModel,
+    ProjectModel,
+    MembershipModel,
+    RevisionModel,
+    UploadModel,
+    RunModel,
+    RunEventModel,
+    RunArtifactModel,
+    RunArtifactChunkModel,
+  ]) {
     model.initModel(sequelize);
   }
   ProjectModel.belongsTo(UserModel, { as: 'createdBy', foreignKey: 'createdById' });
   ProjectModel.hasMany(MembershipModel, { as: 'memberships', foreignKey: 'projectId' });
   MembershipModel.belongsTo(UserModel, { as: 'user', foreignKey: 'userId' });
   MembershipModel.belongsTo(ProjectModel, { as: 'project', foreignKey: 'projectId' });
+  RevisionModel.belongsTo(UserModel, { as: 'createdBy', foreignKey: 'createdById' });
+  UploadModel.belongsTo(UserModel, { as: 'createdBy', foreignKey: 'createdById' });
+  RunModel.belongsTo(RevisionModel, { as: 'revision', foreignKey: 'revisionId' });
+  RunModel.belongsTo(UserModel, { as: 'startedBy', foreignKey: 'startedById' });
   return sequelize;
 }
 

@@ -82,6 +82,16 @@ export const phaseTermSchema = z.discriminatedUnion('kind', [
 ]);
 export type PhaseTermSpec = z.infer<typeof phaseTermSchema>;
 
+/** How a phase term is named to a person, e.g. in messages such as "channel A, term 1 (image hologram)". */
+export const PHASE_TERM_LABELS: Readonly<Record<PhaseTermSpec['kind'], string>> = {
+  hologram: 'image hologram',
+  axicon: 'axicon',
+  vortex: 'vortex',
+  lens: 'lens',
+  tilt: 'tilt',
+  custom: 'custom phase map',
+};
+
 export const channelRecipeSchema = z.object({
   label: z.string().trim().max(80).default(''),
   terms: z.array(phaseTermSchema).min(1, 'a channel needs at least one phase term').max(12),

@@ -33,3 +33,15 @@ export interface DesignChange {
   a: unknown;
   b: unknown;
 }
+
+export const compareRevisionsQuerySchema = z.object({
+  a: z.coerce.number({ error: 'a must be a revision number' }).int().positive('a must be a revision number'),
+  b: z.coerce.number({ error: 'b must be a revision number' }).int().positive('b must be a revision number'),
+});
+
+/** `GET …/revisions/compare?a=&b=`: both revisions with their designs and every changed leaf (a → b). */
+export interface RevisionComparison {
+  a: Revision;
+  b: Revision;
+  changes: DesignChange[];
+}

@@ -1,3 +1,5 @@
+import { z } from 'zod';
+
 export const UPLOAD_KINDS = ['image', 'phase-map'] as const;
 export type UploadKind = (typeof UPLOAD_KINDS)[number];
 
@@ -19,3 +21,8 @@ export interface Upload {
   createdAt: string;
   createdBy: { id: number; name: string } | null;
 }
+
+/** The form fields sent with an upload's `file`. */
+export const createUploadSchema = z.object({
+  kind: z.enum(UPLOAD_KINDS, { error: `kind must be one of ${UPLOAD_KINDS.join(', ')}` }),
+});

@@ -3,7 +3,14 @@
  * client shows: roles from shared/roles.ts (owner manages, designer edits and runs, reviewer comments,
  * viewer reads; a site admin acts as owner; a signed-in non-member sees 404 so project names never leak).
  */
+import { mkdtemp, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { storeArtifacts } from '../../server/components/runs/run-artifacts';
+import { RunModel } from '../../server/components/runs/run.model';
+import { encodeNpy } from '../../shared/optics/npy';
+import { deflectorDesign } from '../support/designs';
 import { ApiClient, createTestApp, makeUser, signedInClient, type TestApp } from '../support/test-app';
 
 type Who = 'anonymous' | 'outsider' | 'viewer' | 'reviewer' | 'designer' | 'owner' | 'admin';
@@ -12,15 +19,34 @@ const WHO: Who[] = ['anonymous', 'outsider', 'viewer', 'reviewer', 'designer', '
 interface Fixture {
   projectId: number;
   targetUserId: number;
+  revisionNumber: number;
+  uploadId: number;
+  /** A run waiting in the queue (never handed to a worker), to cancel. */
+  queuedRunId: number;
+  /** A finished run with one artifact, to read. */
+  finishedRunId: number;
 }
+/** Parts of the fixture a route needs beyond the project and its members (built only then: they cost time). */
+type Need = 'revision' | 'upload' | 'runs';
 interface RouteCase {
   name: string;
+  needs?: Need[];
   send(client: ApiClient, f: Fixture): Promise<{ status: number }>;
   expected: Record<Who, number>;
 }
 
 const read = { anonymous: 401, outsider: 404, viewer: 200, reviewer: 200, designer: 200, owner: 200, admin: 200 };
 const manage = (ok: number) => ({ anonymous: 401, outsider: 404, viewer: 403, reviewer: 403, designer: 403, owner: ok, admin: ok });
+const design = (ok: number) => ({ anonymous: 401, outsider: 404, viewer: 403, reviewer: 403, designer: ok, owner: ok, admin: ok });
+
+const phaseMap = Buffer.from(encodeNpy(new Float64Array(16), [4, 4]));
+function uploadPhaseMap(c: ApiClient, projectId: number) {
+  return c.agent
+    .post(`/api/projects/${projectId}/uploads`)
+    .set('x-csrf-token', c.csrfToken)
+    .field('kind', 'phase-map')
+    .attach('file', phaseMap, { filename: 'map.npy', contentType: 'application/octet-stream' });
+}
 
 const ROUTES: RouteCase[] = [
   { name: 'GET /projects', send: (c) => c.get('/api/projects'), expected: { ...read, outsider: 200 } },
@@ -49,6 +75,58 @@ const ROUTES: RouteCase[] = [
     send: (c, f) => c.delete(`/api/projects/${f.projectId}/members/${f.targetUserId}`),
     expected: manage(204),
   },
+  { name: 'GET /projects/:id/revisions', send: (c, f) => c.get(`/api/projects/${f.projectId}/revisions`), expected: read },
+  {
+    name: 'POST /projects/:id/revisions',
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/revisions`, { design: deflectorDesign(), message: 'matrix' }),
+    expected: design(201),
+  },
+  {
+    name: 'GET /projects/:id/revisions/:number',
+    needs: ['revision'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/revisions/${f.revisionNumber}`),
+    expected: read,
+  },
+  {
+    name: 'GET /projects/:id/revisions/compare',
+    needs: ['revision'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/revisions/compare?a=${f.revisionNumber}&b=${f.revisionNumber}`),
+    expected: read,
+  },
+  { name: 'GET /projects/:id/uploads', send: (c, f) => c.get(`/api/projects/${f.projectId}/uploads`), expected: read },
+  { name: 'POST /projects/:id/uploads', send: (c, f) => uploadPhaseMap(c, f.projectId), expected: design(201) },
+  {
+    name: 'GET /projects/:id/uploads/:id/content',
+    needs: ['upload'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/uploads/${f.uploadId}/content`),
+    expected: read,
+  },
+  {
+    name: 'POST /projects/:id/revisions/:number/runs',
+    needs: ['revision'],
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/revisions/${f.revisionNumber}/runs`),
+    expected: design(202),
+  },
+  { name: 'GET /projects/:id/runs', send: (c, f) => c.get(`/api/projects/${f.projectId}/runs`), expected: read },
+  {
+    name: 'GET /projects/:id/runs/:runId',
+    needs: ['runs'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}`),
+    expected: read,
+  },
+  { name: 'POST /projects/:id/runs/:runId/cancel', needs: ['runs'], send: (c, f) => c.post(`/api/projects/${f.projectId}/runs/${f.queuedRunId}/cancel`), expected: design(200) },
+  {
+    name: 'GET /projects/:id/runs/:runId/artifacts/:name',
+    needs: ['runs'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/artifacts/design.json`),
+    expected: read,
+  },
+  {
+    name: 'GET /projects/:id/runs/:runId/events',
+    needs: ['runs'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/events`),
+    expected: read,
+  },
 ];
 
 let t: TestApp;
@@ -71,7 +149,7 @@ afterAll(async () => {
 });
 
 /** A fresh project per case, so one case's change never affects another. */
-async function freshProject(): Promise<Fixture> {
+async function freshProject(needs: Need[] = ['revision', 'upload', 'runs']): Promise<Fixture> {
   const owner = clients.owner;
   const project = (await owner.post('/api/projects', { name: 'Matrix project' })).body.project;
   for (const role of ['viewer', 'reviewer', 'designer'] as const) {
@@ -79,14 +157,28 @@ async function freshProject(): Promise<Fixture> {
   }
   const target = await makeUser({ name: 'Matrix target' });
   await owner.post(`/api/projects/${project.id}/members`, { email: target.email, role: 'viewer' });
-  return { projectId: project.id, targetUserId: target.id };
+  const fixture: Fixture = { projectId: project.id, targetUserId: target.id, revisionNumber: 0, uploadId: 0, queuedRunId: 0, finishedRunId: 0 };
+  if (needs.includes('upload')) fixture.uploadId = (await uploadPhaseMap(owner, project.id)).body.upload.id;
+  if (!needs.includes('revision') && !needs.includes('runs')) return fixture;
+  const revision = (await owner.post(`/api/projects/${project.id}/revisions`, { design: deflectorDesign() })).body.revision;
+  fixture.revisionNumber = revision.number;
+  if (!needs.includes('runs')) return fixture;
+  const row = { projectId: project.id, revisionId: revision.id, startedById: null, queuedAt: new Date() };
+  fixture.queuedRunId = (await RunModel.create({ ...row, stage: 'queued' })).id;
+  const finished = await RunModel.create({ ...row, status: 'succeeded', progress: 1, stage: 'done', finishedAt: new Date() });
+  fixture.finishedRunId = finished.id;
+  const dir = await mkdtemp(join(tmpdir(), 'pw-matrix-'));
+  await writeFile(join(dir, 'design.json'), JSON.stringify(revision.design));
+  await storeArtifacts(finished.id, dir, [{ name: 'design.json', bytes: 0 }]);
+  await rm(dir, { recursive: true });
+  return fixture;
 }
 
 describe('authorization matrix', () => {
   for (const route of ROUTES) {
     for (const who of WHO) {
       it(`${route.name} as ${who} → ${route.expected[who]}`, async () => {
-        const fixture = await freshProject();
+        const fixture = await freshProject(route.needs ?? []);
         const res = await route.send(clients[who], fixture);
         expect(res.status).toBe(route.expected[who]);
       });
@@ -102,7 +194,11 @@ describe('authorization matrix', () => {
       await viewer.post(`/api/projects/${fixture.projectId}/members`, { email: users.outsider.email, role: 'owner' }),
       await viewer.patch(`/api/projects/${fixture.projectId}/members/${users.viewer.id}`, { role: 'owner' }),
       await viewer.delete(`/api/projects/${fixture.projectId}/members/${fixture.targetUserId}`),
+      await viewer.post(`/api/projects/${fixture.projectId}/revisions`, { design: deflectorDesign() }),
+      await uploadPhaseMap(viewer, fixture.projectId),
+      await viewer.post(`/api/projects/${fixture.projectId}/revisions/${fixture.revisionNumber}/runs`),
+      await viewer.post(`/api/projects/${fixture.projectId}/runs/${fixture.queuedRunId}/cancel`),
     ];
-    expect(writes.map((r) => r.status)).toEqual([403, 403, 403, 403, 403]);
+    expect(writes.map((r) => r.status)).toEqual([403, 403, 403, 403, 403, 403, 403, 403, 403]);
   });
 });

@@ -8,6 +8,7 @@ import { inject } from 'vitest';
 import { createApp } from '../../server/app';
 import { loadConfig } from '../../server/config';
 import type { AppContext } from '../../server/context';
+import { createEmbeddedRunQueue } from '../../server/components/runs/run-queue';
 import { createSequelize, migrateUp } from '../../server/db/database';
 import { createMailer } from '../../server/lib/mailer';
 import { UserModel } from '../../server/components/users/user.model';
@@ -21,35 +22,48 @@ export interface TestApp {
   close(): Promise<void>;
 }
 
-export async function createTestApp(env: Record<string, string> = {}): Promise<TestApp> {
+/** The environment of a test server on its own fresh, empty database (no tables yet). */
+export async function createTestDatabase(env: Record<string, string> = {}): Promise<{ env: Record<string, string>; dbName: string }> {
   const dbPort = inject('dbPort');
   const dbName = `pw_test_${randomBytes(6).toString('hex')}`;
   const admin = await mariadb.createConnection({ host: '127.0.0.1', port: dbPort, user: TEST_DB_USER, password: TEST_DB_PASSWORD });
   await admin.query(`CREATE DATABASE \`${dbName}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
   await admin.end();
-  const config = loadConfig({
-    NODE_ENV: 'test',
-    DB_PORT: String(dbPort),
-    DB_NAME: dbName,
-    DB_USER: TEST_DB_USER,
-    DB_PASSWORD: TEST_DB_PASSWORD,
-    SMTP_PORT: String(inject('smtpPort')),
-    BCRYPT_COST: '4',
-    LOG_LEVEL: 'silent',
-    CLIENT_DIST: '/nonexistent-client-dist',
-    PUBLIC_URL: 'http://127.0.0.1:5999',
-    ...env,
-  });
+  return {
+    dbName,
+    env: {
+      NODE_ENV: 'test',
+      DB_PORT: String(dbPort),
+      DB_NAME: dbName,
+      DB_USER: TEST_DB_USER,
+      DB_PASSWORD: TEST_DB_PASSWORD,
+      SMTP_PORT: String(inject('smtpPort')),
+      BCRYPT_COST: '4',
+      LOG_LEVEL: 'silent',
+      CLIENT_DIST: '/nonexistent-client-dist',
+      PUBLIC_URL: 'http://127.0.0.1:5999',
+      ...env,
+    },
+  };
+}
+
+export async function createTestApp(env: Record<string, string> = {}): Promise<TestApp> {
+  const database = await createTestDatabase(env);
+  const dbName = database.dbName;
+  const config = loadConfig(database.env);
   const logger = pino({ level: config.LOG_LEVEL });
   const sequelize = createSequelize(config);
   await migrateUp(sequelize);
   const mailer = createMailer(config, logger);
-  const ctx: AppContext = { config, sequelize, mailer, logger };
+  const runQueue = createEmbeddedRunQueue({ logger, threads: config.RUN_WORKERS ?? 1 });
+  const ctx: AppContext = { config, sequelize, mailer, logger, runQueue };
   const { app } = createApp(ctx);
+  await runQueue.start();
   return {
     app,
     ctx,
     async close() {
+      await runQueue.stop();
       await mailer.drain();
       await sequelize.query(`DROP DATABASE \`${dbName}\``);
       await sequelize.close();
@@ -77,7 +91,8 @@ export class ApiClient {
   readonly agent: ReturnType<typeof request.agent>;
   csrfToken = '';
 
-  constructor(app: Express) {
+  /** `app`: the Express app in this process, or the base URL of a server running elsewhere. */
+  constructor(app: Express | string) {
     this.agent = request.agent(app);
   }
 
@@ -108,7 +123,7 @@ export class ApiClient {
   }
 }
 
-export async function signedInClient(app: Express, user: { email: string; password: string }) {
+export async function signedInClient(app: Express | string, user: { email: string; password: string }) {
   const client = await new ApiClient(app).start();
   await client.signIn(user.email, user.password);
   return client;

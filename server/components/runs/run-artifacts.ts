@@ -1,0 +1,76 @@
+/**
+ * Run artifacts in the database: each output file as ≤ 8 MiB chunks (one row each), so no single row
+ * exceeds what one MariaDB packet may carry (max_allowed_packet 64M) and a 200 MB layout never has to be
+ * in memory at once, neither when it is stored nor when it is downloaded.
+ */
+import { open } from 'node:fs/promises';
+import { join } from 'node:path';
+import type { Writable } from 'node:stream';
+import type { RunArtifact } from '../../../shared/schemas/runs';
+import { describeArtifact } from './run-outcome';
+import type { RunOutputFile } from './run-task';
+import { RunArtifactChunkModel, RunArtifactModel } from './run.model';
+
+export const ARTIFACT_CHUNK_BYTES = 8 * 1024 * 1024;
+
+/** Stores the files of `dir` as the artifacts of run `runId`, replacing any it had. */
+export async function storeArtifacts(runId: number, dir: string, files: RunOutputFile[], chunkBytes = ARTIFACT_CHUNK_BYTES): Promise<void> {
+  await deleteArtifacts(runId);
+  const buffer = Buffer.alloc(chunkBytes);
+  for (const file of files) {
+    const { mime, label } = describeArtifact(file.name);
+    const artifact = await RunArtifactModel.create({ runId, name: file.name, mime, size: 0, label });
+    const handle = await open(join(dir, file.name), 'r');
+    let size = 0;
+    try {
+      for (let seq = 0; ; seq++) {
+        const { bytesRead } = await handle.read(buffer, 0, chunkBytes, null);
+        if (bytesRead === 0 && seq > 0) break;
+        await RunArtifactChunkModel.create({ artifactId: artifact.id, seq, bytes: Buffer.from(buffer.subarray(0, bytesRead)) });
+        size += bytesRead;
+        if (bytesRead < chunkBytes) break;
+      }
+    } finally {
+      await handle.close();
+    }
+    artifact.size = size;
+    await artifact.save();
+  }
+}
+
+export async function deleteArtifacts(runId: number): Promise<void> {
+  await RunArtifactModel.destroy({ where: { runId } });
+}
+
+export async function listArtifacts(runId: number): Promise<RunArtifact[]> {
+  const artifacts = await RunArtifactModel.findAll({ where: { runId }, order: [['id', 'ASC']] });
+  return artifacts.map((a) => ({ name: a.name, mime: a.mime, size: a.size, label: a.label }));
+}
+
+export async function findArtifact(runId: number, name: string): Promise<RunArtifactModel | null> {
+  return RunArtifactModel.findOne({ where: { runId, name } });
+}
+
+/**
+ * Writes an artifact's chunks to `out` in order, one chunk in memory at a time, waiting for the
+ * client to drain; stops early when the client has gone.
+ */
+export async function streamArtifact(artifactId: number, out: Writable): Promise<void> {
+  const chunks = await RunArtifactChunkModel.findAll({ where: { artifactId }, attributes: ['id'], order: [['seq', 'ASC']] });
+  for (const { id } of chunks) {
+    if (out.destroyed) return;
+    const chunk = await RunArtifactChunkModel.findByPk(id, { attributes: ['bytes'] });
+    if (!chunk) throw new Error(`artifact chunk ${id} disappeared while streaming`);
+    if (!out.write(chunk.bytes)) {
+      await new Promise<void>((resolve) => {
+        const done = () => {
+          out.off('drain', done);
+          out.off('close', done);
+          resolve();
+        };
+        out.on('drain', done);
+        out.on('close', done);
+      });
+    }
+  }
+}

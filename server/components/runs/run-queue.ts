@@ -1,0 +1,258 @@
+/**
+ * The run queue: one interface for whatever executes runs. The default is embedded — a piscina pool of
+ * worker threads (one per core) inside the server process, so runs never use the request thread. A queue on
+ * a distributed engine can take its place behind the same interface when one machine is outgrown.
+ *
+ * The run row is the source of truth (run-state.ts): the queue only moves it along. A server stop leaves
+ * running runs as they are; `recover()` at the next start queues them again.
+ */
+import { EventEmitter } from 'node:events';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { availableParallelism, tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { MessageChannel } from 'node:worker_threads';
+import { Op } from 'sequelize';
+import { Piscina } from 'piscina';
+import type { Logger } from 'pino';
+import type { Design } from '../../../shared/schemas/design';
+import { uploadIdsOf } from '../revisions/design-assets';
+import { UploadModel } from '../uploads/upload.model';
+import { deleteArtifacts, storeArtifacts } from './run-artifacts';
+import { addEvent, markCancelled, markFailed, markStarted, markSucceeded, recordProgress, recoverInterrupted } from './run-state';
+import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
+import { RunModel } from './run.model';
+
+export interface RunQueue {
+  /** Recovers interrupted runs, then accepts work. */
+  start(): Promise<void>;
+  /** Stops accepting; running tasks are abandoned as they are and picked up again by the next start. */
+  stop(): Promise<void>;
+  /** Queues a run whose row is in status 'queued'. */
+  enqueue(runId: number): void;
+  /** Cancels a queued or running run; false when it had already finished. */
+  cancel(runId: number): Promise<boolean>;
+  /** Runs left queued or running by a previous process: queued again, or failed after too many attempts. */
+  recover(): Promise<{ requeued: number[]; failed: number[] }>;
+  /** Called whenever a run's row changed (progress, status); returns the unsubscribe function. */
+  onUpdate(listener: (runId: number) => void): () => void;
+}
+
+export interface EmbeddedRunQueueOptions {
+  logger: Logger;
+  /** Worker threads; default os.availableParallelism(), at least 1. */
+  threads?: number;
+  /** Least time between two progress writes of one run, ms (default 500: at most 2 writes/s). */
+  progressIntervalMs?: number;
+}
+
+const WORKER_FILE = new URL(`./run-worker${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`, import.meta.url);
+
+/** A TypeScript worker needs the tsx loader in its thread (the compiled .js worker does not). */
+function workerExecArgv(): string[] {
+  const argv = process.execArgv;
+  if (!WORKER_FILE.pathname.endsWith('.ts')) return argv;
+  const hasTsx = argv.some((arg, i) => (arg === '--import' || arg === '--loader') && /tsx/.test(argv[i + 1] ?? ''));
+  return hasTsx ? argv : [...argv, '--import', 'tsx'];
+}
+
+interface ActiveRun {
+  controller: AbortController;
+  /** Why the task was aborted, if it was. */
+  reason?: 'cancel' | 'shutdown';
+}
+
+const INTERNAL_FAILURE = 'The run stopped on an internal error of the server (it has been logged). Start the run again; if it fails again, tell your administrator.';
+
+export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQueue {
+  const { logger } = options;
+  const threads = Math.max(1, options.threads ?? availableParallelism());
+  const progressInterval = options.progressIntervalMs ?? 500;
+  const updates = new EventEmitter();
+  updates.setMaxListeners(0);
+  const active = new Map<number, ActiveRun>();
+  let pool: Piscina<RunTask, RunTaskResult> | null = null;
+  let accepting = false;
+  /** Submissions in order: loading a run from the database is asynchronous. */
+  let submitting: Promise<void> = Promise.resolve();
+  /** Result handling of every task not yet settled; stop() waits for them before the database closes. */
+  const settling = new Set<Promise<void>>();
+
+  const changed = (runId: number) => updates.emit('update', runId);
+
+  /** Serializes one run's database writes and throttles its progress writes. */
+  function tracker(runId: number, controller: AbortController) {
+    let chain: Promise<unknown> = Promise.resolve();
+    const later = (write: () => Promise<unknown>) => {
+      chain = chain.then(write).catch((err: unknown) => logger.error({ err, runId }, 'run progress could not be written'));
+      return chain;
+    };
+    const convergence = { a: [] as number[], b: [] as number[] };
+    let pending: { progress: number; stage: string } | null = null;
+    let lastStage = '';
+    let lastWrite = 0;
+    let timer: NodeJS.Timeout | null = null;
+    const writeProgress = () => {
+      timer = null;
+      if (!pending) return;
+      const values = { ...pending, convergence: { a: [...convergence.a], b: [...convergence.b] } };
+      pending = null;
+      lastWrite = Date.now();
+      void later(async () => {
+        if (await recordProgress(runId, values)) changed(runId);
+      });
+    };
+    return {
+      onMessage(message: RunProgressMessage) {
+        if (message.type === 'started') {
+          void later(async () => {
+            if (await markStarted(runId)) changed(runId);
+            else controller.abort('cancel');
+          });
+        } else if (message.type === 'note') {
+          void later(() => addEvent(runId, 'running', lastStage, `note: ${message.message}`));
+        } else {
+          convergence.a.push(...message.convergence.a);
+          convergence.b.push(...message.convergence.b);
+          pending = { progress: message.fraction, stage: message.stage };
+          if (message.stage !== lastStage) {
+            const stage = message.stage;
+            lastStage = stage;
+            writeProgress();
+            void later(() => addEvent(runId, 'running', stage, stage));
+          } else if (!timer) {
+            timer = setTimeout(writeProgress, Math.max(0, progressInterval - (Date.now() - lastWrite)));
+          }
+        }
+      },
+      /** Stops the timer and waits for every write already made. */
+      async settle() {
+        if (timer) clearTimeout(timer);
+        timer = null;
+        await chain;
+      },
+      later,
+    };
+  }
+
+  async function loadTask(runId: number): Promise<Omit<RunTask, 'port' | 'workDir'> | null> {
+    const run = await RunModel.findByPk(runId, { include: [{ association: 'revision', attributes: ['design', 'projectId'] }] });
+    if (!run || run.status !== 'queued' || !run.revision) return null;
+    const design = JSON.parse(run.revision.design) as Design;
+    const ids = uploadIdsOf(design);
+    const uploads = ids.length
+      ? await UploadModel.findAll({ where: { id: { [Op.in]: ids }, projectId: run.projectId }, attributes: ['id', 'name', 'mime', 'bytes'] })
+      : [];
+    return {
+      runId,
+      design,
+      uploads: uploads.map((u) => ({ id: u.id, name: u.name, mime: u.mime, bytes: new Uint8Array(u.bytes) })),
+    };
+  }
+
+  async function execute(runId: number) {
+    if (!accepting || !pool || active.has(runId)) return;
+    const loaded = await loadTask(runId);
+    if (!loaded || !accepting) return;
+    const workDir = await mkdtemp(join(tmpdir(), `phasewright-run-${runId}-`));
+    if (!accepting || !pool || active.has(runId)) {
+      await rm(workDir, { recursive: true, force: true });
+      return;
+    }
+    // From here to pool.run nothing awaits, so stop() sees this run in `active` or not at all.
+    const controller = new AbortController();
+    const entry: ActiveRun = { controller };
+    active.set(runId, entry);
+    const { port1, port2 } = new MessageChannel();
+    const track = tracker(runId, controller);
+    port1.on('message', (message: RunProgressMessage) => track.onMessage(message));
+    const running = pool.run({ ...loaded, workDir, port: port2 }, { transferList: [port2], signal: controller.signal });
+    const handled: Promise<void> = running
+      .then(
+        async (result) => {
+          await track.settle();
+          if (result.ok) {
+            // Cancelled while finishing: keep nothing.
+            if ((await RunModel.findByPk(runId, { attributes: ['status'] }))?.status !== 'running') return;
+            await track.later(() => storeArtifacts(runId, result.outDir, result.files));
+            const stored = await markSucceeded(runId, { metrics: result.metrics, plots: result.plots, headline: result.headline, convergence: result.convergence });
+            if (!stored) await deleteArtifacts(runId);
+          } else {
+            if (!result.designProblem) logger.error({ runId, error: result.message, stack: result.detail }, 'run failed inside the worker');
+            await markFailed(runId, result.designProblem ? result.message : INTERNAL_FAILURE);
+          }
+        },
+        async (error: unknown) => {
+          await track.settle();
+          if (entry.reason === 'shutdown' || entry.reason === 'cancel' || controller.signal.aborted) return;
+          logger.error({ err: error, runId }, 'run worker stopped');
+          await markFailed(runId, INTERNAL_FAILURE);
+        },
+      )
+      .catch((err: unknown) => logger.error({ err, runId }, 'run result could not be stored'))
+      .finally(async () => {
+        changed(runId);
+        active.delete(runId);
+        port1.close();
+        await rm(workDir, { recursive: true, force: true }).catch(() => undefined);
+        settling.delete(handled);
+      });
+    settling.add(handled);
+  }
+
+  const queue: RunQueue = {
+    async start() {
+      if (accepting) return;
+      pool = new Piscina<RunTask, RunTaskResult>({
+        filename: WORKER_FILE.href,
+        maxThreads: threads,
+        minThreads: 0,
+        idleTimeout: 60_000,
+        execArgv: workerExecArgv(),
+      });
+      accepting = true;
+      const { requeued, failed } = await queue.recover();
+      if (requeued.length || failed.length) logger.info({ requeued, failed }, 'runs interrupted by the last stop');
+    },
+
+    async stop() {
+      accepting = false;
+      for (const entry of active.values()) {
+        entry.reason = 'shutdown';
+        entry.controller.abort('shutdown');
+      }
+      await submitting;
+      await Promise.allSettled([...settling]);
+      const closing = pool;
+      pool = null;
+      if (closing) await closing.destroy();
+    },
+
+    enqueue(runId) {
+      submitting = submitting.then(() => execute(runId)).catch((err: unknown) => logger.error({ err, runId }, 'run could not be queued'));
+    },
+
+    async cancel(runId) {
+      const cancelled = await markCancelled(runId);
+      const entry = active.get(runId);
+      if (cancelled && entry) {
+        entry.reason = 'cancel';
+        entry.controller.abort('cancel');
+      }
+      if (cancelled) changed(runId);
+      return cancelled;
+    },
+
+    async recover() {
+      const { requeue, failed } = await recoverInterrupted();
+      for (const id of requeue) queue.enqueue(id);
+      for (const id of failed) changed(id);
+      return { requeued: requeue, failed };
+    },
+
+    onUpdate(listener) {
+      updates.on('update', listener);
+      return () => updates.off('update', listener);
+    },
+  };
+  return queue;
+}

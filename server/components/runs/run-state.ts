@@ -1,0 +1,109 @@
+/**
+ * The life of a run row, whatever queue executes it: queued → running → succeeded | failed | cancelled.
+ * Every transition is a conditional update (it only applies from the states it names), so a late progress
+ * report can never overwrite a cancellation, and each transition writes a run event.
+ */
+import { Op, type InferAttributes } from 'sequelize';
+import type { RunStatus } from '../../../shared/schemas/runs';
+import { deleteArtifacts } from './run-artifacts';
+import { RunEventModel, RunModel } from './run.model';
+
+/** A run interrupted by a server stop this many times is given up. */
+export const MAX_ATTEMPTS = 3;
+
+export async function addEvent(runId: number, status: RunStatus, stage: string, message: string) {
+  await RunEventModel.create({ runId, status, stage, message, at: new Date() });
+}
+
+async function transition(runId: number, from: RunStatus[], values: Partial<InferAttributes<RunModel>>): Promise<boolean> {
+  const [count] = await RunModel.update(values, { where: { id: runId, status: { [Op.in]: from } } });
+  return count > 0;
+}
+
+/** A worker picked the run up: running, one more attempt. False when it is no longer queued (cancelled). */
+export async function markStarted(runId: number): Promise<boolean> {
+  const run = await RunModel.findByPk(runId, { attributes: ['id', 'attempts', 'status'] });
+  if (!run || run.status !== 'queued') return false;
+  const attempt = run.attempts + 1;
+  const ok = await transition(runId, ['queued'], { status: 'running', attempts: attempt, startedAt: new Date(), stage: 'prepare', progress: 0, error: null });
+  if (ok) await addEvent(runId, 'running', 'prepare', attempt > 1 ? `started again (attempt ${attempt} of ${MAX_ATTEMPTS})` : 'started');
+  return ok;
+}
+
+export async function recordProgress(runId: number, values: { progress: number; stage: string; convergence: { a: number[]; b: number[] } }): Promise<boolean> {
+  return transition(runId, ['running'], values);
+}
+
+export async function markSucceeded(
+  runId: number,
+  values: Pick<RunModel, 'metrics' | 'plots' | 'headline' | 'convergence'>,
+): Promise<boolean> {
+  const run = await RunModel.findByPk(runId, { attributes: ['id', 'startedAt'] });
+  const finishedAt = new Date();
+  const ok = await transition(runId, ['running'], {
+    ...values,
+    status: 'succeeded',
+    progress: 1,
+    stage: 'done',
+    finishedAt,
+    durationMs: run?.startedAt ? finishedAt.getTime() - run.startedAt.getTime() : null,
+  });
+  if (ok) await addEvent(runId, 'succeeded', 'done', 'finished');
+  return ok;
+}
+
+export async function markFailed(runId: number, error: string, from: RunStatus[] = ['queued', 'running']): Promise<boolean> {
+  const run = await RunModel.findByPk(runId, { attributes: ['id', 'startedAt', 'stage'] });
+  const finishedAt = new Date();
+  const ok = await transition(runId, from, {
+    status: 'failed',
+    error,
+    finishedAt,
+    durationMs: run?.startedAt ? finishedAt.getTime() - run.startedAt.getTime() : null,
+  });
+  if (ok) await addEvent(runId, 'failed', run?.stage ?? '', error);
+  return ok;
+}
+
+export async function markCancelled(runId: number): Promise<boolean> {
+  const run = await RunModel.findByPk(runId, { attributes: ['id', 'startedAt', 'stage'] });
+  const finishedAt = new Date();
+  const ok = await transition(runId, ['queued', 'running'], {
+    status: 'cancelled',
+    finishedAt,
+    durationMs: run?.startedAt ? finishedAt.getTime() - run.startedAt.getTime() : null,
+  });
+  if (ok) await addEvent(runId, 'cancelled', run?.stage ?? '', 'cancelled');
+  return ok;
+}
+
+/**
+ * After a server start: runs left running were interrupted by the stop — queued again unless they have
+ * had MAX_ATTEMPTS starts already, then failed; runs left queued simply wait again. Returns the ids to
+ * queue, oldest first.
+ */
+export async function recoverInterrupted(): Promise<{ requeue: number[]; failed: number[] }> {
+  const stale = await RunModel.findAll({
+    where: { status: { [Op.in]: ['queued', 'running'] } },
+    attributes: ['id', 'status', 'attempts'],
+    order: [['queuedAt', 'ASC'], ['id', 'ASC']],
+  });
+  const requeue: number[] = [];
+  const failed: number[] = [];
+  for (const run of stale) {
+    if (run.status === 'running') {
+      if (run.attempts >= MAX_ATTEMPTS) {
+        if (await markFailed(run.id, `the server stopped during this run ${run.attempts} times; start a new run, and if it keeps stopping, make the design smaller or tell your administrator`, ['running'])) {
+          failed.push(run.id);
+        }
+        continue;
+      }
+      await deleteArtifacts(run.id);
+      const ok = await transition(run.id, ['running'], { status: 'queued', progress: 0, stage: 'queued', convergence: null, startedAt: null });
+      if (!ok) continue;
+      await addEvent(run.id, 'queued', 'queued', `the server stopped during attempt ${run.attempts}; queued again`);
+    }
+    requeue.push(run.id);
+  }
+  return { requeue, failed };
+}

@@ -1,0 +1,116 @@
+/**
+ * The run worker (a piscina worker thread): resolves a revision's design (uploads passed in by the queue,
+ * demo pictures and the demo atom library from the repository), runs the engine pipeline `runDesign`, and
+ * writes the output files with the command line's writer (server/cli/outputs.ts) into the run's folder,
+ * from where the queue stores them in the database. The two hologram channels are retrieved one after the
+ * other on this thread: the pool's other threads serve other runs. Progress goes to the main thread through the task's
+ * MessagePort, at most every 150 ms and on every stage change. Never touches the database.
+ */
+import { mkdir, writeFile } from 'node:fs/promises';
+import { join } from 'node:path';
+import { runDesign, type DesignResources } from '../../../shared/optics/pipeline';
+import type { AssetRef, Design } from '../../../shared/schemas/design';
+import { loadDesignResources } from '../../cli/design-files';
+import { writeRunOutputs } from '../../cli/outputs';
+import { EXTENSIONS, type UploadMime } from '../uploads/upload-inspect';
+import { convergenceOf, designErrorMessage, headlineOf, metricSections, plotsOf } from './run-outcome';
+import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
+
+const PROGRESS_INTERVAL_MS = 150;
+
+const refKey = (ref: AssetRef) => JSON.stringify(ref);
+
+/**
+ * The design with every upload reference turned into a file reference (written into `folder`), so the
+ * command line's resource loader reads it; plus the map back from the original references.
+ */
+async function designWithUploadFiles(task: RunTask, folder: string) {
+  const files = new Map<number, string>();
+  const replacements: [string, string][] = [];
+  for (const upload of task.uploads) {
+    const file = `upload-${upload.id}.${EXTENSIONS[upload.mime as UploadMime] ?? 'bin'}`;
+    await writeFile(join(folder, file), upload.bytes);
+    files.set(upload.id, file);
+    replacements.push([join(folder, file), `upload ${upload.id} ("${upload.name}")`]);
+  }
+  const toFile = new Map<string, AssetRef>();
+  const swap = (ref: AssetRef): AssetRef => {
+    if (ref.source !== 'upload') return ref;
+    const path = files.get(ref.id);
+    if (!path) throw new RangeError(`upload ${ref.id} was not handed to the worker`);
+    const fileRef: AssetRef = { source: 'file', path };
+    toFile.set(refKey(ref), fileRef);
+    return fileRef;
+  };
+  const design: Design = structuredClone(task.design);
+  for (const channel of ['a', 'b'] as const) {
+    design.channels[channel].terms = design.channels[channel].terms.map((term) => {
+      if (term.kind === 'hologram') return { ...term, image: swap(term.image) };
+      if (term.kind === 'custom') return { ...term, phaseMap: swap(term.phaseMap) };
+      return term;
+    });
+  }
+  return { design, replacements, resolve: (ref: AssetRef) => toFile.get(refKey(ref)) ?? ref };
+}
+
+export default async function runTask(task: RunTask): Promise<RunTaskResult> {
+  const { port } = task;
+  const post = (message: RunProgressMessage) => port.postMessage(message);
+  post({ type: 'started' });
+  let replacements: [string, string][] = [];
+  try {
+    const inputs = join(task.workDir, 'inputs');
+    const outDir = join(task.workDir, 'out');
+    await mkdir(inputs, { recursive: true });
+    await mkdir(outDir, { recursive: true });
+    const prepared = await designWithUploadFiles(task, inputs);
+    replacements = prepared.replacements;
+    const loaded = await loadDesignResources(prepared.design, join(inputs, 'design.json'));
+    for (const message of loaded.warnings) post({ type: 'note', message });
+    const resources: DesignResources = {
+      library: loaded.resources.library,
+      images: (ref) => loaded.resources.images(prepared.resolve(ref)),
+      phaseMaps: (ref) => loaded.resources.phaseMaps(prepared.resolve(ref)),
+    };
+
+    let lastStage = '';
+    let lastPost = 0;
+    let fresh = { a: [] as number[], b: [] as number[] };
+    let latest = { fraction: 0, stage: '' };
+    const flush = () => {
+      post({ type: 'progress', fraction: latest.fraction, stage: latest.stage, convergence: fresh });
+      fresh = { a: [], b: [] };
+      lastPost = Date.now();
+    };
+    const run = await runDesign(task.design, resources, {
+      onProgress: (fraction, stage, detail) => {
+        latest = { fraction, stage };
+        if (detail && detail.fourierError !== undefined && detail.channel !== undefined) {
+          (detail.channel === 0 ? fresh.a : fresh.b).push(detail.fourierError);
+        }
+        if (stage !== lastStage || Date.now() - lastPost >= PROGRESS_INTERVAL_MS) flush();
+        lastStage = stage;
+      },
+    });
+    latest = { fraction: 1, stage: 'writing files' };
+    flush();
+    const files = await writeRunOutputs(run, outDir);
+    const metrics = metricSections(run);
+    return {
+      ok: true,
+      outDir,
+      files: files.map((f) => ({ name: f.name, bytes: f.bytes })),
+      metrics,
+      headline: headlineOf(metrics),
+      plots: plotsOf(run),
+      convergence: convergenceOf(run),
+    };
+  } catch (error) {
+    const message = designErrorMessage(error, task.design, replacements);
+    if (message) return { ok: false, designProblem: true, message };
+    const err = error instanceof Error ? error : new Error(String(error));
+    return { ok: false, designProblem: false, message: err.message, detail: err.stack };
+  } finally {
+    port.close();
+  }
+}

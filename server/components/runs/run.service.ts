@@ -1,0 +1,125 @@
+import { literal, Op, type OrderItem, type WhereOptions } from 'sequelize';
+import type { ListRunsQuery, RunDetail, RunHeadline, RunSummary } from '../../../shared/schemas/runs';
+import type { AppContext } from '../../context';
+import { AppError } from '../../lib/app-error';
+import { findRevision } from '../revisions/revision.service';
+import { UserModel } from '../users/user.model';
+import { findArtifact, listArtifacts } from './run-artifacts';
+import { addEvent } from './run-state';
+import { RunEventModel, RunModel } from './run.model';
+
+const EMPTY_HEADLINE: RunHeadline = { efficiencyA: null, efficiencyB: null, crosstalkDb: null, zeroOrder: null };
+const SUMMARY_ATTRIBUTES = { exclude: ['convergence', 'metrics', 'plots'] };
+const includes = [
+  { association: 'revision', attributes: ['id', 'number'] },
+  { model: UserModel, as: 'startedBy', attributes: ['id', 'name'] },
+];
+
+const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
+
+function toSummary(run: RunModel): RunSummary {
+  return {
+    id: run.id,
+    revisionNumber: run.revision!.number,
+    status: run.status,
+    progress: run.progress,
+    stage: run.stage,
+    attempts: run.attempts,
+    error: run.error ?? null,
+    startedBy: run.startedBy ? { id: run.startedBy.id, name: run.startedBy.name } : null,
+    queuedAt: run.queuedAt.toISOString(),
+    startedAt: iso(run.startedAt),
+    finishedAt: iso(run.finishedAt),
+    durationMs: run.durationMs ?? null,
+    headline: run.headline ?? EMPTY_HEADLINE,
+  };
+}
+
+/** The run `runId` of the project (for routes that need its row), or 404. */
+export async function findRun(projectId: number, runId: number): Promise<RunModel> {
+  const run = await RunModel.findOne({ where: { id: runId, projectId }, include: includes });
+  if (!run) throw new AppError(404, `This project has no run ${runId}`);
+  return run;
+}
+
+export async function getRun(projectId: number, runId: number): Promise<RunDetail> {
+  const run = await findRun(projectId, runId);
+  const events = await RunEventModel.findAll({ where: { runId }, order: [['at', 'ASC'], ['id', 'ASC']] });
+  return {
+    ...toSummary(run),
+    convergence: run.convergence ?? { a: [], b: [] },
+    metrics: run.metrics ?? null,
+    plots: run.plots ?? null,
+    events: events.map((e) => ({ at: e.at.toISOString(), status: e.status, stage: e.stage, message: e.message })),
+    artifacts: await listArtifacts(runId),
+  };
+}
+
+/** Polling-friendly view of a run without its large JSON columns. */
+export async function getRunSummary(projectId: number, runId: number): Promise<RunSummary> {
+  const run = await RunModel.findOne({ where: { id: runId, projectId }, attributes: SUMMARY_ATTRIBUTES, include: includes });
+  if (!run) throw new AppError(404, `This project has no run ${runId}`);
+  return toSummary(run);
+}
+
+const SORT_COLUMNS: Record<ListRunsQuery['sort'], string | ReturnType<typeof literal>> = {
+  queuedAt: 'queuedAt',
+  durationMs: 'durationMs',
+  status: 'status',
+  revisionNumber: literal('`revision`.`number`'),
+};
+
+export async function listRuns(projectId: number, query: ListRunsQuery): Promise<RunSummary[]> {
+  const where: WhereOptions[] = [{ projectId }];
+  if (query.status !== 'all') where.push({ status: query.status });
+  if (query.revision !== undefined) where.push({ '$revision.number$': query.revision });
+  const dir = query.dir.toUpperCase();
+  const runs = await RunModel.findAll({
+    where: { [Op.and]: where },
+    attributes: SUMMARY_ATTRIBUTES,
+    include: includes,
+    order: [[SORT_COLUMNS[query.sort], dir] as OrderItem, ['id', dir]],
+    limit: 500,
+  });
+  return runs.map(toSummary);
+}
+
+/** Queues a run of revision `number`; the queue picks it up off the request thread. */
+export async function startRun(ctx: AppContext, projectId: number, number: number, userId: number): Promise<RunDetail> {
+  const revision = await findRevision(projectId, number);
+  const run = await RunModel.create({ projectId, revisionId: revision.id, startedById: userId, queuedAt: new Date(), stage: 'queued' });
+  await addEvent(run.id, 'queued', 'queued', `queued by ${(await UserModel.findByPk(userId, { attributes: ['name'] }))?.name ?? 'someone'}`);
+  ctx.runQueue.enqueue(run.id);
+  return getRun(projectId, run.id);
+}
+
+export async function cancelRun(ctx: AppContext, projectId: number, runId: number): Promise<RunDetail> {
+  const run = await findRun(projectId, runId);
+  if (run.status !== 'queued' && run.status !== 'running') throw new AppError(409, `This run has already finished (${run.status}); there is nothing to cancel`);
+  if (!(await ctx.runQueue.cancel(runId))) {
+    const now = await findRun(projectId, runId);
+    throw new AppError(409, `This run finished (${now.status}) before it could be cancelled`);
+  }
+  return getRun(projectId, runId);
+}
+
+/** An artifact of a finished run with the download name `<project-slug>-r<revision>-run<id>-<name>`. */
+export async function artifactForDownload(projectId: number, projectName: string, runId: number, name: string) {
+  const run = await findRun(projectId, runId);
+  const artifact = await findArtifact(runId, name);
+  if (!artifact) throw new AppError(404, `Run ${runId} has no file "${name}"${run.status === 'succeeded' ? '' : ` (the run is ${run.status})`}`);
+  return { artifact, fileName: `${slugOf(projectName)}-r${run.revision!.number}-run${run.id}-${artifact.name}` };
+}
+
+/** Lower-case ASCII words joined by '-'. Example: 'Twin-image Tag (v2)' → 'twin-image-tag-v2'. */
+export function slugOf(name: string): string {
+  const slug = name
+    .normalize('NFKD')
+    .replace(/[\u0300-\u036f]/g, '')
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '-')
+    .replace(/^-+|-+$/g, '')
+    .slice(0, 60)
+    .replace(/-+$/, '');
+  return slug || 'project';
+}

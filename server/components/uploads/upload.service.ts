@@ -1,0 +1,100 @@
+import { createHash } from 'node:crypto';
+import { Jimp } from 'jimp';
+import { decodeNpy } from '../../../shared/optics/npy-decode';
+import type { Upload, UploadKind } from '../../../shared/schemas/uploads';
+import { AppError } from '../../lib/app-error';
+import { UserModel } from '../users/user.model';
+import { EXTENSIONS, inspectUpload, type InspectedUpload } from './upload-inspect';
+import { UploadModel } from './upload.model';
+
+function toUploadDto(upload: UploadModel): Upload {
+  return {
+    id: upload.id,
+    kind: upload.kind,
+    name: upload.name,
+    mime: upload.mime,
+    width: upload.width,
+    height: upload.height,
+    size: upload.size,
+    createdAt: upload.createdAt.toISOString(),
+    createdBy: upload.createdBy ? { id: upload.createdBy.id, name: upload.createdBy.name } : null,
+  };
+}
+
+const METADATA = { exclude: ['bytes'] };
+
+/**
+ * A file name safe to store and to send back in a header: no folders, no control characters, at most 200
+ * characters, ending in the extension of its real type. Example: ("C:\\maps\\rose.PNG", image/png) → "rose.png".
+ */
+export function cleanFileName(original: string, mime: InspectedUpload['mime']): string {
+  const base = original.split(/[\\/]/).pop() ?? '';
+  const stem = base
+    .replace(/\.[^.]*$/, '')
+    .replace(/[\u0000-\u001f\u007f"]/g, '')
+    .trim()
+    .slice(0, 180);
+  return `${stem || 'upload'}.${EXTENSIONS[mime]}`;
+}
+
+/** Decodes the whole file once the header checks have passed: only a file that really decodes is kept. */
+async function confirmDecodes(bytes: Buffer, inspected: InspectedUpload) {
+  try {
+    if (inspected.mime === 'application/x-npy') {
+      const decoded = decodeNpy(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+      if (decoded.data.some((v) => !Number.isFinite(v))) {
+        throw new AppError(400, 'The phase map holds values that are not finite numbers (NaN or infinity)', { file: 'non-finite values' });
+      }
+      return;
+    }
+    const picture = await Jimp.fromBuffer(bytes);
+    if (picture.bitmap.width !== inspected.width || picture.bitmap.height !== inspected.height) {
+      throw new Error('decoded size differs from the header');
+    }
+  } catch (error) {
+    if (error instanceof AppError) throw error;
+    throw new AppError(400, 'The file is damaged or incomplete: it could not be decoded. Export it again and upload the new file.', { file: 'cannot be decoded' });
+  }
+}
+
+/** Checks (type, size, pixels) before decoding, confirms it decodes, and stores the bytes. */
+export async function createUpload(projectId: number, userId: number, input: { kind: UploadKind; name: string; bytes: Buffer }): Promise<Upload> {
+  const inspected = inspectUpload(input.bytes, input.kind);
+  await confirmDecodes(input.bytes, inspected);
+  const created = await UploadModel.create({
+    projectId,
+    kind: input.kind,
+    name: cleanFileName(input.name, inspected.mime),
+    mime: inspected.mime,
+    width: inspected.width,
+    height: inspected.height,
+    size: input.bytes.length,
+    sha256: createHash('sha256').update(input.bytes).digest('hex'),
+    bytes: input.bytes,
+    createdById: userId,
+  });
+  return getUpload(projectId, created.id);
+}
+
+export async function getUpload(projectId: number, id: number): Promise<Upload> {
+  const upload = await UploadModel.findOne({ where: { id, projectId }, attributes: METADATA, include: [{ model: UserModel, as: 'createdBy', attributes: ['id', 'name'] }] });
+  if (!upload) throw new AppError(404, `This project has no upload ${id}`);
+  return toUploadDto(upload);
+}
+
+export async function listUploads(projectId: number): Promise<Upload[]> {
+  const uploads = await UploadModel.findAll({
+    where: { projectId },
+    attributes: METADATA,
+    include: [{ model: UserModel, as: 'createdBy', attributes: ['id', 'name'] }],
+    order: [['createdAt', 'DESC'], ['id', 'DESC']],
+  });
+  return uploads.map(toUploadDto);
+}
+
+/** The stored bytes with their type and name. */
+export async function uploadContent(projectId: number, id: number): Promise<{ name: string; mime: string; bytes: Buffer }> {
+  const upload = await UploadModel.findOne({ where: { id, projectId }, attributes: ['name', 'mime', 'bytes'] });
+  if (!upload) throw new AppError(404, `This project has no upload ${id}`);
+  return { name: upload.name, mime: upload.mime, bytes: upload.bytes };
+}

@@ -1,0 +1,97 @@
+/**
+ * Restart recovery with the real server entry (`node --import tsx server/index.ts`) on its own database:
+ * a run killed mid-way (SIGKILL, no chance to clean up) is picked up by the next start and finishes on its
+ * second attempt; a graceful stop (SIGTERM) exits promptly and leaves its running run for the next start.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { freePort } from '../../scripts/lib/free-port';
+import { RunModel } from '../../server/components/runs/run.model';
+import { loadConfig } from '../../server/config';
+import { createSequelize, migrateUp } from '../../server/db/database';
+import { twinImageDesign, waitForRun } from '../support/designs';
+import { ApiClient, createTestDatabase, makeUser, signedInClient } from '../support/test-app';
+
+let env: Record<string, string>;
+let sequelize: ReturnType<typeof createSequelize>;
+let server: ChildProcess | null = null;
+let url = '';
+
+async function startServer(): Promise<ChildProcess> {
+  const port = await freePort();
+  url = `http://127.0.0.1:${port}`;
+  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+    env: { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1', PUBLIC_URL: url, LOG_LEVEL: 'warn' },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let output = '';
+  child.stdout!.on('data', (d: Buffer) => (output += d.toString()));
+  child.stderr!.on('data', (d: Buffer) => (output += d.toString()));
+  const deadline = Date.now() + 30_000;
+  for (;;) {
+    if (child.exitCode !== null) throw new Error(`the server exited (${child.exitCode}):\n${output}`);
+    try {
+      if ((await fetch(`${url}/api/health`)).ok) return child;
+    } catch {
+      // not listening yet
+    }
+    if (Date.now() > deadline) throw new Error(`the server did not answer within 30 s:\n${output}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
+}
+
+function exited(child: ChildProcess): Promise<number | null> {
+  return child.exitCode !== null ? Promise.resolve(child.exitCode) : new Promise((resolve) => child.once('exit', (code) => resolve(code)));
+}
+
+beforeAll(async () => {
+  const database = await createTestDatabase();
+  env = database.env;
+  sequelize = createSequelize(loadConfig(env));
+  await migrateUp(sequelize);
+});
+afterAll(async () => {
+  if (server && server.exitCode === null) {
+    server.kill('SIGKILL');
+    await exited(server);
+  }
+  await sequelize?.query(`DROP DATABASE \`${env.DB_NAME}\``);
+  await sequelize?.close();
+});
+
+describe('restart recovery', () => {
+  it('finishes a run whose server was killed mid-run on the next start (attempt 2)', async () => {
+    const person = await makeUser({ name: 'Restart Designer' });
+    server = await startServer();
+    let client: ApiClient = await signedInClient(url, person);
+    const projectId = (await client.post('/api/projects', { name: 'Restart project' })).body.project.id;
+    const design = twinImageDesign({ cells: 256, iterations: 300, name: 'Long enough to interrupt' });
+    const number = (await client.post(`/api/projects/${projectId}/revisions`, { design })).body.revision.number;
+    const runId = (await client.post(`/api/projects/${projectId}/revisions/${number}/runs`)).body.run.id;
+    await waitForRun(client, projectId, runId, (r) => r.status === 'running' && r.stage === 'phase retrieval' && r.progress > 0.05);
+
+    server.kill('SIGKILL');
+    await exited(server);
+    const left = await RunModel.findByPk(runId);
+    expect(left).toMatchObject({ status: 'running', attempts: 1 });
+
+    server = await startServer();
+    client = await signedInClient(url, person);
+    const run = await waitForRun(client, projectId, runId);
+    expect(run.status, run.error ?? '').toBe('succeeded');
+    expect(run.attempts).toBe(2);
+    expect(run.progress).toBe(1);
+    expect(run.convergence.a).toHaveLength(300);
+    expect(run.events.map((e) => e.message)).toEqual(
+      expect.arrayContaining(['started', 'the server stopped during attempt 1; queued again', 'started again (attempt 2 of 3)', 'finished']),
+    );
+    expect(run.artifacts.map((a) => a.name)).toContain('layout.gds');
+
+    // A graceful stop exits promptly and leaves the running run to the next start.
+    const second = (await client.post(`/api/projects/${projectId}/revisions/${number}/runs`)).body.run.id;
+    await waitForRun(client, projectId, second, (r) => r.status === 'running' && r.progress > 0.02);
+    server.kill('SIGTERM');
+    expect(await exited(server)).toBe(0);
+    expect(await RunModel.findByPk(second)).toMatchObject({ status: 'running', attempts: 1 });
+  });
+});
