@@ -30,6 +30,11 @@ export function createAppRouter(queryClient: QueryClient) {
               children: [
                 { index: true, lazy: () => import('@/app/routes/app/project/overview').then(convert) },
                 { path: 'members', lazy: () => import('@/app/routes/app/project/members').then(convert) },
+                { path: 'design', lazy: () => import('@/app/routes/app/project/design').then(convert) },
+                { path: 'revisions', lazy: () => import('@/app/routes/app/project/revisions').then(convert) },
+                { path: 'revisions/compare', lazy: () => import('@/app/routes/app/project/compare-revisions').then(convert) },
+                { path: 'runs', lazy: () => import('@/app/routes/app/project/runs').then(convert) },
+                { path: 'runs/:runId', lazy: () => import('@/app/routes/app/project/run').then(convert) },
               ],
             },
             { path: paths.settings.path, lazy: () => import('@/app/routes/app/settings').then(convert) },

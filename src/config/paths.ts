@@ -38,6 +38,27 @@ export const paths = {
       path: '/projects/:projectId/members',
       getHref: (projectId: number | string) => `/projects/${projectId}/members`,
     },
+    design: {
+      path: '/projects/:projectId/design',
+      getHref: (projectId: number | string, from?: number | null) =>
+        `/projects/${projectId}/design${from ? `?from=${from}` : ''}`,
+    },
+    revisions: {
+      path: '/projects/:projectId/revisions',
+      getHref: (projectId: number | string) => `/projects/${projectId}/revisions`,
+    },
+    compareRevisions: {
+      path: '/projects/:projectId/revisions/compare',
+      getHref: (projectId: number | string, a: number, b: number) => `/projects/${projectId}/revisions/compare?a=${a}&b=${b}`,
+    },
+    runs: {
+      path: '/projects/:projectId/runs',
+      getHref: (projectId: number | string) => `/projects/${projectId}/runs`,
+    },
+    run: {
+      path: '/projects/:projectId/runs/:runId',
+      getHref: (projectId: number | string, runId: number | string) => `/projects/${projectId}/runs/${runId}`,
+    },
   },
   settings: {
     path: '/settings',

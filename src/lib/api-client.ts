@@ -39,6 +39,11 @@ function buildUrl(path: string, params?: Record<string, QueryValue>) {
   return `${env.API_URL}${path}${query ? `?${query}` : ''}`;
 }
 
+/** Same-origin URL of an API resource, for `<img src>` and download links. */
+export function apiUrl(path: string): string {
+  return buildUrl(path);
+}
+
 async function readBody(response: Response): Promise<unknown> {
   if (response.status === 204) return undefined;
   const text = await response.text();
@@ -68,7 +73,8 @@ function refreshCsrfToken(): Promise<string> {
 
 async function send<T>(method: Method, path: string, options: RequestOptions, retried = false): Promise<T> {
   const headers: Record<string, string> = { Accept: 'application/json' };
-  if (options.body !== undefined) headers['Content-Type'] = 'application/json';
+  const isForm = options.body instanceof FormData;
+  if (options.body !== undefined && !isForm) headers['Content-Type'] = 'application/json';
   if (method !== 'GET') headers['x-csrf-token'] = csrfToken ?? (await refreshCsrfToken());
 
   let response: Response;
@@ -76,7 +82,7 @@ async function send<T>(method: Method, path: string, options: RequestOptions, re
     response = await fetch(buildUrl(path, options.params), {
       method,
       headers,
-      body: options.body === undefined ? undefined : JSON.stringify(options.body),
+      body: options.body === undefined ? undefined : isForm ? (options.body as FormData) : JSON.stringify(options.body),
       credentials: 'same-origin',
       signal: options.signal,
     });
@@ -107,6 +113,8 @@ async function send<T>(method: Method, path: string, options: RequestOptions, re
 export const api = {
   get: <T>(path: string, options: Omit<RequestOptions, 'body'> = {}) => send<T>('GET', path, options),
   post: <T>(path: string, body?: unknown, options: RequestOptions = {}) => send<T>('POST', path, { ...options, body }),
+  /** Multipart upload: the browser sets the boundary header itself. */
+  postForm: <T>(path: string, form: FormData, options: Omit<RequestOptions, 'body'> = {}) => send<T>('POST', path, { ...options, body: form }),
   patch: <T>(path: string, body?: unknown, options: RequestOptions = {}) => send<T>('PATCH', path, { ...options, body }),
   delete: <T = void>(path: string, options: RequestOptions = {}) => send<T>('DELETE', path, options),
 };

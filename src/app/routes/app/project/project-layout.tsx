@@ -40,6 +40,9 @@ function ProjectMissing() {
 
 const tabs = [
   { label: 'Overview', href: paths.projects.detail.getHref, end: true },
+  { label: 'Design', href: paths.projects.design.getHref, end: true },
+  { label: 'Revisions', href: paths.projects.revisions.getHref, end: false },
+  { label: 'Runs', href: paths.projects.runs.getHref, end: false },
   { label: 'Members', href: paths.projects.members.getHref, end: true },
 ] as const;
 

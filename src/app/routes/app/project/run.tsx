@@ -1,0 +1,219 @@
+import type { QueryClient } from '@tanstack/react-query';
+import { useMemo } from 'react';
+import { Link, useNavigate, useParams, type LoaderFunctionArgs } from 'react-router-dom';
+import { projectRoleAllows } from '@shared/roles';
+import type { Design } from '@shared/schemas/design';
+import type { RunDetail } from '@shared/schemas/runs';
+import { Banner } from '@/components/ui/banner';
+import { Button, buttonClasses } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { EmptyState } from '@/components/ui/empty-state';
+import { ArrowLeftIcon } from '@/components/ui/icons';
+import { PageLoader } from '@/components/ui/spinner';
+import { paths } from '@/config/paths';
+import { isApiError } from '@/lib/api-client';
+import { runQueryOptions, useRun } from '@/features/runs/api/get-run';
+import { DESIGN_ARTIFACT, useRunDesign } from '@/features/runs/api/get-run-design';
+import { isRunActive } from '@/features/runs/api/run-status';
+import { groupArtifacts, type ChannelKey } from '@/features/runs/components/artifact-groups';
+import { BeamChannel } from '@/features/runs/components/beam-channel';
+import { DesignRulesCard } from '@/features/runs/components/design-rules-card';
+import { ConvergenceCard } from '@/features/runs/components/convergence-card';
+import { sectionName } from '@/features/runs/components/format-run';
+import { FarFieldPreviews } from '@/features/runs/components/far-field-previews';
+import { MapPreviews } from '@/features/runs/components/map-previews';
+import { MetricsTable } from '@/features/runs/components/metrics-table';
+import { OtherPlots } from '@/features/runs/components/other-plots';
+import { RunDownloads } from '@/features/runs/components/run-downloads';
+import { RunEvents } from '@/features/runs/components/run-events';
+import { channelFacts, inputNames, usesApproximateLibrary } from '@/features/runs/components/run-facts';
+import { readDesignRules, readNotes, readRunPlots } from '@/features/runs/components/run-plots';
+import { RunStatusPanel } from '@/features/runs/components/run-status-panel';
+import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
+
+function parseRunId(value: string | undefined): number | null {
+  return value && /^[1-9][0-9]{0,9}$/.test(value) ? Number(value) : null;
+}
+
+export const clientLoader =
+  (queryClient: QueryClient) =>
+  async ({ params }: LoaderFunctionArgs) => {
+    const projectId = parseProjectId(params.projectId);
+    const runId = parseRunId(params.runId);
+    if (projectId && runId) await queryClient.prefetchQuery(runQueryOptions(projectId, runId));
+    return null;
+  };
+
+function BackToRuns({ projectId }: { projectId: number }) {
+  return (
+    <Link
+      to={paths.projects.runs.getHref(projectId)}
+      className="mb-4 inline-flex items-center gap-1.5 rounded text-sm font-bold text-ink-soft hover:text-ink"
+    >
+      <ArrowLeftIcon className="size-4" />
+      All runs
+    </Link>
+  );
+}
+
+export default function ProjectRunRoute() {
+  const { project } = useProjectOutlet();
+  const runId = parseRunId(useParams().runId);
+  const run = useRun(project.id, runId);
+
+  if (runId === null || (run.isError && (isApiError(run.error, 404) || isApiError(run.error, 400)))) {
+    return (
+      <>
+        <title>{`Run not found · ${project.name} · Phasewright`}</title>
+        <BackToRuns projectId={project.id} />
+        <EmptyState
+          title="No such run in this project"
+          action={
+            <Link to={paths.projects.runs.getHref(project.id)} className={buttonClasses('secondary')}>
+              See the project’s runs
+            </Link>
+          }
+        >
+          The link may be mistyped, or the run belongs to another project.
+        </EmptyState>
+      </>
+    );
+  }
+  if (run.isPending) return <PageLoader label="Loading the run" />;
+  if (run.isError) {
+    return (
+      <>
+        <BackToRuns projectId={project.id} />
+        <Banner title="The run did not load">
+          <p>{run.error.message}</p>
+          <Button variant="secondary" size="sm" className="mt-3" onClick={() => void run.refetch()}>
+            Try again
+          </Button>
+        </Banner>
+      </>
+    );
+  }
+  return <RunPage projectId={project.id} projectName={project.name} canRun={projectRoleAllows(project.myRole, 'design') && !project.archived} run={run.data} />;
+}
+
+interface RunPageProps {
+  projectId: number;
+  projectName: string;
+  canRun: boolean;
+  run: RunDetail;
+}
+
+function RunPage({ projectId, projectName, canRun, run }: RunPageProps) {
+  const navigate = useNavigate();
+  const groups = useMemo(() => groupArtifacts(run.artifacts), [run.artifacts]);
+  const plots = useMemo(() => readRunPlots(run.plots), [run.plots]);
+  const designRules = useMemo(() => readDesignRules(run.plots), [run.plots]);
+  const notes = readNotes(run.plots).filter((note) => !/laser safety|approximate/i.test(note));
+  const sectionOf = (name: string) => Object.entries(run.metrics ?? {}).find(([key]) => sectionName(key) === name)?.[1] ?? null;
+  const hasDesign = run.artifacts.some((artifact) => artifact.name === DESIGN_ARTIFACT);
+  const designQuery = useRunDesign(projectId, run.id, hasDesign);
+  const design: Design | null = designQuery.data ?? null;
+
+  const channels = {
+    a: channelFacts(run, design, 'a', Boolean(groups.slices.a)),
+    b: channelFacts(run, design, 'b', Boolean(groups.slices.b)),
+  };
+  const channelNames: Record<ChannelKey, string> = { a: channels.a.name, b: channels.b.name };
+  const beamChannels = (['a', 'b'] as const).filter((c) => channels[c].beam || channels[c].lens);
+  const approximate = usesApproximateLibrary(run, design);
+  const active = isRunActive(run.status);
+
+  const profilesOf = (c: ChannelKey) =>
+    plots.profiles.filter((p) => p.channel === c || (p.channel === null && beamChannels.length === 1 && beamChannels[0] === c));
+  const linesOf = (c: ChannelKey) =>
+    plots.lines.filter((l) => l.channel === c || (l.channel === null && beamChannels.length === 1 && beamChannels[0] === c));
+  const unplacedProfiles = plots.profiles.filter((p) => !beamChannels.some((c) => profilesOf(c).includes(p)));
+
+  return (
+    <div className="flex flex-col gap-6">
+      <title>{`Run ${run.id} · ${projectName} · Phasewright`}</title>
+      <div className="-mb-4">
+        <BackToRuns projectId={projectId} />
+      </div>
+      <RunStatusPanel
+        projectId={projectId}
+        run={run}
+        canRun={canRun}
+        onRestarted={(next) => navigate(paths.projects.run.getHref(projectId, next.id))}
+      />
+
+      {approximate ? (
+        <Banner tone="warning" title="Approximate atom library">
+          This run used the demo atom library. Its pillars are modelled by the effective-index method, not by full-wave
+          simulation, so efficiencies, crosstalk and zero order are indicative only. Map the design to your lab’s own
+          library before committing to fabrication.
+        </Banner>
+      ) : null}
+
+      <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_22rem]">
+        <div className="min-w-0">
+          <ConvergenceCard run={run} channelNames={channelNames} />
+          {run.status === 'succeeded' && run.convergence.a.length === 0 && run.convergence.b.length === 0 ? (
+            <Card title="Gerchberg–Saxton convergence">
+              <p className="text-sm text-ink-soft">
+                Neither channel holds an image hologram, so no phase was retrieved: the phases come straight from the
+                analytic terms.
+              </p>
+            </Card>
+          ) : null}
+        </div>
+        <Card title="Status history" className="self-start">
+          <RunEvents events={run.events} />
+        </Card>
+      </div>
+
+      {active ? (
+        <Banner tone="info">
+          Previews, maps, metrics and files appear here when the run finishes. This page follows the run by itself.
+        </Banner>
+      ) : null}
+
+      <FarFieldPreviews projectId={projectId} runId={run.id} groups={groups} inputs={inputNames(design)} channelNames={channelNames} />
+
+      {beamChannels.map((c) => (
+        <BeamChannel
+          key={c}
+          projectId={projectId}
+          runId={run.id}
+          channel={channels[c]}
+          slice={groups.slices[c]}
+          profiles={profilesOf(c)}
+          lines={linesOf(c)}
+        />
+      ))}
+
+      <MapPreviews
+        projectId={projectId}
+        runId={run.id}
+        maps={groups.maps}
+        arrayMaps={groups.arrayMaps}
+        channelNames={channelNames}
+        mapping={sectionOf('Atom mapping')}
+      />
+
+      <OtherPlots
+        projectId={projectId}
+        runId={run.id}
+        images={[
+          ...groups.otherImages,
+          ...(['a', 'b'] as const).flatMap((c) => (groups.slices[c] && !beamChannels.includes(c) ? [groups.slices[c]!] : [])),
+        ]}
+        histograms={plots.histograms}
+        profiles={unplacedProfiles}
+      />
+
+      {designRules ? (
+        <DesignRulesCard findings={designRules.findings} truncated={designRules.truncated} counts={sectionOf('Design rules')} />
+      ) : null}
+
+      {run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} /> : null}
+
+      {run.artifacts.length > 0 || !active ? <RunDownloads projectId={projectId} runId={run.id} downloads={groups.downloads} notes={notes} /> : null}
+    </div>
+  );
+}

@@ -1,0 +1,47 @@
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { paintPhase, subsampleMap } from '@shared/optics/colormap';
+import { decodeNpy } from '@shared/optics/npy-decode';
+import { ApiError } from '@/lib/api-client';
+import { artifactHref } from '@/features/runs/api/artifact-href';
+import { runKeys } from '@/features/runs/api/query-keys';
+
+const MAX_SIDE = 1024;
+
+/**
+ * Fetches an N×N phase array (.npy, radians) of a run and paints it in the cyclic colours as a PNG, for
+ * maps the run stores only as arrays (δx, δy). Large arrays are sampled down to at most 1024 per side.
+ */
+export async function getArrayPicture(projectId: number, runId: number, name: string, signal?: AbortSignal): Promise<Blob> {
+  const response = await fetch(artifactHref(projectId, runId, name), { credentials: 'same-origin', signal });
+  if (!response.ok) throw new ApiError(response.status, `The file ${name} did not load (the server answered ${response.status})`);
+  const array = decodeNpy(new Uint8Array(await response.arrayBuffer()));
+  const [rows, cols] = array.shape;
+  if (array.shape.length !== 2 || rows !== cols || !(array.data instanceof Float64Array || array.data instanceof Float32Array)) {
+    throw new ApiError(0, `${name} is not a square map of phases`);
+  }
+  let factor = 1;
+  while (rows / factor > MAX_SIDE && rows % (factor * 2) === 0) factor *= 2;
+  const side = rows / factor;
+  const values = factor > 1 ? subsampleMap(array.data, rows, factor) : array.data;
+  const image = paintPhase(values, side, side);
+  const canvas = document.createElement('canvas');
+  canvas.width = side;
+  canvas.height = side;
+  canvas.getContext('2d')!.putImageData(new ImageData(image.data as Uint8ClampedArray<ArrayBuffer>, side, side), 0, 0);
+  return new Promise((resolve, reject) =>
+    canvas.toBlob((blob) => (blob ? resolve(blob) : reject(new ApiError(0, `Could not draw ${name}`))), 'image/png'),
+  );
+}
+
+export function arrayPictureQueryOptions(projectId: number, runId: number, name: string) {
+  return queryOptions({
+    queryKey: [...runKeys.artifact(projectId, runId, name), 'picture'] as const,
+    queryFn: ({ signal }) => getArrayPicture(projectId, runId, name, signal),
+    staleTime: Infinity,
+    gcTime: 5 * 60_000,
+  });
+}
+
+export function useArrayPicture(projectId: number, runId: number, name: string, enabled: boolean) {
+  return useQuery({ ...arrayPictureQueryOptions(projectId, runId, name), enabled });
+}

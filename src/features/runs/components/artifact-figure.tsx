@@ -1,0 +1,59 @@
+import type { ReactNode } from 'react';
+import type { RunArtifact } from '@shared/schemas/runs';
+import { ZoomPanImage } from '@/components/ui/zoom-pan-image';
+import { artifactFileName, artifactHref } from '@/features/runs/api/artifact-href';
+import { formatBytes } from '@/features/runs/components/artifact-groups';
+
+interface ArtifactFigureProps {
+  projectId: number;
+  runId: number;
+  artifact: RunArtifact;
+  title: string;
+  children?: ReactNode;
+  aspect?: number;
+}
+
+/** One stored picture of a run, large, zoomable, with its caption and a download link. */
+export function ArtifactFigure({ projectId, runId, artifact, title, children, aspect }: ArtifactFigureProps) {
+  const href = artifactHref(projectId, runId, artifact.name);
+  return (
+    <figure className="flex min-w-0 flex-col gap-2">
+      <figcaption className="flex flex-wrap items-baseline justify-between gap-x-3 gap-y-1">
+        <span className="font-extrabold">{title}</span>
+        <DownloadLink projectId={projectId} runId={runId} artifact={artifact} compact />
+      </figcaption>
+      {artifact.label && artifact.label !== title ? <p className="-mt-1 text-sm text-ink-soft">{artifact.label}</p> : null}
+      <ZoomPanImage src={href} alt={`${title}${artifact.label && artifact.label !== title ? ` — ${artifact.label}` : ''}`} aspect={aspect} />
+      {children}
+    </figure>
+  );
+}
+
+export function DownloadLink({
+  projectId,
+  runId,
+  artifact,
+  compact = false,
+}: {
+  projectId: number;
+  runId: number;
+  artifact: RunArtifact;
+  compact?: boolean;
+}) {
+  return (
+    <a
+      href={artifactHref(projectId, runId, artifact.name)}
+      download={artifactFileName(projectId, runId, artifact.name)}
+      className="rounded text-sm font-bold text-teal underline-offset-4 hover:underline"
+    >
+      {compact ? (
+        <>
+          Download <span className="sr-only">{artifact.name} </span>
+          <span className="font-normal text-ink-soft">({formatBytes(artifact.size)})</span>
+        </>
+      ) : (
+        artifact.name
+      )}
+    </a>
+  );
+}

@@ -1,0 +1,122 @@
+import type { RunArtifact, RunMetric } from '@shared/schemas/runs';
+import { Card } from '@/components/ui/card';
+import { ArtifactFigure } from '@/features/runs/components/artifact-figure';
+import { formatMetricValue, metricName } from '@/features/runs/components/format-run';
+import { LaserSafetyNote } from '@/features/runs/components/laser-safety-note';
+import { AxialChart, ProfileChart } from '@/features/runs/components/run-charts';
+import type { ChannelFacts } from '@/features/runs/components/run-facts';
+import type { AxialLine, RadialProfile } from '@/features/runs/components/run-plots';
+
+interface BeamChannelProps {
+  projectId: number;
+  runId: number;
+  channel: ChannelFacts;
+  slice: RunArtifact | undefined;
+  profiles: RadialProfile[];
+  lines: AxialLine[];
+}
+
+const BEAM_KEYS = [
+  'sinBeta',
+  'topologicalCharge',
+  'coreRadiusMeasured',
+  'coreRadiusFormula',
+  'coreRadiusRelativeError',
+  'ringRadiusMeasured',
+  'ringRadiusFormula',
+  'ringRadiusRelativeError',
+  'nonDiffractingLengthMeasured',
+  'nonDiffractingLengthFormula',
+  'profileCorrelation',
+  'focalLength',
+  'numericalAperture',
+  'focalSpotRadiusMeasured',
+  'focalSpotRadiusAiry',
+  'strehlVsDesign',
+];
+
+function value(metrics: Record<string, RunMetric> | null, key: string): number | null {
+  const v = metrics?.[key]?.value;
+  return typeof v === 'number' && Number.isFinite(v) ? v : null;
+}
+
+/** A beam or lens channel: caution, x–z slice, radial profile against J_ℓ², intensity along z, key figures. */
+export function BeamChannel({ projectId, runId, channel, slice, profiles, lines }: BeamChannelProps) {
+  const metrics = channel.metrics;
+  const figures = BEAM_KEYS.filter((key) => metrics?.[key]);
+  const kind = channel.beam ? (channel.charge ? `vortex Bessel beam, ℓ = ${channel.charge}` : 'Bessel beam') : 'lens focus';
+  const radiusMarkers: { radius: number; label: string }[] = [];
+  const addRadius = (key: string, label: string) => {
+    const v = value(metrics, key);
+    if (v !== null) radiusMarkers.push({ radius: v, label });
+  };
+  addRadius('coreRadiusFormula', 'r₀ formula');
+  addRadius('ringRadiusFormula', 'ring formula');
+  addRadius('focalSpotRadiusAiry', 'Airy 0.61 λ/NA');
+  const zMarkers: { z: number; label: string }[] = [];
+  const measuredLength = value(metrics, 'nonDiffractingLengthMeasured');
+  const formulaLength = value(metrics, 'nonDiffractingLengthFormula');
+  if (formulaLength !== null) zMarkers.push({ z: formulaLength, label: 'R/tanβ' });
+  if (measuredLength !== null) zMarkers.push({ z: measuredLength, label: 'measured' });
+
+  return (
+    <Card
+      title={channel.name}
+      description={`${kind.charAt(0).toUpperCase()}${kind.slice(1)}${channel.recipe ? ` · recipe: ${channel.recipe}` : ''}.`}
+    >
+      <LaserSafetyNote className="mb-5" />
+      <div className="grid gap-8 xl:grid-cols-2">
+        {slice ? (
+          <ArtifactFigure projectId={projectId} runId={runId} artifact={slice} title="x–z intensity slice" aspect={0.66}>
+            <p className="text-xs text-ink-soft">Propagation distance z runs to the right, x downwards through the beam axis.</p>
+          </ArtifactFigure>
+        ) : null}
+        {figures.length > 0 ? (
+          <div className="min-w-0">
+            <h3 className="mb-2 font-extrabold">Key figures</h3>
+            <dl className="divide-y divide-line/70 rounded-2xl ring-1 ring-line/70 ring-inset">
+              {figures.map((key) => (
+                <div key={key} className="flex flex-col gap-0.5 px-4 py-2.5">
+                  <div className="flex flex-wrap items-baseline justify-between gap-x-4">
+                    <dt className="font-bold">{metricName(key)}</dt>
+                    <dd className="font-bold tabular-nums">{formatMetricValue(metrics![key])}</dd>
+                  </div>
+                  <p className="text-xs text-ink-soft">{metrics![key].meaning}</p>
+                </div>
+              ))}
+            </dl>
+          </div>
+        ) : null}
+        {profiles.map((profile) => (
+          <figure key={profile.source} className="min-w-0">
+            <figcaption className="mb-2">
+              <span className="font-extrabold">Transverse radial profile</span>
+              <span className="block text-sm text-ink-soft">
+                Azimuthal mean of the simulated intensity
+                {profile.z !== null ? ` at z = ${(profile.z * 1e3).toPrecision(3)} mm` : ''}
+                {profile.analytic ? ', against the analytic Bessel curve scaled to it' : ''}.
+              </span>
+            </figcaption>
+            <div role="img" aria-label={`Radial intensity profile of ${channel.name}${profile.analytic ? ' with the analytic J_ℓ² curve' : ''}`}>
+              <ProfileChart profile={profile} charge={channel.beam ? channel.charge : null} markers={radiusMarkers} />
+            </div>
+          </figure>
+        ))}
+        {lines.map((line) => (
+          <figure key={line.source} className="min-w-0">
+            <figcaption className="mb-2">
+              <span className="font-extrabold">Intensity along the beam</span>
+              <span className="block text-sm text-ink-soft">
+                {line.meaning ? `${line.meaning.charAt(0).toUpperCase()}${line.meaning.slice(1)}` : 'Intensity'} against distance
+                from the device; the non-diffracting length is marked.
+              </span>
+            </figcaption>
+            <div role="img" aria-label={`Intensity along z of ${channel.name}`}>
+              <AxialChart line={line} markers={zMarkers} />
+            </div>
+          </figure>
+        ))}
+      </div>
+    </Card>
+  );
+}

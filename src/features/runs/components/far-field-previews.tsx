@@ -1,0 +1,110 @@
+import { useId, useRef, useState, type KeyboardEvent } from 'react';
+import { Card } from '@/components/ui/card';
+import { componentName, type ArtifactGroups, type ChannelKey, type InputKey } from '@/features/runs/components/artifact-groups';
+import { ArtifactFigure } from '@/features/runs/components/artifact-figure';
+
+interface FarFieldPreviewsProps {
+  projectId: number;
+  runId: number;
+  groups: ArtifactGroups;
+  inputs: Record<InputKey, { title: string; state: string | null }>;
+  channelNames: Record<ChannelKey, string>;
+}
+
+const INPUT_ORDER: InputKey[] = ['a', 'b', 'extra'];
+
+/** Far fields under input A, input B and the extra input, one tab each, every output component large. */
+export function FarFieldPreviews({ projectId, runId, groups, inputs, channelNames }: FarFieldPreviewsProps) {
+  const available = INPUT_ORDER.filter((input) => groups.farFields[input].length > 0);
+  const [selected, setSelected] = useState<InputKey>(available[0] ?? 'a');
+  const baseId = useId();
+  const tabRefs = useRef<Partial<Record<InputKey, HTMLButtonElement | null>>>({});
+  const imagePlanes = (['a', 'b'] as const).filter((c) => groups.imagePlanes[c]);
+
+  if (available.length === 0 && imagePlanes.length === 0) return null;
+  const split = available.some((input) => groups.farFields[input].length > 1);
+  const current = available.includes(selected) ? selected : available[0];
+
+  const onKeyDown = (event: KeyboardEvent) => {
+    const index = available.indexOf(current);
+    const moves: Record<string, number> = { ArrowRight: 1, ArrowLeft: -1, Home: -index, End: available.length - 1 - index };
+    if (!(event.key in moves)) return;
+    event.preventDefault();
+    const next = available[(index + moves[event.key] + available.length) % available.length];
+    setSelected(next);
+    tabRefs.current[next]?.focus();
+  };
+
+  return (
+    <Card
+      title="Far-field previews"
+      description={`Simulated far field of the realized device — the chosen atoms with their real transmissions and phases — for each input${
+        split ? ', split into its output polarization components' : ''
+      }. Target windows are outlined; a bright zero order is clipped rather than darkening the rest.`}
+    >
+      {available.length > 0 ? (
+        <>
+          <div role="tablist" aria-label="Input polarization" className="mb-5 inline-flex flex-wrap gap-1 rounded-full bg-paper-deep p-1 ring-1 ring-line ring-inset">
+            {available.map((input) => (
+              <button
+                key={input}
+                ref={(element) => {
+                  tabRefs.current[input] = element;
+                }}
+                type="button"
+                role="tab"
+                id={`${baseId}-tab-${input}`}
+                aria-selected={current === input}
+                aria-controls={`${baseId}-panel-${input}`}
+                tabIndex={current === input ? 0 : -1}
+                onClick={() => setSelected(input)}
+                onKeyDown={onKeyDown}
+                className={`rounded-full px-4 py-1.5 text-sm font-bold transition-colors ${
+                  current === input ? 'bg-ink text-card shadow' : 'text-ink-soft hover:text-ink'
+                }`}
+              >
+                Under {inputs[input].title.charAt(0).toLowerCase() + inputs[input].title.slice(1)}
+                {inputs[input].state ? <span className="font-normal"> ({inputs[input].state})</span> : null}
+              </button>
+            ))}
+          </div>
+          {available.map((input) => (
+            <div
+              key={input}
+              role="tabpanel"
+              id={`${baseId}-panel-${input}`}
+              aria-labelledby={`${baseId}-tab-${input}`}
+              hidden={current !== input}
+              className={`grid gap-6 ${groups.farFields[input].length > 1 ? 'xl:grid-cols-2' : 'max-w-3xl'}`}
+            >
+              {current === input
+                ? groups.farFields[input].map(({ artifact, component }) => (
+                    <ArtifactFigure
+                      key={artifact.name}
+                      projectId={projectId}
+                      runId={runId}
+                      artifact={artifact}
+                      title={`${inputs[input].title}: ${componentName(component, channelNames)}`}
+                    />
+                  ))
+                : null}
+            </div>
+          ))}
+        </>
+      ) : null}
+      {imagePlanes.length > 0 ? (
+        <div className="mt-6 grid gap-6 xl:grid-cols-2">
+          {imagePlanes.map((c) => (
+            <ArtifactFigure
+              key={c}
+              projectId={projectId}
+              runId={runId}
+              artifact={groups.imagePlanes[c]!}
+              title={`${channelNames[c]}: image plane (Fresnel hologram)`}
+            />
+          ))}
+        </div>
+      ) : null}
+    </Card>
+  );
+}

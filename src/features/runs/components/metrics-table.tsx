@@ -1,0 +1,50 @@
+import { useId } from 'react';
+import type { RunDetail } from '@shared/schemas/runs';
+import { Card } from '@/components/ui/card';
+import { formatMetricValue, metricName, sectionName } from '@/features/runs/components/format-run';
+
+/** Every metric of the run, by section, with its value and unit and the one line that says what it measures. */
+export function MetricsTable({ metrics }: { metrics: NonNullable<RunDetail['metrics']> }) {
+  const headingId = useId();
+  const sections = Object.entries(metrics).filter(([, group]) => group && Object.keys(group).length > 0);
+  return (
+    <Card
+      title={<span id={headingId}>Metrics</span>}
+      description="Computed on the realized device. Fractions are shown in %, lengths in nm, µm or mm, ratios of powers in dB."
+    >
+      <div role="region" aria-labelledby={headingId} className="flex flex-col gap-6">
+        {sections.map(([section, group]) => (
+          <div key={section} className="overflow-x-auto">
+            <table className="w-full min-w-[40rem] table-fixed text-sm">
+              <caption className="mb-2 text-left font-extrabold text-ink">{sectionName(section)}</caption>
+              <thead className="border-b border-line text-ink-soft">
+                <tr>
+                  <th scope="col" className="w-[30%] px-3 py-2 text-left font-bold">
+                    Metric
+                  </th>
+                  <th scope="col" className="w-[18%] px-3 py-2 text-right font-bold">
+                    Value
+                  </th>
+                  <th scope="col" className="px-3 py-2 text-left font-bold">
+                    What it means
+                  </th>
+                </tr>
+              </thead>
+              <tbody className="divide-y divide-line/70">
+                {Object.entries(group).map(([key, metric]) => (
+                  <tr key={key} className="align-top">
+                    <th scope="row" className="px-3 py-2 text-left font-bold">
+                      {metricName(key)}
+                    </th>
+                    <td className="px-3 py-2 text-right font-bold whitespace-nowrap tabular-nums">{formatMetricValue(metric)}</td>
+                    <td className="px-3 py-2 text-ink-soft">{metric.meaning}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        ))}
+      </div>
+    </Card>
+  );
+}

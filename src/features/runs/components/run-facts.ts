@@ -1,0 +1,110 @@
+import type { Design, PolarizationState } from '@shared/schemas/design';
+import type { RunDetail, RunMetric } from '@shared/schemas/runs';
+import type { ChannelKey, InputKey } from '@/features/runs/components/artifact-groups';
+
+export interface ChannelFacts {
+  key: ChannelKey;
+  name: string;
+  /** Phase terms of the recipe, in words, when the design is known. */
+  recipe: string | null;
+  beam: boolean;
+  lens: boolean;
+  charge: number | null;
+  metrics: Record<string, RunMetric> | null;
+}
+
+const TERM_WORDS: Record<string, string> = {
+  hologram: 'image hologram',
+  axicon: 'axicon',
+  vortex: 'vortex',
+  lens: 'lens',
+  tilt: 'tilt',
+  custom: 'custom phase map',
+};
+
+function normalize(key: string) {
+  return key.toLowerCase().replace(/[\s_-]+/g, ' ').trim();
+}
+
+/** The metrics group of channel A or B, whatever the server calls it ("a", "channelA", "channel A — …"). */
+export function channelMetrics(metrics: RunDetail['metrics'], channel: ChannelKey): Record<string, RunMetric> | null {
+  if (!metrics) return null;
+  for (const [key, group] of Object.entries(metrics)) {
+    const plain = normalize(key);
+    if (plain === channel || new RegExp(`^channel ?${channel}\\b`).test(plain) || plain === `channel${channel}`) return group;
+  }
+  for (const [key, group] of Object.entries(metrics)) {
+    if (/^channels?$/.test(normalize(key)) && group && typeof group === 'object' && channel in group) {
+      const nested = (group as Record<string, unknown>)[channel];
+      if (nested && typeof nested === 'object') return nested as Record<string, RunMetric>;
+    }
+  }
+  return null;
+}
+
+export function channelFacts(run: RunDetail, design: Design | null, channel: ChannelKey, hasSlice: boolean): ChannelFacts {
+  const metrics = channelMetrics(run.metrics, channel);
+  const recipe = design?.channels[channel];
+  const kinds = recipe?.terms.map((t) => t.kind) ?? [];
+  const has = (key: string) => Boolean(metrics && key in metrics);
+  const beam = kinds.includes('axicon') || has('sinBeta') || has('coreRadiusMeasured') || has('ringRadiusMeasured') || hasSlice;
+  const lens = kinds.includes('lens') || has('focalLength');
+  const chargeMetric = metrics?.topologicalCharge?.value;
+  const chargeFromDesign = recipe?.terms.reduce((sum, t) => sum + (t.kind === 'vortex' ? t.charge : 0), 0);
+  return {
+    key: channel,
+    name: recipe?.label ? `Channel ${channel.toUpperCase()} — ${recipe.label}` : `Channel ${channel.toUpperCase()}`,
+    recipe: kinds.length ? kinds.map((k) => TERM_WORDS[k] ?? k).join(' + ') : null,
+    beam,
+    lens,
+    charge: typeof chargeMetric === 'number' ? chargeMetric : (chargeFromDesign ?? null),
+    metrics,
+  };
+}
+
+const degrees = (value: number) => `${Number(value.toFixed(2))}°`.replace('-', '−');
+
+export function describeState(state: PolarizationState): string {
+  switch (state.kind) {
+    case 'linear':
+      return `linear at ${degrees(state.angleDeg)}`;
+    case 'circular':
+      return `${state.handedness}-circular`;
+    case 'elliptical':
+      return `elliptical, ψ = ${degrees(state.psiDeg)}, χ = ${degrees(state.chiDeg)}`;
+  }
+}
+
+/** The exact orthogonal partner, as the engine builds it: ψ + 90°, −χ. */
+function partner(state: PolarizationState): PolarizationState {
+  switch (state.kind) {
+    case 'linear': {
+      const turned = (((state.angleDeg + 90) % 180) + 180) % 180;
+      return { kind: 'linear', angleDeg: turned > 90 ? turned - 180 : turned };
+    }
+    case 'circular':
+      return { kind: 'circular', handedness: state.handedness === 'left' ? 'right' : 'left' };
+    case 'elliptical':
+      return { kind: 'elliptical', psiDeg: state.psiDeg + 90, chiDeg: -state.chiDeg };
+  }
+}
+
+/** Words for the three preview inputs, with the polarization state when the design is known. */
+export function inputNames(design: Design | null): Record<InputKey, { title: string; state: string | null }> {
+  return {
+    a: { title: 'Input A', state: design ? describeState(design.polarization) : null },
+    b: { title: 'Input B', state: design ? describeState(partner(design.polarization)) : null },
+    extra: { title: 'Extra input', state: design ? describeState(design.simulation.extraInput) : null },
+  };
+}
+
+/** True when the run's atoms came from the approximate demo library (design reference or the run's own notes). */
+export function usesApproximateLibrary(run: RunDetail, design: Design | null): boolean {
+  if (design?.atomLibrary.source === 'demo') return true;
+  const plots = run.plots as { library?: { approximate?: unknown }; notes?: unknown } | null;
+  if (plots?.library?.approximate === true) return true;
+  if (Array.isArray(plots?.notes) && plots.notes.some((note) => typeof note === 'string' && /approximate/i.test(note))) return true;
+  if (run.events.some((event) => /approximate/i.test(event.message))) return true;
+  const meanings = Object.values(run.metrics ?? {}).flatMap((group) => Object.values(group).map((m) => m.meaning));
+  return meanings.some((text) => /approximate/i.test(text));
+}
