@@ -15,8 +15,10 @@ export async function startServerWithDemo(): Promise<RunningServer> {
   }
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
-  const t = await createTestApp({ CLIENT_DIST: 'dist', PUBLIC_URL: url, PORT: String(port) });
+  const t = await createTestApp({ CLIENT_DIST: 'dist', PUBLIC_URL: url, PORT: String(port), RUN_WORKERS: '2' });
   await seedDemo(t.ctx.sequelize, 4);
+  // As at a real start: the seeded demo runs are picked up by the queue.
+  await t.ctx.runQueue.recover();
   const server: Server = await new Promise((resolve) => {
     const s = t.app.listen(port, '127.0.0.1', () => resolve(s));
   });

@@ -87,10 +87,16 @@ export async function listRuns(projectId: number, query: ListRunsQuery): Promise
 /** Queues a run of revision `number`; the queue picks it up off the request thread. */
 export async function startRun(ctx: AppContext, projectId: number, number: number, userId: number): Promise<RunDetail> {
   const revision = await findRevision(projectId, number);
-  const run = await RunModel.create({ projectId, revisionId: revision.id, startedById: userId, queuedAt: new Date(), stage: 'queued' });
+  const runId = await createQueuedRun(projectId, revision.id, userId);
+  ctx.runQueue.enqueue(runId);
+  return getRun(projectId, runId);
+}
+
+/** Records a queued run of a revision; the caller hands it to the queue (or the next server start does). */
+export async function createQueuedRun(projectId: number, revisionId: number, userId: number): Promise<number> {
+  const run = await RunModel.create({ projectId, revisionId, startedById: userId, queuedAt: new Date(), stage: 'queued' });
   await addEvent(run.id, 'queued', 'queued', `queued by ${(await UserModel.findByPk(userId, { attributes: ['name'] }))?.name ?? 'someone'}`);
-  ctx.runQueue.enqueue(run.id);
-  return getRun(projectId, run.id);
+  return run.id;
 }
 
 export async function cancelRun(ctx: AppContext, projectId: number, runId: number): Promise<RunDetail> {

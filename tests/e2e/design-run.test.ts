@@ -1,0 +1,97 @@
+/**
+ * The main job in a real browser: a demo designer opens the Bessel demo project, changes the vortex charge,
+ * saves a revision and runs it, watches progress reach 100 %, and sees the new previews and metrics; a viewer
+ * then sees the run but no run or cancel controls.
+ */
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchBrowser, screenshot } from '../support/browser';
+import { startServerWithDemo, type RunningServer } from '../support/running-server';
+import { DEMO_PASSWORD } from '../../server/db/seed-demo';
+
+let server: RunningServer;
+let browser: Awaited<ReturnType<typeof launchBrowser>>;
+
+beforeAll(async () => {
+  server = await startServerWithDemo();
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+});
+
+async function signIn(page: Page, email: string) {
+  await browser.context.clearCookies();
+  await page.goto(`${server.url}/sign-in`);
+  const form = page.getByRole('form', { name: 'Sign in' });
+  await form.getByLabel('E-mail').fill(email);
+  await form.getByLabel('Password').fill(DEMO_PASSWORD);
+  await form.getByRole('button', { name: 'Sign in' }).click();
+  await page.getByRole('heading', { name: 'Projects', exact: true }).waitFor();
+}
+
+describe('design → run → preview in the browser', () => {
+  let runUrl = '';
+
+  it('a designer changes the vortex charge, saves and runs it, and sees the results', async () => {
+    const page = await browser.context.newPage();
+    await signIn(page, 'tomas.reyes@harbourlight.example');
+    await page.getByRole('table', { name: 'Projects' }).getByText('Bessel and charge-2 vortex pair').click();
+    await page.getByRole('link', { name: 'Design' }).click();
+
+    const channelB = page.getByRole('list', { name: 'Channel B terms' });
+    const charge = channelB.getByLabel('Topological charge ℓ');
+    await charge.waitFor();
+    expect(await charge.inputValue()).toBe('2');
+    await charge.fill('3');
+    await screenshot(page, 'design-run-01-composer');
+
+    await page.getByRole('button', { name: 'Save and run' }).click();
+    await page.getByLabel('Message').fill('Charge 3 for the wider ring');
+    await page.getByRole('button', { name: 'Save revision and start run' }).click();
+
+    await page.waitForURL(/\/runs\/\d+$/);
+    runUrl = page.url();
+    const progress = page.getByRole('progressbar', { name: 'Run progress' });
+    await progress.waitFor();
+    await expect
+      .poll(async () => Number(await progress.getAttribute('aria-valuenow')), { timeout: 150_000, interval: 1000 })
+      .toBe(100);
+    await page.getByText('Finished').first().waitFor();
+
+    await page.getByRole('tablist', { name: 'Input polarization' }).waitFor();
+    const metrics = page.getByRole('region', { name: 'Metrics' });
+    await metrics.waitFor();
+    await expect.poll(async () => metrics.locator('table').count()).toBeGreaterThan(2);
+    const metricsText = await metrics.innerText();
+    expect(metricsText).toMatch(/Channel B/);
+    expect(metricsText).toMatch(/µm/);
+    await page.getByText('Laser safety').first().waitFor();
+    await screenshot(page, 'design-run-02-run-finished');
+
+    // The saved revision carries the new charge.
+    const revision = await page.evaluate(async (url) => {
+      const projectId = /projects\/(\d+)/.exec(url)![1];
+      const res = await fetch(`/api/projects/${projectId}/revisions`);
+      return (await res.json()).revisions[0];
+    }, runUrl);
+    expect(revision).toMatchObject({ number: 2, message: 'Charge 3 for the wider ring' });
+    await page.close();
+  });
+
+  it('a viewer sees the run and the runs table but no run or cancel buttons', async () => {
+    const page = await browser.context.newPage();
+    await signIn(page, 'kai.brenner@harbourlight.example');
+    await page.goto(runUrl);
+    await page.getByRole('progressbar', { name: 'Run progress' }).waitFor();
+    await page.getByRole('region', { name: 'Metrics' }).waitFor();
+    expect(await page.getByRole('button', { name: /Run revision/ }).count()).toBe(0);
+    expect(await page.getByRole('button', { name: 'Cancel run' }).count()).toBe(0);
+    await page.getByRole('link', { name: 'Runs', exact: true }).click();
+    await page.getByRole('table').first().waitFor();
+    expect(await page.getByRole('button', { name: /Start (a|the first) run/ }).count()).toBe(0);
+    await screenshot(page, 'design-run-03-viewer-runs');
+    await page.close();
+  });
+});
