@@ -2,6 +2,8 @@ import { MutationCache, QueryCache, QueryClient, type QueryKey } from '@tanstack
 import { isApiError } from '@/lib/api-client';
 import type { MeResponse } from '@/features/auth/api/get-me';
 import { authKeys } from '@/features/auth/api/query-keys';
+import { designKeys } from '@/features/designs/api/query-keys';
+import { runKeys } from '@/features/runs/api/query-keys';
 
 function shouldRetry(failureCount: number, error: unknown) {
   if (isApiError(error) && error.status >= 400 && error.status < 500) return false;
@@ -26,6 +28,14 @@ export function createAppQueryClient() {
       },
     }),
     mutationCache: new MutationCache({
+      // Starting a run (from any page) changes the run counts in the project's revision list.
+      onSuccess: async (_data, _variables, _context, mutation) => {
+        const key = mutation.options.mutationKey;
+        const projectId = key?.[1];
+        if (typeof projectId === 'number' && sameKey(key, runKeys.start(projectId))) {
+          await queryClient.invalidateQueries({ queryKey: designKeys.revisionList(projectId) });
+        }
+      },
       onError: (error, _variables, _context, mutation) => {
         if (isApiError(error, 401) && !sameKey(mutation.options.mutationKey, authKeys.signIn())) sessionEnded();
       },

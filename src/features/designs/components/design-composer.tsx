@@ -11,7 +11,6 @@ import { paths } from '@/config/paths';
 import { isApiError } from '@/lib/api-client';
 import { formatRelative } from '@/lib/format';
 import { useCreateRevision } from '@/features/designs/api/create-revision';
-import { useStartRun } from '@/features/designs/api/start-run';
 import { AdvancedSection } from '@/features/designs/components/advanced-section';
 import { AtomLibrarySection } from '@/features/designs/components/atom-library-section';
 import { ChannelSection } from '@/features/designs/components/channel-section';
@@ -29,6 +28,13 @@ interface DesignComposerProps {
   sourceKey: string;
   initialDraft: DesignDraft;
   baseRevision: Revision | null;
+  /** Starts a run of a saved revision (runs live in their own feature; the route passes this in). */
+  runStarter: RunStarter;
+}
+
+export interface RunStarter {
+  mutateAsync(revisionNumber: number): Promise<{ run: { id: number } }>;
+  isPending: boolean;
 }
 
 function UnsavedElsewhere({ sourceKey, onDiscard }: { sourceKey: string; onDiscard: () => void }) {
@@ -51,7 +57,7 @@ function UnsavedElsewhere({ sourceKey, onDiscard }: { sourceKey: string; onDisca
   );
 }
 
-export function DesignComposer({ project, sourceKey, initialDraft, baseRevision }: DesignComposerProps) {
+export function DesignComposer({ project, sourceKey, initialDraft, baseRevision, runStarter: startRun }: DesignComposerProps) {
   const navigate = useNavigate();
   const canDesign = projectRoleAllows(project.myRole, 'design');
   const readOnly = !canDesign;
@@ -63,7 +69,6 @@ export function DesignComposer({ project, sourceKey, initialDraft, baseRevision 
   const load = useDesignEditor((state) => state.load);
   const setServerErrors = useDesignEditor((state) => state.setServerErrors);
   const createRevision = useCreateRevision(project.id);
-  const startRun = useStartRun(project.id);
   const [saveMode, setSaveMode] = useState<SaveMode | null>(null);
   const [saveError, setSaveError] = useState<string | null>(null);
   const [notice, setNotice] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);

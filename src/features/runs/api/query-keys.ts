@@ -9,6 +9,7 @@ export const runKeys = {
   list: (projectId: number, filters: RunListFilters) => [...runKeys.lists(projectId), filters] as const,
   details: (projectId: number) => [...runKeys.project(projectId), 'detail'] as const,
   detail: (projectId: number, runId: number) => [...runKeys.details(projectId), runId] as const,
+  start: (projectId: number) => [...runKeys.project(projectId), 'start'] as const,
   artifacts: (projectId: number, runId: number) => [...runKeys.project(projectId), 'artifact', runId] as const,
   artifact: (projectId: number, runId: number, name: string) => [...runKeys.artifacts(projectId, runId), name] as const,
 };

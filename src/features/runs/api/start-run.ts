@@ -11,6 +11,7 @@ export function startRun(projectId: number, revisionNumber: number): Promise<{ r
 export function useStartRun(projectId: number) {
   const queryClient = useQueryClient();
   return useMutation({
+    mutationKey: runKeys.start(projectId),
     mutationFn: ({ revisionNumber }: { revisionNumber: number }) => startRun(projectId, revisionNumber),
     onSuccess: async (data) => {
       queryClient.setQueryData(runKeys.detail(projectId, data.run.id), data);

@@ -10,6 +10,7 @@ import { revisionQueryOptions, useRevision } from '@/features/designs/api/get-re
 import { revisionsQueryOptions, useRevisions } from '@/features/designs/api/get-revisions';
 import { useCurrentUser } from '@/features/auth/api/get-me';
 import { DesignComposer } from '@/features/designs/components/design-composer';
+import { useStartRun } from '@/features/runs/api/start-run';
 import { designSourceKey } from '@/features/designs/stores/design-editor-store';
 import { designTemplate, type DesignDraft } from '@/features/designs/utils/design-draft';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
@@ -44,6 +45,11 @@ export default function ProjectDesignRoute() {
   const number = from ?? latest;
   const revision = useRevision(project.id, number);
   const template = useMemo(() => designTemplate(project.name), [project.name]);
+  const startRun = useStartRun(project.id);
+  const runStarter = useMemo(
+    () => ({ mutateAsync: (revisionNumber: number) => startRun.mutateAsync({ revisionNumber }), isPending: startRun.isPending }),
+    [startRun],
+  );
 
   if (from === null && revisions.isPending) return <PageLoader label="Finding the latest revision" />;
   if (from === null && revisions.isError) {
@@ -83,6 +89,7 @@ export default function ProjectDesignRoute() {
       sourceKey={designSourceKey(user.id, project.id, number)}
       initialDraft={base ? (base.design as DesignDraft) : template}
       baseRevision={base}
+      runStarter={runStarter}
     />
   );
 }

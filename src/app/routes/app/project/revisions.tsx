@@ -9,7 +9,7 @@ import { PageLoader } from '@/components/ui/spinner';
 import { paths } from '@/config/paths';
 import { isApiError } from '@/lib/api-client';
 import { revisionsQueryOptions, useRevisions } from '@/features/designs/api/get-revisions';
-import { useStartRun } from '@/features/designs/api/start-run';
+import { useStartRun } from '@/features/runs/api/start-run';
 import { RevisionsTable } from '@/features/designs/components/revisions-table';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
 
@@ -37,7 +37,7 @@ export default function ProjectRevisionsRoute() {
   async function run(number: number) {
     setRunError(null);
     try {
-      const { run: started } = await startRun.mutateAsync(number);
+      const { run: started } = await startRun.mutateAsync({ revisionNumber: number });
       navigate(paths.projects.run.getHref(project.id, started.id));
     } catch (error) {
       setRunError(`Revision ${number} did not start: ${isApiError(error) ? error.message : 'try again'}.`);
@@ -97,7 +97,7 @@ export default function ProjectRevisionsRoute() {
           selected={selected}
           onToggle={toggle}
           canRun={canDesign}
-          runningNumber={startRun.isPending ? (startRun.variables ?? null) : null}
+          runningNumber={startRun.isPending ? (startRun.variables?.revisionNumber ?? null) : null}
           onRun={(number) => void run(number)}
         />
       )}
