@@ -1,7 +1,7 @@
 import { Link } from 'react-router-dom';
 import type { Project, ListProjectsQuery } from '@shared/schemas/projects';
 import { Badge } from '@/components/ui/badge';
-import { SortIcon } from '@/components/ui/icons';
+import { SortHeader } from '@/components/ui/sort-header';
 import { paths } from '@/config/paths';
 import { formatDate, formatRelative } from '@/lib/format';
 import type { ProjectListFilters } from '@/features/projects/api/query-keys';
@@ -16,42 +16,6 @@ interface ProjectsTableProps {
   stale?: boolean;
 }
 
-function SortHeader({
-  label,
-  sortKey,
-  filters,
-  onSort,
-  align = 'left',
-}: {
-  label: string;
-  sortKey: SortKey;
-  filters: ProjectListFilters;
-  onSort: (sort: SortKey) => void;
-  align?: 'left' | 'right';
-}) {
-  const active = filters.sort === sortKey;
-  const direction = active ? filters.dir : 'none';
-  return (
-    <th
-      scope="col"
-      aria-sort={active ? (filters.dir === 'asc' ? 'ascending' : 'descending') : 'none'}
-      className={`px-4 py-3 font-bold ${align === 'right' ? 'text-right' : 'text-left'}`}
-    >
-      <button
-        type="button"
-        onClick={() => onSort(sortKey)}
-        className={`inline-flex items-center gap-1 rounded-md px-1 -mx-1 hover:text-ink ${active ? 'text-ink' : ''}`}
-      >
-        {label}
-        <SortIcon direction={direction} />
-        <span className="sr-only">
-          {active ? `, sorted ${filters.dir === 'asc' ? 'ascending' : 'descending'}; ` : ', '}select to sort
-        </span>
-      </button>
-    </th>
-  );
-}
-
 export function ProjectsTable({ projects, filters, onSort, stale = false }: ProjectsTableProps) {
   return (
     <div className={`relative overflow-x-auto rounded-card bg-card shadow-card ring-1 ring-line/70 transition-opacity ${stale ? 'opacity-60' : ''}`}>
@@ -59,13 +23,13 @@ export function ProjectsTable({ projects, filters, onSort, stale = false }: Proj
         <caption className="sr-only">Projects</caption>
         <thead className="border-b border-line text-ink-soft">
           <tr>
-            <SortHeader label="Project" sortKey="name" filters={filters} onSort={onSort} />
+            <SortHeader label="Project" sortKey="name" sort={filters} onSort={onSort} />
             <th scope="col" className="px-4 py-3 text-left font-bold">
               Your role
             </th>
-            <SortHeader label="Members" sortKey="memberCount" filters={filters} onSort={onSort} align="right" />
-            <SortHeader label="Last change" sortKey="updatedAt" filters={filters} onSort={onSort} />
-            <SortHeader label="Started" sortKey="createdAt" filters={filters} onSort={onSort} />
+            <SortHeader label="Members" sortKey="memberCount" sort={filters} onSort={onSort} align="right" />
+            <SortHeader label="Last change" sortKey="updatedAt" sort={filters} onSort={onSort} />
+            <SortHeader label="Started" sortKey="createdAt" sort={filters} onSort={onSort} />
           </tr>
         </thead>
         <tbody className="divide-y divide-line/70">

@@ -1,6 +1,6 @@
 import { Link } from 'react-router-dom';
 import type { ListRunsQuery, RunSummary } from '@shared/schemas/runs';
-import { SortIcon } from '@/components/ui/icons';
+import { SortHeader } from '@/components/ui/sort-header';
 import { paths } from '@/config/paths';
 import { formatDateTime, formatRelative } from '@/lib/format';
 import type { RunListFilters } from '@/features/runs/api/query-keys';
@@ -16,41 +16,6 @@ interface RunsTableProps {
   filters: RunListFilters;
   onSort: (sort: SortKey) => void;
   stale?: boolean;
-}
-
-function SortHeader({
-  label,
-  sortKey,
-  filters,
-  onSort,
-  align = 'left',
-}: {
-  label: string;
-  sortKey: SortKey;
-  filters: RunListFilters;
-  onSort: (sort: SortKey) => void;
-  align?: 'left' | 'right';
-}) {
-  const active = filters.sort === sortKey;
-  return (
-    <th
-      scope="col"
-      aria-sort={active ? (filters.dir === 'asc' ? 'ascending' : 'descending') : 'none'}
-      className={`px-3 py-3 font-bold whitespace-nowrap ${align === 'right' ? 'text-right' : 'text-left'}`}
-    >
-      <button
-        type="button"
-        onClick={() => onSort(sortKey)}
-        className={`-mx-1 inline-flex items-center gap-1 rounded-md px-1 hover:text-ink ${active ? 'text-ink' : ''}`}
-      >
-        {label}
-        <SortIcon direction={active ? filters.dir : 'none'} />
-        <span className="sr-only">
-          {active ? `, sorted ${filters.dir === 'asc' ? 'ascending' : 'descending'}; ` : ', '}select to sort
-        </span>
-      </button>
-    </th>
-  );
 }
 
 function PlainHeader({ children, align = 'left' }: { children: string; align?: 'left' | 'right' }) {
@@ -70,12 +35,12 @@ export function RunsTable({ projectId, runs, filters, onSort, stale = false }: R
         <caption className="sr-only">Runs of this project</caption>
         <thead className="border-b border-line text-ink-soft">
           <tr>
-            <SortHeader label="Run" sortKey="queuedAt" filters={filters} onSort={onSort} />
-            <SortHeader label="Status" sortKey="status" filters={filters} onSort={onSort} />
+            <SortHeader label="Run" sortKey="queuedAt" sort={filters} onSort={onSort} className="px-3" />
+            <SortHeader label="Status" sortKey="status" sort={filters} onSort={onSort} className="px-3" />
             <PlainHeader>Progress</PlainHeader>
-            <SortHeader label="Revision" sortKey="revisionNumber" filters={filters} onSort={onSort} align="right" />
+            <SortHeader label="Revision" sortKey="revisionNumber" sort={filters} onSort={onSort} className="px-3" align="right" />
             <PlainHeader>Started by</PlainHeader>
-            <SortHeader label="Duration" sortKey="durationMs" filters={filters} onSort={onSort} align="right" />
+            <SortHeader label="Duration" sortKey="durationMs" sort={filters} onSort={onSort} className="px-3" align="right" />
             <PlainHeader align="right">Efficiency A / B</PlainHeader>
             <PlainHeader align="right">Crosstalk</PlainHeader>
             <PlainHeader align="right">Zero order</PlainHeader>
