@@ -26,6 +26,8 @@ const envSchema = z.object({
   CLIENT_DIST: z.string().default('dist'),
   /** Worker threads of the run queue; omitted: one per core (os.availableParallelism()). */
   RUN_WORKERS: z.coerce.number().int().min(1, 'use at least 1').max(256).optional(),
+  /** Helper threads inside each run (both channels retrieved at once); omitted: on when 2·RUN_WORKERS ≤ cores. */
+  RUN_HELPER_THREADS: flag.optional(),
 });
 
 export type AppConfig = z.infer<typeof envSchema> & { publicUrl: string };

@@ -5,7 +5,9 @@
  *   intensity under inputs A and B, float32, fftshifted: zero order at (N/2, N/2));
  * - atoms.csv (the library used), design.json (the validated design, defaults filled in), metrics.json;
  * - layout.gds, streamed chunk by chunk (gdsii.ts), never whole in memory;
- * - PNG previews (previews.ts), painted on this thread or on a worker while the rest is written.
+ * - PNG previews (previews.ts), painted on this thread or on a worker while the rest is written: among them
+ *   the far field under each input as a total and split into output polarization components
+ *   (farfield_<input>.png, _out-a.png, _out-b.png, _x.png, _y.png), each input's pictures on one scale.
  */
 import { open, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';

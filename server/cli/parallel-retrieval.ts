@@ -13,7 +13,7 @@ const WORKER_FILE = new URL('./retrieval-worker.ts', import.meta.url);
 type WorkerMessage =
   | { type: 'progress'; fraction: number; detail?: Record<string, number> }
   | { type: 'done'; result: RetrievalResult }
-  | { type: 'error'; message: string };
+  | { type: 'error'; message: string; refused: boolean };
 
 function runJob(job: RetrievalJob, index: number, hooks: RetrievalHooks): Promise<RetrievalResult> {
   return new Promise<RetrievalResult>((resolve, reject) => {
@@ -40,7 +40,10 @@ function runJob(job: RetrievalJob, index: number, hooks: RetrievalHooks): Promis
     worker.on('message', (message: WorkerMessage) => {
       if (message.type === 'progress') hooks.onProgress?.(index, message.fraction, message.detail);
       else if (message.type === 'done') finish(null, message.result);
-      else finish(new Error(`Phase retrieval of channel ${job.channel.toUpperCase()} failed: ${message.message}`));
+      else {
+        const text = `Phase retrieval of channel ${job.channel.toUpperCase()} failed: ${message.message}`;
+        finish(message.refused ? new RangeError(text) : new Error(text));
+      }
     });
     worker.on('error', (error) => finish(error));
     worker.on('exit', (code) => finish(new Error(`Phase retrieval worker of channel ${job.channel.toUpperCase()} stopped (exit code ${code})`)));

@@ -121,7 +121,8 @@ export function summary(result: RunFileResult, outDir: string): string {
     lines.push('Laser safety: Bessel and focused beams concentrate power; follow ANSI Z136.1 / IEC 60825-1 and your laser safety officer.', '');
   }
   lines.push(`Files in ${outDir}:`);
-  for (const f of files) lines.push(`  ${f.name.padEnd(20)} ${formatBytes(f.bytes).padStart(10)}`);
+  const nameWidth = Math.max(20, ...files.map((f) => f.name.length));
+  for (const f of files) lines.push(`  ${f.name.padEnd(nameWidth)} ${formatBytes(f.bytes).padStart(10)}`);
   lines.push(
     '',
     `Time: ${(timings.total / 1000).toFixed(2)} s (inputs ${(timings.inputs / 1000).toFixed(2)} s, engine ${(timings.engine / 1000).toFixed(2)} s, outputs ${(timings.outputs / 1000).toFixed(2)} s)`,

@@ -1,24 +1,46 @@
 /**
- * PNG previews of a run: far fields under inputs A, B and the extra input (gamma 0.5, full scale at the
- * brightest pixel away from the zero order, target windows outlined), channel phases in cyclic colours, the
- * atom index, the rotation 2θ (cyclic), the x–z slice of each beam channel and the image plane of each
- * Fresnel hologram. The inputs are plain typed arrays (`PreviewData`), so the pictures can be painted and
- * encoded on a worker thread while the main thread writes the other files.
+ * PNG previews of a run: far fields under inputs A, B and the extra input, each as the total and split into
+ * its output polarization components — the parts along the output states λA* and λB* (where the device sends
+ * inputs A and B, Mueller et al., Phys. Rev. Lett. 118, 113901 (2017)) and the x and y parts — all pictures of
+ * one input on the total's intensity scale (gamma 0.5, full scale at the total's brightest pixel away from
+ * the zero order), so a component that carries little light looks dark; target windows outlined. Then
+ * channel phases in cyclic colours, the atom index, the rotation 2θ (cyclic), the x–z slice of each beam
+ * channel and the image plane of each Fresnel hologram. The inputs are plain typed arrays (`PreviewData`),
+ * far fields already pooled to preview size, so the pictures can be painted and encoded on a worker thread
+ * while the main thread writes the other files.
+ *
+ * Far-field file names: farfield_<a|b|extra>.png (total), farfield_<input>_out-a.png and _out-b.png (along
+ * λA*, λB*), farfield_<input>_x.png and _y.png — the last two only when the output states are not x and y
+ * themselves (then they would repeat _out-a and _out-b).
  */
 import { join } from 'node:path';
 import { outlineRect, paintIndex, paintIntensity, paintPhase, poolMap, subsampleMap, type Rgb, type RgbaImage } from '../../shared/optics/colormap';
-import { CHANNEL_IDS, type ChannelId, type DesignRun, type InputId } from '../../shared/optics/pipeline';
+import { CHANNEL_IDS, INPUT_IDS, type ChannelId, type DesignRun, type FarFieldSet, type InputId } from '../../shared/optics/pipeline';
+import type { JonesVector } from '../../shared/optics/types';
 import type { PixelWindow } from '../../shared/optics/target';
 import { writePng } from './png';
 
 /** Largest preview side in pixels; larger designs are pooled (intensities) or subsampled (phases, indices). */
 export const PREVIEW_MAX_SIDE = 1024;
 
+/** Largest side of the far-field component pictures (the total keeps PREVIEW_MAX_SIDE): twelve of them per run. */
+export const COMPONENT_MAX_SIDE = 512;
+
 const WINDOW_COLORS: Record<ChannelId, Rgb> = { a: [90, 225, 255], b: [255, 96, 208] };
+
+/** The output components of a far field, as file-name suffixes: along λA*, along λB*, x, y. */
+export const FAR_FIELD_COMPONENTS = ['out-a', 'out-b', 'x', 'y'] as const;
+export type FarFieldComponent = (typeof FAR_FIELD_COMPONENTS)[number];
+
+/**
+ * Far-field intensities of one input, mean-pooled to preview size: the total to side n / previewFactor(n),
+ * the components to side n / previewFactor(n, COMPONENT_MAX_SIDE).
+ */
+export type FarFieldPreviewMaps = { total: Float32Array } & Partial<Record<FarFieldComponent, Float32Array>>;
 
 export interface PreviewData {
   n: number;
-  farFields: Record<InputId, Float32Array>;
+  farFields: Record<InputId, FarFieldPreviewMaps>;
   /** Far-field windows of the Fourier holograms, per channel. */
   windows: Partial<Record<ChannelId, PixelWindow>>;
   phases: Record<ChannelId, Float64Array>;
@@ -34,11 +56,36 @@ export interface WrittenFile {
   bytes: number;
 }
 
-/** The arrays of a run the previews need (no copies). */
+/** True when the analyser states are x and y themselves (each up to a phase), to 1e-9. */
+function analyserIsXY([k0]: [JonesVector, JonesVector]): boolean {
+  const xPower = k0[0][0] ** 2 + k0[0][1] ** 2;
+  const yPower = k0[1][0] ** 2 + k0[1][1] ** 2;
+  const total = xPower + yPower;
+  return Math.min(xPower, yPower) <= 1e-9 * total;
+}
+
+/** One input's far-field maps at preview size (pooled copies when the design is larger than a preview). */
+function farFieldMaps(set: FarFieldSet, n: number, withXY: boolean): FarFieldPreviewMaps {
+  const pooled = (map: Float32Array, factor: number) => (factor > 1 ? poolMap(map, n, factor) : map);
+  const factor = previewFactor(n, COMPONENT_MAX_SIDE);
+  const small = (map: Float32Array) => pooled(map, factor);
+  const maps: FarFieldPreviewMaps = { total: pooled(set.total, previewFactor(n)), 'out-a': small(set.analyserA), 'out-b': small(set.analyserB) };
+  if (withXY) {
+    maps.x = small(set.x);
+    maps.y = small(set.y);
+  }
+  return maps;
+}
+
+/** The arrays of a run the previews need (no copies, except far fields pooled for large designs). */
 export function previewDataOf(run: DesignRun): PreviewData {
+  const n = run.grid.n;
+  const withXY = !analyserIsXY(run.analyser);
+  const farFields = {} as Record<InputId, FarFieldPreviewMaps>;
+  for (const input of INPUT_IDS) farFields[input] = farFieldMaps(run.farFields[input], n, withXY);
   const data: PreviewData = {
-    n: run.grid.n,
-    farFields: { a: run.farFields.a.total, b: run.farFields.b.total, extra: run.farFields.extra.total },
+    n,
+    farFields,
     windows: {},
     phases: { a: run.channels.a.phase, b: run.channels.b.phase },
     atomIndex: run.mapping.atomIndex,
@@ -57,30 +104,43 @@ export function previewDataOf(run: DesignRun): PreviewData {
   return data;
 }
 
-function previewFactor(n: number): number {
+/** Power-of-two pooling factor that brings side n down to at most `maxSide`. Example: previewFactor(2048) → 2. */
+function previewFactor(n: number, maxSide = PREVIEW_MAX_SIDE): number {
   let factor = 1;
-  while (n / factor > PREVIEW_MAX_SIDE) factor *= 2;
+  while (n / factor > maxSide) factor *= 2;
   return factor;
 }
 
+type OutlinedWindow = { window: PixelWindow; color: Rgb };
+
 /**
- * Far-field preview: gamma 0.5, full scale at the brightest pixel more than 2 px away from the zero order
- * (a bright zero order saturates instead of darkening the picture); windows outlined just outside.
+ * Full scale of a far-field preview (m×m map): its brightest pixel more than 2 px away from the zero order
+ * at (m/2, m/2), so a bright zero order saturates instead of darkening the picture; the zero order's own
+ * peak when nothing else is lit; undefined for an all-dark map.
+ * Example: a map that is 1 everywhere and 100 at the centre → 1.
  */
-export function farFieldPreview(intensity: Float32Array, n: number, windows: { window: PixelWindow; color: Rgb }[]): RgbaImage {
-  const factor = previewFactor(n);
-  const m = n / factor;
-  const map = factor > 1 ? poolMap(intensity, n, factor) : intensity;
+export function farFieldFullScale(map: Float32Array, m: number): number | undefined {
   let max = 0;
+  let peak = 0;
   const c = m / 2;
   const reach = 2;
   for (let y = 0; y < m; y++) {
     for (let x = 0; x < m; x++) {
+      const v = map[y * m + x];
+      if (v > peak) peak = v;
       if (Math.abs(x - c) <= reach && Math.abs(y - c) <= reach) continue;
-      if (map[y * m + x] > max) max = map[y * m + x];
+      if (v > max) max = v;
     }
   }
-  const image = paintIntensity(map, m, m, { kind: 'gamma', gamma: 0.5, max: max > 0 ? max : undefined });
+  return max > 0 ? max : peak > 0 ? peak : undefined;
+}
+
+/**
+ * Paints an m×m far-field map pooled by `factor` from the N×N grid: gamma 0.5 up to `max` (brighter pixels
+ * saturate), windows (N×N pixel coordinates) outlined just outside.
+ */
+export function paintFarField(map: Float32Array, m: number, factor: number, windows: OutlinedWindow[], max: number | undefined): RgbaImage {
+  const image = paintIntensity(map, m, m, { kind: 'gamma', gamma: 0.5, max });
   for (const { window, color } of windows) {
     outlineRect(
       image,
@@ -94,6 +154,14 @@ export function farFieldPreview(intensity: Float32Array, n: number, windows: { w
     );
   }
   return image;
+}
+
+/** Far-field preview of an N×N intensity map on its own scale (paintFarField after pooling). */
+export function farFieldPreview(intensity: Float32Array, n: number, windows: OutlinedWindow[]): RgbaImage {
+  const factor = previewFactor(n);
+  const m = n / factor;
+  const map = factor > 1 ? poolMap(intensity, n, factor) : intensity;
+  return paintFarField(map, m, factor, windows, farFieldFullScale(map, m));
 }
 
 /** x–z slice preview: z to the right (768 columns, nearest plane), x downwards (pooled to ≤ 1024 rows), gamma 0.5. */
@@ -125,7 +193,21 @@ export function previewPainters(data: PreviewData): [string, () => RgbaImage][] 
   const factor = previewFactor(n);
   const m = n / factor;
   const small = <T extends Float64Array | Int32Array>(values: T): T => (factor > 1 ? subsampleMap(values, n, factor) : values);
-  const painters: [string, () => RgbaImage][] = farFieldInputs.map(([input, ids]) => [`farfield_${input}.png`, () => farFieldPreview(data.farFields[input], n, windowsOf(ids))]);
+  const painters: [string, () => RgbaImage][] = [];
+  const componentFactor = previewFactor(n, COMPONENT_MAX_SIDE);
+  const componentSide = n / componentFactor;
+  for (const [input, ids] of farFieldInputs) {
+    const maps = data.farFields[input];
+    const windows = windowsOf(ids);
+    painters.push([`farfield_${input}.png`, () => paintFarField(maps.total, m, factor, windows, farFieldFullScale(maps.total, m))]);
+    // Every component on the scale of the total, pooled like the component pictures.
+    let scale: number | undefined;
+    const commonScale = () => (scale ??= farFieldFullScale(componentFactor > factor ? poolMap(maps.total, m, componentFactor / factor) : maps.total, componentSide));
+    for (const component of FAR_FIELD_COMPONENTS) {
+      const map = maps[component];
+      if (map) painters.push([`farfield_${input}_${component}.png`, () => paintFarField(map, componentSide, componentFactor, windows, commonScale())]);
+    }
+  }
   painters.push(['phase_a.png', () => paintPhase(small(data.phases.a), m, m)]);
   painters.push(['phase_b.png', () => paintPhase(small(data.phases.b), m, m)]);
   painters.push(['atom_index.png', () => paintIndex(small(data.atomIndex), m, m, data.atomCount)]);

@@ -1,7 +1,7 @@
 /**
  * One design file → one folder of results: the code path of `phasewright run` (and of the end-to-end
  * benchmark): read and validate, resolve the referenced files, run the engine with the hologram channels
- * on worker threads, write every output.
+ * on worker threads (run-threads.ts), write every output.
  */
 import { mkdir } from 'node:fs/promises';
 import type { DesignRun } from '../../shared/optics/pipeline';
@@ -9,8 +9,7 @@ import { runDesign } from '../../shared/optics/pipeline';
 import type { CancelSignal, ProgressCallback } from '../../shared/optics/types';
 import { loadDesignFile, loadDesignResources } from './design-files';
 import { writeRunOutputs, type WrittenFile } from './outputs';
-import { createWorkerRetriever } from './parallel-retrieval';
-import { startPreviewWorker, type PreviewWorker } from './preview-writer';
+import { runThreads } from './run-threads';
 
 export interface RunFileOptions {
   outDir: string;
@@ -38,23 +37,21 @@ export async function runDesignFile(designPath: string, options: RunFileOptions)
   const design = await loadDesignFile(designPath);
   const { resources, warnings } = await loadDesignResources(design, designPath);
   for (const warning of warnings) options.onWarning?.(warning);
-  const parallel = options.parallel !== false;
-  if (parallel) resources.retrieveChannels = createWorkerRetriever();
+  const threads = runThreads(options.parallel !== false);
+  if (threads.retrieveChannels) resources.retrieveChannels = threads.retrieveChannels;
   await mkdir(options.outDir, { recursive: true });
-  // The preview worker starts once the phase retrieval is over, so it loads on the core the retrieval freed.
-  let previews: PreviewWorker | undefined;
   const onProgress: ProgressCallback = (fraction, stage, detail) => {
-    if (parallel && !previews && stage !== 'prepare' && stage !== 'phase retrieval') previews = startPreviewWorker();
+    threads.onStage(stage);
     options.onProgress?.(fraction, stage, detail);
   };
   try {
     const t1 = performance.now();
     const run = await runDesign(design, resources, { onProgress, signal: options.signal });
     const t2 = performance.now();
-    const files = await writeRunOutputs(run, options.outDir, previews);
+    const files = await writeRunOutputs(run, options.outDir, threads.previews());
     const t3 = performance.now();
     return { run, files, timings: { inputs: t1 - t0, engine: t2 - t1, outputs: t3 - t2, total: t3 - t0 } };
   } finally {
-    await previews?.close();
+    await threads.close();
   }
 }

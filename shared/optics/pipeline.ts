@@ -23,7 +23,7 @@
  * Memory: big maps that leave this module are float32 except the phases and cell parameters (float64, they
  * are the fabrication data); the realized Jones field and near fields live only while they are used.
  */
-import type { AssetRef, Design } from '../schemas/design';
+import { PHASE_TERM_LABELS, type AssetRef, type Design } from '../schemas/design';
 import { buildAtomLookup, mapAtoms, type AtomLibrary } from './atoms';
 import { analyzeBeam, analyzeFocus, beamPlanes, type BeamAnalysis, type BeamSpec, type FocusAnalysis } from './beam-analysis';
 import {
@@ -149,15 +149,6 @@ export interface ChannelPlan {
   charge: number;
 }
 
-const TERM_NAMES: Record<string, string> = {
-  hologram: 'image hologram',
-  axicon: 'axicon',
-  vortex: 'vortex',
-  lens: 'lens',
-  tilt: 'tilt',
-  custom: 'custom phase map',
-};
-
 /**
  * Turns a channel's recipe into engine terms, its hologram target and its beam facts. Throws
  * DesignUnitsError naming the design field when a value cannot be used (window outside the propagating
@@ -229,7 +220,7 @@ export function planChannel(design: Design, id: ChannelId, resources: Pick<Desig
   const focalLength = !beam && lenses.length === 1 && lenses[0] > 0 ? lenses[0] : null;
   return {
     id,
-    label: recipe.label || `channel ${id.toUpperCase()} (${recipe.terms.map((t) => TERM_NAMES[t.kind]).join(' + ')})`,
+    label: recipe.label || `channel ${id.toUpperCase()} (${recipe.terms.map((t) => PHASE_TERM_LABELS[t.kind]).join(' + ')})`,
     analyticPhase: analytic.length ? sumPhaseTerms(grid, analytic) : null,
     hologram,
     beam,

@@ -7,7 +7,9 @@ let designer: ApiClient;
 let projectId: number;
 
 beforeAll(async () => {
-  t = await createTestApp();
+  // Helper threads inside runs whatever the machine: the channels' retrieval and the previews run on worker
+  // threads started from the piscina run worker, the path the command line also takes.
+  t = await createTestApp({ RUN_HELPER_THREADS: 'true' });
   designer = await signedInClient(t.app, await makeUser({ name: 'Run Designer' }));
   projectId = (await designer.post('/api/projects', { name: 'Twin Tag (runs)' })).body.project.id;
 });
@@ -39,6 +41,14 @@ describe('runs', () => {
     expect(run.events.map((e) => e.stage)).toEqual(expect.arrayContaining(['queued', 'prepare', 'phase retrieval', 'atom mapping', 'done']));
     const names = run.artifacts.map((a) => a.name);
     expect(names).toEqual(expect.arrayContaining(['phase_a.npy', 'layout.gds', 'farfield_extra.png', 'metrics.json']));
+    // Circular pair: each input's far field as the total, the parts along λA* and λB*, and the x and y parts.
+    for (const input of ['a', 'b', 'extra']) {
+      expect(names).toEqual(expect.arrayContaining(['', '_out-a', '_out-b', '_x', '_y'].map((part) => `farfield_${input}${part}.png`)));
+    }
+    const label = (name: string) => run.artifacts.find((a) => a.name === name)?.label;
+    expect(label('farfield_a.png')).toMatch(/^Far field under input A: all the light, both output polarizations together/);
+    expect(label('farfield_a_out-b.png')).toMatch(/^Far field under input A: only the light in channel B's output polarization \(λB\*/);
+    expect(label('farfield_extra_y.png')).toBe('Far field under the extra input: only the y-polarized light, on the same brightness scale as the total');
 
     const png = await download(designer, `/api/projects/${projectId}/runs/${run.id}/artifacts/farfield_a.png`);
     expect(png.status).toBe(200);

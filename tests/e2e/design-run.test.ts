@@ -74,7 +74,7 @@ describe('design → run → preview in the browser', () => {
     const revision = await page.evaluate(async (url) => {
       const projectId = /projects\/(\d+)/.exec(url)![1];
       const res = await fetch(`/api/projects/${projectId}/revisions`);
-      return (await res.json()).revisions[0];
+      return ((await res.json()) as { revisions: unknown[] }).revisions[0];
     }, runUrl);
     expect(revision).toMatchObject({ number: 2, message: 'Charge 3 for the wider ring' });
     await page.close();

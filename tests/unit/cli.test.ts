@@ -3,7 +3,9 @@ import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'no
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { parseGDS, RecordType } from 'gdsii';
+import { Jimp } from 'jimp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { sequentialColor } from '../../shared/optics/colormap';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const BIN = join(ROOT, 'bin', 'phasewright.mjs');
@@ -55,9 +57,26 @@ const design = {
   },
 };
 
+/**
+ * A circular-basis twin-image design: left-circular input A, right-circular input B (PRODUCT.md handedness
+ * convention), a hologram per channel in windows left and right of the zero order.
+ */
+const circularDesign = {
+  format: 'phasewright-design/1',
+  name: 'CLI circular check',
+  setup: { wavelengthNm: LAMBDA_NM, periodNm: PERIOD_NM, cells: N },
+  polarization: { kind: 'circular', handedness: 'left' },
+  channels: {
+    a: { terms: [{ kind: 'hologram', image: { source: 'demo', name: 'lighthouse' }, window: { units: 'degrees', width: 14, centerX: 16 }, iterations: 12, seed: 3 }] },
+    b: { terms: [{ kind: 'hologram', image: { source: 'demo', name: 'compass-rose' }, window: { units: 'degrees', width: 14, centerX: -16 }, iterations: 12, seed: 5 }] },
+  },
+};
+
 let parallelOut = '';
 let sequentialOut = '';
+let circularOut = '';
 let run: ReturnType<typeof cli>;
+let circularRun: ReturnType<typeof cli>;
 
 beforeAll(() => {
   // The custom map, written by numpy: a phase ramp of 5 periods across the device, float32 → +5 px in x.
@@ -66,7 +85,54 @@ beforeAll(() => {
   parallelOut = join(dir, 'out');
   sequentialOut = join(dir, 'out-sequential');
   run = cli(['run', 'design.json', '--out', 'out']);
-}, 180_000);
+  writeFileSync(join(dir, 'circular.json'), JSON.stringify(circularDesign));
+  circularOut = join(dir, 'out-circular');
+  circularRun = cli(['run', 'circular.json', '--out', 'out-circular']);
+}, 240_000);
+
+/** PNG signature and IHDR width/height (PNG specification: big-endian at bytes 16…23). */
+function expectPng(path: string, side: number) {
+  const bytes = readFileSync(path);
+  expect(Array.from(bytes.subarray(0, 8))).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+  expect(bytes.readUInt32BE(16)).toBe(side);
+  expect(bytes.readUInt32BE(20)).toBe(side);
+}
+
+const WINDOW_A_OUTLINE = [90, 225, 255];
+/** Colour → level 0…255 of the far-field colour table (colormap.ts sequentialColor, 256 entries). */
+const LEVELS = new Map(Array.from({ length: 256 }, (_, i) => [sequentialColor(i / 255).join(','), i]));
+
+/**
+ * A far-field preview read back: the box inside the window outline of `outline` colour, and per pixel the
+ * intensity relative to the picture's full scale — previews.ts paints gamma 0.5, so I/Imax = (level/255)².
+ */
+async function readFarField(path: string, outline: number[]) {
+  const { width, height, data } = (await Jimp.read(path)).bitmap;
+  let x0 = width;
+  let y0 = height;
+  let x1 = -1;
+  let y1 = -1;
+  const intensity = new Float64Array(width * height);
+  for (let i = 0; i < width * height; i++) {
+    const rgb = [data[4 * i], data[4 * i + 1], data[4 * i + 2]];
+    if (rgb.every((v, k) => v === outline[k])) {
+      const x = i % width;
+      const y = Math.floor(i / width);
+      x0 = Math.min(x0, x);
+      x1 = Math.max(x1, x);
+      y0 = Math.min(y0, y);
+      y1 = Math.max(y1, y);
+      continue;
+    }
+    const level = LEVELS.get(rgb.join(','));
+    intensity[i] = level === undefined ? NaN : (level / 255) ** 2;
+  }
+  const inside = (x: number, y: number) => x > x0 && x < x1 && y > y0 && y < y1;
+  let windowSum = 0;
+  for (let y = 0; y < height; y++) for (let x = 0; x < width; x++) if (inside(x, y)) windowSum += intensity[y * width + x];
+  return { box: { x0, y0, x1, y1 }, windowSum };
+}
+
 
 describe('phasewright run (command line, end to end)', () => {
   it('exits 0, prints the summary on stdout and progress on stderr', () => {
@@ -143,13 +209,12 @@ describe('phasewright run (command line, end to end)', () => {
     expect(srefs).toBe(filled);
   });
 
-  it('writes PNG previews of the design size', () => {
-    for (const name of ['farfield_a', 'farfield_b', 'farfield_extra', 'phase_a', 'phase_b', 'atom_index', 'rotation']) {
-      const bytes = readFileSync(join(parallelOut, `${name}.png`));
-      expect(Array.from(bytes.subarray(0, 8))).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
-      // IHDR width and height (PNG specification, big-endian at bytes 16…23).
-      expect(bytes.readUInt32BE(16)).toBe(N);
-      expect(bytes.readUInt32BE(20)).toBe(N);
+  it('writes PNG previews of the design size, far fields split into the output states', () => {
+    for (const name of ['farfield_a', 'farfield_b', 'farfield_extra', 'phase_a', 'phase_b', 'atom_index', 'rotation']) expectPng(join(parallelOut, `${name}.png`), N);
+    for (const input of ['a', 'b', 'extra']) {
+      for (const component of ['out-a', 'out-b']) expectPng(join(parallelOut, `farfield_${input}_${component}.png`), N);
+      // Linear x/y basis: the output states are x and y themselves, so no separate x and y pictures.
+      for (const component of ['x', 'y']) expect(existsSync(join(parallelOut, `farfield_${input}_${component}.png`))).toBe(false);
     }
   });
 
@@ -189,5 +254,39 @@ describe('phasewright run (command line, end to end)', () => {
     const unknown = cli(['paint']);
     expect(unknown.status).toBe(2);
     expect(unknown.stderr).toMatch(/unknown command 'paint'/);
+  });
+});
+
+describe('far-field previews split into output polarization components (circular basis)', () => {
+  it('writes the total, the two output states and x, y for every input', () => {
+    expect(circularRun.status, circularRun.stderr).toBe(0);
+    for (const input of ['a', 'b', 'extra']) {
+      expectPng(join(circularOut, `farfield_${input}.png`), N);
+      for (const component of ['out-a', 'out-b', 'x', 'y']) expectPng(join(circularOut, `farfield_${input}_${component}.png`), N);
+    }
+  });
+
+  it("under input A puts the light of A's window in λA*, on one scale for all components", async () => {
+    // Mueller et al., Phys. Rev. Lett. 118, 113901 (2017): J = [e^{iφA} λA*, e^{iφB} λB*]·[λA, λB]⁻¹ sends
+    // input A to λA* carrying φA; light a real atom fails to convert keeps A's own state (λB* for a circular
+    // pair) and no phase, so it lands in the zero order, not in A's window.
+    const part = (component: string) => readFarField(join(circularOut, `farfield_a_${component}.png`), WINDOW_A_OUTLINE);
+    const [outA, outB, x, y] = await Promise.all(['out-a', 'out-b', 'x', 'y'].map(part));
+    // The outline sits where the grating equation puts the window: centre at sin 16° / (λ/(N·P)) px right of
+    // the zero order (N/2, N/2), direction-cosine step λ/(N·P) (PRODUCT.md, far field & sampling).
+    const centreX = N / 2 + Math.sin((16 * Math.PI) / 180) / (LAMBDA_NM / (N * PERIOD_NM));
+    expect(Math.abs((outA.box.x0 + outA.box.x1) / 2 - centreX)).toBeLessThan(2);
+    expect(Math.abs((outA.box.y0 + outA.box.y1) / 2 - N / 2)).toBeLessThan(2);
+    expect(outB.box).toEqual(outA.box);
+    expect(Number.isNaN(outA.windowSum + outB.windowSum + x.windowSum + y.windowSum)).toBe(false);
+    expect(outA.windowSum / (outA.windowSum + outB.windowSum)).toBeGreaterThan(0.9);
+    // One scale: power is the same in any orthonormal output basis, |Fx|² + |Fy|² = |FA|² + |FB|²; and
+    // circular light (λA*) splits evenly between x and y. Tolerances: 8-bit levels and saturated pixels.
+    expect((x.windowSum + y.windowSum) / (outA.windowSum + outB.windowSum)).toBeGreaterThan(0.9);
+    expect((x.windowSum + y.windowSum) / (outA.windowSum + outB.windowSum)).toBeLessThan(1.1);
+    expect(x.windowSum / (x.windowSum + y.windowSum)).toBeCloseTo(0.5, 1);
+    // The full-precision metric agrees: the other output state is at least 10 dB down in A's window.
+    const metrics = JSON.parse(readFileSync(join(circularOut, 'metrics.json'), 'utf8'));
+    expect(metrics.metrics.channels.a.crosstalk.value).toBeLessThan(-10);
   });
 });

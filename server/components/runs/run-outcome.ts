@@ -63,6 +63,8 @@ export function convergenceOf(run: DesignRun): { a: number[]; b: number[] } {
   return { a: curve('a'), b: curve('b') };
 }
 
+const inputWords = (input: string) => (input === 'extra' ? 'the extra input' : `input ${input.toUpperCase()}`);
+
 const ARTIFACTS: [RegExp, string, (m: RegExpExecArray) => string][] = [
   [/^phase_([ab])\.npy$/, 'application/x-npy', (m) => `Channel ${m[1].toUpperCase()} phase φ, rad, float64 N×N (numpy)`],
   [/^delta_([xy])\.npy$/, 'application/x-npy', (m) => `Propagation phase δ${m[1]} per cell, rad, float64 N×N (numpy)`],
@@ -73,7 +75,14 @@ const ARTIFACTS: [RegExp, string, (m: RegExpExecArray) => string][] = [
   [/^design\.json$/, 'application/json', () => 'The design of this run, defaults filled in'],
   [/^metrics\.json$/, 'application/json', () => 'Metrics, convergence and profiles of this run'],
   [/^layout\.gds$/, 'application/octet-stream', () => 'GDSII layout of the device'],
-  [/^farfield_(a|b|extra)\.png$/, 'image/png', (m) => `Far field under ${m[1] === 'extra' ? 'the extra input' : `input ${m[1].toUpperCase()}`}`],
+  [/^farfield_(a|b|extra)\.png$/, 'image/png', (m) => `Far field under ${inputWords(m[1])}: all the light, both output polarizations together; target windows outlined`],
+  [
+    /^farfield_(a|b|extra)_out-(a|b)\.png$/,
+    'image/png',
+    (m) =>
+      `Far field under ${inputWords(m[1])}: only the light in channel ${m[2].toUpperCase()}'s output polarization (λ${m[2].toUpperCase()}*, where the device sends input ${m[2].toUpperCase()}), on the same brightness scale as the total`,
+  ],
+  [/^farfield_(a|b|extra)_([xy])\.png$/, 'image/png', (m) => `Far field under ${inputWords(m[1])}: only the ${m[2]}-polarized light, on the same brightness scale as the total`],
   [/^phase_([ab])\.png$/, 'image/png', (m) => `Channel ${m[1].toUpperCase()} phase map`],
   [/^atom_index\.png$/, 'image/png', () => 'Atom index map'],
   [/^rotation\.png$/, 'image/png', () => 'Rotation map (2θ in cyclic colours)'],

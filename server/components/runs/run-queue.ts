@@ -41,6 +41,8 @@ export interface EmbeddedRunQueueOptions {
   logger: Logger;
   /** Worker threads; default os.availableParallelism(), at least 1. */
   threads?: number;
+  /** Helper threads inside each run (run-worker.ts); default `parallelWithinRuns(threads)`. */
+  parallelWithinRuns?: boolean;
   /** Least time between two progress writes of one run, ms (default 500: at most 2 writes/s). */
   progressIntervalMs?: number;
 }
@@ -55,6 +57,26 @@ function workerExecArgv(): string[] {
   return hasTsx ? argv : [...argv, '--import', 'tsx'];
 }
 
+/**
+ * Whether runs may use helper threads (two for the channels' retrieval, one for the previews while writing)
+ * by default: only when every pool thread can have a second core, 2·threads ≤ cores — on two cores only
+ * with a single pool thread, so concurrent runs never oversubscribe the machine.
+ */
+export function parallelWithinRuns(threads: number, cores = availableParallelism()): boolean {
+  return 2 * threads <= cores;
+}
+
+/** The pool that executes run tasks (also used by bench/server-run.ts). */
+export function createRunPool(threads: number): Piscina<RunTask, RunTaskResult> {
+  return new Piscina<RunTask, RunTaskResult>({
+    filename: WORKER_FILE.href,
+    maxThreads: threads,
+    minThreads: 0,
+    idleTimeout: 60_000,
+    execArgv: workerExecArgv(),
+  });
+}
+
 interface ActiveRun {
   controller: AbortController;
   /** Why the task was aborted, if it was. */
@@ -66,6 +88,7 @@ const INTERNAL_FAILURE = 'The run stopped on an internal error of the server (it
 export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQueue {
   const { logger } = options;
   const threads = Math.max(1, options.threads ?? availableParallelism());
+  const parallel = options.parallelWithinRuns ?? parallelWithinRuns(threads);
   const progressInterval = options.progressIntervalMs ?? 500;
   const updates = new EventEmitter();
   updates.setMaxListeners(0);
@@ -134,7 +157,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
     };
   }
 
-  async function loadTask(runId: number): Promise<Omit<RunTask, 'port' | 'workDir'> | null> {
+  async function loadTask(runId: number): Promise<Omit<RunTask, 'port' | 'workDir' | 'parallel'> | null> {
     const run = await RunModel.findByPk(runId, { include: [{ association: 'revision', attributes: ['design', 'projectId'] }] });
     if (!run || run.status !== 'queued' || !run.revision) return null;
     const design = JSON.parse(run.revision.design) as Design;
@@ -165,7 +188,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
     const { port1, port2 } = new MessageChannel();
     const track = tracker(runId, controller);
     port1.on('message', (message: RunProgressMessage) => track.onMessage(message));
-    const running = pool.run({ ...loaded, workDir, port: port2 }, { transferList: [port2], signal: controller.signal });
+    const running = pool.run({ ...loaded, workDir, port: port2, parallel }, { transferList: [port2], signal: controller.signal });
     const handled: Promise<void> = running
       .then(
         async (result) => {
@@ -202,13 +225,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
   const queue: RunQueue = {
     async start() {
       if (accepting) return;
-      pool = new Piscina<RunTask, RunTaskResult>({
-        filename: WORKER_FILE.href,
-        maxThreads: threads,
-        minThreads: 0,
-        idleTimeout: 60_000,
-        execArgv: workerExecArgv(),
-      });
+      pool = createRunPool(threads);
       accepting = true;
       const { requeued, failed } = await queue.recover();
       if (requeued.length || failed.length) logger.info({ requeued, failed }, 'runs interrupted by the last stop');

@@ -18,6 +18,8 @@ export interface RunTask {
   uploads: RunTaskUpload[];
   /** An empty folder of this run; the worker writes the output files into `workDir/out`. */
   workDir: string;
+  /** Use helper threads inside the run (two channels' retrieval in parallel, previews painted alongside). */
+  parallel: boolean;
   /** Where the worker posts RunProgressMessage. */
   port: MessagePort;
 }

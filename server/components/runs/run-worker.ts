@@ -2,9 +2,11 @@
  * The run worker (a piscina worker thread): resolves a revision's design (uploads passed in by the queue,
  * demo pictures and the demo atom library from the repository), runs the engine pipeline `runDesign`, and
  * writes the output files with the command line's writer (server/cli/outputs.ts) into the run's folder,
- * from where the queue stores them in the database. The two hologram channels are retrieved one after the
- * other on this thread: the pool's other threads serve other runs. Progress goes to the main thread through the task's
- * MessagePort, at most every 150 ms and on every stage change. Never touches the database.
+ * from where the queue stores them in the database. With `task.parallel` the two hologram channels are
+ * retrieved on two worker threads of their own and the previews painted on another while the arrays are
+ * written (the command line's run-threads.ts); otherwise everything runs on this thread, when the pool's
+ * other threads already keep the cores busy (run-queue.ts decides). Progress goes to the main thread through
+ * the task's MessagePort, at most every 150 ms and on every stage change. Never touches the database.
  */
 import { mkdir, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
@@ -12,6 +14,7 @@ import { runDesign, type DesignResources } from '../../../shared/optics/pipeline
 import type { AssetRef, Design } from '../../../shared/schemas/design';
 import { loadDesignResources } from '../../cli/design-files';
 import { writeRunOutputs } from '../../cli/outputs';
+import { runThreads } from '../../cli/run-threads';
 import { EXTENSIONS, type UploadMime } from '../uploads/upload-inspect';
 import { convergenceOf, designErrorMessage, headlineOf, metricSections, plotsOf } from './run-outcome';
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
@@ -58,6 +61,7 @@ export default async function runTask(task: RunTask): Promise<RunTaskResult> {
   const post = (message: RunProgressMessage) => port.postMessage(message);
   post({ type: 'started' });
   let replacements: [string, string][] = [];
+  const threads = runThreads(task.parallel);
   try {
     const inputs = join(task.workDir, 'inputs');
     const outDir = join(task.workDir, 'out');
@@ -71,6 +75,7 @@ export default async function runTask(task: RunTask): Promise<RunTaskResult> {
       library: loaded.resources.library,
       images: (ref) => loaded.resources.images(prepared.resolve(ref)),
       phaseMaps: (ref) => loaded.resources.phaseMaps(prepared.resolve(ref)),
+      retrieveChannels: threads.retrieveChannels,
     };
 
     let lastStage = '';
@@ -84,6 +89,7 @@ export default async function runTask(task: RunTask): Promise<RunTaskResult> {
     };
     const run = await runDesign(task.design, resources, {
       onProgress: (fraction, stage, detail) => {
+        threads.onStage(stage);
         latest = { fraction, stage };
         if (detail && detail.fourierError !== undefined && detail.channel !== undefined) {
           (detail.channel === 0 ? fresh.a : fresh.b).push(detail.fourierError);
@@ -94,7 +100,7 @@ export default async function runTask(task: RunTask): Promise<RunTaskResult> {
     });
     latest = { fraction: 1, stage: 'writing files' };
     flush();
-    const files = await writeRunOutputs(run, outDir);
+    const files = await writeRunOutputs(run, outDir, threads.previews());
     const metrics = metricSections(run);
     return {
       ok: true,
@@ -111,6 +117,7 @@ export default async function runTask(task: RunTask): Promise<RunTaskResult> {
     const err = error instanceof Error ? error : new Error(String(error));
     return { ok: false, designProblem: false, message: err.message, detail: err.stack };
   } finally {
+    await threads.close();
     port.close();
   }
 }

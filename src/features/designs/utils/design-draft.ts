@@ -1,5 +1,5 @@
 import type { z } from 'zod';
-import type { AssetRef, DesignInput, phaseTermSchema } from '@shared/schemas/design';
+import { PHASE_TERM_LABELS, type AssetRef, type DesignInput, type phaseTermSchema } from '@shared/schemas/design';
 
 type TermInput = z.input<typeof phaseTermSchema>;
 
@@ -21,13 +21,15 @@ export type DesignDraft = Omit<DesignInput, 'channels'> & { channels: Record<Cha
 
 export type FieldPath = readonly (string | number)[];
 
+const sentence = (kind: TermKind) => PHASE_TERM_LABELS[kind].charAt(0).toUpperCase() + PHASE_TERM_LABELS[kind].slice(1);
+
 export const TERM_KINDS: readonly { kind: TermKind; label: string; description: string }[] = [
-  { kind: 'hologram', label: 'Image hologram', description: 'A picture in a far-field window, found by Gerchberg–Saxton' },
-  { kind: 'axicon', label: 'Axicon', description: 'Conical phase that makes a Bessel beam' },
-  { kind: 'vortex', label: 'Vortex', description: 'Helical phase of topological charge ℓ' },
-  { kind: 'lens', label: 'Lens', description: 'Hyperbolic focusing phase' },
-  { kind: 'tilt', label: 'Tilt', description: 'Linear phase that deflects the beam' },
-  { kind: 'custom', label: 'Custom phase map', description: 'An uploaded phase map (.npy or grayscale PNG)' },
+  { kind: 'hologram', label: sentence('hologram'), description: 'A picture in a far-field window, found by Gerchberg–Saxton' },
+  { kind: 'axicon', label: sentence('axicon'), description: 'Conical phase that makes a Bessel beam' },
+  { kind: 'vortex', label: sentence('vortex'), description: 'Helical phase of topological charge ℓ' },
+  { kind: 'lens', label: sentence('lens'), description: 'Hyperbolic focusing phase' },
+  { kind: 'tilt', label: sentence('tilt'), description: 'Linear phase that deflects the beam' },
+  { kind: 'custom', label: sentence('custom'), description: 'An uploaded phase map (.npy or grayscale PNG)' },
 ];
 
 export function termKindLabel(kind: TermKind): string {

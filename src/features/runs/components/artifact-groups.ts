@@ -105,14 +105,17 @@ export function groupArtifacts(artifacts: RunArtifact[]): ArtifactGroups {
   return groups;
 }
 
-/** A readable name for a far-field component taken from a file name part such as "analyser_a", "x" or "total". */
+/**
+ * A readable name for a far-field component taken from a file name part: "" or "total", "out-a" / "out-b"
+ * (or any part ending in a or b: the output state of that channel, λA* or λB*), "x" or "y".
+ */
 export function componentName(component: string, channelNames: Record<ChannelKey, string>): string {
   if (component === '' || component === 'total') return 'Total (both output components)';
-  if (component === 'x' || component === 'y') return `${component} component`;
+  if (component === 'x' || component === 'y') return `${component}-polarized part`;
   const state = /(^|[_-])(a|b)$/.exec(component);
   if (state) {
     const c = state[2] as ChannelKey;
-    return `Output state of ${channelNames[c]}`;
+    return `Part in the output state of ${channelNames[c]} (λ${c.toUpperCase()}*)`;
   }
   return component.replace(/[_-]+/g, ' ');
 }

@@ -13,7 +13,7 @@ interface FarFieldPreviewsProps {
 
 const INPUT_ORDER: InputKey[] = ['a', 'b', 'extra'];
 
-/** Far fields under input A, input B and the extra input, one tab each, every output component large. */
+/** Far fields under input A, input B and the extra input, one tab each: the total on top, its output components below, every one large. */
 export function FarFieldPreviews({ projectId, runId, groups, inputs, channelNames }: FarFieldPreviewsProps) {
   const available = INPUT_ORDER.filter((input) => groups.farFields[input].length > 0);
   const [selected, setSelected] = useState<InputKey>(available[0] ?? 'a');
@@ -39,7 +39,7 @@ export function FarFieldPreviews({ projectId, runId, groups, inputs, channelName
     <Card
       title="Far-field previews"
       description={`Simulated far field of the realized device — the chosen atoms with their real transmissions and phases — for each input${
-        split ? ', split into its output polarization components' : ''
+        split ? ', split into its output polarization components; all pictures of one input share the brightness scale of its total, so a dark part carries little light' : ''
       }. Target windows are outlined; a bright zero order is clipped rather than darkening the rest.`}
     >
       {available.length > 0 ? (
@@ -78,14 +78,15 @@ export function FarFieldPreviews({ projectId, runId, groups, inputs, channelName
               className={`grid gap-6 ${groups.farFields[input].length > 1 ? 'xl:grid-cols-2' : 'max-w-3xl'}`}
             >
               {current === input
-                ? groups.farFields[input].map(({ artifact, component }) => (
-                    <ArtifactFigure
-                      key={artifact.name}
-                      projectId={projectId}
-                      runId={runId}
-                      artifact={artifact}
-                      title={`${inputs[input].title}: ${componentName(component, channelNames)}`}
-                    />
+                ? groups.farFields[input].map(({ artifact, component }, index) => (
+                    <div key={artifact.name} className={index === 0 && groups.farFields[input].length > 1 ? 'xl:col-span-2 xl:mx-auto xl:w-full xl:max-w-3xl' : 'min-w-0'}>
+                      <ArtifactFigure
+                        projectId={projectId}
+                        runId={runId}
+                        artifact={artifact}
+                        title={`${inputs[input].title}: ${componentName(component, channelNames)}`}
+                      />
+                    </div>
                   ))
                 : null}
             </div>

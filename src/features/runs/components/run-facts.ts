@@ -1,4 +1,4 @@
-import type { Design, PolarizationState } from '@shared/schemas/design';
+import { PHASE_TERM_LABELS, type Design, type PolarizationState } from '@shared/schemas/design';
 import type { RunDetail, RunMetric } from '@shared/schemas/runs';
 import type { ChannelKey, InputKey } from '@/features/runs/components/artifact-groups';
 
@@ -12,15 +12,6 @@ export interface ChannelFacts {
   charge: number | null;
   metrics: Record<string, RunMetric> | null;
 }
-
-const TERM_WORDS: Record<string, string> = {
-  hologram: 'image hologram',
-  axicon: 'axicon',
-  vortex: 'vortex',
-  lens: 'lens',
-  tilt: 'tilt',
-  custom: 'custom phase map',
-};
 
 function normalize(key: string) {
   return key.toLowerCase().replace(/[\s_-]+/g, ' ').trim();
@@ -54,7 +45,7 @@ export function channelFacts(run: RunDetail, design: Design | null, channel: Cha
   return {
     key: channel,
     name: recipe?.label ? `Channel ${channel.toUpperCase()} — ${recipe.label}` : `Channel ${channel.toUpperCase()}`,
-    recipe: kinds.length ? kinds.map((k) => TERM_WORDS[k] ?? k).join(' + ') : null,
+    recipe: kinds.length ? kinds.map((k) => PHASE_TERM_LABELS[k]).join(' + ') : null,
     beam,
     lens,
     charge: typeof chargeMetric === 'number' ? chargeMetric : (chargeFromDesign ?? null),
