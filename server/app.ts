@@ -6,8 +6,10 @@ import express from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
 import { adminRoutes } from './components/admin/admin.routes';
+import { atomLibraryRoutes } from './components/atom-libraries/atom-library.routes';
 import { authRoutes } from './components/auth/auth.routes';
 import { createPassport } from './components/auth/passport';
+import { fabRoutes } from './components/fab/fab.routes';
 import { projectRoutes } from './components/projects/project.routes';
 import { revisionRoutes } from './components/revisions/revision.routes';
 import { runRoutes } from './components/runs/run.routes';
@@ -79,7 +81,9 @@ export function createApp(ctx: AppContext) {
   api.use('/auth', authRoutes(ctx, passport as never, generateToken));
   api.use('/projects/:projectId/revisions', revisionRoutes());
   api.use('/projects/:projectId/uploads', uploadRoutes());
+  api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes());
   api.use('/projects/:projectId', runRoutes(ctx));
+  api.use('/projects/:projectId', fabRoutes());
   api.use('/projects', projectRoutes(ctx));
   api.use('/admin', adminRoutes(ctx));
   api.get('/health', (_req, res) => {

@@ -3,8 +3,9 @@
  * - numpy arrays (NEP 1 .npy, C order): phase_a/phase_b (channel phases, rad, float64), delta_x/delta_y/theta
  *   (ideal cell parameters, rad, float64), atom_index (int32), farfield_a/farfield_b (realized far-field
  *   intensity under inputs A and B, float32, fftshifted: zero order at (N/2, N/2));
- * - atoms.csv (the library used), design.json (the validated design, defaults filled in), metrics.json;
- * - layout.gds, streamed chunk by chunk (gdsii.ts), never whole in memory;
+ * - atoms.csv (the library used), design.json (the validated design, defaults filled in), metrics.json,
+ *   drc.json (design rules used, violation counts, the first violations);
+ * - layout.gds, streamed chunk by chunk (gdsii.ts), never whole in memory; structures only for the atoms used;
  * - PNG previews (previews.ts), painted on this thread or on a worker while the rest is written: among them
  *   the far field under each input as a total and split into output polarization components
  *   (farfield_<input>.png, _out-a.png, _out-b.png, _x.png, _y.png), each input's pictures on one scale.
@@ -15,6 +16,7 @@ import { atomLibraryToCsv } from '../../shared/optics/atoms';
 import { gdsiiChunks } from '../../shared/optics/gdsii';
 import { npyChunks, type NpyArray } from '../../shared/optics/npy';
 import { CHANNEL_IDS, type ChannelId, type DesignRun } from '../../shared/optics/pipeline';
+import { drcRecord } from './drc-record';
 import { helperPreviewData, previewDataOf, writePreviews, type PreviewData, type PreviewSelection, type WrittenFile } from './previews';
 
 export type { WrittenFile } from './previews';
@@ -134,10 +136,11 @@ export async function writeRunOutputs(run: DesignRun, dir: string, helper?: Prev
   await text('atoms.csv', atomLibraryToCsv(run.library));
   await text('design.json', JSON.stringify(run.design, null, 2) + '\n');
   await text('metrics.json', JSON.stringify(metricsRecord(run), null, 2) + '\n');
+  await text('drc.json', JSON.stringify(drcRecord(run), null, 2) + '\n');
   const layout = run.design.layout;
   const gdsBytes = await writeChunks(
     join(dir, 'layout.gds'),
-    gdsiiChunks({ n, period: run.grid.period, atomIndex: run.mapping.atomIndex, theta: run.mapping.theta, library: run.library, layer: layout.layer, datatype: layout.datatype }),
+    gdsiiChunks({ n, period: run.grid.period, atomIndex: run.mapping.atomIndex, theta: run.mapping.theta, library: run.library, layer: layout.layer, datatype: layout.datatype, usedAtomsOnly: true }),
   );
   files.push({ name: 'layout.gds', bytes: gdsBytes });
   const own = await writePreviews(dir, data, helped ? 'rest' : 'all');

@@ -2,12 +2,15 @@ import './mariadb-compat';
 import { Sequelize } from 'sequelize';
 import { SequelizeStorage, Umzug } from 'umzug';
 import type { AppConfig } from '../config';
+import { AtomLibraryModel } from '../components/atom-libraries/atom-library.model';
 import { AuthTokenModel } from '../components/auth/auth-token.model';
 import { SessionModel } from '../components/auth/session.model';
+import { ExportOverrideModel, FabExportModel, ProjectDesignRulesModel } from '../components/fab/fab.model';
 import { MembershipModel } from '../components/projects/membership.model';
 import { ProjectModel } from '../components/projects/project.model';
 import { RevisionModel } from '../components/revisions/revision.model';
 import { RunArtifactChunkModel, RunArtifactModel, RunEventModel, RunModel } from '../components/runs/run.model';
+import { ToleranceStudyModel } from '../components/tolerance/tolerance.model';
 import { UploadModel } from '../components/uploads/upload.model';
 import { UserModel } from '../components/users/user.model';
 import { migrations } from './migrations/index';
@@ -31,12 +34,17 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
     SessionModel,
     ProjectModel,
     MembershipModel,
+    AtomLibraryModel,
     RevisionModel,
     UploadModel,
     RunModel,
     RunEventModel,
     RunArtifactModel,
     RunArtifactChunkModel,
+    ToleranceStudyModel,
+    ProjectDesignRulesModel,
+    ExportOverrideModel,
+    FabExportModel,
   ]) {
     model.initModel(sequelize);
   }
@@ -46,8 +54,11 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
   MembershipModel.belongsTo(ProjectModel, { as: 'project', foreignKey: 'projectId' });
   RevisionModel.belongsTo(UserModel, { as: 'createdBy', foreignKey: 'createdById' });
   UploadModel.belongsTo(UserModel, { as: 'createdBy', foreignKey: 'createdById' });
+  AtomLibraryModel.belongsTo(UserModel, { as: 'owner', foreignKey: 'ownerId' });
   RunModel.belongsTo(RevisionModel, { as: 'revision', foreignKey: 'revisionId' });
   RunModel.belongsTo(UserModel, { as: 'startedBy', foreignKey: 'startedById' });
+  ProjectDesignRulesModel.belongsTo(UserModel, { as: 'updatedBy', foreignKey: 'updatedById' });
+  ExportOverrideModel.belongsTo(UserModel, { as: 'user', foreignKey: 'userId' });
   return sequelize;
 }
 

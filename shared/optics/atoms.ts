@@ -66,6 +66,8 @@ export interface LibraryIssue {
   message: string;
   /** 1-based line of the CSV text, when the library came from CSV. */
   line?: number;
+  /** CSV column (or metadata key) the problem is in, when the library came from CSV. */
+  column?: string;
 }
 
 /** Options of `validateAtomLibrary`. */
@@ -533,6 +535,10 @@ const META_KEYS = {
 } as const;
 
 const CSV_COLUMN_OF_FIELD: Record<string, string> = {
+  id: 'atom_id',
+  shape: 'shape',
+  geometry: 'width_nm/length_nm/height_nm',
+  lambda: 'design_wavelength_nm',
   width: 'width_nm',
   length: 'length_nm',
   height: 'height_nm',
@@ -613,7 +619,8 @@ function splitCsvLine(line: string): string[] {
 /**
  * Parses library CSV (the format of `atomLibraryToCsv`; metadata lines optional, `meta` fills or
  * overrides them). Returns the library and every issue: CSV problems name the line and column,
- * then `validateAtomLibrary` runs on the result. Without an `approximate` line or `meta.approximate`
+ * then `validateAtomLibrary` runs on the result; every issue carries the CSV `column` it is about,
+ * and messages name lines of the file (not atom rows). Without an `approximate` line or `meta.approximate`
  * the library counts as approximate (data of unknown provenance is not presented as exact).
  * Example: parseAtomLibraryCsv(atomLibraryToCsv(lib)).library.atoms.length → lib.atoms.length.
  */
@@ -656,14 +663,14 @@ export function parseAtomLibraryCsv(
   const source = meta.source ?? found[META_KEYS.source];
   if (source !== undefined) library.source = source;
   if (!header) {
-    issues.push({ severity: 'error', row: 0, field: 'header', message: 'no header row found' });
+    issues.push({ severity: 'error', row: 0, field: 'header', column: 'header', message: 'no header row found' });
     return { library, issues };
   }
   const columnIndex = new Map<string, number>();
   header.forEach((name, i) => columnIndex.set(name, i));
   const missing = ATOM_CSV_COLUMNS.filter((c) => c !== 'shape' && !columnIndex.has(c));
   if (missing.length > 0) {
-    issues.push({ severity: 'error', row: 0, field: 'header', message: `missing columns: ${missing.join(', ')}` });
+    issues.push({ severity: 'error', row: 0, field: 'header', column: missing.join(', '), message: `missing columns: ${missing.join(', ')}` });
     return { library, issues };
   }
   rows.forEach(({ line, cells }, index) => {
@@ -679,6 +686,7 @@ export function parseAtomLibraryCsv(
           atomId: id,
           field: column,
           line,
+          column,
           message: `line ${line}, atom ${id || '?'}: ${column} is not a number (${rawValue ?? 'missing'})`,
         });
       }
@@ -704,7 +712,12 @@ export function parseAtomLibraryCsv(
     const column = CSV_COLUMN_OF_FIELD[issue.field] ?? issue.field;
     const duplicateOfCsv = issues.some((i) => i.row === issue.row && i.field === column);
     if (duplicateOfCsv) continue;
-    issues.push(line === undefined ? issue : { ...issue, line });
+    // The validator counts atoms (row 1 = first atom); a CSV reader counts lines of the file.
+    const message = issue.message.replace(/\brow (\d+)\b/g, (text, n: string) => {
+      const atLine = lineOfRow(Number(n));
+      return atLine === undefined ? text : `line ${atLine}`;
+    });
+    issues.push(line === undefined ? { ...issue, message, column } : { ...issue, message, line, column });
   }
   return { library, issues };
 }

@@ -6,7 +6,8 @@
  * Layout conventions:
  * - Units: database unit 1 nm (1e-9 m), user unit 1 µm, i.e. UNITS = [1e-3 user units per database
  *   unit, 1e-9 metres per database unit] (both configurable).
- * - One structure `ATOM_<k>` per non-empty atom k of the library: a BOUNDARY rectangle of the
+ * - One structure `ATOM_<k>` per non-empty atom k of the library (with `usedAtomsOnly`: per non-empty atom
+ *   some cell uses): a BOUNDARY rectangle of the
  *   atom's width (x) × length (y), centred on the structure origin to within half a database unit
  *   (sizes are rounded to whole database units, the width is kept exact).
  * - A top structure placing every cell with an SREF at its centre
@@ -42,6 +43,8 @@ export interface GdsiiLayout {
   userUnit?: number;
   /** Modification/access time written to BGNLIB/BGNSTR, default 2000-01-01T00:00:00Z (reproducible files). */
   timestamp?: Date;
+  /** Write structures only for the atoms some cell uses (default false: every non-empty atom of the library). */
+  usedAtomsOnly?: boolean;
   /** Target chunk size in bytes, default 1 MiB; chunks never exceed it by more than one record. */
   chunkSize?: number;
   onProgress?: ProgressCallback;
@@ -246,9 +249,11 @@ export function* gdsiiChunks(layout: GdsiiLayout): Generator<Uint8Array, void, u
   w.string(GDS_RECORD.LIBNAME, libraryName);
   w.reals(GDS_RECORD.UNITS, [dbu / userUnit, dbu]);
 
+  const used = new Uint8Array(atoms.length).fill(layout.usedAtomsOnly ? 0 : 1);
+  if (layout.usedAtomsOnly) for (let i = 0; i < count; i++) if (atomIndex[i] >= 0 && atomIndex[i] < atoms.length) used[atomIndex[i]] = 1;
   for (let k = 0; k < atoms.length; k++) {
     const atom = atoms[k];
-    if (atom.shape === 'empty') continue;
+    if (atom.shape === 'empty' || !used[k]) continue;
     const wDb = toDb(atom.width);
     const lDb = toDb(atom.length);
     if (wDb < 1 || lDb < 1) throw new RangeError(`GDSII layout: atom ${atom.id} is smaller than one database unit`);

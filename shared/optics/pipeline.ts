@@ -56,6 +56,7 @@ import type { PolarizationPair } from './polarization';
 import { AngularSpectrumPropagator, directionCosineStep, farField } from './propagation';
 import { blazedEfficiency, equivalentPhaseLevels, metric, type MetricGroup } from './run-metrics';
 import { createPreviewScratch, previewDevice, type FarFieldSet, type Field32 } from './device-preview';
+import { atomUsage, mappingReport, RETARDANCE_THRESHOLD, type MappingReport } from './mapping-report';
 import { normalizeJones } from './simulate';
 import { buildTargetPlane, type GrayImage, type PixelWindow, type TargetGeometry, type TargetPlane } from './target';
 import type { CancelSignal, CellGrid, ComplexField, JonesVector, ProgressCallback } from './types';
@@ -268,6 +269,8 @@ export interface DesignRun {
   drc: DrcReport;
   library: AtomLibrary;
   metrics: RunMetrics;
+  /** Error histogram and atom usage of the mapping (mapping-report.ts). */
+  mappingReport: MappingReport;
   /** Wall time per stage, milliseconds. */
   timings: Record<string, number>;
 }
@@ -314,13 +317,13 @@ function toField64(field: Field32): ComplexField {
  * Radius (far-field pixels) that holds the zero order: 1 for flat illumination (the peak and its four
  * neighbours); for a Gaussian beam 1.5 × its far-field 1/e² radius N·P/(π w).
  */
-function zeroOrderRadius(grid: CellGrid, illumination: Illumination): number {
+export function zeroOrderRadius(grid: CellGrid, illumination: Illumination): number {
   if (illumination.kind !== 'gaussian') return 1;
   return Math.max(1, (1.5 * grid.n * grid.period) / (Math.PI * illumination.waist));
 }
 
 /** Per-cell overlap of a channel's output field P with the ideal a·e^{iφ}: efficiency, offset-free phase RMS error. */
-function realizedChannelFidelity(output: Field32, phase: Float64Array, amplitude: Float64Array | null, power: number) {
+export function realizedChannelFidelity(output: Field32, phase: Float64Array, amplitude: Float64Array | null, power: number) {
   let sRe = 0;
   let sIm = 0;
   let wanted = 0;
@@ -452,6 +455,7 @@ export async function runDesign(design: Design, resources: DesignResources, opti
   const mapped = mapAtoms(decomposition, library, { allowAxisSwap: true, complexError: false, lookup, signal, onProgress: (f) => report('atom mapping', f) });
   const mapping = { atomIndex: mapped.atomIndex, theta: mapped.theta, cost: mapped.cost };
   const mappingMetrics = mappingStatistics(mapped.atomIndex, mapped.cost, mapped.swapped, library);
+  const mappingDetail = mappingReport(mapped.atomIndex, mapped.cost, library);
   lap('atom mapping');
 
   // 5. The realized device (the atoms' own t and α, device-preview.ts) under the three inputs.
@@ -666,6 +670,7 @@ export async function runDesign(design: Design, resources: DesignResources, opti
     drc,
     library,
     metrics: { run, channels: channelMetrics, extraInput, mapping: mappingMetrics, designRules },
+    mappingReport: mappingDetail,
     timings,
   };
 }
@@ -682,8 +687,7 @@ function intensity32(field: ComplexField): Float32Array {
  */
 export function mappingStatistics(atomIndex: Int32Array, cost: Float32Array, swapped: Uint8Array, library: AtomLibrary): MetricGroup {
   const k = library.atoms.length;
-  const used = new Float64Array(k);
-  for (let i = 0; i < atomIndex.length; i++) used[atomIndex[i]]++;
+  const used = atomUsage(atomIndex, k);
   const cells = atomIndex.length;
   let costSum = 0;
   let swappedCount = 0;
@@ -701,7 +705,7 @@ export function mappingStatistics(atomIndex: Int32Array, cost: Float32Array, swa
     distinct++;
     transmission += (u * (atom.tx * atom.tx + atom.ty * atom.ty)) / 2;
     const retardance = atom.alphaX - atom.alphaY;
-    if (Math.abs(wrapPhase(retardance - Math.PI)) > Math.PI / 4) farFromPi += u;
+    if (Math.abs(wrapPhase(retardance - Math.PI)) > RETARDANCE_THRESHOLD) farFromPi += u;
     // Circular input through R(θ)·diag(A, B)·R(θ)ᵀ keeps |(A + B)/2|² in its own state; normalized by (|A|² + |B|²)/2.
     const sumRe = atom.tx * Math.cos(atom.alphaX) + atom.ty * Math.cos(atom.alphaY);
     const sumIm = atom.tx * Math.sin(atom.alphaX) + atom.ty * Math.sin(atom.alphaY);

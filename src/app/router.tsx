@@ -20,6 +20,8 @@ export function createAppRouter(queryClient: QueryClient) {
         { path: paths.auth.forgotPassword.path, lazy: () => import('@/app/routes/auth/forgot-password').then(convert) },
         { path: paths.auth.resetPassword.path, lazy: () => import('@/app/routes/auth/reset-password').then(convert) },
         { path: paths.auth.welcome.path, lazy: () => import('@/app/routes/auth/welcome').then(convert) },
+        // The design report prints without the app's chrome, so it sits outside the app layout.
+        { path: paths.projects.runReport.path, lazy: () => import('@/app/routes/report/run-report').then(convert) },
         {
           lazy: () => import('@/app/routes/app/root').then(convert),
           children: [
@@ -35,6 +37,9 @@ export function createAppRouter(queryClient: QueryClient) {
                 { path: 'revisions/compare', lazy: () => import('@/app/routes/app/project/compare-revisions').then(convert) },
                 { path: 'runs', lazy: () => import('@/app/routes/app/project/runs').then(convert) },
                 { path: 'runs/:runId', lazy: () => import('@/app/routes/app/project/run').then(convert) },
+                { path: 'runs/:runId/layout', lazy: () => import('@/app/routes/app/project/run-layout').then(convert) },
+                { path: 'atom-libraries', lazy: () => import('@/app/routes/app/project/atom-libraries').then(convert) },
+                { path: 'atom-libraries/:libraryId', lazy: () => import('@/app/routes/app/project/atom-library').then(convert) },
               ],
             },
             { path: paths.settings.path, lazy: () => import('@/app/routes/app/settings').then(convert) },

@@ -59,6 +59,22 @@ export const paths = {
       path: '/projects/:projectId/runs/:runId',
       getHref: (projectId: number | string, runId: number | string) => `/projects/${projectId}/runs/${runId}`,
     },
+    runLayout: {
+      path: '/projects/:projectId/runs/:runId/layout',
+      getHref: (projectId: number | string, runId: number | string) => `/projects/${projectId}/runs/${runId}/layout`,
+    },
+    runReport: {
+      path: '/projects/:projectId/runs/:runId/report',
+      getHref: (projectId: number | string, runId: number | string) => `/projects/${projectId}/runs/${runId}/report`,
+    },
+    atomLibraries: {
+      path: '/projects/:projectId/atom-libraries',
+      getHref: (projectId: number | string) => `/projects/${projectId}/atom-libraries`,
+    },
+    atomLibrary: {
+      path: '/projects/:projectId/atom-libraries/:libraryId',
+      getHref: (projectId: number | string, libraryId: number | string) => `/projects/${projectId}/atom-libraries/${libraryId}`,
+    },
   },
   settings: {
     path: '/settings',

@@ -116,5 +116,6 @@ export const api = {
   /** Multipart upload: the browser sets the boundary header itself. */
   postForm: <T>(path: string, form: FormData, options: Omit<RequestOptions, 'body'> = {}) => send<T>('POST', path, { ...options, body: form }),
   patch: <T>(path: string, body?: unknown, options: RequestOptions = {}) => send<T>('PATCH', path, { ...options, body }),
+  put: <T>(path: string, body?: unknown, options: RequestOptions = {}) => send<T>('PUT', path, { ...options, body }),
   delete: <T = void>(path: string, options: RequestOptions = {}) => send<T>('DELETE', path, options),
 };

@@ -10,7 +10,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { storeArtifacts } from '../../server/components/runs/run-artifacts';
 import { RunModel } from '../../server/components/runs/run.model';
 import { encodeNpy } from '../../shared/optics/npy';
+import { eightAtomCsv, uploadAtomLibrary } from '../support/atom-libraries';
 import { deflectorDesign } from '../support/designs';
+import { storeSyntheticLayout } from '../support/fab-fixture';
 import { ApiClient, createTestApp, makeUser, signedInClient, type TestApp } from '../support/test-app';
 
 type Who = 'anonymous' | 'outsider' | 'viewer' | 'reviewer' | 'designer' | 'owner' | 'admin';
@@ -21,13 +23,16 @@ interface Fixture {
   targetUserId: number;
   revisionNumber: number;
   uploadId: number;
+  /** A project atom library the owner uploaded, used by no revision. */
+  libraryId: number;
   /** A run waiting in the queue (never handed to a worker), to cancel. */
   queuedRunId: number;
   /** A finished run with one artifact, to read. */
   finishedRunId: number;
 }
 /** Parts of the fixture a route needs beyond the project and its members (built only then: they cost time). */
-type Need = 'revision' | 'upload' | 'runs';
+/** 'layout': the finished run gets a synthetic layout with design-rule violations and an owner's override. */
+type Need = 'revision' | 'upload' | 'runs' | 'library' | 'layout';
 interface RouteCase {
   name: string;
   needs?: Need[];
@@ -101,6 +106,27 @@ const ROUTES: RouteCase[] = [
     send: (c, f) => c.get(`/api/projects/${f.projectId}/uploads/${f.uploadId}/content`),
     expected: read,
   },
+  { name: 'GET /projects/:id/atom-libraries', send: (c, f) => c.get(`/api/projects/${f.projectId}/atom-libraries`), expected: read },
+  { name: 'POST /projects/:id/atom-libraries', send: (c, f) => uploadAtomLibrary(c, f.projectId, eightAtomCsv()), expected: design(201) },
+  {
+    name: 'GET /projects/:id/atom-libraries/:libraryId',
+    needs: ['library'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/atom-libraries/${f.libraryId}`),
+    expected: read,
+  },
+  { name: 'GET /projects/:id/atom-libraries/demo', send: (c, f) => c.get(`/api/projects/${f.projectId}/atom-libraries/demo`), expected: read },
+  {
+    name: 'GET /projects/:id/atom-libraries/:libraryId/csv',
+    needs: ['library'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/atom-libraries/${f.libraryId}/csv`),
+    expected: read,
+  },
+  {
+    name: 'DELETE /projects/:id/atom-libraries/:libraryId (uploaded by the owner)',
+    needs: ['library'],
+    send: (c, f) => c.delete(`/api/projects/${f.projectId}/atom-libraries/${f.libraryId}`),
+    expected: { ...design(204), designer: 403 },
+  },
   {
     name: 'POST /projects/:id/revisions/:number/runs',
     needs: ['revision'],
@@ -127,6 +153,54 @@ const ROUTES: RouteCase[] = [
     send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/events`),
     expected: read,
   },
+  {
+    name: 'POST /projects/:id/runs/:runId/tolerance',
+    needs: ['runs'],
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/tolerance`, { widthBiasNm: [0], detuneNm: [] }),
+    expected: design(202),
+  },
+  {
+    name: 'GET /projects/:id/runs/:runId/tolerance',
+    needs: ['runs'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/tolerance`),
+    expected: read,
+  },
+  { name: 'GET /projects/:id/design-rules', send: (c, f) => c.get(`/api/projects/${f.projectId}/design-rules`), expected: read },
+  {
+    name: 'PUT /projects/:id/design-rules',
+    send: (c, f) => c.agent.put(`/api/projects/${f.projectId}/design-rules`).set('x-csrf-token', c.csrfToken).send({ minGapNm: 60, minFeatureNm: 100, maxAspectRatio: 10 }),
+    expected: manage(200),
+  },
+  {
+    name: 'GET /projects/:id/runs/:runId/layout',
+    needs: ['runs', 'layout'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/layout?x0=0&y0=0&size=16`),
+    expected: read,
+  },
+  {
+    name: 'GET /projects/:id/runs/:runId/design-check',
+    needs: ['runs', 'layout'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/design-check`),
+    expected: read,
+  },
+  {
+    name: 'GET /projects/:id/runs/:runId/report',
+    needs: ['runs', 'layout'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/report`),
+    expected: read,
+  },
+  {
+    name: 'POST /projects/:id/runs/:runId/export-override',
+    needs: ['runs', 'layout'],
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/export-override`, { reason: 'Matrix: accepted for a dose test' }),
+    expected: manage(201),
+  },
+  {
+    name: 'GET /projects/:id/runs/:runId/fab-package.zip',
+    needs: ['runs', 'layout'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/fab-package.zip`).buffer(true),
+    expected: read,
+  },
 ];
 
 let t: TestApp;
@@ -149,7 +223,7 @@ afterAll(async () => {
 });
 
 /** A fresh project per case, so one case's change never affects another. */
-async function freshProject(needs: Need[] = ['revision', 'upload', 'runs']): Promise<Fixture> {
+async function freshProject(needs: Need[] = ['revision', 'upload', 'runs', 'library']): Promise<Fixture> {
   const owner = clients.owner;
   const project = (await owner.post('/api/projects', { name: 'Matrix project' })).body.project;
   for (const role of ['viewer', 'reviewer', 'designer'] as const) {
@@ -157,8 +231,9 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs']): Pro
   }
   const target = await makeUser({ name: 'Matrix target' });
   await owner.post(`/api/projects/${project.id}/members`, { email: target.email, role: 'viewer' });
-  const fixture: Fixture = { projectId: project.id, targetUserId: target.id, revisionNumber: 0, uploadId: 0, queuedRunId: 0, finishedRunId: 0 };
+  const fixture: Fixture = { projectId: project.id, targetUserId: target.id, revisionNumber: 0, uploadId: 0, libraryId: 0, queuedRunId: 0, finishedRunId: 0 };
   if (needs.includes('upload')) fixture.uploadId = (await uploadPhaseMap(owner, project.id)).body.upload.id;
+  if (needs.includes('library')) fixture.libraryId = (await uploadAtomLibrary(owner, project.id, eightAtomCsv())).body.atomLibrary.id;
   if (!needs.includes('revision') && !needs.includes('runs')) return fixture;
   const revision = (await owner.post(`/api/projects/${project.id}/revisions`, { design: deflectorDesign() })).body.revision;
   fixture.revisionNumber = revision.number;
@@ -171,6 +246,7 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs']): Pro
   await writeFile(join(dir, 'design.json'), JSON.stringify(revision.design));
   await storeArtifacts(finished.id, dir, [{ name: 'design.json', bytes: 0 }]);
   await rm(dir, { recursive: true });
+  if (needs.includes('layout')) await storeSyntheticLayout(finished.id, deflectorDesign());
   return fixture;
 }
 
@@ -198,7 +274,9 @@ describe('authorization matrix', () => {
       await uploadPhaseMap(viewer, fixture.projectId),
       await viewer.post(`/api/projects/${fixture.projectId}/revisions/${fixture.revisionNumber}/runs`),
       await viewer.post(`/api/projects/${fixture.projectId}/runs/${fixture.queuedRunId}/cancel`),
+      await uploadAtomLibrary(viewer, fixture.projectId, eightAtomCsv()),
+      await viewer.delete(`/api/projects/${fixture.projectId}/atom-libraries/${fixture.libraryId}`),
     ];
-    expect(writes.map((r) => r.status)).toEqual([403, 403, 403, 403, 403, 403, 403, 403, 403]);
+    expect(writes.map((r) => r.status)).toEqual([403, 403, 403, 403, 403, 403, 403, 403, 403, 403, 403]);
   });
 });

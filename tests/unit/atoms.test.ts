@@ -255,4 +255,22 @@ print(json.dumps({'names': list(a.dtype.names), 'n': int(a.shape[0]), 'w': a['wi
     expect(issues.filter((i) => i.row === 2 && i.field === 'width')).toEqual([]);
     expect(parseAtomLibraryCsv('a,b\n1,2').issues[0].message).toMatch(/missing columns/);
   });
+
+  it('gives every issue its CSV column and names lines of the file, not atom rows', () => {
+    const lib = eightLevelLibrary();
+    lib.atoms[4].tx = 1.3;
+    lib.atoms.push({ ...lib.atoms[1] });
+    const text = atomLibraryToCsv(lib);
+    const lines = text.split('\n');
+    const lineOf = (prefix: string, from = 0) => lines.findIndex((l, i) => i >= from && l.startsWith(prefix)) + 1;
+    const twinLine = lineOf('a1,', lineOf('a1,'));
+    const { issues } = parseAtomLibraryCsv(text);
+    const amplitude = issues.find((i) => i.field === 'tx');
+    expect(amplitude).toMatchObject({ column: 't_x', line: lineOf('a4,'), row: 5 });
+    const repeat = issues.find((i) => i.field === 'id');
+    expect(repeat).toMatchObject({ column: 'atom_id', line: twinLine, row: 9 });
+    expect(repeat?.message).toBe(`atom a1 (line ${twinLine}): id repeats line ${lineOf('a1,')}`);
+    expect(issues.find((i) => i.field === 'geometry')?.column).toBe('width_nm/length_nm/height_nm');
+    expect(parseAtomLibraryCsv('atom_id,width_nm\n').issues[0].column).toContain('t_x');
+  });
 });

@@ -10,6 +10,8 @@ export class RevisionModel extends Model<InferAttributes<RevisionModel>, InferCr
   declare designName: string;
   declare design: string;
   declare createdById: number | null;
+  /** The stored atom library the design uses (null: the demo library). */
+  declare atomLibraryId: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare createdBy?: NonAttribute<UserModel | null>;
@@ -24,6 +26,7 @@ export class RevisionModel extends Model<InferAttributes<RevisionModel>, InferCr
         designName: { type: DataTypes.STRING(120), allowNull: false },
         design: { type: DataTypes.TEXT('long'), allowNull: false },
         createdById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+        atomLibraryId: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

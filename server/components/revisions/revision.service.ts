@@ -1,8 +1,10 @@
 import { literal, UniqueConstraintError } from 'sequelize';
 import { diffDesigns } from '../../../shared/design-diff';
+import { libraryMismatches } from '../../../shared/schemas/atom-libraries';
 import type { Design } from '../../../shared/schemas/design';
 import type { Revision, RevisionComparison, RevisionSummary } from '../../../shared/schemas/revisions';
 import { AppError } from '../../lib/app-error';
+import { usableLibrary } from '../atom-libraries/atom-library.service';
 import { UploadModel } from '../uploads/upload.model';
 import { UserModel } from '../users/user.model';
 import { assetUses } from './design-assets';
@@ -54,7 +56,8 @@ export async function getRevision(projectId: number, number: number): Promise<Re
 
 /**
  * Checks what a design refers to on this server: uploads must belong to the project and be of a fitting
- * kind; files on disk are for the command line only; stored atom libraries do not exist on this server.
+ * kind; files on disk are for the command line only; a stored atom library must be usable in the project
+ * and made for the design's wavelength and period (within LIBRARY_MATCH_TOLERANCE).
  */
 async function checkReferences(projectId: number, design: Design) {
   const details: Record<string, string> = {};
@@ -69,8 +72,19 @@ async function checkReferences(projectId: number, design: Design) {
     }
   }
   const library = design.atomLibrary;
-  if (library.source === 'file') details['design.atomLibrary'] = 'library files on disk are for the command line; use { "source": "demo" }';
-  if (library.source === 'library') details['design.atomLibrary.id'] = `this server holds no atom library ${library.id}; use { "source": "demo" }`;
+  if (library.source === 'file') {
+    details['design.atomLibrary'] = 'library files on disk are for the command line; upload the CSV on the Atom libraries page and use { "source": "library", "id": … }';
+  }
+  if (library.source === 'library') {
+    const found = await usableLibrary(projectId, library.id);
+    if ('refusal' in found) details['design.atomLibrary.id'] = found.refusal;
+    else {
+      const mismatches = libraryMismatches(design.setup, found.library);
+      if (mismatches.length) {
+        details['design.atomLibrary.id'] = `atom library ${library.id} ("${found.library.name}") does not fit this design: ${mismatches.join('; ')}. Change the design or pick a library made for it`;
+      }
+    }
+  }
   const entries = Object.entries(details);
   if (entries.length) {
     throw new AppError(400, `Invalid body — ${entries.map(([field, message]) => `${field}: ${message}`).join('; ')}`, details);
@@ -90,6 +104,7 @@ export async function createRevision(projectId: number, userId: number, input: {
         designName: input.design.name,
         design: JSON.stringify(input.design),
         createdById: userId,
+        atomLibraryId: input.design.atomLibrary.source === 'library' ? input.design.atomLibrary.id : null,
       });
       return getRevision(projectId, created.number);
     } catch (error) {

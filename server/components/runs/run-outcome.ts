@@ -54,6 +54,7 @@ export function plotsOf(run: DesignRun): Record<string, unknown> {
     designRules: { violations: record.designRuleViolations, truncated: record.designRuleViolationsTruncated },
     notes: record.notes,
     timingsMs: record.timingsMs,
+    mappingReport: run.mappingReport,
   };
 }
 
@@ -74,6 +75,7 @@ const ARTIFACTS: [RegExp, string, (m: RegExpExecArray) => string][] = [
   [/^atoms\.csv$/, 'text/csv; charset=utf-8', () => 'Atom library used by this run'],
   [/^design\.json$/, 'application/json', () => 'The design of this run, defaults filled in'],
   [/^metrics\.json$/, 'application/json', () => 'Metrics, convergence and profiles of this run'],
+  [/^drc\.json$/, 'application/json', () => 'Design-rule check: rules used, violation counts, first violations'],
   [/^layout\.gds$/, 'application/octet-stream', () => 'GDSII layout of the device'],
   [/^farfield_(a|b|extra)\.png$/, 'image/png', (m) => `Far field under ${inputWords(m[1])}: all the light, both output polarizations together; target windows outlined`],
   [

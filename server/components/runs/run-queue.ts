@@ -15,8 +15,11 @@ import { Op } from 'sequelize';
 import { Piscina } from 'piscina';
 import type { Logger } from 'pino';
 import type { Design } from '../../../shared/schemas/design';
+import { rulesForRun } from '../fab/design-rules.service';
+import { libraryForRun } from '../atom-libraries/atom-library.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { UploadModel } from '../uploads/upload.model';
+import { createToleranceExecutor } from '../tolerance/tolerance-executor';
 import { deleteArtifacts, storeArtifacts } from './run-artifacts';
 import { addEvent, markCancelled, markFailed, markStarted, markSucceeded, recordProgress, recoverInterrupted } from './run-state';
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
@@ -35,6 +38,8 @@ export interface RunQueue {
   recover(): Promise<{ requeued: number[]; failed: number[] }>;
   /** Called whenever a run's row changed (progress, status); returns the unsubscribe function. */
   onUpdate(listener: (runId: number) => void): () => void;
+  /** Queues a tolerance study (row in status 'queued') on the same worker pool. */
+  enqueueTolerance(studyId: number): void;
 }
 
 export interface EmbeddedRunQueueOptions {
@@ -90,6 +95,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
   const threads = Math.max(1, options.threads ?? availableParallelism());
   const parallel = options.parallelWithinRuns ?? parallelWithinRuns(threads);
   const progressInterval = options.progressIntervalMs ?? 500;
+  const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval });
   const updates = new EventEmitter();
   updates.setMaxListeners(0);
   const active = new Map<number, ActiveRun>();
@@ -161,14 +167,19 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
     const run = await RunModel.findByPk(runId, { include: [{ association: 'revision', attributes: ['design', 'projectId'] }] });
     if (!run || run.status !== 'queued' || !run.revision) return null;
     const design = JSON.parse(run.revision.design) as Design;
+    // The project's design rules at run time (not the revision's): design.json and drc.json then record them.
+    design.designRules = await rulesForRun(run.projectId);
     const ids = uploadIdsOf(design);
     const uploads = ids.length
       ? await UploadModel.findAll({ where: { id: { [Op.in]: ids }, projectId: run.projectId }, attributes: ['id', 'name', 'mime', 'bytes'] })
       : [];
+    const libraryRef = design.atomLibrary;
+    const atomLibrary = libraryRef.source === 'library' ? await libraryForRun(libraryRef.id) : null;
     return {
       runId,
       design,
       uploads: uploads.map((u) => ({ id: u.id, name: u.name, mime: u.mime, bytes: new Uint8Array(u.bytes) })),
+      atomLibrary: atomLibrary && libraryRef.source === 'library' ? { id: libraryRef.id, library: atomLibrary } : null,
     };
   }
 
@@ -228,6 +239,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
       pool = createRunPool(threads);
       accepting = true;
       const { requeued, failed } = await queue.recover();
+      await tolerance.recover();
       if (requeued.length || failed.length) logger.info({ requeued, failed }, 'runs interrupted by the last stop');
     },
 
@@ -239,6 +251,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
       }
       await submitting;
       await Promise.allSettled([...settling]);
+      await tolerance.stop();
       const closing = pool;
       pool = null;
       if (closing) await closing.destroy();
@@ -264,6 +277,10 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
       for (const id of requeue) queue.enqueue(id);
       for (const id of failed) changed(id);
       return { requeued: requeue, failed };
+    },
+
+    enqueueTolerance(studyId) {
+      tolerance.enqueue(studyId);
     },
 
     onUpdate(listener) {

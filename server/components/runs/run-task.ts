@@ -1,5 +1,6 @@
 /** The messages between the run queue (main thread) and the run worker. */
 import type { MessagePort } from 'node:worker_threads';
+import type { AtomLibrary } from '../../../shared/optics/atoms';
 import type { Design } from '../../../shared/schemas/design';
 import type { RunHeadline } from '../../../shared/schemas/runs';
 import type { MetricSections } from './run-outcome';
@@ -16,6 +17,8 @@ export interface RunTask {
   design: Design;
   /** The uploads the design refers to, bytes included, so the worker needs no database. */
   uploads: RunTaskUpload[];
+  /** The stored atom library the design uses (null: the demo library, made by the worker), atoms included. */
+  atomLibrary?: { id: number; library: AtomLibrary } | null;
   /** An empty folder of this run; the worker writes the output files into `workDir/out`. */
   workDir: string;
   /** Use helper threads inside the run (two channels' retrieval in parallel, previews painted alongside). */

@@ -1,5 +1,5 @@
 /**
- * The run worker (a piscina worker thread): resolves a revision's design (uploads passed in by the queue,
+ * The run worker (a piscina worker thread): resolves a revision's design (uploads and a stored atom library passed in by the queue,
  * demo pictures and the demo atom library from the repository), runs the engine pipeline `runDesign`, and
  * writes the output files with the command line's writer (server/cli/outputs.ts) into the run's folder,
  * from where the queue stores them in the database. With `task.parallel` the two hologram channels are
@@ -10,6 +10,7 @@
  */
 import { mkdir, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
+import { atomLibraryToCsv } from '../../../shared/optics/atoms';
 import { runDesign, type DesignResources } from '../../../shared/optics/pipeline';
 import type { AssetRef, Design } from '../../../shared/schemas/design';
 import { loadDesignResources } from '../../cli/design-files';
@@ -24,10 +25,10 @@ const PROGRESS_INTERVAL_MS = 150;
 const refKey = (ref: AssetRef) => JSON.stringify(ref);
 
 /**
- * The design with every upload reference turned into a file reference (written into `folder`), so the
- * command line's resource loader reads it; plus the map back from the original references.
+ * The design with every upload reference, and a stored atom library, turned into a file reference (written
+ * into `folder`), so the command line's resource loader reads it; plus the map back from the original references.
  */
-async function designWithUploadFiles(task: RunTask, folder: string) {
+export async function designWithUploadFiles(task: Pick<RunTask, 'design' | 'uploads' | 'atomLibrary'>, folder: string) {
   const files = new Map<number, string>();
   const replacements: [string, string][] = [];
   for (const upload of task.uploads) {
@@ -52,6 +53,14 @@ async function designWithUploadFiles(task: RunTask, folder: string) {
       if (term.kind === 'custom') return { ...term, phaseMap: swap(term.phaseMap) };
       return term;
     });
+  }
+  if (design.atomLibrary.source === 'library') {
+    const stored = task.atomLibrary;
+    if (!stored || stored.id !== design.atomLibrary.id) throw new RangeError(`atom library ${design.atomLibrary.id} was not handed to the worker`);
+    const file = `atom-library-${stored.id}.csv`;
+    await writeFile(join(folder, file), atomLibraryToCsv(stored.library));
+    design.atomLibrary = { source: 'file', path: file };
+    replacements.push([join(folder, file), `atom library ${stored.id} ("${stored.library.name}")`]);
   }
   return { design, replacements, resolve: (ref: AssetRef) => toFile.get(refKey(ref)) ?? ref };
 }

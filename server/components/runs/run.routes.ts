@@ -5,12 +5,14 @@ import { contentDisposition } from '../../lib/content-disposition';
 import { parseId, parseInput } from '../../lib/validate';
 import { currentUser } from '../auth/auth.middleware';
 import { projectAccess, requireProject } from '../projects/project-access';
+import { toleranceRoutes } from '../tolerance/tolerance.routes';
 import { streamArtifact } from './run-artifacts';
 import { artifactForDownload, cancelRun, getRun, getRunSummary, listRuns, startRun } from './run.service';
 
 /** Runs of a project, under `/api/projects/:projectId`. */
 export function runRoutes(ctx: AppContext) {
   const router = Router({ mergeParams: true });
+  router.use(toleranceRoutes(ctx));
 
   router.post('/revisions/:number/runs', requireProject('design'), async (req, res) => {
     const number = parseId(req.params.number, 'revision number');

@@ -7,4 +7,5 @@ export const designKeys = {
   revision: (projectId: number, number: number) => [...designKeys.revisionDetails(projectId), number] as const,
   comparison: (projectId: number, a: number, b: number) => [...designKeys.revisions(projectId), 'compare', a, b] as const,
   uploads: (projectId: number) => [...designKeys.project(projectId), 'uploads'] as const,
+  atomLibraries: (projectId: number) => [...designKeys.project(projectId), 'atom-libraries'] as const,
 };

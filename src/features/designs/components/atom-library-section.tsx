@@ -1,8 +1,11 @@
 import { useDeferredValue, useMemo } from 'react';
 import { demoAtomLibrary } from '@shared/optics/demo-library';
+import { libraryMismatches, type AtomLibrarySummary } from '@shared/schemas/atom-libraries';
 import { Badge } from '@/components/ui/badge';
 import { Banner } from '@/components/ui/banner';
 import { Card } from '@/components/ui/card';
+import { SelectField } from '@/components/ui/field';
+import { useDesignAtomLibraries } from '@/features/designs/api/get-atom-libraries';
 import { useDesignEditor } from '@/features/designs/stores/design-editor-store';
 
 function describeLibrary(wavelengthNm: number, periodNm: number) {
@@ -22,49 +25,111 @@ function describeLibrary(wavelengthNm: number, periodNm: number) {
   }
 }
 
-export function AtomLibrarySection() {
-  const wavelengthNm = useDesignEditor((state) => state.draft?.setup.wavelengthNm ?? 0);
-  const periodNm = useDesignEditor((state) => state.draft?.setup.periodNm ?? 0);
+function DemoLibraryFacts({ wavelengthNm, periodNm }: { wavelengthNm: number; periodNm: number }) {
   const deferred = useDeferredValue({ wavelengthNm, periodNm });
   const library = useMemo(() => describeLibrary(deferred.wavelengthNm, deferred.periodNm), [deferred.wavelengthNm, deferred.periodNm]);
+  return (
+    <>
+      <p>
+        <strong>Demo library</strong>, generated for this design’s wavelength and period. Its transmissions come from a simple
+        waveguide model, not from full-wave simulation: treat the preview efficiencies as approximate, and use your lab’s own
+        library before fabrication.
+      </p>
+      {library === null ? (
+        <p className="text-ink-soft">Fix the wavelength and period above to see the library.</p>
+      ) : library.error ? (
+        <Banner>{library.error}</Banner>
+      ) : (
+        <dl className="grid gap-x-6 gap-y-2 sm:grid-cols-[auto_minmax(0,1fr)]">
+          <dt className="font-bold text-ink-soft">Name</dt>
+          <dd>{library.name}</dd>
+          <dt className="font-bold text-ink-soft">Pillars</dt>
+          <dd>
+            {library.pillars} rectangular pillars, {library.heightNm} nm tall, plus an empty cell
+          </dd>
+          <dt className="font-bold text-ink-soft">Materials</dt>
+          <dd>{library.material}</dd>
+          <dt className="font-bold text-ink-soft">Model</dt>
+          <dd className="text-ink-soft">{library.source}</dd>
+        </dl>
+      )}
+      {library && !library.error && library.pillars === 0 ? (
+        <Banner>At this period the demo library holds no pillars; use a larger period.</Banner>
+      ) : null}
+    </>
+  );
+}
+
+function StoredLibraryFacts({ library, wavelengthNm, periodNm }: { library: AtomLibrarySummary; wavelengthNm: number; periodNm: number }) {
+  const mismatches = libraryMismatches({ wavelengthNm, periodNm }, library);
+  return (
+    <>
+      <dl className="grid gap-x-6 gap-y-2 sm:grid-cols-[auto_minmax(0,1fr)]">
+        <dt className="font-bold text-ink-soft">Made for</dt>
+        <dd>
+          λ = {library.wavelengthNm} nm, P = {library.periodNm} nm, pillars {library.heightNm} nm tall
+        </dd>
+        <dt className="font-bold text-ink-soft">Atoms</dt>
+        <dd>{library.atomCount}</dd>
+        <dt className="font-bold text-ink-soft">Material</dt>
+        <dd>{library.material || '—'}</dd>
+      </dl>
+      {library.approximate ? (
+        <p className="text-ink-soft">This library is marked approximate: treat the preview efficiencies as approximate.</p>
+      ) : null}
+      {mismatches.length > 0 ? (
+        <Banner tone="warning" title="This library does not fit the design">
+          <p>{mismatches.join('; ')}. Saving is refused until the wavelength and period match the library’s (within 0.1 %).</p>
+        </Banner>
+      ) : null}
+    </>
+  );
+}
+
+export function AtomLibrarySection({ projectId }: { projectId: number }) {
+  const wavelengthNm = useDesignEditor((state) => state.draft?.setup.wavelengthNm ?? 0);
+  const periodNm = useDesignEditor((state) => state.draft?.setup.periodNm ?? 0);
+  const ref = useDesignEditor((state) => state.draft?.atomLibrary);
+  const setField = useDesignEditor((state) => state.setField);
+  const libraries = useDesignAtomLibraries(projectId);
+
+  const selectedId = ref?.source === 'library' ? ref.id : null;
+  const choices = (libraries.data ?? []).filter((l) => l.id === 'demo' || l.usable || l.id === selectedId);
+  const selected = selectedId === null ? null : (libraries.data?.find((l) => l.id === selectedId) ?? null);
+  const options = choices.map((l) => ({
+    value: String(l.id),
+    label: l.id === 'demo' ? 'Demo library (approximate)' : `${l.name} — λ ${l.wavelengthNm} nm, P ${l.periodNm} nm${l.approximate ? ' (approximate)' : ''}`,
+  }));
+  if (selectedId !== null && !selected) options.push({ value: String(selectedId), label: `Library ${selectedId}` });
+  const approximate = selectedId === null || selected?.approximate !== false;
 
   return (
     <Card
       title={
         <span className="flex flex-wrap items-center gap-2">
-          Atom library <Badge tone="ember">Approximate</Badge>
+          Atom library {approximate ? <Badge tone="ember">Approximate</Badge> : null}
         </span>
       }
       description="Which meta-atom each cell gets is chosen from this library when the design runs."
       headingLevel="h2"
     >
       <div data-field="atomLibrary" className="flex flex-col gap-3 text-sm">
-        <p>
-          <strong>Demo library</strong>, generated for this design’s wavelength and period. Its transmissions come from a simple
-          waveguide model, not from full-wave simulation: treat the preview efficiencies as approximate, and use your lab’s own
-          library before fabrication.
-        </p>
-        {library === null ? (
-          <p className="text-ink-soft">Fix the wavelength and period above to see the library.</p>
-        ) : library.error ? (
-          <Banner>{library.error}</Banner>
+        <SelectField
+          label="Library to map atoms from"
+          value={selectedId === null ? 'demo' : String(selectedId)}
+          onValueChange={(value) => setField(['atomLibrary'], value === 'demo' ? { source: 'demo' } : { source: 'library', id: Number(value) })}
+          options={options.length ? options : [{ value: 'demo', label: 'Demo library (approximate)' }]}
+          hint={libraries.isError ? `The uploaded libraries did not load: ${libraries.error.message}` : 'Upload your own on the Atom libraries tab.'}
+        />
+        {selectedId === null ? (
+          <DemoLibraryFacts wavelengthNm={wavelengthNm} periodNm={periodNm} />
+        ) : selected ? (
+          <StoredLibraryFacts library={selected} wavelengthNm={wavelengthNm} periodNm={periodNm} />
+        ) : libraries.isPending ? (
+          <p className="text-ink-soft">Loading the library’s facts…</p>
         ) : (
-          <dl className="grid gap-x-6 gap-y-2 sm:grid-cols-[auto_minmax(0,1fr)]">
-            <dt className="font-bold text-ink-soft">Name</dt>
-            <dd>{library.name}</dd>
-            <dt className="font-bold text-ink-soft">Pillars</dt>
-            <dd>
-              {library.pillars} rectangular pillars, {library.heightNm} nm tall, plus an empty cell
-            </dd>
-            <dt className="font-bold text-ink-soft">Materials</dt>
-            <dd>{library.material}</dd>
-            <dt className="font-bold text-ink-soft">Model</dt>
-            <dd className="text-ink-soft">{library.source}</dd>
-          </dl>
+          <Banner>Library {selectedId} is not visible in this project; pick another one.</Banner>
         )}
-        {library && !library.error && library.pillars === 0 ? (
-          <Banner>At this period the demo library holds no pillars; use a larger period.</Banner>
-        ) : null}
       </div>
     </Card>
   );

@@ -234,7 +234,7 @@ export function DesignComposer({ project, sourceKey, initialDraft, baseRevision,
         <PolarizationSection />
         <ChannelSection projectId={project.id} channel="a" readOnly={readOnly} />
         <ChannelSection projectId={project.id} channel="b" readOnly={readOnly} />
-        <AtomLibrarySection />
+        <AtomLibrarySection projectId={project.id} />
         <AdvancedSection />
       </fieldset>
 

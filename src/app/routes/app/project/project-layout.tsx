@@ -43,6 +43,7 @@ const tabs = [
   { label: 'Design', href: paths.projects.design.getHref, end: true },
   { label: 'Revisions', href: paths.projects.revisions.getHref, end: false },
   { label: 'Runs', href: paths.projects.runs.getHref, end: false },
+  { label: 'Atom libraries', href: paths.projects.atomLibraries.getHref, end: false },
   { label: 'Members', href: paths.projects.members.getHref, end: true },
 ] as const;
 

@@ -22,6 +22,7 @@ import { ConvergenceCard } from '@/features/runs/components/convergence-card';
 import { sectionName } from '@/features/runs/components/format-run';
 import { FarFieldPreviews } from '@/features/runs/components/far-field-previews';
 import { MapPreviews } from '@/features/runs/components/map-previews';
+import { MappingReportCard, readMappingReport } from '@/features/runs/components/mapping-report-card';
 import { MetricsTable } from '@/features/runs/components/metrics-table';
 import { OtherPlots } from '@/features/runs/components/other-plots';
 import { RunDownloads } from '@/features/runs/components/run-downloads';
@@ -29,6 +30,8 @@ import { RunEvents } from '@/features/runs/components/run-events';
 import { channelFacts, inputNames, usesApproximateLibrary } from '@/features/runs/components/run-facts';
 import { readDesignRules, readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusPanel } from '@/features/runs/components/run-status-panel';
+import { ExportPanel } from '@/features/fab/components/export-panel';
+import { ToleranceCard } from '@/features/runs/components/tolerance-card';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
 
 function parseRunId(value: string | undefined): number | null {
@@ -93,21 +96,31 @@ export default function ProjectRunRoute() {
       </>
     );
   }
-  return <RunPage projectId={project.id} projectName={project.name} canRun={projectRoleAllows(project.myRole, 'design') && !project.archived} run={run.data} />;
+  return (
+    <RunPage
+      projectId={project.id}
+      projectName={project.name}
+      canRun={projectRoleAllows(project.myRole, 'design') && !project.archived}
+      canManage={projectRoleAllows(project.myRole, 'manage')}
+      run={run.data}
+    />
+  );
 }
 
 interface RunPageProps {
   projectId: number;
   projectName: string;
   canRun: boolean;
+  canManage: boolean;
   run: RunDetail;
 }
 
-function RunPage({ projectId, projectName, canRun, run }: RunPageProps) {
+function RunPage({ projectId, projectName, canRun, canManage, run }: RunPageProps) {
   const navigate = useNavigate();
   const groups = useMemo(() => groupArtifacts(run.artifacts), [run.artifacts]);
   const plots = useMemo(() => readRunPlots(run.plots), [run.plots]);
   const designRules = useMemo(() => readDesignRules(run.plots), [run.plots]);
+  const mappingReport = useMemo(() => readMappingReport(run.plots), [run.plots]);
   const notes = readNotes(run.plots).filter((note) => !/laser safety|approximate/i.test(note));
   const sectionOf = (name: string) => Object.entries(run.metrics ?? {}).find(([key]) => sectionName(key) === name)?.[1] ?? null;
   const hasDesign = run.artifacts.some((artifact) => artifact.name === DESIGN_ARTIFACT);
@@ -211,7 +224,13 @@ function RunPage({ projectId, projectName, canRun, run }: RunPageProps) {
         <DesignRulesCard findings={designRules.findings} truncated={designRules.truncated} counts={sectionOf('Design rules')} />
       ) : null}
 
+      {mappingReport ? <MappingReportCard report={mappingReport} figures={sectionOf('Atom mapping')} /> : null}
+
+      {run.status === 'succeeded' ? <ToleranceCard projectId={projectId} runId={run.id} canRun={canRun} channelNames={channelNames} /> : null}
+
       {run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} /> : null}
+
+      {run.status === 'succeeded' ? <ExportPanel projectId={projectId} runId={run.id} canManage={canManage} /> : null}
 
       {run.artifacts.length > 0 || !active ? <RunDownloads projectId={projectId} runId={run.id} downloads={groups.downloads} notes={notes} /> : null}
     </div>

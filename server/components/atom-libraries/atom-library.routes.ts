@@ -1,0 +1,121 @@
+import { Router, type Request, type Response } from 'express';
+import multer from 'multer';
+import { ATOM_LIBRARY_LIMITS, createAtomLibrarySchema, type AtomCsvProblem } from '../../../shared/schemas/atom-libraries';
+import { AppError } from '../../lib/app-error';
+import { contentDisposition } from '../../lib/content-disposition';
+import { parseId, parseInput } from '../../lib/validate';
+import { currentUser } from '../auth/auth.middleware';
+import { projectAccess, requireProject } from '../projects/project-access';
+import {
+  atomLibraryCsv,
+  createAtomLibrary,
+  deleteAtomLibrary,
+  getAtomLibrary,
+  listAtomLibraries,
+  readAtomLibraryCsv,
+  type LibraryViewer,
+} from './atom-library.service';
+
+const KIB = 1024;
+/** Problems listed in one answer; the message gives the total. */
+const MAX_PROBLEMS = 100;
+
+const receive = multer({
+  storage: multer.memoryStorage(),
+  defParamCharset: 'utf8',
+  limits: { fileSize: ATOM_LIBRARY_LIMITS.maxBytes, files: 1, fields: 8, fieldSize: 1024, parts: 9 },
+}).single('file');
+
+/** Reads the multipart body into memory, turning multer's errors into messages that say what to fix. */
+function receiveFile(req: Request, res: Response): Promise<void> {
+  return new Promise((resolve, reject) => {
+    receive(req, res, (error: unknown) => {
+      if (!error) return resolve();
+      if (error instanceof multer.MulterError) {
+        if (error.code === 'LIMIT_FILE_SIZE') {
+          return reject(new AppError(413, `The library file is larger than ${ATOM_LIBRARY_LIMITS.maxBytes / KIB / KIB} MiB; split it or remove unused atoms`, { file: 'too large' }));
+        }
+        if (error.code === 'LIMIT_UNEXPECTED_FILE') {
+          return reject(new AppError(400, `Send one CSV file, in the form field "file" (got "${error.field}")`, { file: 'missing' }));
+        }
+        return reject(new AppError(400, `The upload form is not acceptable: ${error.message}`));
+      }
+      reject(new AppError(400, 'The upload could not be read as a multipart form; send the CSV in the form field "file"'));
+    });
+  });
+}
+
+function viewerOf(req: Request): LibraryViewer {
+  const user = currentUser(req);
+  return { userId: user.id, siteAdmin: user.siteRole === 'admin', role: projectAccess(req).role };
+}
+
+function parseLibraryId(value: unknown): number | 'demo' {
+  return value === 'demo' ? 'demo' : parseId(value, 'libraryId');
+}
+
+/** `{ "row 12, t_x": "…" }`: one entry per line and column, messages of the same place joined. */
+function detailsOf(problems: AtomCsvProblem[]): Record<string, string> {
+  const details: Record<string, string> = {};
+  for (const p of problems) {
+    const key = p.row === null ? p.column : `row ${p.row}, ${p.column}`;
+    details[key] = details[key] ? `${details[key]}; ${p.message}` : p.message;
+  }
+  return details;
+}
+
+/** `/api/projects/:projectId/atom-libraries`: the demo library and uploaded CSV libraries. */
+export function atomLibraryRoutes() {
+  const router = Router({ mergeParams: true });
+
+  router.get('/', requireProject('read'), async (req, res) => {
+    res.json({ atomLibraries: await listAtomLibraries(projectAccess(req).project.id, viewerOf(req)) });
+  });
+
+  router.post('/', requireProject('design'), async (req, res) => {
+    await receiveFile(req, res);
+    const input = parseInput(createAtomLibrarySchema, req.body);
+    if (!req.file) throw new AppError(400, 'Choose a CSV file: send it in the form field "file"', { file: 'missing' });
+    const reading = readAtomLibraryCsv(req.file.buffer, input);
+    if (reading.problems.length > 0) {
+      const shown = reading.problems.slice(0, MAX_PROBLEMS);
+      const first = shown[0];
+      const count = reading.problems.length;
+      res.status(400).json({
+        error: `The atom library has ${count} problem${count === 1 ? '' : 's'}; fix ${count === 1 ? 'it' : 'them'} in the CSV and upload again. ${first.row === null ? '' : `Row ${first.row}, `}${first.column}: ${first.message}`,
+        details: detailsOf(shown),
+        problems: shown,
+        problemCount: count,
+      });
+      return;
+    }
+    const projectId = projectAccess(req).project.id;
+    const atomLibrary = await createAtomLibrary(projectId, viewerOf(req), reading.library, input.scope);
+    res.status(201).json({ atomLibrary, warnings: reading.warnings });
+  });
+
+  router.get('/:libraryId', requireProject('read'), async (req, res) => {
+    const id = parseLibraryId(req.params.libraryId);
+    res.json({ atomLibrary: await getAtomLibrary(projectAccess(req).project.id, id, viewerOf(req)) });
+  });
+
+  router.get('/:libraryId/csv', requireProject('read'), async (req, res) => {
+    const id = parseLibraryId(req.params.libraryId);
+    const { name, csv } = await atomLibraryCsv(projectAccess(req).project.id, id);
+    res.set({
+      'Content-Type': 'text/csv; charset=utf-8',
+      'Content-Disposition': contentDisposition('attachment', name),
+      'X-Content-Type-Options': 'nosniff',
+    });
+    res.send(csv);
+  });
+
+  router.delete('/:libraryId', requireProject('design'), async (req, res) => {
+    const raw = req.params.libraryId;
+    if (raw === 'demo') throw new AppError(403, 'The demo library is built in and cannot be deleted');
+    await deleteAtomLibrary(projectAccess(req).project.id, parseId(raw, 'libraryId'), viewerOf(req));
+    res.status(204).end();
+  });
+
+  return router;
+}

@@ -1,0 +1,146 @@
+/**
+ * The fab package of a run: one zip, streamed with archiver while it is written — never the whole zip, and
+ * never the whole GDSII, in memory. Contents (under one folder named after the run):
+ * - layout.gds — the stored file when the options equal the run's own (layer/datatype of the design,
+ *   database unit 1 nm); otherwise regenerated chunk by chunk with gdsii.ts from the stored atom_index/theta;
+ * - arrays/*.npy, previews/*.png, design.json, metrics.json, drc.json, atoms.csv — the stored artifacts;
+ * - report.html — the design report, standalone; export.json — who exported when, with which options.
+ * Refused (409) while design-rule violations stand and no owner has overridden them.
+ */
+import { Readable, type Writable } from 'node:stream';
+import { ZipArchive } from 'archiver';
+import { gdsiiChunks } from '../../../shared/optics/gdsii';
+import { buildReportModel, type ReportInput } from '../../../shared/report/design-report';
+import type { FabPackageQuery, RunDesignCheck } from '../../../shared/schemas/fab';
+import { AppError } from '../../lib/app-error';
+import { findArtifact, listArtifacts } from '../runs/run-artifacts';
+import type { RunModel } from '../runs/run.model';
+import { slugOf } from '../runs/run.service';
+import { FabExportModel } from './fab.model';
+import { reportHtml } from './report-html';
+import { artifactStream, designCheckOf, loadRunLayout, readArtifact } from './run-data';
+import { parseAtomLibraryCsv } from '../../../shared/optics/atoms';
+import type { Design } from '../../../shared/schemas/design';
+
+export interface FabOptions {
+  layer: number;
+  datatype: number;
+  dbUnitNm: number;
+}
+
+const KIND_WORDS = { gap: 'gap', feature: 'minimum feature', 'aspect-ratio': 'aspect ratio' } as const;
+
+/** The 409 while violations stand. Example message: 'Export refused: 12 design-rule violations (12 gap) …'. */
+export function refusal(check: RunDesignCheck): AppError {
+  const kinds = (['gap', 'feature', 'aspect-ratio'] as const).filter((k) => check.counts[k] > 0);
+  return new AppError(
+    409,
+    `Export refused: ${check.total} design-rule violation${check.total === 1 ? '' : 's'} (${kinds.map((k) => `${check.counts[k]} ${KIND_WORDS[k]}`).join(', ')}). ` +
+      'Fix the design or the project’s design rules and run again, or a project owner can override with a recorded reason.',
+    { violations: String(check.total), gap: String(check.counts.gap), feature: String(check.counts.feature), 'aspect-ratio': String(check.counts['aspect-ratio']) },
+  );
+}
+
+/** Everything the report needs, read from the run's records. */
+export async function reportInputOf(run: RunModel, projectName: string, check: RunDesignCheck): Promise<ReportInput> {
+  const design = JSON.parse((await readArtifact(run.id, 'design.json'))?.toString('utf8') ?? 'null') as Design | null;
+  if (!design) throw new AppError(409, `Run ${run.id} has no design.json; start the run again to produce it`);
+  const metricsFile = await readArtifact(run.id, 'metrics.json');
+  const metricsJson = metricsFile ? (JSON.parse(metricsFile.toString('utf8')) as { inputs?: ReportInput['inputs'] & object }) : null;
+  const csv = await readArtifact(run.id, 'atoms.csv');
+  const library = csv ? parseAtomLibraryCsv(csv.toString('utf8')).library : null;
+  return {
+    projectName,
+    runId: run.id,
+    revisionNumber: run.revision?.number ?? 0,
+    finishedAt: run.finishedAt ? run.finishedAt.toISOString() : null,
+    design,
+    metrics: run.metrics ?? null,
+    inputs: metricsJson?.inputs ? { a: metricsJson.inputs.a, b: metricsJson.inputs.b } : null,
+    library: library
+      ? { name: library.name, approximate: library.approximate, source: library.source ?? null, material: library.material || null, atoms: library.atoms.length }
+      : { name: 'unknown (atoms.csv missing)', approximate: true, source: null, material: null, atoms: 0 },
+    check,
+  };
+}
+
+/**
+ * Checks that the run may be exported with these options, records the download, and returns the file name
+ * and a function that streams the zip into `out`.
+ */
+export async function prepareFabPackage(run: RunModel, projectName: string, userId: number, query: FabPackageQuery) {
+  const check = await designCheckOf(run);
+  if (!check.exportAllowed) throw refusal(check);
+  const layout = await loadRunLayout(run);
+  const defaults: FabOptions = { layer: layout.design.layout.layer, datatype: layout.design.layout.datatype, dbUnitNm: 1 };
+  const options: FabOptions = { layer: query.layer ?? defaults.layer, datatype: query.datatype ?? defaults.datatype, dbUnitNm: query.dbUnitNm ?? defaults.dbUnitNm };
+  const storedGds = await findArtifact(run.id, 'layout.gds');
+  const regenerated = !storedGds || options.layer !== defaults.layer || options.datatype !== defaults.datatype || options.dbUnitNm !== defaults.dbUnitNm;
+  const dbu = options.dbUnitNm * 1e-9;
+  // Every coordinate must fit a 32-bit signed integer of database units (manual, "XY" record: 4-byte integers).
+  const extent = ((layout.n - 1) / 2) * layout.period + layout.library.atoms.reduce((m, a) => Math.max(m, a.width, a.length), 0);
+  if (extent / dbu > 2147483647) {
+    throw new AppError(400, `dbUnitNm ${options.dbUnitNm} is too small for this ${layout.n}² layout: coordinates would not fit 32-bit integers`, { dbUnitNm: 'choose a larger database unit' });
+  }
+  const smallest = Math.min(...layout.library.atoms.filter((a) => a.shape !== 'empty').map((a) => Math.min(a.width, a.length)));
+  if (smallest / dbu < 1) throw new AppError(400, `dbUnitNm ${options.dbUnitNm} is larger than the smallest pillar side`, { dbUnitNm: 'choose a smaller database unit' });
+
+  const reportInput = await reportInputOf(run, projectName, check);
+  const artifacts = await listArtifacts(run.id);
+  const record = await FabExportModel.create({ runId: run.id, userId, options: { ...options, regenerated }, overrideId: check.exportAllowed && check.total > 0 ? check.latestOverrideId : null, at: new Date() });
+  const folder = `${slugOf(projectName)}-r${reportInput.revisionNumber}-run${run.id}`;
+
+  async function write(out: Writable): Promise<void> {
+    const zip = new ZipArchive({ zlib: { level: 5 } });
+    const failed = new Promise<never>((_, reject) => zip.on('error', reject));
+    failed.catch(() => undefined);
+    // A client that goes away stops the archive, and with it the reads from the database.
+    const gone = new Promise<void>((resolve) =>
+      out.once('close', () => {
+        if (!out.writableFinished) zip.abort();
+        resolve();
+      }),
+    );
+    zip.pipe(out);
+    const date = run.finishedAt ?? new Date();
+    const name = (file: string) => ({ name: `${folder}/${file}`, date });
+    if (regenerated) {
+      const chunks = gdsiiChunks({ ...layout, layer: options.layer, datatype: options.datatype, databaseUnit: dbu, usedAtomsOnly: true });
+      zip.append(Readable.from(chunks, { objectMode: false }), name('layout.gds'));
+    } else {
+      zip.append(artifactStream(storedGds!.id), name('layout.gds'));
+    }
+    const previews: { file: string; caption: string }[] = [];
+    for (const a of artifacts) {
+      if (a.name === 'layout.gds') continue;
+      const ids = await findArtifact(run.id, a.name);
+      if (!ids) continue;
+      const place = a.name.endsWith('.npy') ? `arrays/${a.name}` : a.name.endsWith('.png') ? `previews/${a.name}` : a.name;
+      if (a.name.endsWith('.png')) previews.push({ file: place, caption: a.label });
+      zip.append(artifactStream(ids.id), { ...name(place), store: a.name.endsWith('.png') });
+    }
+    const overrideNote = check.total > 0 && check.overrides.length ? ` Exported under the owner’s override of ${check.total} design-rule violations.` : '';
+    const exportNote = `Fab package exported ${record.at.toISOString().slice(0, 16).replace('T', ' ')} UTC: GDSII layer ${options.layer}, datatype ${options.datatype}, database unit ${options.dbUnitNm} nm.${overrideNote}`;
+    zip.append(reportHtml(buildReportModel(reportInput), previews, exportNote), name('report.html'));
+    zip.append(
+      JSON.stringify(
+        {
+          format: 'phasewright-export/1',
+          run: run.id,
+          revision: reportInput.revisionNumber,
+          exportedAt: record.at.toISOString(),
+          exportedBy: userId,
+          gdsii: { ...options, regenerated, userUnitUm: 1, angles: 'degrees counter-clockwise, θ mod 180° (0 for square pillars)' },
+          designRules: { rules: check.rules, counts: check.counts, total: check.total },
+          overrides: check.overrides,
+        },
+        null,
+        2,
+      ) + '\n',
+      name('export.json'),
+    );
+    await Promise.race([zip.finalize(), failed, gone]);
+  }
+
+  return { fileName: `${folder}-fab-package.zip`, write };
+}

@@ -1,0 +1,48 @@
+import type { ToleranceRequestBody, ToleranceStudy } from '../../../shared/schemas/tolerance';
+import type { AppContext } from '../../context';
+import { AppError } from '../../lib/app-error';
+import { findRun } from '../runs/run.service';
+import { ToleranceStudyModel } from './tolerance.model';
+
+const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
+
+function toStudy(study: ToleranceStudyModel): ToleranceStudy {
+  const end = study.finishedAt ?? null;
+  return {
+    id: study.id,
+    runId: study.runId,
+    status: study.status,
+    progress: study.progress,
+    stage: study.stage,
+    request: study.request,
+    results: study.results ?? null,
+    error: study.error ?? null,
+    queuedAt: study.queuedAt.toISOString(),
+    startedAt: iso(study.startedAt),
+    finishedAt: iso(end),
+    durationMs: study.startedAt && end ? end.getTime() - study.startedAt.getTime() : null,
+  };
+}
+
+/** The latest tolerance study of a run of the project (null: none yet); 404 for a run of another project. */
+export async function getToleranceStudy(projectId: number, runId: number): Promise<ToleranceStudy | null> {
+  await findRun(projectId, runId);
+  const study = await ToleranceStudyModel.findOne({ where: { runId }, order: [['id', 'DESC']] });
+  return study ? toStudy(study) : null;
+}
+
+/**
+ * Queues a tolerance study of a finished run on the run queue's worker pool. 409 when the run has not
+ * succeeded or a study of it is still queued or running.
+ */
+export async function startToleranceStudy(ctx: AppContext, projectId: number, runId: number, userId: number, request: ToleranceRequestBody): Promise<ToleranceStudy> {
+  const run = await findRun(projectId, runId);
+  if (run.status !== 'succeeded') throw new AppError(409, `Run ${runId} is ${run.status}; a tolerance study needs a run that has succeeded`);
+  const latest = await ToleranceStudyModel.findOne({ where: { runId }, order: [['id', 'DESC']], attributes: ['id', 'status'] });
+  if (latest && (latest.status === 'queued' || latest.status === 'running')) {
+    throw new AppError(409, `A tolerance study of run ${runId} is already ${latest.status}; wait for it to finish`);
+  }
+  const study = await ToleranceStudyModel.create({ runId, request, startedById: userId, queuedAt: new Date(), stage: 'queued' });
+  ctx.runQueue.enqueueTolerance(study.id);
+  return toStudy(study);
+}
