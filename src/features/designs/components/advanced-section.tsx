@@ -1,4 +1,6 @@
+import { Link } from 'react-router-dom';
 import { Card } from '@/components/ui/card';
+import { paths } from '@/config/paths';
 import { DesignNumber, DesignSelect } from '@/features/designs/components/design-inputs';
 import { useDesignEditor } from '@/features/designs/stores/design-editor-store';
 
@@ -18,7 +20,7 @@ const paddingOptions = [
   { value: '1', label: 'None (faster, may wrap)' },
 ] as const;
 
-export function AdvancedSection() {
+export function AdvancedSection({ projectId }: { projectId: number }) {
   const simulation = useDesignEditor((state) => state.draft?.simulation);
   const setField = useDesignEditor((state) => state.setField);
   const extra = simulation?.extraInput ?? { kind: 'linear' as const, angleDeg: 45 };
@@ -85,15 +87,18 @@ export function AdvancedSection() {
           </fieldset>
         </section>
 
-        <section data-field="designRules" aria-labelledby="rules-heading" className="flex flex-col gap-4 border-t border-line pt-5">
+        <section data-field="designRules" aria-labelledby="rules-heading" className="flex flex-col gap-2 border-t border-line pt-5">
           <h3 id="rules-heading" className="font-extrabold">
             Design rules
           </h3>
-          <div className="grid gap-4 sm:grid-cols-3">
-            <DesignNumber path={['designRules', 'minGapNm']} label="Smallest gap" unit="nm" placeholder="50" />
-            <DesignNumber path={['designRules', 'minFeatureNm']} label="Smallest feature" unit="nm" placeholder="100" />
-            <DesignNumber path={['designRules', 'maxAspectRatio']} label="Largest aspect ratio" placeholder="10" hint="Height ÷ smallest side." />
-          </div>
+          <p className="text-sm text-ink-soft">
+            Runs of this project are checked against the project&apos;s own design rules (smallest gap between
+            neighbouring pillars, smallest feature, largest aspect ratio), which the project owner sets on{' '}
+            <Link to={paths.projects.detail.getHref(projectId)} className="font-bold text-teal hover:underline">
+              the project overview
+            </Link>
+            . The rules stored in a design file apply when it runs from the command line.
+          </p>
         </section>
 
         <section data-field="layout" aria-labelledby="layout-heading" className="flex flex-col gap-4 border-t border-line pt-5">

@@ -235,7 +235,7 @@ export function DesignComposer({ project, sourceKey, initialDraft, baseRevision,
         <ChannelSection projectId={project.id} channel="a" readOnly={readOnly} />
         <ChannelSection projectId={project.id} channel="b" readOnly={readOnly} />
         <AtomLibrarySection projectId={project.id} />
-        <AdvancedSection />
+        <AdvancedSection projectId={project.id} />
       </fieldset>
 
       <SaveRevisionDialog
