@@ -5,17 +5,25 @@ import { csrfSync } from 'csrf-sync';
 import express from 'express';
 import session from 'express-session';
 import helmet from 'helmet';
+import { accessTokenRoutes } from './components/access-tokens/access-token.routes';
+import { bearerAuth, unlessBearer } from './components/access-tokens/bearer-auth';
 import { adminRoutes } from './components/admin/admin.routes';
 import { atomLibraryRoutes } from './components/atom-libraries/atom-library.routes';
 import { authRoutes } from './components/auth/auth.routes';
 import { createPassport } from './components/auth/passport';
 import { fabRoutes } from './components/fab/fab.routes';
+import { notificationRoutes } from './components/notifications/notification.routes';
+import { notifyRunFinished } from './components/notifications/notification.service';
 import { projectRoutes } from './components/projects/project.routes';
+import { reviewRoutes } from './components/review/review.routes';
 import { revisionRoutes } from './components/revisions/revision.routes';
+import { onRunFinished } from './components/runs/run-state';
 import { runRoutes } from './components/runs/run.routes';
+import { shareLinkRoutes, sharedRoutes } from './components/share-links/share-link.routes';
 import { uploadRoutes } from './components/uploads/upload.routes';
 import type { AppContext } from './context';
 import { apiNotFound, errorHandler } from './lib/error-handler';
+import { openApiDocument } from './openapi';
 
 const SessionStore = connectSessionSequelize(session.Store);
 
@@ -77,13 +85,22 @@ export function createApp(ctx: AppContext) {
 
   const api = express.Router();
   api.use(express.json({ limit: '256kb' }));
-  api.use(csrfSynchronisedProtection);
+  api.use(bearerAuth);
+  api.use(unlessBearer(csrfSynchronisedProtection));
+  api.get('/openapi.json', (_req, res) => {
+    res.json(openApiDocument(config.publicUrl));
+  });
+  api.use('/shared', sharedRoutes());
+  api.use('/access-tokens', accessTokenRoutes());
   api.use('/auth', authRoutes(ctx, passport as never, generateToken));
   api.use('/projects/:projectId/revisions', revisionRoutes());
   api.use('/projects/:projectId/uploads', uploadRoutes());
   api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes());
   api.use('/projects/:projectId', runRoutes(ctx));
   api.use('/projects/:projectId', fabRoutes());
+  api.use('/projects/:projectId', reviewRoutes(ctx));
+  api.use('/notifications', notificationRoutes());
+  api.use('/projects/:projectId', shareLinkRoutes(ctx));
   api.use('/projects', projectRoutes(ctx));
   api.use('/admin', adminRoutes(ctx));
   api.get('/health', (_req, res) => {
@@ -101,5 +118,8 @@ export function createApp(ctx: AppContext) {
   }
 
   app.use(errorHandler(logger));
+  onRunFinished((runId, status) => {
+    notifyRunFinished(ctx, runId, status).catch((err: unknown) => logger.error({ err, runId }, 'run notification could not be recorded'));
+  });
   return { app, sessionStore: store };
 }

@@ -2,13 +2,17 @@ import './mariadb-compat';
 import { Sequelize } from 'sequelize';
 import { SequelizeStorage, Umzug } from 'umzug';
 import type { AppConfig } from '../config';
+import { AccessTokenModel } from '../components/access-tokens/access-token.model';
 import { AtomLibraryModel } from '../components/atom-libraries/atom-library.model';
 import { AuthTokenModel } from '../components/auth/auth-token.model';
 import { SessionModel } from '../components/auth/session.model';
 import { ExportOverrideModel, FabExportModel, ProjectDesignRulesModel } from '../components/fab/fab.model';
+import { NotificationModel, NotificationPreferenceModel } from '../components/notifications/notification.model';
 import { MembershipModel } from '../components/projects/membership.model';
 import { ProjectModel } from '../components/projects/project.model';
+import { ProjectActivityModel, ReviewCommentModel, ReviewThreadModel } from '../components/review/review.model';
 import { RevisionModel } from '../components/revisions/revision.model';
+import { ShareLinkModel } from '../components/share-links/share-link.model';
 import { RunArtifactChunkModel, RunArtifactModel, RunEventModel, RunModel } from '../components/runs/run.model';
 import { ToleranceStudyModel } from '../components/tolerance/tolerance.model';
 import { UploadModel } from '../components/uploads/upload.model';
@@ -45,6 +49,13 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
     ProjectDesignRulesModel,
     ExportOverrideModel,
     FabExportModel,
+    ReviewThreadModel,
+    ReviewCommentModel,
+    ProjectActivityModel,
+    NotificationModel,
+    NotificationPreferenceModel,
+    AccessTokenModel,
+    ShareLinkModel,
   ]) {
     model.initModel(sequelize);
   }
@@ -59,6 +70,15 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
   RunModel.belongsTo(UserModel, { as: 'startedBy', foreignKey: 'startedById' });
   ProjectDesignRulesModel.belongsTo(UserModel, { as: 'updatedBy', foreignKey: 'updatedById' });
   ExportOverrideModel.belongsTo(UserModel, { as: 'user', foreignKey: 'userId' });
+  ShareLinkModel.belongsTo(UserModel, { as: 'createdBy', foreignKey: 'createdById' });
+  ReviewThreadModel.hasMany(ReviewCommentModel, { as: 'comments', foreignKey: 'threadId' });
+  ReviewThreadModel.belongsTo(UserModel, { as: 'createdBy', foreignKey: 'createdById' });
+  ReviewThreadModel.belongsTo(UserModel, { as: 'resolvedBy', foreignKey: 'resolvedById' });
+  ReviewCommentModel.belongsTo(ReviewThreadModel, { as: 'thread', foreignKey: 'threadId' });
+  ReviewCommentModel.belongsTo(UserModel, { as: 'author', foreignKey: 'authorId' });
+  ProjectActivityModel.belongsTo(UserModel, { as: 'actor', foreignKey: 'actorId' });
+  NotificationModel.belongsTo(UserModel, { as: 'actor', foreignKey: 'actorId' });
+  NotificationModel.belongsTo(ProjectModel, { as: 'project', foreignKey: 'projectId' });
   return sequelize;
 }
 

@@ -20,6 +20,8 @@ export function createAppRouter(queryClient: QueryClient) {
         { path: paths.auth.forgotPassword.path, lazy: () => import('@/app/routes/auth/forgot-password').then(convert) },
         { path: paths.auth.resetPassword.path, lazy: () => import('@/app/routes/auth/reset-password').then(convert) },
         { path: paths.auth.welcome.path, lazy: () => import('@/app/routes/auth/welcome').then(convert) },
+        // A share link shows one run read-only, without the app's chrome or an account.
+        { path: paths.shared.path, lazy: () => import('@/app/routes/shared/shared-run').then(convert) },
         // The design report prints without the app's chrome, so it sits outside the app layout.
         { path: paths.projects.runReport.path, lazy: () => import('@/app/routes/report/run-report').then(convert) },
         {

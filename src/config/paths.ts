@@ -76,6 +76,10 @@ export const paths = {
       getHref: (projectId: number | string, libraryId: number | string) => `/projects/${projectId}/atom-libraries/${libraryId}`,
     },
   },
+  shared: {
+    path: '/shared/:token',
+    getHref: (token: string) => `/shared/${token}`,
+  },
   settings: {
     path: '/settings',
     getHref: () => '/settings',

@@ -8,6 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { storeArtifacts } from '../../server/components/runs/run-artifacts';
+import { ReviewCommentModel, ReviewThreadModel } from '../../server/components/review/review.model';
 import { RunModel } from '../../server/components/runs/run.model';
 import { encodeNpy } from '../../shared/optics/npy';
 import { eightAtomCsv, uploadAtomLibrary } from '../support/atom-libraries';
@@ -29,10 +30,13 @@ interface Fixture {
   queuedRunId: number;
   /** A finished run with one artifact, to read. */
   finishedRunId: number;
+  /** 'thread': an open thread the owner pinned on the finished run's far-field preview, and its first comment. */
+  threadId: number;
+  commentId: number;
 }
 /** Parts of the fixture a route needs beyond the project and its members (built only then: they cost time). */
 /** 'layout': the finished run gets a synthetic layout with design-rule violations and an owner's override. */
-type Need = 'revision' | 'upload' | 'runs' | 'library' | 'layout';
+type Need = 'revision' | 'upload' | 'runs' | 'library' | 'layout' | 'thread';
 interface RouteCase {
   name: string;
   needs?: Need[];
@@ -42,6 +46,7 @@ interface RouteCase {
 
 const read = { anonymous: 401, outsider: 404, viewer: 200, reviewer: 200, designer: 200, owner: 200, admin: 200 };
 const manage = (ok: number) => ({ anonymous: 401, outsider: 404, viewer: 403, reviewer: 403, designer: 403, owner: ok, admin: ok });
+const comment = (ok: number) => ({ anonymous: 401, outsider: 404, viewer: 403, reviewer: ok, designer: ok, owner: ok, admin: ok });
 const design = (ok: number) => ({ anonymous: 401, outsider: 404, viewer: 403, reviewer: 403, designer: ok, owner: ok, admin: ok });
 
 const phaseMap = Buffer.from(encodeNpy(new Float64Array(16), [4, 4]));
@@ -195,11 +200,78 @@ const ROUTES: RouteCase[] = [
     send: (c, f) => c.post(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/export-override`, { reason: 'Matrix: accepted for a dose test' }),
     expected: manage(201),
   },
+  { name: 'GET /projects/:id/activity', send: (c, f) => c.get(`/api/projects/${f.projectId}/activity`), expected: read },
+  {
+    name: 'GET /projects/:id/runs/:runId/threads',
+    needs: ['runs', 'thread'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/threads`),
+    expected: read,
+  },
+  {
+    name: 'POST /projects/:id/runs/:runId/threads',
+    needs: ['runs'],
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/threads`, { artifact: 'farfield_a.png', x: 0.5, y: 0.5, body: 'Matrix pin' }),
+    expected: comment(201),
+  },
+  {
+    name: 'POST /projects/:id/runs/:runId/threads/:threadId/comments',
+    needs: ['runs', 'thread'],
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/threads/${f.threadId}/comments`, { body: 'Matrix reply' }),
+    expected: comment(201),
+  },
+  {
+    name: 'POST /projects/:id/runs/:runId/threads/:threadId/resolve',
+    needs: ['runs', 'thread'],
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/threads/${f.threadId}/resolve`),
+    expected: comment(200),
+  },
+  {
+    name: 'POST /projects/:id/runs/:runId/threads/:threadId/reopen (a resolved thread)',
+    needs: ['runs', 'thread'],
+    send: async (c, f) => {
+      await ReviewThreadModel.update({ resolvedAt: new Date() }, { where: { id: f.threadId } });
+      return c.post(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/threads/${f.threadId}/reopen`);
+    },
+    expected: comment(200),
+  },
+  {
+    name: 'PATCH /projects/:id/runs/:runId/threads/:threadId/comments/:commentId (the owner’s comment)',
+    needs: ['runs', 'thread'],
+    send: (c, f) => c.patch(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/threads/${f.threadId}/comments/${f.commentId}`, { body: 'Edited' }),
+    expected: { ...comment(403), owner: 200 },
+  },
+  {
+    name: 'DELETE /projects/:id/runs/:runId/threads/:threadId/comments/:commentId (the owner’s comment)',
+    needs: ['runs', 'thread'],
+    send: (c, f) => c.delete(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/threads/${f.threadId}/comments/${f.commentId}`),
+    expected: { ...comment(403), owner: 204, admin: 204 },
+  },
   {
     name: 'GET /projects/:id/runs/:runId/fab-package.zip',
     needs: ['runs', 'layout'],
     send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/fab-package.zip`).buffer(true),
     expected: read,
+  },
+  {
+    name: 'GET /projects/:id/runs/:runId/share-links',
+    needs: ['runs'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/share-links`),
+    expected: manage(200),
+  },
+  {
+    name: 'POST /projects/:id/runs/:runId/share-links',
+    needs: ['runs'],
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/share-links`, {}),
+    expected: manage(201),
+  },
+  {
+    name: 'DELETE /projects/:id/share-links/:linkId',
+    needs: ['runs'],
+    send: async (c, f) => {
+      const link = (await clients.owner.post(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/share-links`, {})).body.shareLink;
+      return c.delete(`/api/projects/${f.projectId}/share-links/${link.id}`);
+    },
+    expected: manage(200),
   },
 ];
 
@@ -231,7 +303,7 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs', 'libr
   }
   const target = await makeUser({ name: 'Matrix target' });
   await owner.post(`/api/projects/${project.id}/members`, { email: target.email, role: 'viewer' });
-  const fixture: Fixture = { projectId: project.id, targetUserId: target.id, revisionNumber: 0, uploadId: 0, libraryId: 0, queuedRunId: 0, finishedRunId: 0 };
+  const fixture: Fixture = { projectId: project.id, targetUserId: target.id, revisionNumber: 0, uploadId: 0, libraryId: 0, queuedRunId: 0, finishedRunId: 0, threadId: 0, commentId: 0 };
   if (needs.includes('upload')) fixture.uploadId = (await uploadPhaseMap(owner, project.id)).body.upload.id;
   if (needs.includes('library')) fixture.libraryId = (await uploadAtomLibrary(owner, project.id, eightAtomCsv())).body.atomLibrary.id;
   if (!needs.includes('revision') && !needs.includes('runs')) return fixture;
@@ -244,9 +316,15 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs', 'libr
   fixture.finishedRunId = finished.id;
   const dir = await mkdtemp(join(tmpdir(), 'pw-matrix-'));
   await writeFile(join(dir, 'design.json'), JSON.stringify(revision.design));
-  await storeArtifacts(finished.id, dir, [{ name: 'design.json', bytes: 0 }]);
+  await writeFile(join(dir, 'farfield_a.png'), Buffer.from('89504e470d0a1a0a', 'hex'));
+  await storeArtifacts(finished.id, dir, [{ name: 'design.json', bytes: 0 }, { name: 'farfield_a.png', bytes: 8 }]);
   await rm(dir, { recursive: true });
   if (needs.includes('layout')) await storeSyntheticLayout(finished.id, deflectorDesign());
+  if (needs.includes('thread')) {
+    const thread = await ReviewThreadModel.create({ projectId: project.id, runId: finished.id, revisionId: revision.id, artifact: 'farfield_a.png', x: 0.5, y: 0.5, createdById: users.owner.id });
+    fixture.threadId = thread.id;
+    fixture.commentId = (await ReviewCommentModel.create({ threadId: thread.id, authorId: users.owner.id, body: 'Matrix pin', mentions: [] })).id;
+  }
   return fixture;
 }
 

@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
+import { linkToken, waitForMail } from '../support/mailbox';
+import { ApiClient, createTestApp, makeUser, signedInClient, type TestApp } from '../support/test-app';
 
 let t: TestApp;
 let owner: ApiClient;
@@ -71,12 +72,10 @@ describe('membership', () => {
     const added = await owner.post(`/api/projects/${project.id}/members`, { email: colleague.email, role: 'reviewer' });
     expect(added.status).toBe(201);
     expect(added.body.member).toMatchObject({ userId: colleague.id, role: 'reviewer', name: 'Colleague' });
+    expect(added.body.invited).toBe(false);
 
     const dup = await owner.post(`/api/projects/${project.id}/members`, { email: colleague.email, role: 'viewer' });
     expect(dup.status).toBe(409);
-    const nobody = await owner.post(`/api/projects/${project.id}/members`, { email: 'no.account@lab.example', role: 'viewer' });
-    expect(nobody.status).toBe(404);
-    expect(nobody.body.error).toMatch(/No Phasewright account/);
     const badRole = await owner.post(`/api/projects/${project.id}/members`, { email: colleague.email, role: 'boss' });
     expect(badRole.status).toBe(400);
     expect(badRole.body.details.role).toBeDefined();
@@ -88,6 +87,34 @@ describe('membership', () => {
     expect(changed.body.member.role).toBe('designer');
     expect((await owner.delete(`/api/projects/${project.id}/members/${colleague.id}`)).status).toBe(204);
     expect((await owner.get(`/api/projects/${project.id}/members`)).body.members).toHaveLength(1);
+  });
+
+  it('invites an e-mail without an account: mail, accept, signed in, sees the project with the chosen role', async () => {
+    const project = (await owner.post('/api/projects', { name: 'Invitation project' })).body.project;
+    const email = `guest.${Date.now()}@partner-lab.example`;
+    const invited = await owner.post(`/api/projects/${project.id}/members`, { email, role: 'reviewer' });
+    expect(invited.status).toBe(201);
+    expect(invited.body).toMatchObject({ invited: true, member: { role: 'reviewer', email } });
+    const again = await owner.post(`/api/projects/${project.id}/members`, { email, role: 'viewer' });
+    expect(again.status).toBe(409);
+
+    const mail = await waitForMail(email, 'invited you');
+    expect(mail.text).toContain('Invitation project');
+    expect(mail.text).toContain('as reviewer');
+    expect(mail.text).toContain('/welcome?token=');
+    const token = linkToken(mail);
+
+    const guest = await new ApiClient(t.app).start();
+    expect((await guest.get(`/api/projects/${project.id}`)).status).toBe(401);
+    const accepted = await guest.post('/api/auth/invitation/accept', { token, name: 'Guest Reviewer', password: 'a long enough secret' });
+    expect(accepted.status).toBe(200);
+    guest.csrfToken = accepted.body.csrfToken;
+    expect(accepted.body.user).toMatchObject({ email, name: 'Guest Reviewer' });
+    const seen = await guest.get(`/api/projects/${project.id}`);
+    expect(seen.status).toBe(200);
+    expect(seen.body.project.myRole).toBe('reviewer');
+    const reused = await new ApiClient(t.app).start().then((c) => c.post('/api/auth/invitation/accept', { token, name: 'X', password: 'a long enough secret' }));
+    expect(reused.status).toBe(400);
   });
 
   it('never lets the last owner leave or be demoted', async () => {

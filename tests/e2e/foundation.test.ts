@@ -1,10 +1,12 @@
 /**
- * In a real browser: a demo designer signs in, creates a project, finds it in the table and adds a member;
+ * In a real browser: a demo designer signs in, creates a project, finds it in the table, adds a member and
+ * invites someone without an account;
  * a demo viewer sees the project but none of the owner's controls.
  */
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser, screenshot } from '../support/browser';
+import { waitForMail } from '../support/mailbox';
 import { startServerWithDemo, type RunningServer } from '../support/running-server';
 import { DEMO_PASSWORD } from '../../server/db/seed-demo';
 
@@ -76,10 +78,17 @@ describe('foundation in the browser', () => {
     await page.getByLabel('Role of Kai Brenner').waitFor();
     expect(await page.getByLabel('Role of Kai Brenner').inputValue()).toBe('reviewer');
 
-    // Someone without an account gets the server's message at the field.
-    await addForm.getByLabel("Member's e-mail").fill('stranger@elsewhere.example');
+    // Someone without an account is invited by e-mail with the chosen role.
+    await addForm.getByLabel("Member's e-mail").fill('visiting.scientist@partner-lab.example');
     await addForm.getByRole('button', { name: 'Add member' }).click();
-    await page.getByText(/No Phasewright account/).first().waitFor();
+    await page.getByText(/has no account yet: an invitation is on its way/).first().waitFor();
+    const invitation = await waitForMail('visiting.scientist@partner-lab.example', 'invited you');
+    expect(invitation.text).toContain('Metalens for a fibre tip');
+    expect(invitation.text).toContain('/welcome?token=');
+    // A malformed address gets the field's own message.
+    await addForm.getByLabel("Member's e-mail").fill('not-an-address');
+    await addForm.getByRole('button', { name: 'Add member' }).click();
+    await page.getByText(/valid e-mail/).first().waitFor();
     await screenshot(page, 'foundation-04-members');
     // Refused requests (401, 404, 409) are logged by the browser itself; anything else would be a client bug.
     expect(consoleErrors.filter((e) => !/Failed to load resource/.test(e))).toEqual([]);

@@ -72,6 +72,7 @@ export async function inviteUser(
   ctx: AppContext,
   input: { email: string; name: string; siteRole: 'admin' | 'member' },
   invitedBy: UserModel,
+  project?: { name: string; role: string },
 ) {
   if (await UserModel.findOne({ where: { email: input.email } })) {
     throw new AppError(409, 'An account with this e-mail already exists', { email: 'Already registered' });
@@ -84,7 +85,9 @@ export async function inviteUser(
     text: [
       `Hello ${user.name},`,
       '',
-      `${invitedBy.name} created a Phasewright account for you.`,
+      project
+        ? `${invitedBy.name} invited you to the Phasewright project "${project.name}" as ${project.role}.`
+        : `${invitedBy.name} created a Phasewright account for you.`,
       'Open this link within seven days to choose your password and sign in:',
       `${ctx.config.publicUrl}/welcome?token=${token}`,
     ].join('\n'),

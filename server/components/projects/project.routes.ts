@@ -10,6 +10,8 @@ import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
 import { parseId, parseInput } from '../../lib/validate';
 import { currentUser, requireUser } from '../auth/auth.middleware';
+import { recordMembershipActivity } from '../review/activity.service';
+import { UserModel } from '../users/user.model';
 import { projectAccess, requireProject } from './project-access';
 import {
   addMember,
@@ -63,13 +65,17 @@ export function projectRoutes(ctx: AppContext) {
 
   router.post('/:projectId/members', requireProject('manage'), async (req, res) => {
     const input = parseInput(addMemberSchema, req.body);
-    res.status(201).json({ member: await addMember(projectAccess(req).project.id, input) });
+    const added = await addMember(ctx, projectAccess(req).project.id, input, currentUser(req));
+    await recordMembershipActivity(projectAccess(req).project.id, currentUser(req).id, 'member-added', added.member, input.role);
+    res.status(201).json(added);
   });
 
   router.patch('/:projectId/members/:userId', requireProject('manage'), async (req, res) => {
     const { role } = parseInput(changeMemberRoleSchema, req.body);
     const userId = parseId(req.params.userId, 'userId');
-    res.json({ member: await changeMemberRole(projectAccess(req).project.id, userId, role) });
+    const member = await changeMemberRole(projectAccess(req).project.id, userId, role);
+    await recordMembershipActivity(projectAccess(req).project.id, currentUser(req).id, 'member-role-changed', member, role);
+    res.json({ member });
   });
 
   /** Owners remove anyone; every member may remove themselves (leave). */
@@ -79,7 +85,9 @@ export function projectRoutes(ctx: AppContext) {
     if (role !== 'owner' && userId !== currentUser(req).id) {
       throw new AppError(403, `Your role on this project (${role}) does not allow removing other members`);
     }
+    const removed = await UserModel.findByPk(userId, { attributes: ['name'] });
     await removeMember(project.id, userId);
+    await recordMembershipActivity(project.id, currentUser(req).id, 'member-removed', { name: removed?.name ?? `user ${userId}` });
     res.status(204).end();
   });
 

@@ -3,6 +3,7 @@ import type { ProjectRole } from '../../../shared/roles';
 import type { ListProjectsQuery, Member, Project } from '../../../shared/schemas/projects';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
+import { inviteUser } from '../auth/auth.service';
 import { UserModel } from '../users/user.model';
 import { MembershipModel } from './membership.model';
 import { ProjectModel } from './project.model';
@@ -110,19 +111,25 @@ async function assertOwnerRemains(projectId: number, leavingUserId: number) {
   }
 }
 
-export async function addMember(projectId: number, input: { email: string; role: ProjectRole }) {
-  const user = await UserModel.findOne({ where: { email: input.email } });
+/**
+ * Adds the account with this e-mail to the project. An e-mail without an account gets one (no password yet)
+ * and an invitation mail; the membership waits for them, so they see the project once they accept.
+ */
+export async function addMember(ctx: AppContext, projectId: number, input: { email: string; role: ProjectRole }, invitedBy: UserModel) {
+  let user = await UserModel.findOne({ where: { email: input.email } });
+  let invited = false;
   if (!user) {
-    throw new AppError(404, 'No Phasewright account uses this e-mail — ask an admin to invite them first', {
-      email: 'No account with this e-mail',
-    });
+    const project = await ProjectModel.findByPk(projectId, { attributes: ['name'] });
+    const name = input.email.split('@')[0].slice(0, 80) || input.email.slice(0, 80);
+    user = await inviteUser(ctx, { email: input.email, name, siteRole: 'member' }, invitedBy, { name: project?.name ?? 'a project', role: input.role });
+    invited = true;
   }
   if (user.disabledAt) throw new AppError(409, 'This account is disabled', { email: 'Account disabled' });
   if (await MembershipModel.findOne({ where: { projectId, userId: user.id } })) {
     throw new AppError(409, 'This person is already a member', { email: 'Already a member' });
   }
   await MembershipModel.create({ projectId, userId: user.id, role: input.role });
-  return toMemberDto(await findMembership(projectId, user.id));
+  return { member: toMemberDto(await findMembership(projectId, user.id)), invited };
 }
 
 export async function changeMemberRole(projectId: number, userId: number, role: ProjectRole) {

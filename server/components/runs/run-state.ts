@@ -11,6 +11,19 @@ import { RunEventModel, RunModel } from './run.model';
 /** A run interrupted by a server stop this many times is given up. */
 export const MAX_ATTEMPTS = 3;
 
+type RunFinishedListener = (runId: number, status: 'succeeded' | 'failed') => void;
+const finishedListeners = new Set<RunFinishedListener>();
+
+/** Called once per run that reaches succeeded or failed (e.g. to notify who started it); returns the unsubscribe. */
+export function onRunFinished(listener: RunFinishedListener): () => void {
+  finishedListeners.add(listener);
+  return () => finishedListeners.delete(listener);
+}
+
+function finished(runId: number, status: 'succeeded' | 'failed') {
+  for (const listener of finishedListeners) listener(runId, status);
+}
+
 export async function addEvent(runId: number, status: RunStatus, stage: string, message: string) {
   await RunEventModel.create({ runId, status, stage, message, at: new Date() });
 }
@@ -48,7 +61,10 @@ export async function markSucceeded(
     finishedAt,
     durationMs: run?.startedAt ? finishedAt.getTime() - run.startedAt.getTime() : null,
   });
-  if (ok) await addEvent(runId, 'succeeded', 'done', 'finished');
+  if (ok) {
+    await addEvent(runId, 'succeeded', 'done', 'finished');
+    finished(runId, 'succeeded');
+  }
   return ok;
 }
 
@@ -61,7 +77,10 @@ export async function markFailed(runId: number, error: string, from: RunStatus[]
     finishedAt,
     durationMs: run?.startedAt ? finishedAt.getTime() - run.startedAt.getTime() : null,
   });
-  if (ok) await addEvent(runId, 'failed', run?.stage ?? '', error);
+  if (ok) {
+    await addEvent(runId, 'failed', run?.stage ?? '', error);
+    finished(runId, 'failed');
+  }
   return ok;
 }
 

@@ -3,6 +3,8 @@ import * as designsAndRuns from './20261201-0002-designs-and-runs';
 import * as atomLibraries from './20261201-0003-atom-libraries';
 import * as designRulesAndExports from './20261201-0004-design-rules-and-exports';
 import * as toleranceStudies from './20261201-0005-tolerance-studies';
+import * as review from './20261201-0006-review';
+import * as linksAndTokens from './20261201-0007-links-and-tokens';
 
 /** Every migration in order. Add a new file `YYYYMMDD-NNNN-what.ts` and list it here. */
 export const migrations = [
@@ -11,4 +13,6 @@ export const migrations = [
   { name: '20261201-0003-atom-libraries', ...atomLibraries },
   { name: '20261201-0004-design-rules-and-exports', ...designRulesAndExports },
   { name: '20261201-0005-tolerance-studies', ...toleranceStudies },
+  { name: '20261201-0006-review', ...review },
+  { name: '20261201-0007-links-and-tokens', ...linksAndTokens },
 ];

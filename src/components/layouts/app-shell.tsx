@@ -11,6 +11,8 @@ interface AppShellProps {
   isAdmin: boolean;
   signingOut: boolean;
   onSignOut: () => void;
+  /** Shown beside the logo, e.g. the notification bell. */
+  headerExtra?: ReactNode;
   children: ReactNode;
 }
 
@@ -38,7 +40,7 @@ const navItems = [
   },
 ];
 
-export function AppShell({ userName, userEmail, isAdmin, signingOut, onSignOut, children }: AppShellProps) {
+export function AppShell({ userName, userEmail, isAdmin, signingOut, onSignOut, headerExtra, children }: AppShellProps) {
   const navigation = useNavigation();
   const { pathname } = useLocation();
   const busy = navigation.state !== 'idle';
@@ -64,6 +66,7 @@ export function AppShell({ userName, userEmail, isAdmin, signingOut, onSignOut, 
           <Link to={paths.home.getHref()} className="rounded-lg" aria-label="Phasewright home">
             <Logo size={30} tone="paper" />
           </Link>
+          {headerExtra}
         </div>
 
         <nav aria-label="Main" className="px-3">

@@ -5,6 +5,7 @@ import { PageLoader } from '@/components/ui/spinner';
 import { paths } from '@/config/paths';
 import { meQueryOptions, useMe } from '@/features/auth/api/get-me';
 import { useSignOut } from '@/features/auth/api/sign-out';
+import { NotificationBell } from '@/features/notifications/components/notification-bell';
 
 export const clientLoader =
   (queryClient: QueryClient) =>
@@ -35,6 +36,7 @@ export default function SignedInRoot() {
       userName={user.name}
       userEmail={user.email}
       isAdmin={user.siteRole === 'admin'}
+      headerExtra={<NotificationBell />}
       signingOut={signOut.isPending}
       onSignOut={() => signOut.mutate(undefined, { onSuccess: () => navigate(paths.auth.signIn.getHref(), { replace: true }) })}
     >

@@ -3,8 +3,8 @@ import type { AddMemberInput, Member } from '@shared/schemas/projects';
 import { api } from '@/lib/api-client';
 import { projectKeys } from '@/features/projects/api/query-keys';
 
-export function addMember(projectId: number, input: AddMemberInput): Promise<{ member: Member }> {
-  return api.post<{ member: Member }>(`/projects/${projectId}/members`, input);
+export function addMember(projectId: number, input: AddMemberInput): Promise<{ member: Member; invited: boolean }> {
+  return api.post<{ member: Member; invited: boolean }>(`/projects/${projectId}/members`, input);
 }
 
 export function useAddMember(projectId: number) {

@@ -28,7 +28,9 @@ export function AddMemberForm({ projectId }: { projectId: number }) {
       <FormErrorBanner message={form.formError} />
       {add.isSuccess ? (
         <Banner tone="success">
-          {add.data.member.name} is now a {projectRoleName(add.data.member.role).toLowerCase()} on this project.
+          {add.data.invited
+            ? `${add.data.member.email} has no account yet: an invitation is on its way. Once they choose a password they join as ${projectRoleName(add.data.member.role).toLowerCase()}.`
+            : `${add.data.member.name} is now a ${projectRoleName(add.data.member.role).toLowerCase()} on this project.`}
         </Banner>
       ) : null}
       <div className="grid gap-4 sm:grid-cols-[minmax(0,1fr)_12rem]">
@@ -36,7 +38,7 @@ export function AddMemberForm({ projectId }: { projectId: number }) {
           label="Member's e-mail"
           type="email"
           autoComplete="off"
-          hint="They need a Phasewright account already; a site admin can invite new people."
+          hint="Someone without a Phasewright account gets an e-mail invitation to join with this role."
           value={form.values.email}
           onValueChange={(value) => {
             add.reset();

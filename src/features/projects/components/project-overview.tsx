@@ -6,6 +6,7 @@ import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { paths } from '@/config/paths';
 import { formatDateTime } from '@/lib/format';
+import { ActivityCard } from '@/features/projects/components/activity-card';
 import { ProjectArchiveCard } from '@/features/projects/components/project-archive-card';
 import { ProjectDetailsForm } from '@/features/projects/components/project-details-form';
 import { ProjectRoleBadge, projectRoleDuties } from '@/features/projects/components/project-role-badge';
@@ -49,6 +50,7 @@ export function ProjectOverview({ project }: { project: Project }) {
             </p>
           )}
         </Card>
+        <ActivityCard projectId={project.id} />
         {canManage ? <ProjectArchiveCard project={project} /> : null}
       </div>
 
