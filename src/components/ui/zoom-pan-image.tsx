@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useId, useRef, useState, type KeyboardEvent, type PointerEvent } from 'react';
+import { useCallback, useEffect, useId, useRef, useState, type KeyboardEvent, type PointerEvent, type ReactNode } from 'react';
 
 interface View {
   scale: number;
@@ -6,8 +6,27 @@ interface View {
   y: number;
 }
 
+/** Where the picture currently sits in its frame, for drawing marks that stay on the same picture point. */
+export interface ZoomPanLayer {
+  scale: number;
+  /** Frame position, in CSS pixels from the frame's top left, of the picture point at fractions (fx, fy) of its width and height. */
+  place: (fx: number, fy: number) => { left: number; top: number };
+}
+
+/** What a feature adds to one picture: marks over it, a pick handler, controls by its caption and a panel below it. */
+export interface PictureAnnotation {
+  overlay?: (layer: ZoomPanLayer) => ReactNode;
+  onPick?: (point: { x: number; y: number }) => void;
+  controls?: ReactNode;
+  panel?: ReactNode;
+}
+
 interface ZoomPanImageProps {
   src: string;
+  /** Marks drawn over the picture; they move with zoom and pan but keep their own size. */
+  overlay?: (layer: ZoomPanLayer) => ReactNode;
+  /** When set, a click (not a drag) on the picture reports the point as fractions 0…1 of its width and height. */
+  onPick?: (point: { x: number; y: number }) => void;
   alt: string;
   /** Height / width before the picture has loaded. */
   aspect?: number;
@@ -23,9 +42,10 @@ const STEP = 1.5;
  * click to zoom in, buttons for +, − and fit. Keyboard: + and − zoom, arrows pan, 0 fits. Once a picture
  * pixel covers more than a screen pixel it is drawn as crisp squares, so single cells stay visible.
  */
-export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = '' }: ZoomPanImageProps) {
+export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = '', overlay, onPick }: ZoomPanImageProps) {
   const frameRef = useRef<HTMLDivElement>(null);
   const pointers = useRef(new Map<number, { x: number; y: number }>());
+  const pressedAt = useRef<{ x: number; y: number } | null>(null);
   const [view, setView] = useState<View>(START);
   const [natural, setNatural] = useState<{ width: number; height: number } | null>(null);
   const [frameWidth, setFrameWidth] = useState(0);
@@ -100,6 +120,7 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
     if (event.pointerType === 'mouse' && event.button !== 0) return;
     event.currentTarget.setPointerCapture(event.pointerId);
     pointers.current.set(event.pointerId, { x: event.clientX, y: event.clientY });
+    pressedAt.current = pointers.current.size === 1 ? { x: event.clientX, y: event.clientY } : null;
   };
 
   const onPointerMove = (event: PointerEvent<HTMLDivElement>) => {
@@ -121,9 +142,19 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
 
   const onPointerEnd = (event: PointerEvent<HTMLDivElement>) => {
     pointers.current.delete(event.pointerId);
+    const pressed = pressedAt.current;
+    pressedAt.current = null;
+    if (!onPick || !pressed || event.type !== 'pointerup' || Math.hypot(event.clientX - pressed.x, event.clientY - pressed.y) > 4) return;
+    const { width, height, left, top } = frameSize();
+    const clamp = (v: number) => Math.min(1, Math.max(0, v));
+    onPick({
+      x: clamp((event.clientX - left - view.x) / (width * view.scale)),
+      y: clamp((event.clientY - top - view.y) / (height * view.scale)),
+    });
   };
 
   const onKeyDown = (event: KeyboardEvent<HTMLDivElement>) => {
+    if (event.target !== event.currentTarget) return;
     const { width, height } = frameSize();
     const actions: Record<string, () => void> = {
       '+': () => zoomCentre(STEP),
@@ -161,12 +192,13 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
         onPointerUp={onPointerEnd}
         onPointerCancel={onPointerEnd}
         onDoubleClick={(event) => {
+          if (onPick) return;
           const rect = event.currentTarget.getBoundingClientRect();
           zoomAt(2, event.clientX - rect.left, event.clientY - rect.top);
         }}
         onKeyDown={onKeyDown}
         className={`relative w-full touch-none overflow-hidden rounded-xl bg-ink-deep ring-1 ring-line select-none ${
-          zoomed ? 'cursor-grab active:cursor-grabbing' : 'cursor-zoom-in'
+          onPick ? 'cursor-crosshair' : zoomed ? 'cursor-grab active:cursor-grabbing' : 'cursor-zoom-in'
         }`}
         style={{ aspectRatio: `1 / ${ratio}` }}
       >
@@ -188,6 +220,14 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
             }}
           />
         )}
+        {overlay && !failed ? (
+          <div className="pointer-events-none absolute inset-0">
+            {overlay({
+              scale: view.scale,
+              place: (fx, fy) => ({ left: view.x + fx * frameWidth * view.scale, top: view.y + fy * frameWidth * ratio * view.scale }),
+            })}
+          </div>
+        ) : null}
       </div>
       <div className="flex flex-wrap items-center gap-2">
         <div className="inline-flex overflow-hidden rounded-full ring-1 ring-line-strong ring-inset">

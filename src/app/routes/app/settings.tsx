@@ -3,6 +3,8 @@ import { Card } from '@/components/ui/card';
 import { useCurrentUser } from '@/features/auth/api/get-me';
 import { ChangePasswordForm } from '@/features/auth/components/change-password-form';
 import { ProfileForm } from '@/features/auth/components/profile-form';
+import { EmailPreferencesCard } from '@/features/notifications/components/email-preferences-card';
+import { AccessTokensCard } from '@/features/sharing/components/access-tokens-card';
 
 export default function SettingsRoute() {
   const user = useCurrentUser();
@@ -17,6 +19,8 @@ export default function SettingsRoute() {
         <Card title="Password" description="You stay signed in here after changing it.">
           <ChangePasswordForm />
         </Card>
+        <EmailPreferencesCard />
+        <AccessTokensCard />
       </div>
     </>
   );

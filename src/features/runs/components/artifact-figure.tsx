@@ -1,6 +1,6 @@
 import type { ReactNode } from 'react';
 import type { RunArtifact } from '@shared/schemas/runs';
-import { ZoomPanImage } from '@/components/ui/zoom-pan-image';
+import { ZoomPanImage, type PictureAnnotation } from '@/components/ui/zoom-pan-image';
 import { artifactFileName, artifactHref } from '@/features/runs/api/artifact-href';
 import { formatBytes } from '@/features/runs/components/artifact-groups';
 
@@ -11,19 +11,27 @@ interface ArtifactFigureProps {
   title: string;
   children?: ReactNode;
   aspect?: number;
+  annotation?: PictureAnnotation;
 }
 
 /** One stored picture of a run, large, zoomable, with its caption and a download link. */
-export function ArtifactFigure({ projectId, runId, artifact, title, children, aspect }: ArtifactFigureProps) {
+export function ArtifactFigure({ projectId, runId, artifact, title, children, aspect, annotation }: ArtifactFigureProps) {
   const href = artifactHref(projectId, runId, artifact.name);
   return (
     <figure className="flex min-w-0 flex-col gap-2">
       <figcaption className="flex flex-wrap items-baseline justify-between gap-x-3 gap-y-1">
         <span className="font-extrabold">{title}</span>
-        <DownloadLink projectId={projectId} runId={runId} artifact={artifact} compact />
+        <span className="flex flex-wrap items-center gap-3">
+          {annotation?.controls}
+          <DownloadLink projectId={projectId} runId={runId} artifact={artifact} compact />
+        </span>
       </figcaption>
       {artifact.label && artifact.label !== title ? <p className="-mt-1 text-sm text-ink-soft">{artifact.label}</p> : null}
-      <ZoomPanImage src={href} alt={`${title}${artifact.label && artifact.label !== title ? ` — ${artifact.label}` : ''}`} aspect={aspect} />
+      <ZoomPanImage src={href} alt={`${title}${artifact.label && artifact.label !== title ? ` — ${artifact.label}` : ''}`} aspect={aspect}
+        overlay={annotation?.overlay}
+        onPick={annotation?.onPick}
+      />
+      {annotation?.panel}
       {children}
     </figure>
   );

@@ -1,5 +1,6 @@
-import { useId, useRef, useState, type KeyboardEvent } from 'react';
+import { useEffect, useId, useRef, useState, type KeyboardEvent } from 'react';
 import { Card } from '@/components/ui/card';
+import type { PictureAnnotation } from '@/components/ui/zoom-pan-image';
 import { componentName, type ArtifactGroups, type ChannelKey, type InputKey } from '@/features/runs/components/artifact-groups';
 import { ArtifactFigure } from '@/features/runs/components/artifact-figure';
 
@@ -9,17 +10,27 @@ interface FarFieldPreviewsProps {
   groups: ArtifactGroups;
   inputs: Record<InputKey, { title: string; state: string | null }>;
   channelNames: Record<ChannelKey, string>;
+  /** Extra marks and controls for one picture, by artifact name. */
+  annotate?: (artifactName: string) => PictureAnnotation | undefined;
+  /** Asks to show the tab holding this picture; a new `nonce` asks again. */
+  reveal?: { artifact: string; nonce: number } | null;
 }
 
 const INPUT_ORDER: InputKey[] = ['a', 'b', 'extra'];
 
 /** Far fields under input A, input B and the extra input, one tab each: the total on top, its output components below, every one large. */
-export function FarFieldPreviews({ projectId, runId, groups, inputs, channelNames }: FarFieldPreviewsProps) {
+export function FarFieldPreviews({ projectId, runId, groups, inputs, channelNames, annotate, reveal }: FarFieldPreviewsProps) {
   const available = INPUT_ORDER.filter((input) => groups.farFields[input].length > 0);
   const [selected, setSelected] = useState<InputKey>(available[0] ?? 'a');
   const baseId = useId();
   const tabRefs = useRef<Partial<Record<InputKey, HTMLButtonElement | null>>>({});
   const imagePlanes = (['a', 'b'] as const).filter((c) => groups.imagePlanes[c]);
+
+  useEffect(() => {
+    if (!reveal) return;
+    const input = INPUT_ORDER.find((key) => groups.farFields[key].some(({ artifact }) => artifact.name === reveal.artifact));
+    if (input) setSelected(input);
+  }, [reveal, groups]);
 
   if (available.length === 0 && imagePlanes.length === 0) return null;
   const split = available.some((input) => groups.farFields[input].length > 1);
@@ -85,6 +96,7 @@ export function FarFieldPreviews({ projectId, runId, groups, inputs, channelName
                         runId={runId}
                         artifact={artifact}
                         title={`${inputs[input].title}: ${componentName(component, channelNames)}`}
+                        annotation={annotate?.(artifact.name)}
                       />
                     </div>
                   ))
@@ -102,6 +114,7 @@ export function FarFieldPreviews({ projectId, runId, groups, inputs, channelName
               runId={runId}
               artifact={groups.imagePlanes[c]!}
               title={`${channelNames[c]}: image plane (Fresnel hologram)`}
+              annotation={annotate?.(groups.imagePlanes[c]!.name)}
             />
           ))}
         </div>

@@ -31,7 +31,12 @@ import { channelFacts, inputNames, usesApproximateLibrary } from '@/features/run
 import { readDesignRules, readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusPanel } from '@/features/runs/components/run-status-panel';
 import { ExportPanel } from '@/features/fab/components/export-panel';
+import { ShareLinksCard } from '@/features/sharing/components/share-links-card';
 import { ToleranceCard } from '@/features/runs/components/tolerance-card';
+import { useCurrentUser } from '@/features/auth/api/get-me';
+import { useMembers } from '@/features/projects/api/get-members';
+import { ReviewThreadsCard } from '@/features/review/components/review-threads-card';
+import { useRunReview } from '@/features/review/hooks/use-run-review';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
 
 function parseRunId(value: string | undefined): number | null {
@@ -102,6 +107,7 @@ export default function ProjectRunRoute() {
       projectName={project.name}
       canRun={projectRoleAllows(project.myRole, 'design') && !project.archived}
       canManage={projectRoleAllows(project.myRole, 'manage')}
+      canComment={projectRoleAllows(project.myRole, 'comment')}
       run={run.data}
     />
   );
@@ -112,11 +118,20 @@ interface RunPageProps {
   projectName: string;
   canRun: boolean;
   canManage: boolean;
+  canComment: boolean;
   run: RunDetail;
 }
 
-function RunPage({ projectId, projectName, canRun, canManage, run }: RunPageProps) {
+function RunPage({ projectId, projectName, canRun, canManage, canComment, run }: RunPageProps) {
   const navigate = useNavigate();
+  const me = useCurrentUser();
+  const members = useMembers(projectId);
+  const review = useRunReview({
+    projectId,
+    runId: run.id,
+    viewer: { userId: me.id, canComment, canDeleteAny: canManage },
+    members: members.data ?? [],
+  });
   const groups = useMemo(() => groupArtifacts(run.artifacts), [run.artifacts]);
   const plots = useMemo(() => readRunPlots(run.plots), [run.plots]);
   const designRules = useMemo(() => readDesignRules(run.plots), [run.plots]);
@@ -186,7 +201,31 @@ function RunPage({ projectId, projectName, canRun, canManage, run }: RunPageProp
         </Banner>
       ) : null}
 
-      <FarFieldPreviews projectId={projectId} runId={run.id} groups={groups} inputs={inputNames(design)} channelNames={channelNames} />
+      <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_22rem]">
+        <div className="min-w-0">
+          <FarFieldPreviews
+            projectId={projectId}
+            runId={run.id}
+            groups={groups}
+            inputs={inputNames(design)}
+            channelNames={channelNames}
+            annotate={review.annotate}
+            reveal={review.reveal}
+          />
+        </div>
+        {run.artifacts.length > 0 ? (
+          <ReviewThreadsCard
+            threads={review.threads}
+            loading={review.threadsQuery.isPending}
+            error={review.threadsQuery.isError ? review.threadsQuery.error.message : null}
+            userId={me.id}
+            openThreadId={review.openThreadId}
+            numberOf={review.numberOf}
+            titleOf={(name) => run.artifacts.find((artifact) => artifact.name === name)?.label || name}
+            onJump={review.jumpTo}
+          />
+        ) : null}
+      </div>
 
       {beamChannels.map((c) => (
         <BeamChannel
@@ -231,6 +270,8 @@ function RunPage({ projectId, projectName, canRun, canManage, run }: RunPageProp
       {run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} /> : null}
 
       {run.status === 'succeeded' ? <ExportPanel projectId={projectId} runId={run.id} canManage={canManage} /> : null}
+
+      {canManage ? <ShareLinksCard projectId={projectId} runId={run.id} /> : null}
 
       {run.artifacts.length > 0 || !active ? <RunDownloads projectId={projectId} runId={run.id} downloads={groups.downloads} notes={notes} /> : null}
     </div>
