@@ -83,6 +83,9 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'post', path: `${P}/members`, summary: 'Add a member by e-mail; an e-mail without an account gets an invitation', role: 'project:manage', body: addMemberSchema, ok: [201, '`{ member, invited }`'] },
   { method: 'patch', path: `${P}/members/:userId`, summary: "Change a member's role", role: 'project:manage', body: changeMemberRoleSchema, ok: [200, '`{ member }`'] },
   { method: 'delete', path: `${P}/members/:userId`, summary: 'Remove a member (owners), or leave (anyone)', role: 'project:read', ok: [204, 'No content'] },
+  { method: 'get', path: `${P}/invitations`, summary: 'Members invited by e-mail who have not accepted yet', role: 'project:manage', ok: [200, '`{ invitations: PendingInvitation[] }`'] },
+  { method: 'post', path: `${P}/invitations/:userId/resend`, summary: 'Mail the invitation again with a new link (earlier links stop working)', role: 'project:manage', ok: [200, '`{ invitation }`'] },
+  { method: 'delete', path: `${P}/invitations/:userId`, summary: 'Withdraw an invitation: links refused, membership removed', role: 'project:manage', ok: [204, 'No content'] },
 
   { method: 'get', path: `${P}/revisions`, summary: 'Revisions of the design', role: 'project:read', ok: [200, '`{ revisions }`'] },
   { method: 'post', path: `${P}/revisions`, summary: 'Save the design as a new immutable revision', role: 'project:design', body: createRevisionSchema, ok: [201, '`{ revision }`'] },

@@ -50,3 +50,14 @@ export type Member = z.infer<typeof memberSchema>;
 export type CreateProjectInput = z.infer<typeof createProjectSchema>;
 export type UpdateProjectInput = z.infer<typeof updateProjectSchema>;
 export type AddMemberInput = z.infer<typeof addMemberSchema>;
+
+/** A member whose account was created by an invitation that has not been accepted yet. */
+export const pendingInvitationSchema = z.object({
+  userId: z.number().int(),
+  email: z.string(),
+  role: z.enum(PROJECT_ROLES),
+  invitedAt: z.string(),
+  /** Until when the newest link works; null when no usable link is left (resend to issue one). */
+  expiresAt: z.string().nullable(),
+});
+export type PendingInvitation = z.infer<typeof pendingInvitationSchema>;

@@ -33,10 +33,12 @@ interface Fixture {
   /** 'thread': an open thread the owner pinned on the finished run's far-field preview, and its first comment. */
   threadId: number;
   commentId: number;
+  /** 'invite': a member the owner invited by e-mail, who has not accepted yet. */
+  inviteeUserId: number;
 }
 /** Parts of the fixture a route needs beyond the project and its members (built only then: they cost time). */
 /** 'layout': the finished run gets a synthetic layout with design-rule violations and an owner's override. */
-type Need = 'revision' | 'upload' | 'runs' | 'library' | 'layout' | 'thread';
+type Need = 'revision' | 'upload' | 'runs' | 'library' | 'layout' | 'thread' | 'invite';
 interface RouteCase {
   name: string;
   needs?: Need[];
@@ -83,6 +85,19 @@ const ROUTES: RouteCase[] = [
   {
     name: 'DELETE /projects/:id/members/:userId (someone else)',
     send: (c, f) => c.delete(`/api/projects/${f.projectId}/members/${f.targetUserId}`),
+    expected: manage(204),
+  },
+  { name: 'GET /projects/:id/invitations', needs: ['invite'], send: (c, f) => c.get(`/api/projects/${f.projectId}/invitations`), expected: manage(200) },
+  {
+    name: 'POST /projects/:id/invitations/:userId/resend',
+    needs: ['invite'],
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/invitations/${f.inviteeUserId}/resend`),
+    expected: manage(200),
+  },
+  {
+    name: 'DELETE /projects/:id/invitations/:userId',
+    needs: ['invite'],
+    send: (c, f) => c.delete(`/api/projects/${f.projectId}/invitations/${f.inviteeUserId}`),
     expected: manage(204),
   },
   { name: 'GET /projects/:id/revisions', send: (c, f) => c.get(`/api/projects/${f.projectId}/revisions`), expected: read },
@@ -303,7 +318,11 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs', 'libr
   }
   const target = await makeUser({ name: 'Matrix target' });
   await owner.post(`/api/projects/${project.id}/members`, { email: target.email, role: 'viewer' });
-  const fixture: Fixture = { projectId: project.id, targetUserId: target.id, revisionNumber: 0, uploadId: 0, libraryId: 0, queuedRunId: 0, finishedRunId: 0, threadId: 0, commentId: 0 };
+  const fixture: Fixture = { projectId: project.id, targetUserId: target.id, revisionNumber: 0, uploadId: 0, libraryId: 0, queuedRunId: 0, finishedRunId: 0, threadId: 0, commentId: 0, inviteeUserId: 0 };
+  if (needs.includes('invite')) {
+    const email = `matrix.invitee.${project.id}@partner-lab.example`;
+    fixture.inviteeUserId = (await owner.post(`/api/projects/${project.id}/members`, { email, role: 'reviewer' })).body.member.userId;
+  }
   if (needs.includes('upload')) fixture.uploadId = (await uploadPhaseMap(owner, project.id)).body.upload.id;
   if (needs.includes('library')) fixture.libraryId = (await uploadAtomLibrary(owner, project.id, eightAtomCsv())).body.atomLibrary.id;
   if (!needs.includes('revision') && !needs.includes('runs')) return fixture;

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { linkToken, waitForMail } from '../support/mailbox';
+import { allMail, linkToken, waitForMail } from '../support/mailbox';
 import { ApiClient, createTestApp, makeUser, signedInClient, type TestApp } from '../support/test-app';
 
 let t: TestApp;
@@ -115,6 +115,74 @@ describe('membership', () => {
     expect(seen.body.project.myRole).toBe('reviewer');
     const reused = await new ApiClient(t.app).start().then((c) => c.post('/api/auth/invitation/accept', { token, name: 'X', password: 'a long enough secret' }));
     expect(reused.status).toBe(400);
+  });
+
+  it('lists pending invitations, resends one with a fresh link and revokes another', async () => {
+    const project = (await owner.post('/api/projects', { name: 'Pending invitations project' })).body.project;
+    const email = `pending.${Date.now()}@partner-lab.example`;
+    const other = `withdrawn.${Date.now()}@partner-lab.example`;
+    const invited = (await owner.post(`/api/projects/${project.id}/members`, { email, role: 'reviewer' })).body.member;
+    const withdrawn = (await owner.post(`/api/projects/${project.id}/members`, { email: other, role: 'viewer' })).body.member;
+    const colleague = await makeUser();
+    await owner.post(`/api/projects/${project.id}/members`, { email: colleague.email, role: 'designer' });
+
+    const listed = await owner.get(`/api/projects/${project.id}/invitations`);
+    expect(listed.status).toBe(200);
+    expect(listed.body.invitations).toEqual([
+      { userId: invited.userId, email, role: 'reviewer', invitedAt: expect.any(String), expiresAt: expect.any(String) },
+      { userId: withdrawn.userId, email: other, role: 'viewer', invitedAt: expect.any(String), expiresAt: expect.any(String) },
+    ]);
+    const firstExpiry = Date.parse(listed.body.invitations[0].expiresAt) - Date.parse(listed.body.invitations[0].invitedAt);
+    expect(firstExpiry).toBeGreaterThan(6.9 * 24 * 3600 * 1000);
+
+    const firstMail = await waitForMail(email, 'invited you');
+    const firstToken = linkToken(firstMail);
+    const resent = await owner.post(`/api/projects/${project.id}/invitations/${invited.userId}/resend`);
+    expect(resent.status).toBe(200);
+    expect(resent.body.invitation).toMatchObject({ userId: invited.userId, email, role: 'reviewer' });
+    const mails = async () => (await allMail()).filter((m) => m.to.some((to) => to.address === email));
+    await expect.poll(async () => (await mails()).length).toBe(2);
+    const secondToken = linkToken((await mails())[1]);
+    expect(secondToken).not.toBe(firstToken);
+    expect((await mails())[1].text).toContain('Pending invitations project');
+
+    const stale = await new ApiClient(t.app).start().then((c) => c.post('/api/auth/invitation/accept', { token: firstToken, name: 'Too Late', password: 'a long enough secret' }));
+    expect(stale.status).toBe(400);
+    const fresh = await new ApiClient(t.app).start().then((c) => c.post('/api/auth/invitation/accept', { token: secondToken, name: 'On Time', password: 'a long enough secret' }));
+    expect(fresh.status).toBe(200);
+    const afterAccept = (await owner.get(`/api/projects/${project.id}/invitations`)).body.invitations;
+    expect(afterAccept.map((i: { email: string }) => i.email)).toEqual([other]);
+    expect((await owner.post(`/api/projects/${project.id}/invitations/${invited.userId}/resend`)).status).toBe(404);
+
+    const withdrawnToken = linkToken(await waitForMail(other, 'invited you'));
+    expect((await owner.delete(`/api/projects/${project.id}/invitations/${withdrawn.userId}`)).status).toBe(204);
+    const refused = await new ApiClient(t.app).start().then((c) => c.post('/api/auth/invitation/accept', { token: withdrawnToken, name: 'Nope', password: 'a long enough secret' }));
+    expect(refused.status).toBe(400);
+    const members = (await owner.get(`/api/projects/${project.id}/members`)).body.members;
+    expect(members.map((m: { email: string }) => m.email)).not.toContain(other);
+    expect((await owner.get(`/api/projects/${project.id}/invitations`)).body.invitations).toEqual([]);
+    expect((await owner.delete(`/api/projects/${project.id}/invitations/${withdrawn.userId}`)).status).toBe(404);
+    expect((await owner.delete(`/api/projects/${project.id}/invitations/${colleague.id}`)).status).toBe(404);
+    expect((await owner.delete(`/api/projects/${project.id}/invitations/abc`)).status).toBe(400);
+    const again = await owner.post(`/api/projects/${project.id}/members`, { email: other, role: 'viewer' });
+    expect(again.body.invited).toBe(true);
+  });
+
+  it('revoking an invitation keeps an account that another project still waits for', async () => {
+    const first = (await owner.post('/api/projects', { name: 'First inviting project' })).body.project;
+    const second = (await owner.post('/api/projects', { name: 'Second inviting project' })).body.project;
+    const email = `twice.${Date.now()}@partner-lab.example`;
+    const member = (await owner.post(`/api/projects/${first.id}/members`, { email, role: 'viewer' })).body.member;
+    await owner.post(`/api/projects/${second.id}/members`, { email, role: 'reviewer' });
+    const token = linkToken(await waitForMail(email, 'invited you'));
+    expect((await owner.delete(`/api/projects/${first.id}/invitations/${member.userId}`)).status).toBe(204);
+
+    const guest = await new ApiClient(t.app).start();
+    const accepted = await guest.post('/api/auth/invitation/accept', { token, name: 'Twice Invited', password: 'a long enough secret' });
+    expect(accepted.status).toBe(200);
+    guest.csrfToken = accepted.body.csrfToken;
+    expect((await guest.get(`/api/projects/${first.id}`)).status).toBe(404);
+    expect((await guest.get(`/api/projects/${second.id}`)).body.project.myRole).toBe('reviewer');
   });
 
   it('never lets the last owner leave or be demoted', async () => {

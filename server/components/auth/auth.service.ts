@@ -1,4 +1,4 @@
-import { Op } from 'sequelize';
+import { Op, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
 import { hashToken, newToken } from '../../lib/tokens';
@@ -67,18 +67,12 @@ export async function resetPassword(ctx: AppContext, token: string, password: st
   return user;
 }
 
-/** Creates an account without a password and mails its owner a link to choose one. */
-export async function inviteUser(
-  ctx: AppContext,
-  input: { email: string; name: string; siteRole: 'admin' | 'member' },
-  invitedBy: UserModel,
-  project?: { name: string; role: string },
-) {
-  if (await UserModel.findOne({ where: { email: input.email } })) {
-    throw new AppError(409, 'An account with this e-mail already exists', { email: 'Already registered' });
-  }
-  const user = await UserModel.create({ ...input, passwordHash: null });
-  const token = await issueToken(user.id, 'invite', INVITE_LIFETIME_MS);
+export interface InvitationContext {
+  name: string;
+  role: string;
+}
+
+function mailInvitation(ctx: AppContext, user: UserModel, invitedBy: UserModel, token: string, project?: InvitationContext) {
   ctx.mailer.enqueue({
     to: user.email,
     subject: `${invitedBy.name} invited you to Phasewright`,
@@ -92,7 +86,47 @@ export async function inviteUser(
       `${ctx.config.publicUrl}/welcome?token=${token}`,
     ].join('\n'),
   });
+}
+
+/** Creates an account without a password and mails its owner a link to choose one. */
+export async function inviteUser(
+  ctx: AppContext,
+  input: { email: string; name: string; siteRole: 'admin' | 'member' },
+  invitedBy: UserModel,
+  project?: InvitationContext,
+) {
+  if (await UserModel.findOne({ where: { email: input.email } })) {
+    throw new AppError(409, 'An account with this e-mail already exists', { email: 'Already registered' });
+  }
+  const user = await UserModel.create({ ...input, passwordHash: null });
+  const token = await issueToken(user.id, 'invite', INVITE_LIFETIME_MS);
+  mailInvitation(ctx, user, invitedBy, token, project);
   return user;
+}
+
+/** Marks every unused invitation link of this account as used, so none of them works any more. */
+export async function invalidateInvitations(userId: number, transaction?: Transaction) {
+  await AuthTokenModel.update({ usedAt: new Date() }, { where: { userId, purpose: 'invite', usedAt: { [Op.is]: null } }, transaction });
+}
+
+/** Replaces the account's invitation links with a fresh one and mails it again. */
+export async function reissueInvitation(ctx: AppContext, user: UserModel, invitedBy: UserModel, project: InvitationContext) {
+  if (user.passwordHash) throw new AppError(409, 'This person has already accepted the invitation');
+  await invalidateInvitations(user.id);
+  const token = await issueToken(user.id, 'invite', INVITE_LIFETIME_MS);
+  mailInvitation(ctx, user, invitedBy, token, project);
+}
+
+/** The newest invitation link of each account: when it was sent and until when it works (null once used). */
+export async function latestInvitations(userIds: number[]) {
+  const rows = userIds.length
+    ? await AuthTokenModel.findAll({ where: { userId: { [Op.in]: userIds }, purpose: 'invite' }, order: [['createdAt', 'DESC'], ['id', 'DESC']] })
+    : [];
+  const latest = new Map<number, { invitedAt: Date; expiresAt: Date | null }>();
+  for (const row of rows) {
+    if (!latest.has(row.userId)) latest.set(row.userId, { invitedAt: row.createdAt, expiresAt: row.usedAt ? null : row.expiresAt });
+  }
+  return latest;
 }
 
 export async function acceptInvitation(ctx: AppContext, token: string, name: string, password: string) {

@@ -12,6 +12,7 @@ import { parseId, parseInput } from '../../lib/validate';
 import { currentUser, requireUser } from '../auth/auth.middleware';
 import { recordMembershipActivity } from '../review/activity.service';
 import { UserModel } from '../users/user.model';
+import { listPendingInvitations, resendInvitation, revokeInvitation } from './invitation.service';
 import { projectAccess, requireProject } from './project-access';
 import {
   addMember,
@@ -88,6 +89,23 @@ export function projectRoutes(ctx: AppContext) {
     const removed = await UserModel.findByPk(userId, { attributes: ['name'] });
     await removeMember(project.id, userId);
     await recordMembershipActivity(project.id, currentUser(req).id, 'member-removed', { name: removed?.name ?? `user ${userId}` });
+    res.status(204).end();
+  });
+
+  router.get('/:projectId/invitations', requireProject('manage'), async (req, res) => {
+    res.json({ invitations: await listPendingInvitations(projectAccess(req).project.id) });
+  });
+
+  router.post('/:projectId/invitations/:userId/resend', requireProject('manage'), async (req, res) => {
+    const userId = parseId(req.params.userId, 'userId');
+    res.json({ invitation: await resendInvitation(ctx, projectAccess(req).project.id, userId, currentUser(req)) });
+  });
+
+  router.delete('/:projectId/invitations/:userId', requireProject('manage'), async (req, res) => {
+    const { project } = projectAccess(req);
+    const userId = parseId(req.params.userId, 'userId');
+    const revoked = await revokeInvitation(ctx, project.id, userId);
+    await recordMembershipActivity(project.id, currentUser(req).id, 'member-removed', { name: revoked.email });
     res.status(204).end();
   });
 

@@ -1,16 +1,38 @@
+import { useMemo } from 'react';
 import { useParams } from 'react-router-dom';
+import type { RunDetail } from '@shared/schemas/runs';
 import { Banner } from '@/components/ui/banner';
-import { Card } from '@/components/ui/card';
 import { PageLoader } from '@/components/ui/spinner';
-import { formatBytes } from '@/features/runs/components/artifact-groups';
+import { ArtifactUrlContext, type ArtifactAddress } from '@/features/runs/api/artifact-url-context';
+import { DESIGN_ARTIFACT, useRunDesign } from '@/features/runs/api/get-run-design';
+import { groupArtifacts, type ChannelKey } from '@/features/runs/components/artifact-groups';
+import { BeamChannel } from '@/features/runs/components/beam-channel';
+import { ConvergenceCard } from '@/features/runs/components/convergence-card';
+import { FarFieldPreviews } from '@/features/runs/components/far-field-previews';
+import { sectionName } from '@/features/runs/components/format-run';
+import { MapPreviews } from '@/features/runs/components/map-previews';
 import { MetricsTable } from '@/features/runs/components/metrics-table';
+import { OtherPlots } from '@/features/runs/components/other-plots';
+import { RunDownloads } from '@/features/runs/components/run-downloads';
+import { channelFacts, inputNames } from '@/features/runs/components/run-facts';
+import { readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusBadge } from '@/features/runs/components/run-status-badge';
 import { sharedArtifactHref, useSharedRun } from '@/features/sharing/api/share-links';
+
+/** Share links never reveal the project id; the run components only use it for addresses, which the context replaces. */
+const NO_PROJECT = 0;
 
 /** A run opened through a share link: read-only, no app shell, nothing but this run. */
 export default function SharedRunRoute() {
   const token = useParams().token ?? '';
   const shared = useSharedRun(token);
+  const address = useMemo<ArtifactAddress>(
+    () => ({
+      href: (name) => sharedArtifactHref(token, name),
+      fileName: (name) => `phasewright-shared-run-${name}`,
+    }),
+    [token],
+  );
   if (shared.isPending) return <PageLoader label="Opening the shared run" />;
   if (shared.isError) {
     return (
@@ -21,9 +43,8 @@ export default function SharedRunRoute() {
     );
   }
   const { run, projectName, expiresAt } = shared.data;
-  const images = run.artifacts.filter((a) => a.mime === 'image/png');
   return (
-    <main className="mx-auto flex max-w-6xl flex-col gap-6 p-6">
+    <main className="mx-auto flex max-w-7xl flex-col gap-6 p-6">
       <title>{`Run ${run.id} · ${projectName} · shared · Phasewright`}</title>
       <Banner tone="info" title="Shared read-only view">
         You are looking at one run of “{projectName}” through a share link. Nothing here can be changed.
@@ -35,33 +56,67 @@ export default function SharedRunRoute() {
         </h1>
         <RunStatusBadge status={run.status} size="md" />
       </header>
-      {images.length ? (
-        <Card title="Previews">
-          <div className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
-            {images.map((image) => (
-              <figure key={image.name}>
-                <img src={sharedArtifactHref(token, image.name)} alt={image.name} className="w-full rounded-lg ring-1 ring-line" loading="lazy" />
-                <figcaption className="mt-1 font-mono text-xs text-ink-soft">{image.name}</figcaption>
-              </figure>
-            ))}
-          </div>
-        </Card>
-      ) : null}
-      {run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} /> : null}
-      {run.artifacts.length ? (
-        <Card title="Files">
-          <ul className="text-sm">
-            {run.artifacts.map((a) => (
-              <li key={a.name}>
-                <a className="font-bold underline" href={sharedArtifactHref(token, a.name)}>
-                  {a.name}
-                </a>{' '}
-                <span className="text-ink-soft">{formatBytes(a.size)}</span>
-              </li>
-            ))}
-          </ul>
-        </Card>
-      ) : null}
+      <ArtifactUrlContext value={address}>
+        <SharedRunResults run={run} />
+      </ArtifactUrlContext>
     </main>
+  );
+}
+
+function SharedRunResults({ run }: { run: RunDetail }) {
+  const groups = useMemo(() => groupArtifacts(run.artifacts), [run.artifacts]);
+  const plots = useMemo(() => readRunPlots(run.plots), [run.plots]);
+  const hasDesign = run.artifacts.some((artifact) => artifact.name === DESIGN_ARTIFACT);
+  const design = useRunDesign(NO_PROJECT, run.id, hasDesign).data ?? null;
+  const notes = readNotes(run.plots).filter((note) => !/laser safety|approximate/i.test(note));
+  const mapping = Object.entries(run.metrics ?? {}).find(([key]) => sectionName(key) === 'Atom mapping')?.[1] ?? null;
+
+  const channels = {
+    a: channelFacts(run, design, 'a', Boolean(groups.slices.a)),
+    b: channelFacts(run, design, 'b', Boolean(groups.slices.b)),
+  };
+  const channelNames: Record<ChannelKey, string> = { a: channels.a.name, b: channels.b.name };
+  const beamChannels = (['a', 'b'] as const).filter((c) => channels[c].beam || channels[c].lens);
+  const onlyBeam = beamChannels.length === 1 ? beamChannels[0] : null;
+  const profilesOf = (c: ChannelKey) => plots.profiles.filter((p) => p.channel === c || (p.channel === null && onlyBeam === c));
+  const linesOf = (c: ChannelKey) => plots.lines.filter((l) => l.channel === c || (l.channel === null && onlyBeam === c));
+  const unplacedProfiles = plots.profiles.filter((p) => !beamChannels.some((c) => profilesOf(c).includes(p)));
+
+  return (
+    <>
+      <ConvergenceCard run={run} channelNames={channelNames} />
+      <FarFieldPreviews projectId={NO_PROJECT} runId={run.id} groups={groups} inputs={inputNames(design)} channelNames={channelNames} />
+      {beamChannels.map((c) => (
+        <BeamChannel
+          key={c}
+          projectId={NO_PROJECT}
+          runId={run.id}
+          channel={channels[c]}
+          slice={groups.slices[c]}
+          profiles={profilesOf(c)}
+          lines={linesOf(c)}
+        />
+      ))}
+      <MapPreviews
+        projectId={NO_PROJECT}
+        runId={run.id}
+        maps={groups.maps}
+        arrayMaps={groups.arrayMaps}
+        channelNames={channelNames}
+        mapping={mapping}
+      />
+      <OtherPlots
+        projectId={NO_PROJECT}
+        runId={run.id}
+        images={[
+          ...groups.otherImages,
+          ...(['a', 'b'] as const).flatMap((c) => (groups.slices[c] && !beamChannels.includes(c) ? [groups.slices[c]!] : [])),
+        ]}
+        histograms={plots.histograms}
+        profiles={unplacedProfiles}
+      />
+      {run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} /> : null}
+      {run.artifacts.length > 0 ? <RunDownloads projectId={NO_PROJECT} runId={run.id} downloads={groups.downloads} notes={notes} /> : null}
+    </>
   );
 }

@@ -14,6 +14,7 @@ export function useAddMember(projectId: number) {
     onSuccess: async () => {
       await Promise.all([
         queryClient.invalidateQueries({ queryKey: projectKeys.members(projectId) }),
+        queryClient.invalidateQueries({ queryKey: projectKeys.invitations(projectId) }),
         queryClient.invalidateQueries({ queryKey: projectKeys.detail(projectId), exact: true }),
         queryClient.invalidateQueries({ queryKey: projectKeys.lists() }),
       ]);

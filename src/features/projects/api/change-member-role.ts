@@ -20,6 +20,7 @@ export function useChangeMemberRole(projectId: number) {
     onSuccess: async () => {
       await Promise.all([
         queryClient.invalidateQueries({ queryKey: projectKeys.members(projectId) }),
+        queryClient.invalidateQueries({ queryKey: projectKeys.invitations(projectId) }),
         queryClient.invalidateQueries({ queryKey: projectKeys.detail(projectId), exact: true }),
         queryClient.invalidateQueries({ queryKey: projectKeys.lists() }),
       ]);

@@ -9,5 +9,6 @@ export const projectKeys = {
   details: () => [...projectKeys.all, 'detail'] as const,
   detail: (projectId: number) => [...projectKeys.details(), projectId] as const,
   members: (projectId: number) => [...projectKeys.detail(projectId), 'members'] as const,
+  invitations: (projectId: number) => [...projectKeys.detail(projectId), 'invitations'] as const,
   activity: (projectId: number) => [...projectKeys.detail(projectId), 'activity'] as const,
 };

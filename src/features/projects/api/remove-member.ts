@@ -21,6 +21,7 @@ export function useRemoveMember(projectId: number) {
       }
       await Promise.all([
         queryClient.invalidateQueries({ queryKey: projectKeys.members(projectId) }),
+        queryClient.invalidateQueries({ queryKey: projectKeys.invitations(projectId) }),
         queryClient.invalidateQueries({ queryKey: projectKeys.detail(projectId), exact: true }),
         queryClient.invalidateQueries({ queryKey: projectKeys.lists() }),
       ]);

@@ -2,7 +2,7 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import { paintPhase, subsampleMap } from '@shared/optics/colormap';
 import { decodeNpy } from '@shared/optics/npy-decode';
 import { ApiError } from '@/lib/api-client';
-import { artifactHref } from '@/features/runs/api/artifact-href';
+import { useArtifactAddress } from '@/features/runs/api/artifact-url-context';
 import { runKeys } from '@/features/runs/api/query-keys';
 
 const MAX_SIDE = 1024;
@@ -11,8 +11,8 @@ const MAX_SIDE = 1024;
  * Fetches an N×N phase array (.npy, radians) of a run and paints it in the cyclic colours as a PNG, for
  * maps the run stores only as arrays (δx, δy). Large arrays are sampled down to at most 1024 per side.
  */
-export async function getArrayPicture(projectId: number, runId: number, name: string, signal?: AbortSignal): Promise<Blob> {
-  const response = await fetch(artifactHref(projectId, runId, name), { credentials: 'same-origin', signal });
+export async function getArrayPicture(href: string, name: string, signal?: AbortSignal): Promise<Blob> {
+  const response = await fetch(href, { credentials: 'same-origin', signal });
   if (!response.ok) throw new ApiError(response.status, `The file ${name} did not load (the server answered ${response.status})`);
   const array = decodeNpy(new Uint8Array(await response.arrayBuffer()));
   const [rows, cols] = array.shape;
@@ -33,15 +33,16 @@ export async function getArrayPicture(projectId: number, runId: number, name: st
   );
 }
 
-export function arrayPictureQueryOptions(projectId: number, runId: number, name: string) {
+export function arrayPictureQueryOptions(projectId: number, runId: number, name: string, href: string) {
   return queryOptions({
-    queryKey: [...runKeys.artifact(projectId, runId, name), 'picture'] as const,
-    queryFn: ({ signal }) => getArrayPicture(projectId, runId, name, signal),
+    queryKey: [...runKeys.artifact(projectId, runId, name), 'picture', href] as const,
+    queryFn: ({ signal }) => getArrayPicture(href, name, signal),
     staleTime: Infinity,
     gcTime: 5 * 60_000,
   });
 }
 
 export function useArrayPicture(projectId: number, runId: number, name: string, enabled: boolean) {
-  return useQuery({ ...arrayPictureQueryOptions(projectId, runId, name), enabled });
+  const href = useArtifactAddress(projectId, runId).href(name);
+  return useQuery({ ...arrayPictureQueryOptions(projectId, runId, name, href), enabled });
 }

@@ -1,7 +1,7 @@
 import type { ReactNode } from 'react';
 import type { RunArtifact } from '@shared/schemas/runs';
 import { ZoomPanImage, type PictureAnnotation } from '@/components/ui/zoom-pan-image';
-import { artifactFileName, artifactHref } from '@/features/runs/api/artifact-href';
+import { useArtifactAddress } from '@/features/runs/api/artifact-url-context';
 import { formatBytes } from '@/features/runs/components/artifact-groups';
 
 interface ArtifactFigureProps {
@@ -16,7 +16,7 @@ interface ArtifactFigureProps {
 
 /** One stored picture of a run, large, zoomable, with its caption and a download link. */
 export function ArtifactFigure({ projectId, runId, artifact, title, children, aspect, annotation }: ArtifactFigureProps) {
-  const href = artifactHref(projectId, runId, artifact.name);
+  const href = useArtifactAddress(projectId, runId).href(artifact.name);
   return (
     <figure className="flex min-w-0 flex-col gap-2">
       <figcaption className="flex flex-wrap items-baseline justify-between gap-x-3 gap-y-1">
@@ -48,10 +48,11 @@ export function DownloadLink({
   artifact: RunArtifact;
   compact?: boolean;
 }) {
+  const address = useArtifactAddress(projectId, runId);
   return (
     <a
-      href={artifactHref(projectId, runId, artifact.name)}
-      download={artifactFileName(projectId, runId, artifact.name)}
+      href={address.href(artifact.name)}
+      download={address.fileName(artifact.name)}
       className="rounded text-sm font-bold text-teal underline-offset-4 hover:underline"
     >
       {compact ? (

@@ -1,5 +1,6 @@
 import type { RunArtifact, RunMetric } from '@shared/schemas/runs';
 import { Card } from '@/components/ui/card';
+import type { PictureAnnotation } from '@/components/ui/zoom-pan-image';
 import { ArtifactFigure } from '@/features/runs/components/artifact-figure';
 import { formatMetricValue, metricName } from '@/features/runs/components/format-run';
 import { LaserSafetyNote } from '@/features/runs/components/laser-safety-note';
@@ -14,6 +15,8 @@ interface BeamChannelProps {
   slice: RunArtifact | undefined;
   profiles: RadialProfile[];
   lines: AxialLine[];
+  /** Extra marks and controls for one picture, by artifact name. */
+  annotate?: (artifactName: string) => PictureAnnotation | undefined;
 }
 
 const BEAM_KEYS = [
@@ -41,7 +44,7 @@ function value(metrics: Record<string, RunMetric> | null, key: string): number |
 }
 
 /** A beam or lens channel: caution, x–z slice, radial profile against J_ℓ², intensity along z, key figures. */
-export function BeamChannel({ projectId, runId, channel, slice, profiles, lines }: BeamChannelProps) {
+export function BeamChannel({ projectId, runId, channel, slice, profiles, lines, annotate }: BeamChannelProps) {
   const metrics = channel.metrics;
   const figures = BEAM_KEYS.filter((key) => metrics?.[key]);
   const kind = channel.beam ? (channel.charge ? `vortex Bessel beam, ℓ = ${channel.charge}` : 'Bessel beam') : 'lens focus';
@@ -67,7 +70,14 @@ export function BeamChannel({ projectId, runId, channel, slice, profiles, lines 
       <LaserSafetyNote className="mb-5" />
       <div className="grid gap-8 xl:grid-cols-2">
         {slice ? (
-          <ArtifactFigure projectId={projectId} runId={runId} artifact={slice} title="x–z intensity slice" aspect={0.66}>
+          <ArtifactFigure
+            projectId={projectId}
+            runId={runId}
+            artifact={slice}
+            title="x–z intensity slice"
+            aspect={0.66}
+            annotation={annotate?.(slice.name)}
+          >
             <p className="text-xs text-ink-soft">Propagation distance z runs to the right, x downwards through the beam axis.</p>
           </ArtifactFigure>
         ) : null}

@@ -1,5 +1,6 @@
 import type { RunArtifact, RunMetric } from '@shared/schemas/runs';
 import { Card } from '@/components/ui/card';
+import type { PictureAnnotation } from '@/components/ui/zoom-pan-image';
 import type { ChannelKey, MapImage } from '@/features/runs/components/artifact-groups';
 import { ArrayMapFigure } from '@/features/runs/components/array-map-figure';
 import { ArtifactFigure } from '@/features/runs/components/artifact-figure';
@@ -12,6 +13,8 @@ interface MapPreviewsProps {
   arrayMaps: RunArtifact[];
   channelNames: Record<ChannelKey, string>;
   mapping: Record<string, RunMetric> | null;
+  /** Extra marks and controls for one picture, by artifact name. */
+  annotate?: (artifactName: string) => PictureAnnotation | undefined;
 }
 
 function titleOf(map: MapImage, channelNames: Record<ChannelKey, string>): string {
@@ -60,12 +63,19 @@ function legendOf(map: MapImage, mapping: Record<string, RunMetric> | null) {
 }
 
 /** Channel phases, the propagation phases δx/δy, the rotation θ and the atom-index map, each with its colour key. */
-export function MapPreviews({ projectId, runId, maps, arrayMaps, channelNames, mapping }: MapPreviewsProps) {
+export function MapPreviews({ projectId, runId, maps, arrayMaps, channelNames, mapping, annotate }: MapPreviewsProps) {
   if (maps.length + arrayMaps.length === 0) return null;
   const phases = maps.filter((m) => m.kind === 'phase');
   const others = maps.filter((m) => m.kind !== 'phase');
   const figure = (map: MapImage) => (
-    <ArtifactFigure key={map.artifact.name} projectId={projectId} runId={runId} artifact={map.artifact} title={titleOf(map, channelNames)}>
+    <ArtifactFigure
+      key={map.artifact.name}
+      projectId={projectId}
+      runId={runId}
+      artifact={map.artifact}
+      title={titleOf(map, channelNames)}
+      annotation={annotate?.(map.artifact.name)}
+    >
       {legendOf(map, mapping)}
     </ArtifactFigure>
   );

@@ -1,5 +1,6 @@
 import type { RunArtifact } from '@shared/schemas/runs';
 import { Card } from '@/components/ui/card';
+import type { PictureAnnotation } from '@/components/ui/zoom-pan-image';
 import { ArtifactFigure } from '@/features/runs/components/artifact-figure';
 import { HistogramChart, ProfileChart } from '@/features/runs/components/run-charts';
 import { humanize } from '@/features/runs/components/format-run';
@@ -11,12 +12,14 @@ interface OtherPlotsProps {
   images: RunArtifact[];
   histograms: Histogram[];
   profiles: RadialProfile[];
+  /** Extra marks and controls for one picture, by artifact name. */
+  annotate?: (artifactName: string) => PictureAnnotation | undefined;
 }
 
 const titleOfSource = (source: string) => source.split(' › ').map(humanize).join(' › ') || 'Plot';
 
 /** Pictures and plot data the page has no dedicated place for, shown rather than hidden. */
-export function OtherPlots({ projectId, runId, images, histograms, profiles }: OtherPlotsProps) {
+export function OtherPlots({ projectId, runId, images, histograms, profiles, annotate }: OtherPlotsProps) {
   if (images.length + histograms.length + profiles.length === 0) return null;
   return (
     <Card title="More results" description="Further pictures and plots this run produced.">
@@ -38,7 +41,14 @@ export function OtherPlots({ projectId, runId, images, histograms, profiles }: O
           </figure>
         ))}
         {images.map((artifact) => (
-          <ArtifactFigure key={artifact.name} projectId={projectId} runId={runId} artifact={artifact} title={artifact.label || artifact.name} />
+          <ArtifactFigure
+            key={artifact.name}
+            projectId={projectId}
+            runId={runId}
+            artifact={artifact}
+            title={artifact.label || artifact.name}
+            annotation={annotate?.(artifact.name)}
+          />
         ))}
       </div>
     </Card>

@@ -10,6 +10,7 @@ import { useCurrentUser } from '@/features/auth/api/get-me';
 import { membersQueryOptions, useMembers } from '@/features/projects/api/get-members';
 import { AddMemberForm } from '@/features/projects/components/add-member-form';
 import { MembersList } from '@/features/projects/components/members-list';
+import { PendingInvitations } from '@/features/projects/components/pending-invitations';
 import { RoleGuide } from '@/features/projects/components/role-guide';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
 
@@ -64,6 +65,14 @@ export default function ProjectMembersRoute() {
             />
           )}
         </Card>
+        {canManage ? (
+          <Card
+            title="Pending invitations"
+            description="People invited by e-mail who have not chosen a password yet. Resend a fresh link or withdraw the invitation."
+          >
+            <PendingInvitations projectId={project.id} />
+          </Card>
+        ) : null}
       </div>
       <Card title="What each role can do" headingLevel="h2" className="self-start">
         <RoleGuide />

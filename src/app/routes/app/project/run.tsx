@@ -236,6 +236,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
           slice={groups.slices[c]}
           profiles={profilesOf(c)}
           lines={linesOf(c)}
+          annotate={review.annotate}
         />
       ))}
 
@@ -246,6 +247,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
         arrayMaps={groups.arrayMaps}
         channelNames={channelNames}
         mapping={sectionOf('Atom mapping')}
+        annotate={review.annotate}
       />
 
       <OtherPlots
@@ -257,6 +259,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
         ]}
         histograms={plots.histograms}
         profiles={unplacedProfiles}
+        annotate={review.annotate}
       />
 
       {designRules ? (
