@@ -3,40 +3,18 @@
  * saves a revision and runs it, watches progress reach 100 %, and sees the new previews and metrics; a viewer
  * then sees the run but no run or cancel controls.
  */
-import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchBrowser, screenshot } from '../support/browser';
-import { startServerWithDemo, type RunningServer } from '../support/running-server';
-import { DEMO_PASSWORD } from '../../server/db/seed-demo';
+import { describe, expect, it } from 'vitest';
+import { screenshot } from '../support/browser';
+import { useDemoBrowser } from '../support/demo-browser';
 
-let server: RunningServer;
-let browser: Awaited<ReturnType<typeof launchBrowser>>;
-
-beforeAll(async () => {
-  server = await startServerWithDemo();
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-});
-
-async function signIn(page: Page, email: string) {
-  await browser.context.clearCookies();
-  await page.goto(`${server.url}/sign-in`);
-  const form = page.getByRole('form', { name: 'Sign in' });
-  await form.getByLabel('E-mail').fill(email);
-  await form.getByLabel('Password').fill(DEMO_PASSWORD);
-  await form.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByRole('heading', { name: 'Projects', exact: true }).waitFor();
-}
+const demo = useDemoBrowser();
 
 describe('design → run → preview in the browser', () => {
   let runUrl = '';
 
   it('a designer changes the vortex charge, saves and runs it, and sees the results', async () => {
-    const page = await browser.context.newPage();
-    await signIn(page, 'tomas.reyes@harbourlight.example');
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, 'tomas.reyes@harbourlight.example');
     await page.getByRole('table', { name: 'Projects' }).getByText('Bessel and charge-2 vortex pair').click();
     await page.getByRole('link', { name: 'Design' }).click();
 
@@ -81,8 +59,8 @@ describe('design → run → preview in the browser', () => {
   });
 
   it('a viewer sees the run and the runs table but no run or cancel buttons', async () => {
-    const page = await browser.context.newPage();
-    await signIn(page, 'kai.brenner@harbourlight.example');
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, 'kai.brenner@harbourlight.example');
     await page.goto(runUrl);
     await page.getByRole('progressbar', { name: 'Run progress' }).waitFor();
     await page.getByRole('region', { name: 'Metrics' }).waitFor();

@@ -8,41 +8,19 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
-import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { atomLibraryToCsv } from '../../shared/optics/atoms';
 import { demoAtomLibrary } from '../../shared/optics/demo-library';
-import { DEMO_PASSWORD } from '../../server/db/seed-demo';
-import { launchBrowser, screenshot } from '../support/browser';
-import { startServerWithDemo, type RunningServer } from '../support/running-server';
+import { screenshot } from '../support/browser';
+import { useDemoBrowser } from '../support/demo-browser';
 
-let server: RunningServer;
-let browser: Awaited<ReturnType<typeof launchBrowser>>;
+const demo = useDemoBrowser();
 const work = mkdtempSync(path.join(tmpdir(), 'pw-fab-e2e-'));
-
-beforeAll(async () => {
-  server = await startServerWithDemo();
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-});
-
-async function signIn(page: Page, email: string) {
-  await browser.context.clearCookies();
-  await page.goto(`${server.url}/sign-in`);
-  const form = page.getByRole('form', { name: 'Sign in' });
-  await form.getByLabel('E-mail').fill(email);
-  await form.getByLabel('Password').fill(DEMO_PASSWORD);
-  await form.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByRole('heading', { name: 'Projects', exact: true }).waitFor();
-}
 
 describe('atom library → run → layout → fab package', () => {
   it('a designer uploads a library, runs with it, inspects the DRC overlay and downloads the package', async () => {
-    const page = await browser.context.newPage();
-    await signIn(page, 'tomas.reyes@harbourlight.example');
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, 'tomas.reyes@harbourlight.example');
     await page.getByRole('table', { name: 'Projects' }).getByText('Bessel and charge-2 vortex pair').click();
 
     // The owner tightens the project's minimum gap so the layout breaks the rule somewhere.

@@ -3,43 +3,20 @@
  * invites someone without an account;
  * a demo viewer sees the project but none of the owner's controls.
  */
-import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { launchBrowser, screenshot } from '../support/browser';
+import { describe, expect, it } from 'vitest';
+import { screenshot } from '../support/browser';
+import { useDemoBrowser } from '../support/demo-browser';
 import { waitForMail } from '../support/mailbox';
-import { startServerWithDemo, type RunningServer } from '../support/running-server';
-import { DEMO_PASSWORD } from '../../server/db/seed-demo';
 
-let server: RunningServer;
-let browser: Awaited<ReturnType<typeof launchBrowser>>;
-
-beforeAll(async () => {
-  server = await startServerWithDemo();
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-});
-
-async function signIn(page: Page, email: string) {
-  await browser.context.clearCookies();
-  await page.goto(`${server.url}/`);
-  await page.waitForURL(/\/sign-in/);
-  const form = page.getByRole('form', { name: 'Sign in' });
-  await form.getByLabel('E-mail').fill(email);
-  await form.getByLabel('Password').fill(DEMO_PASSWORD);
-  await form.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByRole('heading', { name: 'Projects', exact: true }).waitFor();
-}
+const demo = useDemoBrowser();
 
 describe('foundation in the browser', () => {
   it('a designer signs in, creates a project, sees it in the table and adds a member', async () => {
-    const page = await browser.context.newPage();
+    const page = await demo.browser.context.newPage();
     const consoleErrors: string[] = [];
     page.on('console', (m) => m.type() === 'error' && consoleErrors.push(m.text()));
 
-    await page.goto(`${server.url}/`);
+    await page.goto(`${demo.server.url}/`);
     await page.waitForURL(/\/sign-in/);
     await screenshot(page, 'foundation-01-sign-in');
 
@@ -50,7 +27,7 @@ describe('foundation in the browser', () => {
     await form.getByRole('button', { name: 'Sign in' }).click();
     await page.getByText(/not correct/).waitFor();
 
-    await signIn(page, 'tomas.reyes@harbourlight.example');
+    await demo.signIn(page, 'tomas.reyes@harbourlight.example');
     const table = page.getByRole('table', { name: 'Projects' });
     await table.getByText('Twin-image security tag').waitFor();
     await screenshot(page, 'foundation-02-dashboard');
@@ -61,7 +38,7 @@ describe('foundation in the browser', () => {
     await page.getByRole('button', { name: 'Create project' }).click();
     await page.getByRole('heading', { name: 'Metalens for a fibre tip' }).waitFor();
 
-    await page.goto(`${server.url}/?sort=name&dir=asc`);
+    await page.goto(`${demo.server.url}/?sort=name&dir=asc`);
     await table.getByText('Metalens for a fibre tip').waitFor();
     const names = await table.locator('tbody tr').allInnerTexts();
     expect(names.findIndex((r) => r.includes('Metalens'))).toBeLessThan(names.findIndex((r) => r.includes('Twin-image')));
@@ -96,8 +73,8 @@ describe('foundation in the browser', () => {
   });
 
   it('a viewer sees the project but not the owner controls', async () => {
-    const page = await browser.context.newPage();
-    await signIn(page, 'kai.brenner@harbourlight.example');
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, 'kai.brenner@harbourlight.example');
     await page.getByRole('table', { name: 'Projects' }).getByText('Bessel and charge-2 vortex pair').click();
     await page.getByRole('heading', { name: 'Bessel and charge-2 vortex pair' }).waitFor();
     expect(await page.getByRole('button', { name: 'Edit details' }).count()).toBe(0);

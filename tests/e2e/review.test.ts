@@ -4,38 +4,17 @@
  * sees the thread but no comment controls.
  */
 import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import type { ReviewThread } from '../../shared/schemas/review';
-import { launchBrowser, screenshot } from '../support/browser';
+import { screenshot } from '../support/browser';
+import { useDemoBrowser } from '../support/demo-browser';
 import { waitForMail } from '../support/mailbox';
-import { startServerWithDemo, type RunningServer } from '../support/running-server';
-import { DEMO_PASSWORD } from '../../server/db/seed-demo';
 
 const NOOR = 'noor.haddad@harbourlight.example';
 const TOMAS = 'tomas.reyes@harbourlight.example';
 const KAI = 'kai.brenner@harbourlight.example';
 
-let server: RunningServer;
-let browser: Awaited<ReturnType<typeof launchBrowser>>;
-
-beforeAll(async () => {
-  server = await startServerWithDemo();
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
-});
-
-async function signIn(page: Page, email: string) {
-  await browser.context.clearCookies();
-  await page.goto(`${server.url}/sign-in`);
-  const form = page.getByRole('form', { name: 'Sign in' });
-  await form.getByLabel('E-mail').fill(email);
-  await form.getByLabel('Password').fill(DEMO_PASSWORD);
-  await form.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByRole('heading', { name: 'Projects', exact: true }).waitFor();
-}
+const demo = useDemoBrowser();
 
 async function getJson<T>(page: Page, path: string): Promise<T> {
   return page.evaluate(async (url) => {
@@ -76,11 +55,11 @@ describe('pinned review comments in the browser', () => {
   let threadId = 0;
 
   it('a reviewer pins a comment on a far-field preview and mentions the owner', async () => {
-    const page = await browser.context.newPage();
-    await signIn(page, NOOR);
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, NOOR);
     target = await finishedDemoRun(page);
     runPath = `/projects/${target.projectId}/runs/${target.runId}`;
-    await page.goto(`${server.url}${runPath}`);
+    await page.goto(`${demo.server.url}${runPath}`);
 
     const tabs = page.getByRole('tablist', { name: 'Input polarization' }).getByRole('tab');
     await tabs.first().waitFor();
@@ -153,13 +132,13 @@ describe('pinned review comments in the browser', () => {
     expect(mail.subject).toContain('Noor Haddad mentioned you');
     expect(mail.text).toContain(`"${target.projectName}"`);
     const link = /https?:\/\/\S+\?thread=\d+/.exec(mail.text)?.[0];
-    expect(link).toBe(`${server.url}${runPath}?thread=${threadId}`);
+    expect(link).toBe(`${demo.server.url}${runPath}?thread=${threadId}`);
     mailLink = link!;
   });
 
   it('the owner opens the link, lands on the pin with the thread open, replies and resolves', async () => {
-    const page = await browser.context.newPage();
-    await signIn(page, TOMAS);
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, TOMAS);
     await page.goto(mailLink);
 
     const heading = page.getByRole('heading', { name: /Thread 1/ });
@@ -197,9 +176,9 @@ describe('pinned review comments in the browser', () => {
   });
 
   it('a viewer sees the thread read-only', async () => {
-    const page = await browser.context.newPage();
-    await signIn(page, KAI);
-    await page.goto(`${server.url}${runPath}`);
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, KAI);
+    await page.goto(`${demo.server.url}${runPath}`);
     await page.getByRole('heading', { name: 'Review threads' }).waitFor();
     await page.getByRole('radiogroup', { name: 'Thread status' }).getByText('All', { exact: true }).click();
     await page.getByRole('button', { name: /Go to thread 1/ }).click();

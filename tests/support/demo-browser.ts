@@ -1,0 +1,52 @@
+/**
+ * What every browser test starts from: the real app seeded with the demo scenario, Debian's Chromium, and a
+ * sign-in as one of the demo people. Call once at the top of a test file.
+ */
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll } from 'vitest';
+import { DEMO_PASSWORD } from '../../server/db/seed-demo';
+import { launchBrowser } from './browser';
+import { startServerWithDemo, type RunningServer } from './running-server';
+
+export interface DemoBrowser {
+  readonly server: RunningServer;
+  readonly browser: Awaited<ReturnType<typeof launchBrowser>>;
+  /** Signs out whoever was signed in, opens the app (which sends the visitor to sign in) and signs in. */
+  signIn(page: Page, email: string): Promise<void>;
+}
+
+export function useDemoBrowser(): DemoBrowser {
+  let server: RunningServer | undefined;
+  let browser: Awaited<ReturnType<typeof launchBrowser>> | undefined;
+  beforeAll(async () => {
+    server = await startServerWithDemo();
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await server?.close();
+  });
+  const ready = () => {
+    if (!server || !browser) throw new Error('useDemoBrowser(): the server and browser start in beforeAll');
+    return { server, browser };
+  };
+  return {
+    get server() {
+      return ready().server;
+    },
+    get browser() {
+      return ready().browser;
+    },
+    async signIn(page, email) {
+      const { server, browser } = ready();
+      await browser.context.clearCookies();
+      await page.goto(`${server.url}/`);
+      await page.waitForURL(/\/sign-in/);
+      const form = page.getByRole('form', { name: 'Sign in' });
+      await form.getByLabel('E-mail').fill(email);
+      await form.getByLabel('Password').fill(DEMO_PASSWORD);
+      await form.getByRole('button', { name: 'Sign in' }).click();
+      await page.getByRole('heading', { name: 'Projects', exact: true }).waitFor();
+    },
+  };
+}
