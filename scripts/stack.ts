@@ -62,8 +62,9 @@ async function main() {
     if (build.status !== 0) throw new Error('The client build failed (see above)');
   }
 
+  // The IPC channel lets the server notice if this script dies without stopping it (it then shuts down too).
   const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
-    stdio: 'inherit',
+    stdio: ['inherit', 'inherit', 'inherit', 'ipc'],
     detached: true,
     env: { ...process.env, NODE_ENV: dev ? 'development' : 'production' },
   });

@@ -51,6 +51,8 @@ async function main() {
   };
   process.on('SIGTERM', () => void stop('SIGTERM'));
   process.on('SIGINT', () => void stop('SIGINT'));
+  // Started by the start command with an IPC channel: if that command dies abruptly, stop rather than linger.
+  if (process.send) process.on('disconnect', () => void stop('start command exited'));
 }
 
 main().catch((err) => {

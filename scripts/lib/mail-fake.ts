@@ -8,7 +8,17 @@ export interface RunningMailFake {
   stop(): Promise<void>;
 }
 
+async function answering(webPort: number): Promise<boolean> {
+  try {
+    return (await fetch(`http://127.0.0.1:${webPort}/api/email`)).ok;
+  } catch {
+    return false;
+  }
+}
+
 export async function startMailFake(smtpPort: number, webPort: number, root = process.cwd()): Promise<RunningMailFake> {
+  // One left running by an earlier start that ended abruptly is used as it is (and left running).
+  if (await answering(webPort)) return { smtpPort, webPort, stop: async () => undefined };
   const bin = path.join(root, 'node_modules', '.bin', 'maildev');
   const child = spawn(
     bin,
@@ -20,12 +30,7 @@ export async function startMailFake(smtpPort: number, webPort: number, root = pr
   const deadline = Date.now() + 20_000;
   for (;;) {
     if (child.exitCode !== null) throw new Error(`The mail fake (maildev) exited: ${stderr.trim()}`);
-    try {
-      const res = await fetch(`http://127.0.0.1:${webPort}/api/email`);
-      if (res.ok) break;
-    } catch {
-      // not listening yet
-    }
+    if (await answering(webPort)) break;
     if (Date.now() > deadline) throw new Error(`The mail fake did not start on port ${webPort}: ${stderr.trim()}`);
     await new Promise((r) => setTimeout(r, 200));
   }

@@ -129,12 +129,13 @@ export async function startMariaDb(options: MariaDbOptions): Promise<RunningMari
     port: options.port,
     socket,
     sql,
+    /** Shuts the server down — also one found running from an earlier start that ended abruptly (same data dir). */
     async stop() {
-      if (!child) return;
       spawnSync(admin, ['--no-defaults', `--socket=${socket}`, '-uroot', 'shutdown'], { encoding: 'utf8' });
       const deadline = Date.now() + 20_000;
-      while (child.exitCode === null && child.signalCode === null && Date.now() < deadline) await sleep(100);
-      if (child.exitCode === null && child.signalCode === null) child.kill('SIGKILL');
+      const running = () => (child ? child.exitCode === null && child.signalCode === null : ping());
+      while (running() && Date.now() < deadline) await sleep(100);
+      if (child && running()) child.kill('SIGKILL');
     },
   };
 }
