@@ -5,7 +5,7 @@ import { Banner } from '@/components/ui/banner';
 import { PageLoader } from '@/components/ui/spinner';
 import { ArtifactUrlContext, type ArtifactAddress } from '@/features/runs/api/artifact-url-context';
 import { DESIGN_ARTIFACT, useRunDesign } from '@/features/runs/api/get-run-design';
-import { groupArtifacts, type ChannelKey } from '@/features/runs/components/artifact-groups';
+import { groupArtifacts } from '@/features/runs/components/artifact-groups';
 import { BeamChannel } from '@/features/runs/components/beam-channel';
 import { ConvergenceCard } from '@/features/runs/components/convergence-card';
 import { FarFieldPreviews } from '@/features/runs/components/far-field-previews';
@@ -14,7 +14,7 @@ import { MapPreviews } from '@/features/runs/components/map-previews';
 import { MetricsTable } from '@/features/runs/components/metrics-table';
 import { OtherPlots } from '@/features/runs/components/other-plots';
 import { RunDownloads } from '@/features/runs/components/run-downloads';
-import { channelFacts, inputNames } from '@/features/runs/components/run-facts';
+import { channelLayout, inputNames } from '@/features/runs/components/run-facts';
 import { readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusBadge } from '@/features/runs/components/run-status-badge';
 import { sharedArtifactHref, useSharedRun } from '@/features/sharing/api/share-links';
@@ -71,16 +71,7 @@ function SharedRunResults({ run }: { run: RunDetail }) {
   const notes = readNotes(run.plots).filter((note) => !/laser safety|approximate/i.test(note));
   const mapping = Object.entries(run.metrics ?? {}).find(([key]) => sectionName(key) === 'Atom mapping')?.[1] ?? null;
 
-  const channels = {
-    a: channelFacts(run, design, 'a', Boolean(groups.slices.a)),
-    b: channelFacts(run, design, 'b', Boolean(groups.slices.b)),
-  };
-  const channelNames: Record<ChannelKey, string> = { a: channels.a.name, b: channels.b.name };
-  const beamChannels = (['a', 'b'] as const).filter((c) => channels[c].beam || channels[c].lens);
-  const onlyBeam = beamChannels.length === 1 ? beamChannels[0] : null;
-  const profilesOf = (c: ChannelKey) => plots.profiles.filter((p) => p.channel === c || (p.channel === null && onlyBeam === c));
-  const linesOf = (c: ChannelKey) => plots.lines.filter((l) => l.channel === c || (l.channel === null && onlyBeam === c));
-  const unplacedProfiles = plots.profiles.filter((p) => !beamChannels.some((c) => profilesOf(c).includes(p)));
+  const { channels, channelNames, beamChannels, profilesOf, linesOf, unplacedProfiles } = channelLayout(run, design, plots, groups.slices);
 
   return (
     <>

@@ -1,6 +1,7 @@
 import { PHASE_TERM_LABELS, type Design, type PolarizationState } from '@shared/schemas/design';
 import type { RunDetail, RunMetric } from '@shared/schemas/runs';
 import type { ChannelKey, InputKey } from '@/features/runs/components/artifact-groups';
+import type { RunPlots } from '@/features/runs/components/run-plots';
 
 export interface ChannelFacts {
   key: ChannelKey;
@@ -98,4 +99,24 @@ export function usesApproximateLibrary(run: RunDetail, design: Design | null): b
   if (run.events.some((event) => /approximate/i.test(event.message))) return true;
   const meanings = Object.values(run.metrics ?? {}).flatMap((group) => Object.values(group).map((m) => m.meaning));
   return meanings.some((text) => /approximate/i.test(text));
+}
+
+/**
+ * How a run's results are laid out per channel: names and facts of A and B, which channels are beams or
+ * lenses, and which radial profiles and axial lines belong to which of them (an unlabelled plot belongs to
+ * the only beam channel, if there is exactly one). The run page and the shared page both use it.
+ */
+export function channelLayout(run: RunDetail, design: Design | null, plots: RunPlots, slices: Partial<Record<ChannelKey, unknown>>) {
+  const channels = {
+    a: channelFacts(run, design, 'a', Boolean(slices.a)),
+    b: channelFacts(run, design, 'b', Boolean(slices.b)),
+  };
+  const channelNames: Record<ChannelKey, string> = { a: channels.a.name, b: channels.b.name };
+  const beamChannels = (['a', 'b'] as const).filter((c) => channels[c].beam || channels[c].lens);
+  const onlyBeam = beamChannels.length === 1 ? beamChannels[0] : null;
+  const belongs = (c: ChannelKey, plotChannel: ChannelKey | null) => plotChannel === c || (plotChannel === null && onlyBeam === c);
+  const profilesOf = (c: ChannelKey) => plots.profiles.filter((p) => belongs(c, p.channel));
+  const linesOf = (c: ChannelKey) => plots.lines.filter((l) => belongs(c, l.channel));
+  const unplacedProfiles = plots.profiles.filter((p) => !beamChannels.some((c) => belongs(c, p.channel)));
+  return { channels, channelNames, beamChannels, profilesOf, linesOf, unplacedProfiles };
 }

@@ -15,7 +15,7 @@ import { isApiError } from '@/lib/api-client';
 import { runQueryOptions, useRun } from '@/features/runs/api/get-run';
 import { DESIGN_ARTIFACT, useRunDesign } from '@/features/runs/api/get-run-design';
 import { isRunActive } from '@/features/runs/api/run-status';
-import { groupArtifacts, type ChannelKey } from '@/features/runs/components/artifact-groups';
+import { groupArtifacts } from '@/features/runs/components/artifact-groups';
 import { BeamChannel } from '@/features/runs/components/beam-channel';
 import { DesignRulesCard } from '@/features/runs/components/design-rules-card';
 import { ConvergenceCard } from '@/features/runs/components/convergence-card';
@@ -27,7 +27,7 @@ import { MetricsTable } from '@/features/runs/components/metrics-table';
 import { OtherPlots } from '@/features/runs/components/other-plots';
 import { RunDownloads } from '@/features/runs/components/run-downloads';
 import { RunEvents } from '@/features/runs/components/run-events';
-import { channelFacts, inputNames, usesApproximateLibrary } from '@/features/runs/components/run-facts';
+import { channelLayout, inputNames, usesApproximateLibrary } from '@/features/runs/components/run-facts';
 import { readDesignRules, readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusPanel } from '@/features/runs/components/run-status-panel';
 import { ExportPanel } from '@/features/fab/components/export-panel';
@@ -142,20 +142,10 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
   const designQuery = useRunDesign(projectId, run.id, hasDesign);
   const design: Design | null = designQuery.data ?? null;
 
-  const channels = {
-    a: channelFacts(run, design, 'a', Boolean(groups.slices.a)),
-    b: channelFacts(run, design, 'b', Boolean(groups.slices.b)),
-  };
-  const channelNames: Record<ChannelKey, string> = { a: channels.a.name, b: channels.b.name };
-  const beamChannels = (['a', 'b'] as const).filter((c) => channels[c].beam || channels[c].lens);
+  const { channels, channelNames, beamChannels, profilesOf, linesOf, unplacedProfiles } = channelLayout(run, design, plots, groups.slices);
   const approximate = usesApproximateLibrary(run, design);
   const active = isRunActive(run.status);
 
-  const profilesOf = (c: ChannelKey) =>
-    plots.profiles.filter((p) => p.channel === c || (p.channel === null && beamChannels.length === 1 && beamChannels[0] === c));
-  const linesOf = (c: ChannelKey) =>
-    plots.lines.filter((l) => l.channel === c || (l.channel === null && beamChannels.length === 1 && beamChannels[0] === c));
-  const unplacedProfiles = plots.profiles.filter((p) => !beamChannels.some((c) => profilesOf(c).includes(p)));
 
   return (
     <div className="flex flex-col gap-6">
