@@ -9,8 +9,7 @@ import { execFileSync } from 'node:child_process';
 import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { parseGDS, RecordType } from 'gdsii';
-import type { GDSRecord } from 'gdsii';
+import { readGdsLayout } from '../support/gds-read';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { FabExportModel } from '../../server/components/fab/fab.model';
 import { parseAtomLibraryCsv, placementAngle, type AtomLibrary } from '../../shared/optics/atoms';
@@ -95,56 +94,16 @@ async function unzip(zip: Buffer, tag: string) {
   return { ...listing, gds: new Uint8Array(await readFile(gdsPath)) };
 }
 
-interface ReadBack {
-  units: { userUnit: number; metersPerUnit: number };
-  structures: string[];
-  boundaries: { layer: number; datatype: number }[];
-  srefs: { name: string; x: number; y: number; angle: number }[];
-}
-
-/** GDSII read back with the independent parser. */
-function readGds(bytes: Uint8Array): ReadBack {
-  const out: ReadBack = { units: { userUnit: 0, metersPerUnit: 0 }, structures: [], boundaries: [], srefs: [] };
-  let element: { kind: string; layer?: number; datatype?: number; name?: string; angle?: number; xy?: [number, number][] } | null = null;
-  for (const r of parseGDS(bytes) as Iterable<GDSRecord>) {
-    switch (r.tag) {
-      case RecordType.UNITS:
-        out.units = r.data;
-        break;
-      case RecordType.STRNAME:
-        out.structures.push(r.data);
-        break;
-      case RecordType.BOUNDARY:
-        element = { kind: 'boundary' };
-        break;
-      case RecordType.SREF:
-        element = { kind: 'sref' };
-        break;
-      case RecordType.LAYER:
-        element!.layer = r.data;
-        break;
-      case RecordType.DATATYPE:
-        element!.datatype = r.data;
-        break;
-      case RecordType.SNAME:
-        element!.name = r.data;
-        break;
-      case RecordType.ANGLE:
-        element!.angle = r.data;
-        break;
-      case RecordType.XY:
-        element!.xy = r.data;
-        break;
-      case RecordType.ENDEL:
-        if (element!.kind === 'boundary') out.boundaries.push({ layer: element!.layer!, datatype: element!.datatype! });
-        else out.srefs.push({ name: element!.name!, x: element!.xy![0][0], y: element!.xy![0][1], angle: element!.angle ?? 0 });
-        element = null;
-        break;
-      default:
-        break;
-    }
-  }
-  return out;
+/** GDSII read back with the independent parser, flattened over structures. */
+function readGds(bytes: Uint8Array) {
+  const back = readGdsLayout(bytes);
+  const all = [...back.structures.values()];
+  return {
+    units: back.units,
+    structures: [...back.structures.keys()],
+    boundaries: all.flatMap((s) => s.boundaries.map(({ layer, datatype }) => ({ layer, datatype }))),
+    srefs: all.flatMap((s) => s.srefs),
+  };
 }
 
 function nonEmpty(library: AtomLibrary, atomIndex: Int32Array): number[] {

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { parseGDS, RecordType } from 'gdsii';
-import type { GDSRecord } from 'gdsii';
+import { RecordType } from 'gdsii';
+import { readGdsLayout, type GdsPlacement } from '../support/gds-read';
 import { atomStructureName, encodeGdsReal8, gdsiiBytes, gdsiiChunks, GDS_VERSION } from '../../shared/optics/gdsii';
 import type { AtomLibrary, MetaAtom } from '../../shared/optics/atoms';
 import { demoAtomLibrary } from '../../shared/optics/demo-library';
@@ -62,71 +62,11 @@ describe('8-byte excess-64 reals (GDSII Stream Format Manual 6.0, "Data Types")'
   });
 });
 
-interface Placement {
-  name: string;
-  x: number;
-  y: number;
-  angle: number;
-}
-
+/** Read back by the independent parser; no placement may be mirrored (STRANS flags 0 wherever present). */
 function readBack(bytes: Uint8Array) {
-  const records = [...parseGDS(bytes)] as GDSRecord[];
-  const structures = new Map<string, { boundaries: { layer: number; datatype: number; xy: [number, number][] }[]; srefs: Placement[] }>();
-  let header = 0;
-  let units: { userUnit: number; metersPerUnit: number } | undefined;
-  let current: string | undefined;
-  let element: { kind: 'boundary' | 'sref'; layer?: number; datatype?: number; name?: string; angle?: number; strans?: number; xy?: [number, number][] } | undefined;
-  for (const r of records) {
-    switch (r.tag) {
-      case RecordType.HEADER:
-        header = r.data.version;
-        break;
-      case RecordType.UNITS:
-        units = r.data;
-        break;
-      case RecordType.STRNAME:
-        current = r.data;
-        structures.set(current, { boundaries: [], srefs: [] });
-        break;
-      case RecordType.BOUNDARY:
-        element = { kind: 'boundary' };
-        break;
-      case RecordType.SREF:
-        element = { kind: 'sref' };
-        break;
-      case RecordType.LAYER:
-        element!.layer = r.data;
-        break;
-      case RecordType.DATATYPE:
-        element!.datatype = r.data;
-        break;
-      case RecordType.SNAME:
-        element!.name = r.data;
-        break;
-      case RecordType.STRANS:
-        element!.strans = r.data;
-        break;
-      case RecordType.ANGLE:
-        element!.angle = r.data;
-        break;
-      case RecordType.XY:
-        element!.xy = r.data;
-        break;
-      case RecordType.ENDEL: {
-        const s = structures.get(current!)!;
-        if (element!.kind === 'boundary') s.boundaries.push({ layer: element!.layer!, datatype: element!.datatype!, xy: element!.xy! });
-        else {
-          expect(element!.strans ?? 0).toBe(0);
-          s.srefs.push({ name: element!.name!, x: element!.xy![0][0], y: element!.xy![0][1], angle: element!.angle ?? 0 });
-        }
-        element = undefined;
-        break;
-      }
-      default:
-        break;
-    }
-  }
-  return { header, units, structures, last: records[records.length - 1].tag };
+  const back = readGdsLayout(bytes);
+  for (const structure of back.structures.values()) for (const placement of structure.srefs) expect(placement.strans).toBe(0);
+  return { ...back, last: back.lastTag };
 }
 
 function smallLibrary(): AtomLibrary {
@@ -176,7 +116,7 @@ describe('GDSII layout read back by the independent `gdsii` parser', () => {
       expect(Math.abs(Math.max(...ys) + Math.min(...ys))).toBeLessThanOrEqual(1);
     }
     const placements = back.structures.get('TOP')!.srefs;
-    const expected: Placement[] = [];
+    const expected: Omit<GdsPlacement, 'strans'>[] = [];
     for (let iy = 0; iy < n; iy++) {
       for (let ix = 0; ix < n; ix++) {
         const i = iy * n + ix;
