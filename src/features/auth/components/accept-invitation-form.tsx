@@ -4,6 +4,7 @@ import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { useSchemaForm } from '@/hooks/use-schema-form';
 import { useAcceptInvitation } from '@/features/auth/api/accept-invitation';
+import { NewPasswordFields } from '@/features/auth/components/new-password-fields';
 import { withConfirmation } from '@/features/auth/components/password-pair';
 
 const invitationFormSchema = withConfirmation(acceptInvitationSchema, 'password');
@@ -33,22 +34,14 @@ export function AcceptInvitationForm({ token, onSuccess }: { token: string; onSu
         onValueChange={(value) => form.setValue('name', value)}
         error={form.fieldError('name')}
       />
-      <TextField
+      <NewPasswordFields
         label="Password"
-        type="password"
-        autoComplete="new-password"
-        hint="At least 10 characters."
-        value={form.values.password}
-        onValueChange={(value) => form.setValue('password', value)}
-        error={form.fieldError('password')}
-      />
-      <TextField
-        label="Password, again"
-        type="password"
-        autoComplete="new-password"
-        value={form.values.confirmPassword}
-        onValueChange={(value) => form.setValue('confirmPassword', value)}
-        error={form.fieldError('confirmPassword')}
+        password={form.values.password}
+        confirmation={form.values.confirmPassword}
+        onPasswordChange={(value) => form.setValue('password', value)}
+        onConfirmationChange={(value) => form.setValue('confirmPassword', value)}
+        passwordError={form.fieldError('password')}
+        confirmationError={form.fieldError('confirmPassword')}
       />
       <Button type="submit" pending={accept.isPending} className="w-full">
         Create my account

@@ -4,6 +4,7 @@ import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { useSchemaForm } from '@/hooks/use-schema-form';
 import { useChangePassword } from '@/features/auth/api/change-password';
+import { NewPasswordFields } from '@/features/auth/components/new-password-fields';
 import { withConfirmation } from '@/features/auth/components/password-pair';
 
 const changePasswordFormSchema = withConfirmation(changePasswordSchema, 'newPassword');
@@ -34,25 +35,17 @@ export function ChangePasswordForm() {
         onValueChange={(value) => form.setValue('currentPassword', value)}
         error={form.fieldError('currentPassword')}
       />
-      <TextField
+      <NewPasswordFields
         label="New password"
-        type="password"
-        autoComplete="new-password"
-        hint="At least 10 characters."
-        value={form.values.newPassword}
-        onValueChange={(value) => {
+        password={form.values.newPassword}
+        confirmation={form.values.confirmPassword}
+        onPasswordChange={(value) => {
           change.reset();
           form.setValue('newPassword', value);
         }}
-        error={form.fieldError('newPassword')}
-      />
-      <TextField
-        label="New password, again"
-        type="password"
-        autoComplete="new-password"
-        value={form.values.confirmPassword}
-        onValueChange={(value) => form.setValue('confirmPassword', value)}
-        error={form.fieldError('confirmPassword')}
+        onConfirmationChange={(value) => form.setValue('confirmPassword', value)}
+        passwordError={form.fieldError('newPassword')}
+        confirmationError={form.fieldError('confirmPassword')}
       />
       <div>
         <Button type="submit" pending={change.isPending}>

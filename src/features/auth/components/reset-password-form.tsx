@@ -1,9 +1,9 @@
 import { resetPasswordSchema } from '@shared/schemas/auth';
 import { FormErrorBanner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
-import { TextField } from '@/components/ui/field';
 import { useSchemaForm } from '@/hooks/use-schema-form';
 import { useCompletePasswordReset } from '@/features/auth/api/complete-password-reset';
+import { NewPasswordFields } from '@/features/auth/components/new-password-fields';
 import { withConfirmation } from '@/features/auth/components/password-pair';
 
 const resetFormSchema = withConfirmation(resetPasswordSchema, 'password');
@@ -24,23 +24,16 @@ export function ResetPasswordForm({ token, onSuccess }: { token: string; onSucce
       })}
     >
       <FormErrorBanner message={form.formError} />
-      <TextField
+      <NewPasswordFields
         label="New password"
-        type="password"
-        autoComplete="new-password"
-        autoFocus
         hint="At least 10 characters. A few unrelated words make a strong one."
-        value={form.values.password}
-        onValueChange={(value) => form.setValue('password', value)}
-        error={form.fieldError('password')}
-      />
-      <TextField
-        label="New password, again"
-        type="password"
-        autoComplete="new-password"
-        value={form.values.confirmPassword}
-        onValueChange={(value) => form.setValue('confirmPassword', value)}
-        error={form.fieldError('confirmPassword')}
+        autoFocus
+        password={form.values.password}
+        confirmation={form.values.confirmPassword}
+        onPasswordChange={(value) => form.setValue('password', value)}
+        onConfirmationChange={(value) => form.setValue('confirmPassword', value)}
+        passwordError={form.fieldError('password')}
+        confirmationError={form.fieldError('confirmPassword')}
       />
       <Button type="submit" pending={complete.isPending} className="w-full">
         Save password and sign in

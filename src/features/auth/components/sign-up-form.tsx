@@ -4,6 +4,7 @@ import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { useSchemaForm } from '@/hooks/use-schema-form';
 import { useSignUp } from '@/features/auth/api/sign-up';
+import { NewPasswordFields } from '@/features/auth/components/new-password-fields';
 import { withConfirmation } from '@/features/auth/components/password-pair';
 
 const signUpFormSchema = withConfirmation(signUpSchema, 'password');
@@ -40,22 +41,14 @@ export function SignUpForm({ onSuccess }: { onSuccess: () => void }) {
         onValueChange={(value) => form.setValue('email', value)}
         error={form.fieldError('email')}
       />
-      <TextField
+      <NewPasswordFields
         label="Password"
-        type="password"
-        autoComplete="new-password"
-        hint="At least 10 characters."
-        value={form.values.password}
-        onValueChange={(value) => form.setValue('password', value)}
-        error={form.fieldError('password')}
-      />
-      <TextField
-        label="Password, again"
-        type="password"
-        autoComplete="new-password"
-        value={form.values.confirmPassword}
-        onValueChange={(value) => form.setValue('confirmPassword', value)}
-        error={form.fieldError('confirmPassword')}
+        password={form.values.password}
+        confirmation={form.values.confirmPassword}
+        onPasswordChange={(value) => form.setValue('password', value)}
+        onConfirmationChange={(value) => form.setValue('confirmPassword', value)}
+        passwordError={form.fieldError('password')}
+        confirmationError={form.fieldError('confirmPassword')}
       />
       <Button type="submit" pending={signUp.isPending} className="w-full">
         Create account
