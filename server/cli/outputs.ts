@@ -6,18 +6,22 @@
  * - atoms.csv (the library used), design.json (the validated design, defaults filled in), metrics.json,
  *   drc.json (design rules used, violation counts, the first violations);
  * - layout.gds, streamed chunk by chunk (gdsii.ts), never whole in memory; structures only for the atoms used;
- * - PNG previews (previews.ts), painted on this thread or on a worker while the rest is written: among them
- *   the far field under each input as a total and split into output polarization components
- *   (farfield_<input>.png, _out-a.png, _out-b.png, _x.png, _y.png), each input's pictures on one scale.
+ * - PNG previews (previews.ts): the maps (phases, atom index, rotation) and the far field under each input as
+ *   a total and split into output polarization components (farfield_<input>.png, _out-a.png, _out-b.png,
+ *   _x.png, _y.png), each input's pictures on one scale.
+ * Three groups, so that a helper thread can write the first two while the engine goes on (run-threads.ts): the
+ * layout files (arrays up to the atom index, atoms.csv, layout.gds, the maps), fixed once the atoms are mapped;
+ * the far-field previews, once the far fields are simulated; the rest (far-field arrays, records, beam and
+ * image-plane previews) at the end.
  */
 import { open, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { atomLibraryToCsv } from '../../shared/optics/atoms';
+import { atomLibraryToCsv, type AtomLibrary } from '../../shared/optics/atoms';
 import { gdsiiChunks } from '../../shared/optics/gdsii';
 import { npyChunks, type NpyArray } from '../../shared/optics/npy';
-import { CHANNEL_IDS, type ChannelId, type DesignRun } from '../../shared/optics/pipeline';
+import { CHANNEL_IDS, type ChannelId, type DesignRun, type RunFarFields, type RunLayout } from '../../shared/optics/pipeline';
 import { drcRecord } from './drc-record';
-import { helperPreviewData, previewDataOf, writePreviews, type PreviewData, type PreviewSelection, type WrittenFile } from './previews';
+import { beamPreviewDataOf, farFieldPreviewDataOf, mapPreviewPainters, resultPreviewPainters, writePainted, type WrittenFile } from './previews';
 
 export type { WrittenFile } from './previews';
 
@@ -101,50 +105,121 @@ export function metricsRecord(run: DesignRun): Record<string, unknown> {
   };
 }
 
-/** Paints and writes PNG previews elsewhere (a worker thread: preview-writer.ts). */
-export interface PreviewWriter {
-  write(dir: string, data: PreviewData, selection: PreviewSelection): Promise<WrittenFile[]>;
+/** What the layout files are made of: plain data, so it can be handed to a worker thread. */
+export interface LayoutFilesData {
+  n: number;
+  period: number;
+  layer: number;
+  datatype: number;
+  phases: Record<ChannelId, Float64Array>;
+  deltaX: Float64Array;
+  deltaY: Float64Array;
+  /** Ideal rotation θ of each cell (theta.npy, rotation.png). */
+  theta: Float64Array;
+  atomIndex: Int32Array;
+  /** Placement rotation of the chosen atom (the layout). */
+  placement: Float64Array;
+  library: AtomLibrary;
 }
 
-/**
- * Writes every output of a run into `dir` (which must exist); returns the files, arrays and records first,
- * previews last. With a `helper`, it paints the far-field and phase previews while this thread writes the
- * arrays and the layout and then paints the rest; without one, everything is done here.
- */
-export async function writeRunOutputs(run: DesignRun, dir: string, helper?: PreviewWriter): Promise<WrittenFile[]> {
-  const data = previewDataOf(run);
-  const helped = helper ? helper.write(dir, helperPreviewData(data), 'helper') : null;
-  // Settle the helper's promise even if writing the other files fails, so no rejection goes unobserved.
-  helped?.catch(() => undefined);
-  const files: WrittenFile[] = [];
-  const n = run.grid.n;
-  const npy = async (name: string, data: NpyArray) => {
+/** The layout files' data of a run, or of a layout just mapped (no copies). */
+export function layoutFilesDataOf(layout: RunLayout): LayoutFilesData {
+  return {
+    n: layout.grid.n,
+    period: layout.grid.period,
+    layer: layout.design.layout.layer,
+    datatype: layout.design.layout.datatype,
+    phases: layout.phases,
+    deltaX: layout.decomposition.deltaX,
+    deltaY: layout.decomposition.deltaY,
+    theta: layout.decomposition.theta,
+    atomIndex: layout.mapping.atomIndex,
+    placement: layout.mapping.theta,
+    library: layout.library,
+  };
+}
+
+/** Another thread that writes files of a run (output-helper.ts). */
+export interface OutputHelper {
+  writeLayout(dir: string, data: LayoutFilesData): Promise<WrittenFile[]>;
+  writeFarFieldPreviews(dir: string, result: RunFarFields): Promise<WrittenFile[]>;
+}
+
+function npyWriter(dir: string, n: number, files: WrittenFile[]) {
+  return async (name: string, data: NpyArray) => {
     files.push({ name, bytes: await writeChunks(join(dir, name), npyChunks(data, [n, n])) });
   };
-  const text = async (name: string, content: string) => {
+}
+
+function textWriter(dir: string, files: WrittenFile[]) {
+  return async (name: string, content: string) => {
     await writeFile(join(dir, name), content);
     files.push({ name, bytes: Buffer.byteLength(content) });
   };
-  await npy('phase_a.npy', run.channels.a.phase);
-  await npy('phase_b.npy', run.channels.b.phase);
-  await npy('delta_x.npy', run.decomposition.deltaX);
-  await npy('delta_y.npy', run.decomposition.deltaY);
-  await npy('theta.npy', run.decomposition.theta);
-  await npy('atom_index.npy', run.mapping.atomIndex);
+}
+
+/** Writes the layout files into `dir`: phase_a/b, delta_x/y, theta, atom_index (.npy), atoms.csv, layout.gds, the map previews. */
+export async function writeLayoutFiles(dir: string, data: LayoutFilesData): Promise<WrittenFile[]> {
+  const files: WrittenFile[] = [];
+  const { n } = data;
+  const npy = npyWriter(dir, n, files);
+  await npy('phase_a.npy', data.phases.a);
+  await npy('phase_b.npy', data.phases.b);
+  await npy('delta_x.npy', data.deltaX);
+  await npy('delta_y.npy', data.deltaY);
+  await npy('theta.npy', data.theta);
+  await npy('atom_index.npy', data.atomIndex);
+  await textWriter(dir, files)('atoms.csv', atomLibraryToCsv(data.library));
+  const gdsBytes = await writeChunks(
+    join(dir, 'layout.gds'),
+    gdsiiChunks({ n, period: data.period, atomIndex: data.atomIndex, theta: data.placement, library: data.library, layer: data.layer, datatype: data.datatype, usedAtomsOnly: true }),
+  );
+  files.push({ name: 'layout.gds', bytes: gdsBytes });
+  const maps = { n, phases: data.phases, atomIndex: data.atomIndex, atomCount: data.library.atoms.length, theta: data.theta };
+  files.push(...(await writePainted(dir, mapPreviewPainters(maps))));
+  return files;
+}
+
+/** Paints the far-field previews into `dir`: the total and the output components under each input. */
+export function writeFarFieldPreviews(dir: string, result: RunFarFields): Promise<WrittenFile[]> {
+  return writePainted(dir, resultPreviewPainters(farFieldPreviewDataOf(result)));
+}
+
+/** Files a helper thread is already writing: the layout files and the far-field previews. */
+export interface EarlyFiles {
+  layout?: Promise<WrittenFile[]>;
+  farFieldPreviews?: Promise<WrittenFile[]>;
+}
+
+/**
+ * Writes every output of a run into `dir` (which must exist) and returns the files: the layout files, the
+ * far-field previews, then farfield_a/b.npy, design.json, metrics.json, drc.json and the beam and image-plane
+ * previews. What `early` holds is awaited instead of written here.
+ */
+export async function writeRunOutputs(run: DesignRun, dir: string, early: EarlyFiles = {}): Promise<WrittenFile[]> {
+  const layout = early.layout ?? writeLayoutFiles(dir, layoutFilesDataOf({ ...run, phases: { a: run.channels.a.phase, b: run.channels.b.phase } }));
+  const farFieldPreviews = early.farFieldPreviews ?? writeFarFieldPreviews(dir, { ...run, windows: fourierWindows(run) });
+  // Settle both even if writing the files below fails, so no rejection goes unobserved.
+  layout.catch(() => undefined);
+  farFieldPreviews.catch(() => undefined);
+  const files: WrittenFile[] = [];
+  const npy = npyWriter(dir, run.grid.n, files);
+  const text = textWriter(dir, files);
   await npy('farfield_a.npy', run.farFields.a.total);
   await npy('farfield_b.npy', run.farFields.b.total);
-  await text('atoms.csv', atomLibraryToCsv(run.library));
   await text('design.json', JSON.stringify(run.design, null, 2) + '\n');
   await text('metrics.json', JSON.stringify(metricsRecord(run), null, 2) + '\n');
   await text('drc.json', JSON.stringify(drcRecord(run), null, 2) + '\n');
-  const layout = run.design.layout;
-  const gdsBytes = await writeChunks(
-    join(dir, 'layout.gds'),
-    gdsiiChunks({ n, period: run.grid.period, atomIndex: run.mapping.atomIndex, theta: run.mapping.theta, library: run.library, layer: layout.layer, datatype: layout.datatype, usedAtomsOnly: true }),
-  );
-  files.push({ name: 'layout.gds', bytes: gdsBytes });
-  const own = await writePreviews(dir, data, helped ? 'rest' : 'all');
-  if (helped) files.push(...(await helped));
-  files.push(...own);
-  return files;
+  files.push(...(await writePainted(dir, resultPreviewPainters(beamPreviewDataOf(run)))));
+  return [...(await layout), ...(await farFieldPreviews), ...files];
+}
+
+/** The far-field windows of a finished run's Fourier holograms. */
+function fourierWindows(run: DesignRun): RunFarFields['windows'] {
+  const windows: RunFarFields['windows'] = {};
+  for (const c of CHANNEL_IDS) {
+    const channel = run.channels[c];
+    if (channel.window && channel.plan.hologram?.geometry === 'fourier') windows[c] = channel.window;
+  }
+  return windows;
 }

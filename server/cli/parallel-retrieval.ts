@@ -1,8 +1,10 @@
 /**
  * Phase retrieval of the hologram channels on worker threads, one thread per channel, so two channels
  * use both cores (measured ≥ 1.8× the throughput of one thread, bench/run.ts). Plugs into
- * `runDesign` as `resources.retrieveChannels`. Cancellation terminates the workers.
+ * `runDesign` as `resources.retrieveChannels`. Workers may be started ahead ("warm"), so that loading their
+ * modules and the FFT overlaps with reading the inputs. Cancellation terminates the workers.
  */
+import type { Worker } from 'node:worker_threads';
 import type { RetrievalResult } from '../../shared/optics/gerchberg-saxton';
 import type { ChannelRetriever, RetrievalHooks, RetrievalJob } from '../../shared/optics/pipeline';
 
@@ -15,9 +17,23 @@ type WorkerMessage =
   | { type: 'done'; result: RetrievalResult }
   | { type: 'error'; message: string; refused: boolean };
 
-function runJob(job: RetrievalJob, index: number, hooks: RetrievalHooks): Promise<RetrievalResult> {
+/** A started retrieval worker, with what became of it before it got a job. */
+interface RetrievalThread {
+  worker: Worker;
+  /** Set when the worker failed or stopped while waiting. */
+  early: Error | null;
+}
+
+function startThread(): RetrievalThread {
+  const thread: RetrievalThread = { worker: startTsWorker(WORKER_FILE, null), early: null };
+  thread.worker.on('error', (error) => (thread.early ??= error));
+  thread.worker.on('exit', (code) => (thread.early ??= new Error(`a phase retrieval worker stopped before its job (exit code ${code})`)));
+  return thread;
+}
+
+function runJob(thread: RetrievalThread, job: RetrievalJob, index: number, hooks: RetrievalHooks): Promise<RetrievalResult> {
+  const { worker } = thread;
   return new Promise<RetrievalResult>((resolve, reject) => {
-    const worker = startTsWorker(WORKER_FILE, job.options);
     let settled = false;
     const finish = (error: unknown, result?: RetrievalResult) => {
       if (settled) return;
@@ -37,6 +53,10 @@ function runJob(job: RetrievalJob, index: number, hooks: RetrievalHooks): Promis
         finish(error);
       }
     }, 50);
+    if (thread.early) {
+      finish(thread.early);
+      return;
+    }
     worker.on('message', (message: WorkerMessage) => {
       if (message.type === 'progress') hooks.onProgress?.(index, message.fraction, message.detail);
       else if (message.type === 'done') finish(null, message.result);
@@ -47,10 +67,24 @@ function runJob(job: RetrievalJob, index: number, hooks: RetrievalHooks): Promis
     });
     worker.on('error', (error) => finish(error));
     worker.on('exit', (code) => finish(new Error(`Phase retrieval worker of channel ${job.channel.toUpperCase()} stopped (exit code ${code})`)));
+    worker.postMessage(job.options);
   });
 }
 
-/** A retriever that runs every job on its own worker thread, all at once. */
-export function createWorkerRetriever(): ChannelRetriever {
-  return (jobs, hooks) => Promise.all(jobs.map((job, index) => runJob(job, index, hooks)));
+export interface WorkerRetriever {
+  /** Runs every job on its own worker thread, all at once (warm workers first). */
+  retrieve: ChannelRetriever;
+  /** Stops the warm workers no job took. */
+  close(): Promise<void>;
+}
+
+/** A retriever on worker threads; `warm` workers are started now and wait for their jobs. */
+export function createWorkerRetriever(warm = 0): WorkerRetriever {
+  const spare = Array.from({ length: warm }, startThread);
+  return {
+    retrieve: (jobs, hooks) => Promise.all(jobs.map((job, index) => runJob(spare.shift() ?? startThread(), job, index, hooks))),
+    async close() {
+      await Promise.all(spare.splice(0).map((thread) => thread.worker.terminate()));
+    },
+  };
 }

@@ -5,9 +5,10 @@
  * one input on the total's intensity scale (gamma 0.5, full scale at the total's brightest pixel away from
  * the zero order), so a component that carries little light looks dark; target windows outlined. Then
  * channel phases in cyclic colours, the atom index, the rotation 2θ (cyclic), the x–z slice of each beam
- * channel and the image plane of each Fresnel hologram. The inputs are plain typed arrays (`PreviewData`),
- * far fields already pooled to preview size, so the pictures can be painted and encoded on a worker thread
- * while the main thread writes the other files.
+ * channel and the image plane of each Fresnel hologram. The inputs are plain typed arrays, far fields
+ * already pooled to preview size, so the pictures can be painted and encoded on a worker thread while the
+ * main thread goes on: the maps of the layout (`MapPreviewData`: phases, atom index, rotation) are known as
+ * soon as the atoms are mapped, the results (`ResultPreviewData`) when the engine is done.
  *
  * Far-field file names: farfield_<a|b|extra>.png (total), farfield_<input>_out-a.png and _out-b.png (along
  * λA*, λB*), farfield_<input>_x.png and _y.png — the last two only when the output states are not x and y
@@ -15,7 +16,7 @@
  */
 import { join } from 'node:path';
 import { outlineRect, paintIndex, paintIntensity, paintPhase, poolMap, subsampleMap, type Rgb, type RgbaImage } from '../../shared/optics/colormap';
-import { CHANNEL_IDS, INPUT_IDS, type ChannelId, type DesignRun, type FarFieldSet, type InputId } from '../../shared/optics/pipeline';
+import { CHANNEL_IDS, INPUT_IDS, type ChannelId, type DesignRun, type FarFieldSet, type InputId, type RunFarFields } from '../../shared/optics/pipeline';
 import type { JonesVector } from '../../shared/optics/types';
 import type { PixelWindow } from '../../shared/optics/target';
 import { writePng } from './png';
@@ -38,15 +39,21 @@ export type FarFieldComponent = (typeof FAR_FIELD_COMPONENTS)[number];
  */
 export type FarFieldPreviewMaps = { total: Float32Array } & Partial<Record<FarFieldComponent, Float32Array>>;
 
-export interface PreviewData {
+/** The maps painted once the atoms are mapped: channel phases, atom index and rotation, N×N row-major. */
+export interface MapPreviewData {
   n: number;
-  farFields: Record<InputId, FarFieldPreviewMaps>;
-  /** Far-field windows of the Fourier holograms, per channel. */
-  windows: Partial<Record<ChannelId, PixelWindow>>;
   phases: Record<ChannelId, Float64Array>;
   atomIndex: Int32Array;
   atomCount: number;
   theta: Float64Array;
+}
+
+/** The simulated results painted at the end of a run. */
+export interface ResultPreviewData {
+  n: number;
+  farFields: Partial<Record<InputId, FarFieldPreviewMaps>>;
+  /** Far-field windows of the Fourier holograms, per channel. */
+  windows: Partial<Record<ChannelId, PixelWindow>>;
   slices: Partial<Record<ChannelId, { slice: Float32Array; planes: number }>>;
   fresnel: Partial<Record<ChannelId, { image: Float32Array; window: PixelWindow }>>;
 }
@@ -77,27 +84,20 @@ function farFieldMaps(set: FarFieldSet, n: number, withXY: boolean): FarFieldPre
   return maps;
 }
 
-/** The arrays of a run the previews need (no copies, except far fields pooled for large designs). */
-export function previewDataOf(run: DesignRun): PreviewData {
-  const n = run.grid.n;
-  const withXY = !analyserIsXY(run.analyser);
-  const farFields = {} as Record<InputId, FarFieldPreviewMaps>;
-  for (const input of INPUT_IDS) farFields[input] = farFieldMaps(run.farFields[input], n, withXY);
-  const data: PreviewData = {
-    n,
-    farFields,
-    windows: {},
-    phases: { a: run.channels.a.phase, b: run.channels.b.phase },
-    atomIndex: run.mapping.atomIndex,
-    atomCount: run.library.atoms.length,
-    theta: run.decomposition.theta,
-    slices: {},
-    fresnel: {},
-  };
+/** The far-field previews' data, as soon as the far fields are simulated (pooled copies for large designs). */
+export function farFieldPreviewDataOf(result: RunFarFields): ResultPreviewData {
+  const n = result.grid.n;
+  const withXY = !analyserIsXY(result.analyser);
+  const data: ResultPreviewData = { n, farFields: {}, windows: { ...result.windows }, slices: {}, fresnel: {} };
+  for (const input of INPUT_IDS) data.farFields[input] = farFieldMaps(result.farFields[input], n, withXY);
+  return data;
+}
+
+/** The other result previews' data: x–z slices of beam channels, image planes of Fresnel holograms (no copies). */
+export function beamPreviewDataOf(run: DesignRun): ResultPreviewData {
+  const data: ResultPreviewData = { n: run.grid.n, farFields: {}, windows: {}, slices: {}, fresnel: {} };
   for (const c of CHANNEL_IDS) {
     const channel = run.channels[c];
-    const geometry = channel.plan.hologram?.geometry;
-    if (channel.window && geometry === 'fourier') data.windows[c] = channel.window;
     if (channel.window && channel.fresnelImage) data.fresnel[c] = { image: channel.fresnelImage, window: channel.window };
     if (channel.beam) data.slices[c] = { slice: channel.beam.slice, planes: channel.beam.z.length };
   }
@@ -181,8 +181,30 @@ export function slicePreview(slice: Float32Array, planes: number, n: number): Rg
   return paintIntensity(values, width, rows, { kind: 'gamma', gamma: 0.5 });
 }
 
-/** Every preview of the data as (file name, painter) pairs, in writing order; nothing is painted yet. */
-export function previewPainters(data: PreviewData): [string, () => RgbaImage][] {
+/** A preview file name and the function that paints it (nothing is painted until it is called). */
+export type Painter = [name: string, paint: () => RgbaImage];
+
+/** Side of the map previews and the factor `small` subsamples an N×N map by to get there. */
+function mapPreviewSize(n: number) {
+  const factor = previewFactor(n);
+  const small = <T extends Float64Array | Int32Array>(values: T): T => (factor > 1 ? subsampleMap(values, n, factor) : values);
+  return { m: n / factor, small };
+}
+
+/** The map previews: phase_a.png, phase_b.png, atom_index.png, rotation.png. */
+export function mapPreviewPainters(data: MapPreviewData): Painter[] {
+  const { m, small } = mapPreviewSize(data.n);
+  return [
+    ['phase_a.png', () => paintPhase(small(data.phases.a), m, m)],
+    ['phase_b.png', () => paintPhase(small(data.phases.b), m, m)],
+    ['atom_index.png', () => paintIndex(small(data.atomIndex), m, m, data.atomCount)],
+    // θ is defined mod π: 2θ is painted in the cyclic colours so the picture has no seams.
+    ['rotation.png', () => paintPhase(small(data.theta).map((t) => 2 * t), m, m)],
+  ];
+}
+
+/** The result previews, in writing order: far fields of the inputs present, x–z slices, Fresnel image planes. */
+export function resultPreviewPainters(data: ResultPreviewData): Painter[] {
   const { n } = data;
   const windowsOf = (ids: ChannelId[]) => ids.flatMap((c) => (data.windows[c] ? [{ window: data.windows[c]!, color: WINDOW_COLORS[c] }] : []));
   const farFieldInputs: [InputId, ChannelId[]][] = [
@@ -192,12 +214,12 @@ export function previewPainters(data: PreviewData): [string, () => RgbaImage][] 
   ];
   const factor = previewFactor(n);
   const m = n / factor;
-  const small = <T extends Float64Array | Int32Array>(values: T): T => (factor > 1 ? subsampleMap(values, n, factor) : values);
-  const painters: [string, () => RgbaImage][] = [];
+  const painters: Painter[] = [];
   const componentFactor = previewFactor(n, COMPONENT_MAX_SIDE);
   const componentSide = n / componentFactor;
   for (const [input, ids] of farFieldInputs) {
     const maps = data.farFields[input];
+    if (!maps) continue;
     const windows = windowsOf(ids);
     painters.push([`farfield_${input}.png`, () => paintFarField(maps.total, m, factor, windows, farFieldFullScale(maps.total, m))]);
     // Every component on the scale of the total, pooled like the component pictures.
@@ -208,11 +230,6 @@ export function previewPainters(data: PreviewData): [string, () => RgbaImage][] 
       if (map) painters.push([`farfield_${input}_${component}.png`, () => paintFarField(map, componentSide, componentFactor, windows, commonScale())]);
     }
   }
-  painters.push(['phase_a.png', () => paintPhase(small(data.phases.a), m, m)]);
-  painters.push(['phase_b.png', () => paintPhase(small(data.phases.b), m, m)]);
-  painters.push(['atom_index.png', () => paintIndex(small(data.atomIndex), m, m, data.atomCount)]);
-  // θ is defined mod π: 2θ is painted in the cyclic colours so the picture has no seams.
-  painters.push(['rotation.png', () => paintPhase(small(data.theta).map((t) => 2 * t), m, m)]);
   for (const c of CHANNEL_IDS) {
     const slice = data.slices[c];
     if (slice) painters.push([`xz_${c}.png`, () => slicePreview(slice.slice, slice.planes, n)]);
@@ -222,26 +239,9 @@ export function previewPainters(data: PreviewData): [string, () => RgbaImage][] 
   return painters;
 }
 
-/** Which previews to write: all, those a helper thread paints (far fields, channel phases), or the rest. */
-export type PreviewSelection = 'all' | 'helper' | 'rest';
-
-const HELPER_PREVIEWS = /^(farfield_|phase_)/;
-
-function selected(name: string, selection: PreviewSelection): boolean {
-  return selection === 'all' || (selection === 'helper') === HELPER_PREVIEWS.test(name);
-}
-
-/** The part of the data the helper's previews read: the arrays of the other previews are left out (not copied). */
-export function helperPreviewData(data: PreviewData): PreviewData {
-  return { ...data, atomIndex: new Int32Array(0), theta: new Float64Array(0), slices: {}, fresnel: {} };
-}
-
-/** Paints and writes the selected previews of `data` into `dir`. */
-export async function writePreviews(dir: string, data: PreviewData, selection: PreviewSelection = 'all'): Promise<WrittenFile[]> {
+/** Paints the previews one by one and writes them into `dir`. */
+export async function writePainted(dir: string, painters: Painter[]): Promise<WrittenFile[]> {
   const files: WrittenFile[] = [];
-  for (const [name, paint] of previewPainters(data)) {
-    if (!selected(name, selection)) continue;
-    files.push({ name, bytes: await writePng(join(dir, name), paint()) });
-  }
+  for (const [name, paint] of painters) files.push({ name, bytes: await writePng(join(dir, name), paint()) });
   return files;
 }

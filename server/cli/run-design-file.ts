@@ -8,14 +8,14 @@ import type { DesignRun } from '../../shared/optics/pipeline';
 import { runDesign } from '../../shared/optics/pipeline';
 import type { CancelSignal, ProgressCallback } from '../../shared/optics/types';
 import { loadDesignFile, loadDesignResources } from './design-files';
-import { writeRunOutputs, type WrittenFile } from './outputs';
+import type { WrittenFile } from './outputs';
 import { runThreads } from './run-threads';
 
 export interface RunFileOptions {
   outDir: string;
   /**
-   * Use worker threads (default true): one per hologram channel's phase retrieval, and one painting the
-   * previews while the other files are written. false: everything on this thread.
+   * Use worker threads (default true): one per hologram channel's phase retrieval, and one writing files
+   * while the engine and this thread go on (run-threads.ts). false: everything on this thread.
    */
   parallel?: boolean;
   onProgress?: ProgressCallback;
@@ -35,20 +35,21 @@ export interface RunFileResult {
 export async function runDesignFile(designPath: string, options: RunFileOptions): Promise<RunFileResult> {
   const t0 = performance.now();
   const design = await loadDesignFile(designPath);
-  const { resources, warnings } = await loadDesignResources(design, designPath);
-  for (const warning of warnings) options.onWarning?.(warning);
+  // Started before the inputs are read: the retrieval workers load meanwhile.
   const threads = runThreads(options.parallel !== false);
-  if (threads.retrieveChannels) resources.retrieveChannels = threads.retrieveChannels;
-  await mkdir(options.outDir, { recursive: true });
   const onProgress: ProgressCallback = (fraction, stage, detail) => {
     threads.onStage(stage);
     options.onProgress?.(fraction, stage, detail);
   };
   try {
+    const { resources, warnings } = await loadDesignResources(design, designPath);
+    for (const warning of warnings) options.onWarning?.(warning);
+    if (threads.retrieveChannels) resources.retrieveChannels = threads.retrieveChannels;
+    await mkdir(options.outDir, { recursive: true });
     const t1 = performance.now();
-    const run = await runDesign(design, resources, { onProgress, signal: options.signal });
+    const run = await runDesign(design, resources, { onProgress, ...threads.earlyOutputs(options.outDir), signal: options.signal });
     const t2 = performance.now();
-    const files = await writeRunOutputs(run, options.outDir, threads.previews());
+    const files = await threads.writeOutputs(run, options.outDir);
     const t3 = performance.now();
     return { run, files, timings: { inputs: t1 - t0, engine: t2 - t1, outputs: t3 - t2, total: t3 - t0 } };
   } finally {

@@ -1,35 +1,61 @@
 /**
  * The helper threads of one run, the same for `phasewright run` and the server's run worker: the hologram
- * channels' phase retrieval on one worker thread each (parallel-retrieval.ts), then, once retrieval has freed
- * its core, a preview worker that paints the PNGs while the caller writes the arrays and the layout
- * (preview-writer.ts). Without helpers everything stays on the caller's thread.
+ * channels' phase retrieval on one worker thread each (parallel-retrieval.ts), started while the inputs are
+ * read; then, once retrieval has freed its core, an output worker (output-helper.ts) that writes the layout
+ * files while the engine simulates and the far-field previews while it finishes. Without helpers everything
+ * stays on the caller's thread.
  */
-import type { ChannelRetriever } from '../../shared/optics/pipeline';
+import type { ChannelRetriever, DesignRun, RunOptions } from '../../shared/optics/pipeline';
+import { startOutputWorker, type OutputWorker } from './output-helper';
+import { layoutFilesDataOf, writeRunOutputs, type EarlyFiles, type WrittenFile } from './outputs';
 import { createWorkerRetriever } from './parallel-retrieval';
-import { startPreviewWorker, type PreviewWorker } from './preview-writer';
 
 export interface RunThreads {
   /** For `resources.retrieveChannels`; undefined: retrieve on the caller's thread. */
   retrieveChannels: ChannelRetriever | undefined;
-  /** Call with the stage of every progress report: starts the preview worker when retrieval is over. */
+  /** Call with the stage of every progress report: starts the output worker when retrieval is over. */
   onStage(stage: string): void;
-  /** The preview writer for `writeRunOutputs`, once started. */
-  previews(): PreviewWorker | undefined;
-  /** Stops the preview worker (always call it, after success or failure). */
+  /**
+   * For runDesign's options: results in shared memory, and the output worker writes the layout files and the
+   * far-field previews into `dir` while the engine goes on.
+   */
+  earlyOutputs(dir: string): Pick<RunOptions, 'onLayout' | 'onFarFields' | 'memory'>;
+  /** Writes every output of the finished run into `dir` (writeRunOutputs), with the output worker's share. */
+  writeOutputs(run: DesignRun, dir: string): Promise<WrittenFile[]>;
+  /** Stops the output worker (always call it, after success or failure). */
   close(): Promise<void>;
 }
 
-/** Helper threads for one run when `parallel`; none otherwise. */
+/** Retrieval workers started with the run's helpers (one per channel), loading while the inputs are read. */
+const WARM_RETRIEVAL_WORKERS = 2;
+
+/** Helper threads for one run when `parallel`; none otherwise. Create it before reading the inputs. */
 export function runThreads(parallel: boolean): RunThreads {
-  let previews: PreviewWorker | undefined;
+  let helper: OutputWorker | undefined;
+  const early: EarlyFiles = {};
+  // Observed at once so a run that fails later leaves no unhandled rejection; writeOutputs awaits them.
+  const keep = (files: Promise<WrittenFile[]>) => {
+    files.catch(() => undefined);
+    return files;
+  };
+  const startHelper = () => (helper ??= startOutputWorker());
+  const retriever = parallel ? createWorkerRetriever(WARM_RETRIEVAL_WORKERS) : undefined;
   return {
-    retrieveChannels: parallel ? createWorkerRetriever() : undefined,
+    retrieveChannels: retriever?.retrieve,
     onStage(stage) {
-      if (parallel && !previews && stage !== 'prepare' && stage !== 'phase retrieval') previews = startPreviewWorker();
+      if (parallel && stage !== 'prepare' && stage !== 'phase retrieval') startHelper();
     },
-    previews: () => previews,
+    earlyOutputs: (dir) =>
+      parallel
+        ? {
+            memory: 'shared',
+            onLayout: (layout) => (early.layout = keep(startHelper().writeLayout(dir, layoutFilesDataOf(layout)))),
+            onFarFields: (result) => (early.farFieldPreviews = keep(startHelper().writeFarFieldPreviews(dir, result))),
+          }
+        : {},
+    writeOutputs: (run, dir) => writeRunOutputs(run, dir, early),
     async close() {
-      await previews?.close();
+      await Promise.all([helper?.close(), retriever?.close()]);
     },
   };
 }

@@ -6,9 +6,11 @@
  * device the pillar of a cell is rotated by the cell's θ (counter-clockwise, x towards y), so its
  * Jones matrix is R(θ)·diag(tx e^{iαx}, ty e^{iαy})·R(θ)ᵀ (exp(−iωt), radians, metres).
  */
+import { float64Array, int32Array, type ArrayMemory } from './arrays';
 import type { CancelSignal, ComplexField, JonesField, ProgressCallback } from './types';
 import type { JonesDecomposition } from './jones';
 import { emptyJonesField } from './jones';
+
 
 /** 'rect': rectangular pillar; 'empty': bare cell without a pillar (width = length = 0). */
 export type AtomShape = 'rect' | 'empty';
@@ -361,6 +363,8 @@ export interface MappingOptions {
   lookup?: AtomLookup;
   onProgress?: ProgressCallback;
   signal?: CancelSignal;
+  /** Where atomIndex and theta are allocated (arrays.ts); default 'private'. */
+  memory?: ArrayMemory;
 }
 
 /**
@@ -380,8 +384,8 @@ export function mapAtoms(decomposition: JonesDecomposition, library: AtomLibrary
   const { bins, offsets, candidates, ax, bx, ay, by, norm2 } = lookup;
   const allowSwap = options.allowAxisSwap === true;
   const withError = options.complexError !== false;
-  const atomIndex = new Int32Array(count);
-  const thetaOut = new Float64Array(count);
+  const atomIndex = int32Array(count, options.memory);
+  const thetaOut = float64Array(count, options.memory);
   const swapped = new Uint8Array(count);
   const cost = new Float32Array(count);
   const errorX = withError ? { n, re: new Float64Array(count), im: new Float64Array(count) } : undefined;

@@ -13,6 +13,7 @@
  * Memory: no Jones field and no float64 near field are stored; the two projections go straight into the
  * FFT buffer and one reusable float32 scratch buffer.
  */
+import { float32Array, type ArrayMemory } from './arrays';
 import type { AtomLibrary } from './atoms';
 import { getFft2d } from './fft';
 import { directionCosineStep } from './propagation';
@@ -90,6 +91,8 @@ export interface DevicePreviewOptions {
   scratch: PreviewScratch;
   /** Which projected near fields [P0, P1] to return as well (float32); default neither. */
   keepNearFields?: [boolean, boolean];
+  /** Where the far-field maps are allocated (arrays.ts); default 'private'. */
+  memory?: ArrayMemory;
 }
 
 /**
@@ -188,11 +191,11 @@ export function previewDevice(device: PlacedAtoms, options: DevicePreviewOptions
   const set: FarFieldSet = {
     input: normalizeJones(options.input),
     incidentPower: power,
-    total: new Float32Array(count),
-    analyserA: new Float32Array(count),
-    analyserB: new Float32Array(count),
-    x: new Float32Array(count),
-    y: new Float32Array(count),
+    total: float32Array(count, options.memory),
+    analyserA: float32Array(count, options.memory),
+    analyserB: float32Array(count, options.memory),
+    x: float32Array(count, options.memory),
+    y: float32Array(count, options.memory),
   };
   const [[k0xRe, k0xIm], [k0yRe, k0yIm]] = k0;
   const [[k1xRe, k1xIm], [k1yRe, k1yIm]] = k1;

@@ -6,7 +6,8 @@
  * chosen by benchmark (bench/fft-bench.ts) over fft.js and ndarray-fft; it runs in Node and in browsers.
  * Data live in one interleaved float32 buffer (re, im, re, im…) inside the WebAssembly memory, allocated
  * once per plan. Rows are transformed one at a time and the square buffer is transposed in place
- * (8×8 tiles), so a 2-D transform is: rows, transpose, rows, transpose.
+ * (8×8 tiles), so a 2-D transform is: rows, transpose, rows, transpose. A retrieval cycle limited to some
+ * spectrum columns copies just those columns out (8×8 tiles) instead of transposing the whole buffer.
  *
  * Conventions (same as numpy.fft.fft2 / ifft2):
  * - forward  F[ky, kx] = Σ f[y, x] · exp(−2πi (ky·y + kx·x)/N), unscaled;
@@ -97,6 +98,12 @@ export function assertFftSize(n: number): void {
 export type RowOperation = (data: Float32Array, offset: number, row: number) => void;
 
 /**
+ * Index ranges [start, end) of rows or columns as a flat list [start0, end0, start1, end1, …] of increasing,
+ * non-overlapping ranges inside 0…n. Example: [0, 8, 100, 120] selects indices 0–7 and 100–119.
+ */
+export type RowSpans = readonly number[];
+
+/**
  * A 2-D FFT plan for one size n: its own interleaved complex float32 buffer `data` (length 2n²) in the
  * WebAssembly memory, a work buffer and precomputed twiddles. Not shareable between threads.
  */
@@ -108,6 +115,11 @@ export class Fft2d {
   private workPointer: number;
   private view: Float32Array;
   private pairs: Float64Array;
+  /** Buffer of the spectrum columns of a limited cycle, one per row (grown on demand), and its views. */
+  private columnsPointer = 0;
+  private columnsCapacity = 0;
+  private columnsView: Float32Array | null = null;
+  private columnsPairs: Float64Array | null = null;
   private chained = false;
 
   constructor(n: number) {
@@ -140,6 +152,10 @@ export class Fft2d {
     if (this.view.buffer !== buffer) {
       this.view = new Float32Array(buffer, this.dataPointer, 2 * this.n * this.n);
       this.pairs = new Float64Array(buffer, this.dataPointer, this.n * this.n);
+    }
+    if (this.columnsPointer && (!this.columnsView || this.columnsView.buffer !== buffer)) {
+      this.columnsView = new Float32Array(buffer, this.columnsPointer, 2 * this.n * this.columnsCapacity);
+      this.columnsPairs = new Float64Array(buffer, this.columnsPointer, this.n * this.columnsCapacity);
     }
   }
 
@@ -228,16 +244,23 @@ export class Fft2d {
    * multiplied by N² unless `spectrumRow` divides), `fieldRow` on every field row.
    * The spectrum is seen transposed and unshifted: row r holds kx index r, element j of that row is
    * ky index j (frequency index m means m for m < N/2, m − N otherwise).
+   * `spectrumRows`: only these spectrum rows (kx indices) are transformed and passed to `spectrumRow` (in a
+   * separate buffer: use the `data` and `offset` it receives); all others are set to zero, for a constraint
+   * that zeroes them anyway — far less work. null: every row.
    * With `chainForward`, the forward row transforms of the next cycle are done while each field row is
    * still in cache; the buffer is then half-transformed until a cycle with `chainForward = false`.
    * Example: with no-op callbacks and chainForward = false, `data` ends as N²·(its initial value).
    */
-  cycle(spectrumRow: RowOperation | null, fieldRow: RowOperation | null, chainForward: boolean): void {
+  cycle(spectrumRow: RowOperation | null, fieldRow: RowOperation | null, chainForward: boolean, spectrumRows: RowSpans | null = null): void {
     if (!this.chained) this.rowPass(PFFFT_FORWARD, null, -1, 1);
-    this.transpose();
-    this.rowPass(PFFFT_FORWARD, spectrumRow, PFFFT_BACKWARD, 1);
-    this.transpose();
-    this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1);
+    if (spectrumRows) {
+      this.columnRoundTrip(spectrumRows, spectrumRow);
+    } else {
+      this.transpose();
+      this.rowPass(PFFFT_FORWARD, spectrumRow, PFFFT_BACKWARD, 1);
+      this.transpose();
+    }
+    this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1, spectrumRows);
     this.chained = chainForward;
   }
 
@@ -247,15 +270,20 @@ export class Fft2d {
     const module = this.module;
     module._pffft_aligned_free(this.dataPointer);
     module._pffft_aligned_free(this.workPointer);
+    if (this.columnsPointer) module._pffft_aligned_free(this.columnsPointer);
     module._pffft_destroy_setup(this.setup);
     this.dataPointer = 0;
     this.workPointer = 0;
+    this.columnsPointer = 0;
     this.setup = 0;
     if (cachedPlans.get(this.n) === this) cachedPlans.delete(this.n);
   }
 
-  /** Transforms every row (`first` direction), then optionally scales it, applies `op` and transforms it again (`second`, −1 for none). */
-  private rowPass(first: number, op: RowOperation | null, second: number, scale: number): void {
+  /**
+   * Transforms every row (`first` direction), then optionally scales it, applies `op` and transforms it
+   * again (`second`, −1 for none). With `keepColumns`, each row is first zeroed outside those columns.
+   */
+  private rowPass(first: number, op: RowOperation | null, second: number, scale: number, keepColumns: RowSpans | null = null): void {
     const module = this.module;
     const n = this.n;
     const setup = this.setup;
@@ -264,8 +292,9 @@ export class Fft2d {
     const data = this.data;
     let pointer = this.dataPointer;
     for (let row = 0; row < n; row++, pointer += rowBytes) {
-      module._pffft_transform_ordered(setup, pointer, pointer, work, first);
       const offset = 2 * n * row;
+      if (keepColumns) zeroOutside(data, offset, n, keepColumns);
+      module._pffft_transform_ordered(setup, pointer, pointer, work, first);
       if (scale !== 1) {
         const end = offset + 2 * n;
         for (let i = offset; i < end; i++) data[i] *= scale;
@@ -273,6 +302,61 @@ export class Fft2d {
       if (op) op(data, offset, row);
       if (second >= 0) module._pffft_transform_ordered(setup, pointer, pointer, work, second);
     }
+  }
+
+  /**
+   * The spectrum half of a limited cycle: copies the columns of `spans` (8×8 tiles) into rows of the column
+   * buffer, transforms each forward, applies `op` (row argument = column index), transforms it back and
+   * copies the columns home. The other columns keep stale values: the caller zeroes them.
+   */
+  private columnRoundTrip(spans: RowSpans, op: RowOperation | null): void {
+    assertSpans(spans, this.n);
+    const module = this.module;
+    const n = this.n;
+    const setup = this.setup;
+    const work = this.workPointer;
+    let count = 0;
+    for (let s = 0; s < spans.length; s += 2) count += spans[s + 1] - spans[s];
+    this.reserveColumns(count);
+    this.refreshViews();
+    const grid = this.pairs;
+    const columns = this.columnsPairs!;
+    const view = this.columnsView!;
+    const tile = TRANSPOSE_TILE;
+    const copy = (toColumns: boolean) => {
+      for (let y0 = 0; y0 < n; y0 += tile) {
+        let k = 0;
+        for (let s = 0; s < spans.length; s += 2) {
+          for (let x = spans[s]; x < spans[s + 1]; x++, k++) {
+            const row = k * n + y0;
+            if (toColumns) for (let y = 0, p = y0 * n + x; y < tile; y++, p += n) columns[row + y] = grid[p];
+            else for (let y = 0, p = y0 * n + x; y < tile; y++, p += n) grid[p] = columns[row + y];
+          }
+        }
+      }
+    };
+    copy(true);
+    let k = 0;
+    for (let s = 0; s < spans.length; s += 2) {
+      for (let x = spans[s]; x < spans[s + 1]; x++, k++) {
+        const pointer = this.columnsPointer + 8 * n * k;
+        module._pffft_transform_ordered(setup, pointer, pointer, work, PFFFT_FORWARD);
+        if (op) op(view, 2 * n * k, x);
+        module._pffft_transform_ordered(setup, pointer, pointer, work, PFFFT_BACKWARD);
+      }
+    }
+    copy(false);
+  }
+
+  /** Makes the column buffer hold at least `count` columns of n complex values. */
+  private reserveColumns(count: number): void {
+    if (count <= this.columnsCapacity) return;
+    if (this.columnsPointer) this.module._pffft_aligned_free(this.columnsPointer);
+    this.columnsPointer = this.module._pffft_aligned_malloc(8 * this.n * count);
+    if (!this.columnsPointer) throw new RangeError(`Not enough WebAssembly memory for ${count} spectrum columns of ${this.n}`);
+    this.columnsCapacity = count;
+    this.columnsView = null;
+    this.columnsPairs = null;
   }
 
   /** In-place transpose of the n×n complex matrix, moving each (re, im) float32 pair as one 8-byte word. */
@@ -305,6 +389,30 @@ export class Fft2d {
       }
     }
   }
+}
+
+/** Throws RangeError unless `spans` are increasing, non-overlapping [start, end) pairs inside 0…n. */
+function assertSpans(spans: RowSpans, n: number): void {
+  if (spans.length % 2 !== 0) throw new RangeError('Row spans come in [start, end) pairs');
+  let previous = 0;
+  for (let s = 0; s < spans.length; s += 2) {
+    const start = spans[s];
+    const end = spans[s + 1];
+    if (!Number.isInteger(start) || !Number.isInteger(end) || start < previous || end <= start || end > n) {
+      throw new RangeError(`Row spans must be increasing [start, end) pairs inside 0…${n}, got ${spans.join(', ')}`);
+    }
+    previous = end;
+  }
+}
+
+/** Zeroes the complex elements of one row (float offset `offset`, n elements) outside the columns of `spans`. */
+function zeroOutside(data: Float32Array, offset: number, n: number, spans: RowSpans): void {
+  let from = 0;
+  for (let s = 0; s < spans.length; s += 2) {
+    if (spans[s] > from) data.fill(0, offset + 2 * from, offset + 2 * spans[s]);
+    from = spans[s + 1];
+  }
+  if (from < n) data.fill(0, offset + 2 * from, offset + 2 * n);
 }
 
 /** Creates a new plan of size n (power of two, 64…4096). Requires `await initFft()` first. */

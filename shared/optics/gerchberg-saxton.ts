@@ -13,7 +13,13 @@
  *
  * Geometry: 'fourier' — image plane = far field, G = FFT of the device field; 'fresnel' — image plane at
  * distance z, G = angular-spectrum propagation (propagation.ts, band-limited) of the device field.
- * Evanescent far-field pixels are always set to zero.
+ * Evanescent far-field pixels are always set to zero. Target values outside the window are ignored (target.ts
+ * keeps them zero).
+ *
+ * Work saved without changing the result: for 'gs' and 'weighted-gs' in the Fourier geometry every spectrum
+ * column (kx) without window pixels is zeroed by the constraint, so the FFT plan skips those columns
+ * (`cycle`'s spectrumRows) and their power enters the Fourier error through Parseval: it is the incident power
+ * minus the power of the columns computed, since the device field entering each FFT has modulus a exactly.
  *
  * Scaling: the target is scaled so that Σ T² equals the incident power Σ a² (Parseval, unitary transform).
  * Errors recorded per iteration k, all from the image-plane field G_k before its modulus is replaced:
@@ -23,11 +29,12 @@
  *   after the best overall scale α (insensitive to efficiency).
  * - windowEfficiency η_k = Σ_win |G_k|² / Σ a², fraction of incident power in the window.
  */
-import { getFft2d, type Fft2d, type RowOperation } from './fft';
+import { float64Array, type ArrayMemory } from './arrays';
+import { getFft2d, type Fft2d, type RowOperation, type RowSpans } from './fft';
 import { illuminationAmplitude, incidentPower, type Illumination } from './illumination';
 import { transferFunction } from './propagation';
 import { mulberry32 } from './random';
-import type { TargetPlane } from './target';
+import type { PixelWindow, TargetPlane } from './target';
 import type { CancelSignal, CellGrid, ProgressCallback } from './types';
 
 export type RetrievalAlgorithm = 'gs' | 'weighted-gs' | 'mraf';
@@ -52,6 +59,8 @@ export interface RetrievalOptions {
   fresnelDistance?: number;
   onProgress?: ProgressCallback;
   signal?: CancelSignal;
+  /** Where the result phase is allocated (arrays.ts); default 'private'. */
+  memory?: ArrayMemory;
 }
 
 export interface RetrievalResult {
@@ -75,6 +84,8 @@ const ACC_GG = 2;
 const ACC_TT = 3;
 const ACC_RATIO = 4;
 const ACC_BRIGHT = 5;
+/** Σ |G|² over every spectrum pixel the plan computed. */
+const ACC_COMPUTED = 6;
 
 /**
  * Runs GS / weighted GS / MRAF and returns the device phase with the per-iteration error history.
@@ -104,12 +115,14 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
   // normal centred rows (Fresnel image plane).
   const targetScaled = new Float32Array(n * n);
   const region = new Uint8Array(n * n);
+  const { x0, y0, width, height } = target.window;
   let targetPower = 0;
-  for (let i = 0; i < n * n; i++) targetPower += target.amplitude[i] ** 2;
+  for (let iy = y0; iy < y0 + height; iy++) {
+    for (let ix = x0; ix < x0 + width; ix++) targetPower += target.amplitude[iy * n + ix] ** 2;
+  }
   if (!(targetPower > 0)) throw new RangeError('Target is dark: no pixel of the window has a positive value');
   // Fourier: FFT units (unscaled transform, Σ|G|² = N²·Σ a²); Fresnel: the propagated field is unitary.
   const scale = Math.sqrt(power / targetPower) * (fresnel ? 1 : n);
-  const { x0, y0, width, height } = target.window;
   const half = n / 2;
   const deltaU = grid.lambda / (n * grid.period);
   for (let r = 0; r < n; r++) {
@@ -120,33 +133,17 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
       const v = (iy - half) * deltaU;
       const inWindow = ix >= x0 && ix < x0 + width && iy >= y0 && iy < y0 + height;
       const index = r * n + j;
-      targetScaled[index] = target.amplitude[iy * n + ix] * scale;
+      targetScaled[index] = inWindow ? target.amplitude[iy * n + ix] * scale : 0;
       region[index] = inWindow ? SIGNAL : !fresnel && u * u + v * v > 1 ? EVANESCENT : NOISE;
     }
   }
   const weights = algorithm === 'weighted-gs' ? new Float32Array(n * n).fill(1) : null;
-  const accumulator = new Float64Array(6);
+  const accumulator = new Float64Array(7);
   let previousMeanRatio = 0;
+  const spectrumRows = !fresnel && algorithm !== 'mraf' ? windowSpectrumRows(target.window, n) : null;
 
   const imagePlaneOp = makeImagePlaneOp(algorithm, n, targetScaled, region, weights, accumulator, mixing, () => previousMeanRatio);
-  const deviceOp: RowOperation = (data, offset, row) => {
-    const base = row * n;
-    for (let j = 0; j < n; j++) {
-      const q = offset + 2 * j;
-      const re = data[q];
-      const im = data[q + 1];
-      const a = deviceAmplitude[base + j];
-      const magnitude = Math.sqrt(re * re + im * im);
-      if (magnitude > 0) {
-        const s = a / magnitude;
-        data[q] = re * s;
-        data[q + 1] = im * s;
-      } else {
-        data[q] = a;
-        data[q + 1] = 0;
-      }
-    }
-  };
+  const deviceOp = makeDeviceOp(n, deviceAmplitude);
 
   let forwardOp: RowOperation | null = null;
   let backwardOp: RowOperation | null = null;
@@ -172,9 +169,10 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
         plan.cycle(forwardOp, imagePlaneOp, true);
         plan.cycle(backwardOp, deviceOp, !last);
       } else {
-        plan.cycle(imagePlaneOp, deviceOp, !last);
+        plan.cycle(imagePlaneOp, deviceOp, !last, spectrumRows);
       }
-      fourierError[k] = Math.sqrt(accumulator[ACC_FIENUP] / (power * fftUnits));
+      const skipped = spectrumRows ? Math.max(0, power * fftUnits - accumulator[ACC_COMPUTED]) : 0;
+      fourierError[k] = Math.sqrt((accumulator[ACC_FIENUP] + skipped) / (power * fftUnits));
       const tt = accumulator[ACC_TT];
       const gg = accumulator[ACC_GG];
       const residual = gg > 0 ? Math.max(0, tt - (accumulator[ACC_GT] * accumulator[ACC_GT]) / gg) : tt;
@@ -194,7 +192,7 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
   }
 
   const data = plan.data;
-  const phase = new Float64Array(n * n);
+  const phase = float64Array(n * n, options.memory);
   for (let i = 0; i < n * n; i++) {
     const angle = Math.atan2(data[2 * i + 1], data[2 * i]);
     phase[i] = angle === -Math.PI ? Math.PI : angle;
@@ -213,6 +211,45 @@ function loadStartField(plan: Fft2d, n: number, amplitude: Float32Array, initial
     im[i] = amplitude[i] * Math.sin(phi);
   }
   plan.load(re, im);
+}
+
+/**
+ * Spectrum rows of the plan's transposed layout (kx indices, unshifted) that hold the window's columns, as
+ * row spans. Example (n = 8, window columns x0 = 5, width 2 → ix 5, 6): kx 1, 2 → [1, 3].
+ */
+export function windowSpectrumRows(window: PixelWindow, n: number): RowSpans {
+  const half = n / 2;
+  const rows = Array.from({ length: window.width }, (_, i) => (window.x0 + i + half) % n).sort((a, b) => a - b);
+  const spans: number[] = [];
+  for (const row of rows) {
+    if (spans.length > 0 && spans[spans.length - 1] === row) spans[spans.length - 1] = row + 1;
+    else spans.push(row, row + 1);
+  }
+  return spans;
+}
+
+/** Device-plane modulus constraint: every field value gets the illumination amplitude, its phase kept. */
+function makeDeviceOp(n: number, amplitude: Float32Array): RowOperation {
+  const uniform = amplitude.every((a) => a === amplitude[0]);
+  const a0 = amplitude[0];
+  return (data, offset, row) => {
+    const base = row * n;
+    for (let j = 0; j < n; j++) {
+      const q = offset + 2 * j;
+      const re = data[q];
+      const im = data[q + 1];
+      const a = uniform ? a0 : amplitude[base + j];
+      const magnitude2 = re * re + im * im;
+      if (magnitude2 > 0) {
+        const s = a / Math.sqrt(magnitude2);
+        data[q] = re * s;
+        data[q + 1] = im * s;
+      } else {
+        data[q] = a;
+        data[q + 1] = 0;
+      }
+    }
+  };
 }
 
 /** data[row] ← data[row]·norm·H (sign 1) or ·norm·H* (sign −1). */
@@ -242,7 +279,9 @@ function makeImagePlaneOp(
   return (data, offset, row) => {
     const base = row * n;
     const meanRatio = previousMeanRatio();
+    const keep = algorithm === 'mraf' ? 1 - mixing : 0;
     let fienup = 0;
+    let computed = 0;
     let gt = 0;
     let gg = 0;
     let tt = 0;
@@ -253,19 +292,23 @@ function makeImagePlaneOp(
       const re = data[q];
       const im = data[q + 1];
       const index = base + j;
-      const t = target[index];
-      const magnitude = Math.sqrt(re * re + im * im);
-      const difference = magnitude - t;
-      fienup += difference * difference;
+      const power = re * re + im * im;
+      computed += power;
       const code = region[index];
       if (code !== SIGNAL) {
-        const keep = algorithm === 'mraf' && code === NOISE ? 1 - mixing : 0;
-        data[q] = re * keep;
-        data[q + 1] = im * keep;
+        // Outside the window the target is zero: (|G| − 0)².
+        fienup += power;
+        const factor = code === NOISE ? keep : 0;
+        data[q] = re * factor;
+        data[q + 1] = im * factor;
         continue;
       }
+      const t = target[index];
+      const magnitude = Math.sqrt(power);
+      const difference = magnitude - t;
+      fienup += difference * difference;
       gt += magnitude * t;
-      gg += magnitude * magnitude;
+      gg += power;
       tt += t * t;
       let amplitude = t;
       if (weights) {
@@ -289,6 +332,7 @@ function makeImagePlaneOp(
       }
     }
     acc[ACC_FIENUP] += fienup;
+    acc[ACC_COMPUTED] += computed;
     acc[ACC_GT] += gt;
     acc[ACC_GG] += gg;
     acc[ACC_TT] += tt;

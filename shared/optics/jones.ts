@@ -10,9 +10,11 @@
  * and δ is defined mod 2π. The canonical form returned here has θ ∈ (−π/4, π/4] and
  * δx, δy ∈ (−π, π]. A cell with δx = δy (|e^{iδx} − e^{iδy}| < 1e-12) has no preferred axis: θ = 0.
  */
+import { float64Array, type ArrayMemory } from './arrays';
 import { wrapPhase } from './phase-terms';
 import type { CancelSignal, ComplexField, JonesField, JonesVector, ProgressCallback } from './types';
 import type { Handedness, PolarizationPair } from './polarization';
+
 
 /** One 2×2 complex Jones matrix, entries as [re, im]: output = J · input. */
 export interface JonesMatrix {
@@ -34,6 +36,8 @@ export interface JonesDecomposition {
 export interface CellLoopOptions {
   onProgress?: ProgressCallback;
   signal?: CancelSignal;
+  /** Where the output planes are allocated (arrays.ts); default 'private'. */
+  memory?: ArrayMemory;
 }
 
 /** A per-cell quantity given either as one number for all cells or as an N×N row-major plane. */
@@ -307,9 +311,9 @@ export function synthesizeDecomposition(
   const count = n * n;
   const out: JonesDecomposition = {
     n,
-    deltaX: new Float64Array(count),
-    deltaY: new Float64Array(count),
-    theta: new Float64Array(count),
+    deltaX: float64Array(count, options.memory),
+    deltaY: float64Array(count, options.memory),
+    theta: float64Array(count, options.memory),
   };
   const stride = progressStride(count);
   for (let i = 0; i < count; i++) {

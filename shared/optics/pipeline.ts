@@ -24,6 +24,7 @@
  * are the fabrication data); the realized Jones field and near fields live only while they are used.
  */
 import { PHASE_TERM_LABELS, type AssetRef, type Design } from '../schemas/design';
+import type { ArrayMemory } from './arrays';
 import { buildAtomLookup, mapAtoms, type AtomLibrary } from './atoms';
 import { analyzeBeam, analyzeFocus, beamPlanes, type BeamAnalysis, type BeamSpec, type FocusAnalysis } from './beam-analysis';
 import {
@@ -104,8 +105,26 @@ export interface RunOptions {
    * retrievePhase's iteration, fourierError, windowError and windowEfficiency.
    */
   onProgress?: ProgressCallback;
+  /**
+   * Called once, as soon as the atoms are mapped (before the simulation): the layout's arrays are final
+   * from then on, so a caller can start writing them while the engine goes on. Must not modify them.
+   */
+  onLayout?: (layout: RunLayout) => void;
+  /** Called once the far fields under the three inputs are simulated (before beams, design rules, metrics). */
+  onFarFields?: (result: RunFarFields) => void;
+  /**
+   * Where the large result arrays are allocated (arrays.ts): 'shared' lets the callbacks above hand them to
+   * other threads without copies. Default 'private'.
+   */
+  memory?: ArrayMemory;
   signal?: CancelSignal;
 }
+
+/** The simulated far fields of a run, with the analyser basis and the Fourier holograms' target windows. */
+export type RunFarFields = Pick<DesignRun, 'grid' | 'farFields' | 'analyser'> & { windows: Partial<Record<ChannelId, PixelWindow>> };
+
+/** The part of a run fixed once the atoms are mapped (same arrays as in the finished DesignRun). */
+export type RunLayout = Pick<DesignRun, 'design' | 'grid' | 'decomposition' | 'mapping' | 'library'> & { phases: Record<ChannelId, Float64Array> };
 
 /**
  * The default retriever: the jobs one after the other on this thread (needs `await initFft()`, which
@@ -422,7 +441,8 @@ export async function runDesign(design: Design, resources: DesignResources, opti
   lap('prepare');
 
   // 2. Phase retrieval (possibly on other threads) while this thread builds the atom lookup.
-  const jobs: RetrievalJob[] = hologramChannels.map((c) => ({ channel: c, options: plans[c].hologram!.options }));
+  const { memory } = options;
+  const jobs: RetrievalJob[] = hologramChannels.map((c) => ({ channel: c, options: { ...plans[c].hologram!.options, memory } }));
   const jobFractions = new Float64Array(jobs.length);
   const retrieving = jobs.length
     ? (resources.retrieveChannels ?? retrieveSequentially)(jobs, {
@@ -450,13 +470,14 @@ export async function runDesign(design: Design, resources: DesignResources, opti
   }
 
   // 3–4. Jones synthesis and decomposition, atom mapping.
-  const decomposition = synthesizeDecomposition(phases.a, phases.b, pair, { signal, onProgress: (f) => report('jones synthesis', f) });
+  const decomposition = synthesizeDecomposition(phases.a, phases.b, pair, { signal, memory, onProgress: (f) => report('jones synthesis', f) });
   lap('jones synthesis');
-  const mapped = mapAtoms(decomposition, library, { allowAxisSwap: true, complexError: false, lookup, signal, onProgress: (f) => report('atom mapping', f) });
+  const mapped = mapAtoms(decomposition, library, { allowAxisSwap: true, complexError: false, lookup, signal, memory, onProgress: (f) => report('atom mapping', f) });
   const mapping = { atomIndex: mapped.atomIndex, theta: mapped.theta, cost: mapped.cost };
   const mappingMetrics = mappingStatistics(mapped.atomIndex, mapped.cost, mapped.swapped, library);
   const mappingDetail = mappingReport(mapped.atomIndex, mapped.cost, library);
   lap('atom mapping');
+  options.onLayout?.({ design, grid, decomposition, mapping, library, phases });
 
   // 5. The realized device (the atoms' own t and α, device-preview.ts) under the three inputs.
   const amplitude = illumination.kind === 'flat' ? null : illuminationAmplitude(grid, illumination);
@@ -471,7 +492,7 @@ export async function runDesign(design: Design, resources: DesignResources, opti
     const id = INPUT_IDS[s];
     const fresnel = id !== 'extra' && plans[id].hologram?.geometry === 'fresnel';
     const keep: [boolean, boolean] = id === 'extra' ? [false, false] : fresnel ? [true, true] : [id === 'a', id === 'b'];
-    const { farField: set, nearFields } = previewDevice(placed, { grid, amplitude, input: inputs[id], analyser, scratch, keepNearFields: keep });
+    const { farField: set, nearFields } = previewDevice(placed, { grid, amplitude, input: inputs[id], analyser, scratch, keepNearFields: keep, memory });
     farFields[id] = set;
     if (id !== 'extra') {
       const own = id === 'a' ? 0 : 1;
@@ -490,6 +511,11 @@ export async function runDesign(design: Design, resources: DesignResources, opti
     report('simulation', (s + 1) / INPUT_IDS.length);
   }
   lap('simulation');
+  if (options.onFarFields) {
+    const windows: Partial<Record<ChannelId, PixelWindow>> = {};
+    for (const c of CHANNEL_IDS) if (plans[c].hologram?.geometry === 'fourier') windows[c] = plans[c].hologram!.target.window;
+    options.onFarFields({ grid, farFields, analyser, windows });
+  }
 
   // 6. Beam channels, lens foci.
   const beams: Record<ChannelId, BeamAnalysis | null> = { a: null, b: null };

@@ -184,6 +184,35 @@ describe('properties', () => {
     expect(relativeMaxError(out, field)).toBeLessThan(2e-6);
   });
 
+  it('a cycle limited to some spectrum rows equals a full cycle whose spectrum operation zeroes the other rows', () => {
+    const n = 64;
+    const field = randomField(n, 5);
+    const spans = [0, 3, 40, 52];
+    const kept = (row: number) => (row >= 0 && row < 3) || (row >= 40 && row < 52);
+    const plan = getFft2d(n);
+    const seen: number[] = [];
+    plan.load(field.re, field.im);
+    plan.cycle((_data, _offset, row) => seen.push(row), null, false, spans);
+    const limited = plan.data.slice();
+    plan.load(field.re, field.im);
+    plan.cycle((data, offset, row) => {
+      if (!kept(row)) data.fill(0, offset, offset + 2 * n);
+    }, null, false);
+    const full = plan.data;
+    let error = 0;
+    let peak = 0;
+    for (let i = 0; i < full.length; i++) {
+      error = Math.max(error, Math.abs(full[i] - limited[i]));
+      peak = Math.max(peak, Math.abs(full[i]));
+    }
+    expect(error / peak).toBeLessThan(1e-6);
+    expect(seen).toEqual([0, 1, 2, ...Array.from({ length: 12 }, (_, i) => 40 + i)]);
+    plan.load(field.re, field.im);
+    expect(() => plan.cycle(null, null, false, [5, 3])).toThrow(RangeError);
+    expect(() => plan.cycle(null, null, false, [0, 4, 2, 8])).toThrow(RangeError);
+    expect(() => plan.cycle(null, null, false, [0, n + 1])).toThrow(RangeError);
+  });
+
   it('rejects sizes that are not powers of two in 64…4096', async () => {
     expect(() => createFft2d(100)).toThrow(RangeError);
     expect(() => createFft2d(32)).toThrow(RangeError);

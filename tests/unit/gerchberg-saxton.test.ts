@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, it } from 'vitest';
 import { initFft } from '../../shared/optics/fft';
-import { retrievePhase } from '../../shared/optics/gerchberg-saxton';
+import { retrievePhase, windowSpectrumRows } from '../../shared/optics/gerchberg-saxton';
 import { correlation, uniformity } from '../../shared/optics/metrics';
 import { angularSpectrumPropagate, farField, intensityOf } from '../../shared/optics/propagation';
 import { mulberry32 } from '../../shared/optics/random';
@@ -53,6 +53,29 @@ describe('Gerchberg–Saxton family', () => {
       }
       expect(e[e.length - 1]).toBeLessThan(0.8 * e[0]);
     }
+  });
+
+  it('skipping the spectrum columns outside the window changes nothing: GS equals MRAF with m = 1, which computes every column', () => {
+    // MRAF with m = 1 applies exactly the GS constraint (Pasienski & DeMarco 2008, eq. 2) without skipping.
+    const skipping = retrievePhase({ grid, target, iterations: 8, seed: 4 });
+    const full = retrievePhase({ grid, target, iterations: 8, seed: 4, algorithm: 'mraf', mixing: 1 });
+    let phaseError = 0;
+    for (let i = 0; i < skipping.phase.length; i++) {
+      const d = Math.abs(skipping.phase[i] - full.phase[i]);
+      phaseError = Math.max(phaseError, Math.min(d, 2 * Math.PI - d));
+    }
+    expect(phaseError).toBeLessThan(1e-4);
+    for (let k = 0; k < 8; k++) {
+      // The skipped columns' power comes from Parseval: equal to float32 rounding of the sums.
+      expect(skipping.fourierError[k]).toBeCloseTo(full.fourierError[k], 5);
+      expect(skipping.windowEfficiency[k]).toBeCloseTo(full.windowEfficiency[k], 6);
+    }
+  });
+
+  it('windowSpectrumRows: the kx rows of the window columns, unshifted, wrapping around the zero order', () => {
+    expect(windowSpectrumRows({ x0: 5, y0: 0, width: 2, height: 1 }, 8)).toEqual([1, 3]);
+    // Columns 2…5 of n = 8 are kx 6, 7, 0, 1.
+    expect(windowSpectrumRows({ x0: 2, y0: 0, width: 4, height: 1 }, 8)).toEqual([0, 2, 6, 8]);
   });
 
   it('retrieved phase reproduces the picture in the far-field window', () => {

@@ -14,7 +14,6 @@ import { atomLibraryToCsv } from '../../../shared/optics/atoms';
 import { runDesign, type DesignResources } from '../../../shared/optics/pipeline';
 import type { AssetRef, Design } from '../../../shared/schemas/design';
 import { loadDesignResources } from '../../cli/design-files';
-import { writeRunOutputs } from '../../cli/outputs';
 import { runThreads } from '../../cli/run-threads';
 import { EXTENSIONS, type UploadMime } from '../uploads/upload-inspect';
 import { convergenceOf, designErrorMessage, headlineOf, metricSections, plotsOf } from './run-outcome';
@@ -106,10 +105,11 @@ export default async function runTask(task: RunTask): Promise<RunTaskResult> {
         if (stage !== lastStage || Date.now() - lastPost >= PROGRESS_INTERVAL_MS) flush();
         lastStage = stage;
       },
+      ...threads.earlyOutputs(outDir),
     });
     latest = { fraction: 1, stage: 'writing files' };
     flush();
-    const files = await writeRunOutputs(run, outDir, threads.previews());
+    const files = await threads.writeOutputs(run, outDir);
     const metrics = metricSections(run);
     return {
       ok: true,
