@@ -11,10 +11,11 @@
 import { execFileSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { Worker, isMainThread, parentPort, workerData } from 'node:worker_threads';
-import { fftBackend, getFft2d, initFft } from '../shared/optics/fft';
+import { fftBackend, fftKernels, getFft2d } from '../shared/optics/fft';
 import { retrievePhase } from '../shared/optics/gerchberg-saxton';
 import { buildTargetPlane } from '../shared/optics/target';
 import type { CellGrid } from '../shared/optics/types';
+import { initFftInNode } from '../server/lib/fft-node';
 
 interface ReferenceTimes {
   numpy_fft_ms: number;
@@ -101,7 +102,7 @@ function runReference(sizes: number[]): { versions: { numpy: string; scipy: stri
 /** Worker body: retrieve `channels` channels one after the other, return the elapsed milliseconds. */
 async function workerMain(): Promise<void> {
   const { n, iterations, channels } = workerData as { n: number; iterations: number; channels: number };
-  await initFft();
+  await initFftInNode();
   const grid = benchGrid(n);
   const target = fullGridTarget(grid);
   retrievePhase({ grid, target, iterations: 1, seed: 1 });
@@ -129,7 +130,7 @@ function runWorkers(count: number, n: number, iterations: number, channelsEach: 
 
 /** Runs the benchmark, prints the table, returns the figures. */
 export async function main(sizes: number[] = [256, 512, 1024, 2048]): Promise<FftBenchResult> {
-  await initFft();
+  await initFftInNode();
   const rows: FftBenchRow[] = [];
   for (const n of sizes) {
     const fftMs = timeFft(n);
@@ -146,7 +147,7 @@ export async function main(sizes: number[] = [256, 512, 1024, 2048]): Promise<Ff
   const parallel = { n: parallelN, iterations, oneThreadMs, twoThreadsMs, throughputRatio: oneThreadMs / twoThreadsMs };
 
   const f = (v: number, d = 2) => v.toFixed(d).padStart(8);
-  console.log(`Engine FFT backend: ${fftBackend()} (float32)` + (reference ? `; reference numpy ${reference.versions.numpy} complex128, scipy ${reference.versions.scipy} complex64 workers=1` : ''));
+  console.log(`Engine FFT backend: ${fftBackend()} (float32${fftKernels() ? ', SIMD kernels' : ''})` + (reference ? `; reference numpy ${reference.versions.numpy} complex128, scipy ${reference.versions.scipy} complex64 workers=1` : ''));
   console.log('   N | FFT ms  GFLOP/s | numpy ms  scipy ms | GS it ms GFLOP/s | numpy ms  scipy ms | GS/numpy GS/scipy');
   for (const r of rows) {
     const ref = r.reference;

@@ -6,13 +6,13 @@
  * { type: 'error', message, refused } (refused: the engine's RangeError).
  */
 import { parentPort } from 'node:worker_threads';
-import { initFft } from '../../shared/optics/fft';
 import { retrievePhase } from '../../shared/optics/gerchberg-saxton';
 import type { RetrievalJobOptions } from '../../shared/optics/pipeline';
+import { initFftInNode } from '../lib/fft-node';
 
 if (!parentPort) throw new Error('retrieval-worker.ts runs as a worker thread only');
 const port = parentPort;
-const ready = initFft();
+const ready = initFftInNode();
 // A failed load is reported with the job (below), not as an unhandled rejection.
 ready.catch(() => undefined);
 port.once('message', async (options: RetrievalJobOptions) => {

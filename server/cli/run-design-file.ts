@@ -9,6 +9,7 @@ import { runDesign } from '../../shared/optics/pipeline';
 import type { CancelSignal, ProgressCallback } from '../../shared/optics/types';
 import { loadDesignFile, loadDesignResources } from './design-files';
 import type { WrittenFile } from './outputs';
+import { initFftInNode } from '../lib/fft-node';
 import { runThreads } from './run-threads';
 
 export interface RunFileOptions {
@@ -34,6 +35,7 @@ export interface RunFileResult {
 /** Runs one design file into `options.outDir` (created if missing). Throws InputError for bad input. */
 export async function runDesignFile(designPath: string, options: RunFileOptions): Promise<RunFileResult> {
   const t0 = performance.now();
+  await initFftInNode();
   const design = await loadDesignFile(designPath);
   // Started before the inputs are read: the retrieval workers load meanwhile.
   const threads = runThreads(options.parallel !== false);

@@ -21,6 +21,7 @@
  * for a cached plan), and reuse the plan: every call works in place on `plan.data`.
  */
 import type { PffftModule, PffftModuleOptions } from '@echogarden/pffft-wasm';
+import { KERNELS_WASM } from './kernels-wasm';
 import type { ComplexField } from './types';
 
 const PFFFT_FORWARD = 0;
@@ -28,17 +29,78 @@ const PFFFT_BACKWARD = 1;
 const PFFFT_COMPLEX = 1;
 /** Tile edge of the in-place transpose, in complex elements (measured fastest on this engine's target CPUs). */
 const TRANSPOSE_TILE = 8;
+/**
+ * A cycle limited to at most this share of the spectrum columns copies them out instead of transposing the
+ * whole buffer twice (measured: the copy costs about as much per column as two transposes do per row; at
+ * 1024² the 178 window columns of the demo take 7.2 ms per cycle against 11–12 ms for a full one).
+ */
+const COLUMN_COPY_SHARE = 0.5;
 
 export const MIN_FFT_SIZE = 64;
 export const MAX_FFT_SIZE = 4096;
 
 let pffft: PffftModule | null = null;
-let loading: Promise<PffftModule> | null = null;
+let loading: Promise<{ module: PffftModule; kernels: FftKernels | null }> | null = null;
 let simdBackend = false;
+let kernels: FftKernels | null = null;
 
 export interface FftInitOptions {
   /** Where to load `pffft.wasm` from (browsers with bundlers); receives the file name and the script folder. */
   locateWasm?: (fileName: string, scriptDirectory: string) => string;
+  /**
+   * The bytes of the SIMD backend's `pffft.wasm` (next to `@echogarden/pffft-wasm/simd`), read by the caller.
+   * Given, the engine instantiates the backend itself and runs its SIMD kernels (kernels.wat) on the same
+   * memory, which speeds up phase retrieval (`fftKernels`); without them the JavaScript equivalents run.
+   */
+  simdBinary?: Uint8Array;
+}
+
+/** The engine's WebAssembly SIMD kernels (kernels.wat), working on FFT plan buffers in place. */
+export interface FftKernels {
+  /**
+   * Device-plane modulus constraint: each of `count` (even) complex float32 values at byte `pointer` of the
+   * backend's memory becomes amplitude·z/|z|, or (amplitude, 0) where z = 0.
+   */
+  normalizeUniform(pointer: number, count: number, amplitude: number): void;
+}
+
+/** The part of the WebAssembly API the kernels need (the engine is compiled without DOM or Node types). */
+interface WasmApi {
+  Memory: abstract new (...args: never[]) => object;
+  Module: new (bytes: Uint8Array) => object;
+  Instance: new (module: object, imports: object) => { exports: Record<string, unknown> };
+  instantiate(bytes: Uint8Array, imports: object): Promise<{ instance: { exports: Record<string, unknown> }; module: object }>;
+}
+
+/**
+ * Instantiates the SIMD backend from its bytes, keeping hold of its memory, and the kernels on that memory.
+ * Rejects when the bytes cannot be instantiated (the caller then loads the backend the usual way).
+ */
+async function loadWithKernels(
+  factory: (options: PffftModuleOptions) => Promise<PffftModule>,
+  moduleOptions: PffftModuleOptions,
+  binary: Uint8Array,
+): Promise<{ module: PffftModule; kernels: FftKernels }> {
+  const wasm = (globalThis as unknown as { WebAssembly: WasmApi }).WebAssembly;
+  let memory: object | undefined;
+  let fail: (error: unknown) => void = () => undefined;
+  const failed = new Promise<never>((_, reject) => (fail = reject));
+  const module = await Promise.race([
+    factory({
+      ...moduleOptions,
+      instantiateWasm: (imports, receive) => {
+        wasm.instantiate(binary, imports).then(({ instance, module: compiled }) => {
+          memory = Object.values(instance.exports).find((value): value is object => value instanceof wasm.Memory);
+          receive(instance, compiled);
+        }, fail);
+        return {};
+      },
+    }),
+    failed,
+  ]);
+  if (!memory) throw new Error('The FFT backend exports no memory');
+  const exports = new wasm.Instance(new wasm.Module(KERNELS_WASM), { env: { memory } }).exports;
+  return { module, kernels: { normalizeUniform: exports.normalizeUniform as FftKernels['normalizeUniform'] } };
 }
 
 /**
@@ -52,15 +114,24 @@ export async function initFft(options: FftInitOptions = {}): Promise<void> {
     loading = (async () => {
       try {
         const simd = await import('@echogarden/pffft-wasm/simd');
-        return await simd.default(moduleOptions);
+        if (options.simdBinary) {
+          try {
+            return await loadWithKernels(simd.default, moduleOptions, options.simdBinary);
+          } catch {
+            // No SIMD kernels then: the backend alone, loaded the usual way.
+          }
+        }
+        return { module: await simd.default(moduleOptions), kernels: null };
       } catch {
         const scalar = await import('@echogarden/pffft-wasm');
-        return await scalar.default(moduleOptions);
+        return { module: await scalar.default(moduleOptions), kernels: null };
       }
     })();
   }
   try {
-    pffft = await loading;
+    const loaded = await loading;
+    pffft = loaded.module;
+    kernels = loaded.kernels;
     simdBackend = pffft._pffft_simd_size() === 4;
   } catch (error) {
     loading = null;
@@ -71,6 +142,11 @@ export async function initFft(options: FftInitOptions = {}): Promise<void> {
 /** True once `initFft()` has completed in this thread. */
 export function fftReady(): boolean {
   return pffft !== null;
+}
+
+/** The SIMD kernels, when `initFft` was given the backend's bytes and they loaded; null otherwise. */
+export function fftKernels(): FftKernels | null {
+  return kernels;
 }
 
 /** Name of the loaded backend: "pffft-wasm-simd" or "pffft-wasm" (scalar). Throws before `initFft()`. */
@@ -244,23 +320,26 @@ export class Fft2d {
    * multiplied by N² unless `spectrumRow` divides), `fieldRow` on every field row.
    * The spectrum is seen transposed and unshifted: row r holds kx index r, element j of that row is
    * ky index j (frequency index m means m for m < N/2, m − N otherwise).
-   * `spectrumRows`: only these spectrum rows (kx indices) are transformed and passed to `spectrumRow` (in a
-   * separate buffer: use the `data` and `offset` it receives); all others are set to zero, for a constraint
-   * that zeroes them anyway — far less work. null: every row.
+   * `spectrumRows`: only these spectrum rows (kx indices) are transformed and passed to `spectrumRow` (possibly
+   * in a separate buffer: use the `data` and `offset` it receives); all others are set to zero, for a
+   * constraint that zeroes them anyway — far less work. null: every row.
    * With `chainForward`, the forward row transforms of the next cycle are done while each field row is
    * still in cache; the buffer is then half-transformed until a cycle with `chainForward = false`.
    * Example: with no-op callbacks and chainForward = false, `data` ends as N²·(its initial value).
    */
   cycle(spectrumRow: RowOperation | null, fieldRow: RowOperation | null, chainForward: boolean, spectrumRows: RowSpans | null = null): void {
     if (!this.chained) this.rowPass(PFFFT_FORWARD, null, -1, 1);
-    if (spectrumRows) {
-      this.columnRoundTrip(spectrumRows, spectrumRow);
+    const spans = spectrumRows ?? [0, this.n];
+    assertSpans(spans, this.n);
+    if (spanLength(spans) <= this.n * COLUMN_COPY_SHARE) {
+      this.columnRoundTrip(spans, spectrumRow);
+      this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1, spans);
     } else {
       this.transpose();
-      this.rowPass(PFFFT_FORWARD, spectrumRow, PFFFT_BACKWARD, 1);
+      this.spectrumRowPass(spans, spectrumRow);
       this.transpose();
+      this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1);
     }
-    this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1, spectrumRows);
     this.chained = chainForward;
   }
 
@@ -279,28 +358,30 @@ export class Fft2d {
     if (cachedPlans.get(this.n) === this) cachedPlans.delete(this.n);
   }
 
+  /** One in-place 1-D transform of the n complex values at byte `pointer` of the backend's memory. */
+  private transformAt(pointer: number, direction: number): void {
+    this.module._pffft_transform_ordered(this.setup, pointer, pointer, this.workPointer, direction);
+  }
+
   /**
    * Transforms every row (`first` direction), then optionally scales it, applies `op` and transforms it
    * again (`second`, −1 for none). With `keepColumns`, each row is first zeroed outside those columns.
    */
   private rowPass(first: number, op: RowOperation | null, second: number, scale: number, keepColumns: RowSpans | null = null): void {
-    const module = this.module;
     const n = this.n;
-    const setup = this.setup;
-    const work = this.workPointer;
     const rowBytes = 8 * n;
     const data = this.data;
     let pointer = this.dataPointer;
     for (let row = 0; row < n; row++, pointer += rowBytes) {
       const offset = 2 * n * row;
       if (keepColumns) zeroOutside(data, offset, n, keepColumns);
-      module._pffft_transform_ordered(setup, pointer, pointer, work, first);
+      this.transformAt(pointer, first);
       if (scale !== 1) {
         const end = offset + 2 * n;
         for (let i = offset; i < end; i++) data[i] *= scale;
       }
       if (op) op(data, offset, row);
-      if (second >= 0) module._pffft_transform_ordered(setup, pointer, pointer, work, second);
+      if (second >= 0) this.transformAt(pointer, second);
     }
   }
 
@@ -310,14 +391,8 @@ export class Fft2d {
    * copies the columns home. The other columns keep stale values: the caller zeroes them.
    */
   private columnRoundTrip(spans: RowSpans, op: RowOperation | null): void {
-    assertSpans(spans, this.n);
-    const module = this.module;
     const n = this.n;
-    const setup = this.setup;
-    const work = this.workPointer;
-    let count = 0;
-    for (let s = 0; s < spans.length; s += 2) count += spans[s + 1] - spans[s];
-    this.reserveColumns(count);
+    this.reserveColumns(spanLength(spans));
     this.refreshViews();
     const grid = this.pairs;
     const columns = this.columnsPairs!;
@@ -340,12 +415,36 @@ export class Fft2d {
     for (let s = 0; s < spans.length; s += 2) {
       for (let x = spans[s]; x < spans[s + 1]; x++, k++) {
         const pointer = this.columnsPointer + 8 * n * k;
-        module._pffft_transform_ordered(setup, pointer, pointer, work, PFFFT_FORWARD);
+        this.transformAt(pointer, PFFFT_FORWARD);
         if (op) op(view, 2 * n * k, x);
-        module._pffft_transform_ordered(setup, pointer, pointer, work, PFFFT_BACKWARD);
+        this.transformAt(pointer, PFFFT_BACKWARD);
       }
     }
     copy(false);
+  }
+
+  /**
+   * The spectrum half of a cycle on the transposed buffer: the rows of `spans` are transformed forward, given
+   * to `op` and transformed back; the rows between them are set to zero.
+   */
+  private spectrumRowPass(spans: RowSpans, op: RowOperation | null): void {
+    const n = this.n;
+    const rowBytes = 8 * n;
+    const data = this.data;
+    let done = 0;
+    for (let s = 0; s <= spans.length; s += 2) {
+      const start = s < spans.length ? spans[s] : n;
+      if (start > done) data.fill(0, 2 * n * done, 2 * n * start);
+      if (s === spans.length) break;
+      const end = spans[s + 1];
+      let pointer = this.dataPointer + rowBytes * start;
+      for (let row = start; row < end; row++, pointer += rowBytes) {
+        this.transformAt(pointer, PFFFT_FORWARD);
+        if (op) op(data, 2 * n * row, row);
+        this.transformAt(pointer, PFFFT_BACKWARD);
+      }
+      done = end;
+    }
   }
 
   /** Makes the column buffer hold at least `count` columns of n complex values. */
@@ -403,6 +502,13 @@ function assertSpans(spans: RowSpans, n: number): void {
     }
     previous = end;
   }
+}
+
+/** Number of indices the spans cover. Example: spanLength([0, 3, 40, 52]) → 15. */
+function spanLength(spans: RowSpans): number {
+  let count = 0;
+  for (let s = 0; s < spans.length; s += 2) count += spans[s + 1] - spans[s];
+  return count;
 }
 
 /** Zeroes the complex elements of one row (float offset `offset`, n elements) outside the columns of `spans`. */

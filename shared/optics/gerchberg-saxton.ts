@@ -30,7 +30,7 @@
  * - windowEfficiency η_k = Σ_win |G_k|² / Σ a², fraction of incident power in the window.
  */
 import { float64Array, type ArrayMemory } from './arrays';
-import { getFft2d, type Fft2d, type RowOperation, type RowSpans } from './fft';
+import { fftKernels, getFft2d, type Fft2d, type RowOperation, type RowSpans } from './fft';
 import { illuminationAmplitude, incidentPower, type Illumination } from './illumination';
 import { transferFunction } from './propagation';
 import { mulberry32 } from './random';
@@ -228,10 +228,16 @@ export function windowSpectrumRows(window: PixelWindow, n: number): RowSpans {
   return spans;
 }
 
-/** Device-plane modulus constraint: every field value gets the illumination amplitude, its phase kept. */
+/**
+ * Device-plane modulus constraint: every field value gets the illumination amplitude, its phase kept. With
+ * one amplitude for all cells and the SIMD kernels loaded, the kernel does it in place (≈ 3× faster).
+ */
 function makeDeviceOp(n: number, amplitude: Float32Array): RowOperation {
   const uniform = amplitude.every((a) => a === amplitude[0]);
   const a0 = amplitude[0];
+  const kernels = fftKernels();
+  // The plan's buffers live in the backend's memory: a view's byteOffset is the kernel's pointer.
+  if (uniform && kernels) return (data, offset) => kernels.normalizeUniform(data.byteOffset + 4 * offset, n, a0);
   return (data, offset, row) => {
     const base = row * n;
     for (let j = 0; j < n; j++) {

@@ -23,6 +23,8 @@ declare module '@echogarden/pffft-wasm' {
   }
   export interface PffftModuleOptions {
     locateFile?: (path: string, scriptDirectory: string) => string;
+    /** Emscripten's hook to instantiate the module oneself: call `receive` with the instance; return {}. */
+    instantiateWasm?: (imports: object, receive: (instance: unknown, module: unknown) => void) => object;
   }
   export type PffftModuleFactory = (options?: PffftModuleOptions) => Promise<PffftModule>;
   const factory: PffftModuleFactory;

@@ -15,6 +15,7 @@ import { runDesign, type DesignResources } from '../../../shared/optics/pipeline
 import type { AssetRef, Design } from '../../../shared/schemas/design';
 import { loadDesignResources } from '../../cli/design-files';
 import { runThreads } from '../../cli/run-threads';
+import { initFftInNode } from '../../lib/fft-node';
 import { EXTENSIONS, type UploadMime } from '../uploads/upload-inspect';
 import { convergenceOf, designErrorMessage, headlineOf, metricSections, plotsOf } from './run-outcome';
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
@@ -71,6 +72,7 @@ export default async function runTask(task: RunTask): Promise<RunTaskResult> {
   let replacements: [string, string][] = [];
   const threads = runThreads(task.parallel);
   try {
+    await initFftInNode();
     const inputs = join(task.workDir, 'inputs');
     const outDir = join(task.workDir, 'out');
     await mkdir(inputs, { recursive: true });
