@@ -18,7 +18,7 @@ import { join } from 'node:path';
 import { outlineRect, paintIndex, paintIntensity, paintPhase, poolMap, subsampleMap, type Rgb, type RgbaImage } from '../../shared/optics/colormap';
 import { CHANNEL_IDS, INPUT_IDS, type ChannelId, type DesignRun, type FarFieldSet, type InputId, type RunFarFields } from '../../shared/optics/pipeline';
 import type { JonesVector } from '../../shared/optics/types';
-import type { PixelWindow } from '../../shared/optics/target';
+import type { PixelWindow, ScreenView } from '../../shared/optics/target';
 import { writePng } from './png';
 
 /** Largest preview side in pixels; larger designs are pooled (intensities) or subsampled (phases, indices). */
@@ -56,6 +56,8 @@ export interface ResultPreviewData {
   windows: Partial<Record<ChannelId, PixelWindow>>;
   slices: Partial<Record<ChannelId, { slice: Float32Array; planes: number }>>;
   fresnel: Partial<Record<ChannelId, { image: Float32Array; window: PixelWindow }>>;
+  /** Pictures meant for a flat screen: the far field as seen there (target.ts `screenView`). */
+  screens: Partial<Record<ChannelId, ScreenView>>;
 }
 
 export interface WrittenFile {
@@ -88,16 +90,20 @@ function farFieldMaps(set: FarFieldSet, n: number, withXY: boolean): FarFieldPre
 export function farFieldPreviewDataOf(result: RunFarFields): ResultPreviewData {
   const n = result.grid.n;
   const withXY = !analyserIsXY(result.analyser);
-  const data: ResultPreviewData = { n, farFields: {}, windows: { ...result.windows }, slices: {}, fresnel: {} };
+  const data: ResultPreviewData = { n, farFields: {}, windows: { ...result.windows }, slices: {}, fresnel: {}, screens: {} };
   for (const input of INPUT_IDS) data.farFields[input] = farFieldMaps(result.farFields[input], n, withXY);
   return data;
 }
 
-/** The other result previews' data: x–z slices of beam channels, image planes of Fresnel holograms (no copies). */
+/**
+ * The other result previews' data: x–z slices of beam channels, image planes of Fresnel holograms, flat-screen
+ * views of pictures meant for a screen (no copies).
+ */
 export function beamPreviewDataOf(run: DesignRun): ResultPreviewData {
-  const data: ResultPreviewData = { n: run.grid.n, farFields: {}, windows: {}, slices: {}, fresnel: {} };
+  const data: ResultPreviewData = { n: run.grid.n, farFields: {}, windows: {}, slices: {}, fresnel: {}, screens: {} };
   for (const c of CHANNEL_IDS) {
     const channel = run.channels[c];
+    if (channel.screenView) data.screens[c] = channel.screenView;
     if (channel.window && channel.fresnelImage) data.fresnel[c] = { image: channel.fresnelImage, window: channel.window };
     if (channel.beam) data.slices[c] = { slice: channel.beam.slice, planes: channel.beam.z.length };
   }
@@ -181,6 +187,20 @@ export function slicePreview(slice: Float32Array, planes: number, n: number): Rg
   return paintIntensity(values, width, rows, { kind: 'gamma', gamma: 0.5 });
 }
 
+/**
+ * A far field seen on a flat screen: irradiance, gamma 0.5 up to its brightest pixel, the picture's rectangle
+ * outlined just outside.
+ */
+export function screenPreview(view: ScreenView, color: Rgb): RgbaImage {
+  const image = paintIntensity(view.irradiance, view.width, view.height, { kind: 'gamma', gamma: 0.5 });
+  const column = (x: number) => ((x - view.shown.x0) / (view.shown.x1 - view.shown.x0)) * view.width;
+  const row = (y: number) => ((y - view.shown.y0) / (view.shown.y1 - view.shown.y0)) * view.height;
+  const x0 = Math.floor(column(view.picture.x0)) - 1;
+  const y0 = Math.floor(row(view.picture.y0)) - 1;
+  outlineRect(image, { x0, y0, width: Math.ceil(column(view.picture.x1)) + 1 - x0, height: Math.ceil(row(view.picture.y1)) + 1 - y0 }, color);
+  return image;
+}
+
 /** A preview file name and the function that paints it (nothing is painted until it is called). */
 export type Painter = [name: string, paint: () => RgbaImage];
 
@@ -235,6 +255,8 @@ export function resultPreviewPainters(data: ResultPreviewData): Painter[] {
     if (slice) painters.push([`xz_${c}.png`, () => slicePreview(slice.slice, slice.planes, n)]);
     const fresnel = data.fresnel[c];
     if (fresnel) painters.push([`image_plane_${c}.png`, () => farFieldPreview(fresnel.image, n, [{ window: fresnel.window, color: WINDOW_COLORS[c] }])]);
+    const screen = data.screens[c];
+    if (screen) painters.push([`screen_${c}.png`, () => screenPreview(screen, WINDOW_COLORS[c])]);
   }
   return painters;
 }

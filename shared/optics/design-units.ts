@@ -15,7 +15,7 @@ import type { DesignRules } from './drc';
 import type { Illumination } from './illumination';
 import type { PhaseTerm } from './phase-terms';
 import { circularState, ellipticalState, linearState, polarizationPair, type PolarizationPair, type PolarizationSpec } from './polarization';
-import type { TargetGeometry, TargetWindowSpec } from './target';
+import type { ScreenWindowSpec, TargetGeometry, TargetWindowSpec } from './target';
 import type { CellGrid, JonesVector } from './types';
 
 const DEG = Math.PI / 180;
@@ -114,6 +114,27 @@ export function farFieldWindowOf(window: FarFieldWindow, geometry: TargetGeometr
     centerY: Math.sin(window.centerY * DEG),
   };
   if (window.height !== undefined) spec.height = angularExtent(window.centerY, window.height, `${path}.height`);
+  return spec;
+}
+
+/**
+ * Window of a hologram seen on a flat screen (target.ts `buildScreenTarget`): degrees → radians. Needs the
+ * window in degrees and the far-field geometry; each edge must stay within ±90°.
+ * Example: { units: 'degrees', width: 20, centerX: 10, centerY: 0 } → width 0.34907, centerX 0.17453 (radians).
+ */
+export function screenWindowOf(window: FarFieldWindow, geometry: TargetGeometry, path: string): ScreenWindowSpec {
+  if (geometry === 'fresnel') throw new DesignUnitsError(`${path}.seenOn`, "a hologram at a finite distance (fresnelDistanceUm) is not seen on a flat screen far away; use seenOn 'far-field'");
+  if (window.units !== 'degrees') throw new DesignUnitsError(`${path}.window.units`, `a picture seen on a flat screen needs the window in 'degrees', got '${window.units}'`);
+  const spec: ScreenWindowSpec = { centerX: window.centerX * DEG, centerY: window.centerY * DEG, width: window.width * DEG };
+  if (window.height !== undefined) spec.height = window.height * DEG;
+  for (const [key, centre, size] of [
+    ['width', window.centerX, window.width],
+    ['height', window.centerY, window.height ?? 0],
+  ] as const) {
+    const low = centre - size / 2;
+    const high = centre + size / 2;
+    if (!(low > -90 && high < 90)) throw new DesignUnitsError(`${path}.window.${key}`, `the window spans ${low.toFixed(2)}°…${high.toFixed(2)}°, which leaves the range −90°…90°`);
+  }
   return spec;
 }
 

@@ -34,6 +34,7 @@ import {
   designRulesOf,
   DesignUnitsError,
   farFieldWindowOf,
+  screenWindowOf,
   illuminationOf,
   jonesVectorOf,
   polarizationPairOf,
@@ -59,7 +60,18 @@ import { blazedEfficiency, equivalentPhaseLevels, metric, type MetricGroup } fro
 import { createPreviewScratch, previewDevice, type FarFieldSet, type Field32 } from './device-preview';
 import { atomUsage, mappingReport, RETARDANCE_THRESHOLD, type MappingReport } from './mapping-report';
 import { normalizeJones } from './simulate';
-import { buildTargetPlane, type GrayImage, type PixelWindow, type TargetGeometry, type TargetPlane } from './target';
+import {
+  buildScreenTarget,
+  buildTargetPlane,
+  screenRect,
+  screenView,
+  type GrayImage,
+  type PixelWindow,
+  type ScreenRect,
+  type ScreenView,
+  type TargetGeometry,
+  type TargetPlane,
+} from './target';
 import type { CancelSignal, CellGrid, ComplexField, JonesVector, ProgressCallback } from './types';
 
 export type { FarFieldSet } from './device-preview';
@@ -151,6 +163,8 @@ export interface HologramPlan {
   geometry: TargetGeometry;
   /** Image distance for the Fresnel geometry, metres. */
   fresnelDistance?: number;
+  /** Pictures seen on a flat screen: the picture's rectangle there (units of the screen distance). */
+  screen?: ScreenRect;
   options: RetrievalJobOptions;
 }
 
@@ -191,10 +205,17 @@ export function planChannel(design: Design, id: ChannelId, resources: Pick<Desig
     if (term.kind === 'hologram') {
       if (hologram) throw new DesignUnitsError(path, `a channel holds at most one image hologram (term ${hologram.termIndex} is one already)`);
       const geometry: TargetGeometry = term.fresnelDistanceUm !== undefined ? 'fresnel' : 'fourier';
-      const spec = farFieldWindowOf(term.window, geometry, `${path}.window`);
       let target: TargetPlane;
+      let screen: ScreenRect | undefined;
       try {
-        target = buildTargetPlane(grid, resources.images(term.image), spec, { geometry, gamma: term.gamma });
+        const image = resources.images(term.image);
+        if (term.seenOn === 'flat-screen') {
+          const spec = screenWindowOf(term.window, geometry, path);
+          screen = screenRect(spec, image.width / image.height);
+          target = buildScreenTarget(grid, image, spec, { gamma: term.gamma });
+        } else {
+          target = buildTargetPlane(grid, image, farFieldWindowOf(term.window, geometry, `${path}.window`), { geometry, gamma: term.gamma });
+        }
       } catch (error) {
         if (error instanceof RangeError && !(error instanceof DesignUnitsError)) throw new DesignUnitsError(`${path}.window`, error.message);
         throw error;
@@ -209,6 +230,7 @@ export function planChannel(design: Design, id: ChannelId, resources: Pick<Desig
         illumination,
       };
       const plan: HologramPlan = { termIndex: index, target, geometry, options };
+      if (screen) plan.screen = screen;
       if (term.fresnelDistanceUm !== undefined) {
         plan.fresnelDistance = term.fresnelDistanceUm * 1e-6;
         options.fresnelDistance = plan.fresnelDistance;
@@ -261,6 +283,8 @@ export interface ChannelOutcome {
   focus: FocusAnalysis | null;
   /** Image-plane intensity of a Fresnel hologram under its own input (both output components), float32. */
   fresnelImage: Float32Array | null;
+  /** A picture meant for a flat screen: the channel's far field under its own input as irradiance there. */
+  screenView: ScreenView | null;
 }
 
 export interface RunMetrics {
@@ -586,6 +610,7 @@ export async function runDesign(design: Design, resources: DesignResources, opti
       beam: beams[c],
       focus: foci[c],
       fresnelImage: fresnelImages[c]?.intensity ?? null,
+      screenView: plan.hologram?.screen ? screenView(own.total, grid, plan.hologram.screen) : null,
     };
     const hologram = plan.hologram;
     if (hologram) {

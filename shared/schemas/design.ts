@@ -53,6 +53,12 @@ export const hologramTermSchema = z.object({
   mixing: finite('mixing').refine((v) => v > 0 && v <= 1, 'mixing must lie in (0, 1]').default(0.5),
   /** Omitted: far field (Fraunhofer). Given: image at this distance, Fresnel geometry. */
   fresnelDistanceUm: positive('fresnelDistanceUm').optional(),
+  /**
+   * Where the far-field picture is looked at: 'far-field' — laid out evenly in direction cosines, as in the focal
+   * plane of a Fourier lens; 'flat-screen' — on a flat screen facing the device, the picture pre-distorted so it
+   * looks right there (window in degrees, measured to the picture's edges on the screen).
+   */
+  seenOn: z.enum(['far-field', 'flat-screen']).default('far-field'),
 });
 
 export const phaseTermSchema = z.discriminatedUnion('kind', [

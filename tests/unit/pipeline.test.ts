@@ -11,6 +11,7 @@ import { circularState } from '../../shared/optics/polarization';
 import { simulateDevice } from '../../shared/optics/simulate';
 import type { GrayImage } from '../../shared/optics/target';
 import { designSchema, type DesignInput } from '../../shared/schemas/design';
+import { screenSamples } from '../support/screen-samples';
 
 beforeAll(async () => {
   await initFft();
@@ -329,5 +330,59 @@ describe('design run (pipeline.ts)', () => {
     const inside = { ...hologram, window: { width: 5, centerX: 10 } };
     const twice = design({ cells: n, polarization: { kind: 'linear' }, channels: { a: { terms: [{ kind: 'vortex', charge: 1 }] }, b: { terms: [inside, inside] } } });
     await expect(runDesign(twice, resources(gridLibrary))).rejects.toThrow(/^channels\.b\.terms\.1: a channel holds at most one image hologram/);
+    const screenInCells = design({
+      cells: n,
+      polarization: { kind: 'linear' },
+      channels: { a: { terms: [{ ...inside, seenOn: 'flat-screen', window: { units: 'cells', width: 10, centerX: 10 } }] }, b: { terms: [{ kind: 'vortex', charge: 1 }] } },
+    });
+    await expect(runDesign(screenInCells, resources(gridLibrary))).rejects.toThrow(/^channels\.a\.terms\.0\.window\.units: a picture seen on a flat screen needs the window in 'degrees'/);
+    const screenAtDistance = design({
+      cells: n,
+      polarization: { kind: 'linear' },
+      channels: { a: { terms: [{ ...inside, seenOn: 'flat-screen', fresnelDistanceUm: 500, window: { units: 'cells', width: 10, centerX: 10 } }] }, b: { terms: [{ kind: 'vortex', charge: 1 }] } },
+    });
+    await expect(runDesign(screenAtDistance, resources(gridLibrary))).rejects.toThrow(/^channels\.a\.terms\.0\.seenOn/);
+  });
+
+  it('a picture meant for a flat screen looks like the picture there: the realized far field seen on the screen matches it (central projection)', async () => {
+    const n = 128;
+    const d = design({
+      cells: n,
+      polarization: { kind: 'circular', handedness: 'right' },
+      channels: {
+        a: { terms: [{ kind: 'hologram', image: { source: 'demo', name: 'lighthouse' }, window: { units: 'degrees', width: 30, centerX: 22, centerY: 0 }, seenOn: 'flat-screen', iterations: 40 }] },
+        b: { terms: [{ kind: 'vortex', charge: 1 }] },
+      },
+    });
+    const run = await runDesign(d, resources(halfWaveLibrary));
+    const view = run.channels.a.screenView!;
+    expect(view).not.toBeNull();
+    expect(run.channels.b.screenView).toBeNull();
+    // The picture (square(): bright 8×8 square on a dim 16×16 field) sampled at each screen pixel of its rectangle.
+    const picture = square();
+    const measured: number[] = [];
+    const expected: number[] = [];
+    for (const { fx, fy, value } of screenSamples(view)) {
+      if (fx < 0.05 || fx > 0.95 || fy < 0.05 || fy > 0.95) continue;
+      measured.push(value);
+      expected.push(picture.pixels[Math.floor(fy * 16) * 16 + Math.floor(fx * 16)] / 255);
+    }
+    const mean = (a: number[]) => a.reduce((s, v) => s + v, 0) / a.length;
+    const [mm, me] = [mean(measured), mean(expected)];
+    let cov = 0;
+    let vm = 0;
+    let ve = 0;
+    measured.forEach((m, i) => {
+      cov += (m - mm) * (expected[i] - me);
+      vm += (m - mm) ** 2;
+      ve += (expected[i] - me) ** 2;
+    });
+    // Common practice, no published source: a retrieved hologram image correlates above 0.9 with its target.
+    expect(cov / Math.sqrt(vm * ve)).toBeGreaterThan(0.9);
+    // The far-field target itself is squeezed: its window is narrower in direction cosines than the screen
+    // rectangle's width projected at the centre row would suggest (tan spreads faster than sin).
+    const window = run.channels.a.window!;
+    const deltaU = (LAMBDA_NM / (n * PERIOD_NM));
+    expect(window.width * deltaU).toBeLessThan(view.picture.x1 - view.picture.x0);
   });
 });

@@ -90,6 +90,11 @@ const ARTIFACTS: [RegExp, string, (m: RegExpExecArray) => string][] = [
   [/^rotation\.png$/, 'image/png', () => 'Rotation map (2θ in cyclic colours)'],
   [/^xz_([ab])\.png$/, 'image/png', (m) => `x–z intensity slice of channel ${m[1].toUpperCase()}`],
   [/^image_plane_([ab])\.png$/, 'image/png', (m) => `Image plane of channel ${m[1].toUpperCase()} (Fresnel hologram)`],
+  [
+    /^screen_([ab])\.png$/,
+    'image/png',
+    (m) => `Channel ${m[1].toUpperCase()}'s far field under its own input as irradiance on a flat screen facing the device; the picture's rectangle outlined`,
+  ],
 ];
 
 /** Content type and label of an output file. Example: 'layout.gds' → { mime: 'application/octet-stream', label: 'GDSII layout of the device' }. */

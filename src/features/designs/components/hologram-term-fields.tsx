@@ -24,6 +24,11 @@ const algorithmOptions = [
   { value: 'mraf', label: 'MRAF (Pasienski & DeMarco 2008)' },
 ] as const;
 
+const seenOnOptions = [
+  { value: 'far-field', label: 'Far field, evenly in sin θ (focal plane of a Fourier lens)' },
+  { value: 'flat-screen', label: 'A flat screen facing the device (picture pre-distorted)' },
+] as const;
+
 const UNIT_SUFFIX = { degrees: '°', 'direction-cosine': 'sin θ', cells: 'cells' } as const;
 
 interface HologramTermFieldsProps {
@@ -86,6 +91,23 @@ export function HologramTermFields({ projectId, path, term, canUpload }: Hologra
 
       <div className="grid gap-5 lg:grid-cols-[minmax(0,1fr)_auto]">
         <div className="flex flex-col gap-4">
+          {fresnel ? null : (
+            <DesignSelect
+              path={[...path, 'seenOn']}
+              label="Picture seen on"
+              options={seenOnOptions}
+              onSelect={(value) => {
+                const setField = useDesignEditor.getState().setField;
+                setField([...path, 'seenOn'], value);
+                if (value === 'flat-screen') setField([...path, 'window', 'units'], 'degrees');
+              }}
+              hint={
+                term.seenOn === 'flat-screen'
+                  ? 'Window in degrees, to the picture’s edges on the screen. Directions far from the axis land stretched on a flat screen, so the far-field target is squeezed and brightened there to make up for it.'
+                  : undefined
+              }
+            />
+          )}
           <DesignSelect path={[...path, 'window', 'units']} label="Window units" options={unitOptions} />
           <div className="grid gap-4 sm:grid-cols-2">
             <DesignNumber path={[...path, 'window', 'width']} label="Window width" unit={unit} />
@@ -134,6 +156,7 @@ export function HologramTermFields({ projectId, path, term, canUpload }: Hologra
               if (event.target.checked) {
                 setField([...path, 'fresnelDistanceUm'], 1000);
                 setField([...path, 'window', 'units'], 'cells');
+                setField([...path, 'seenOn'], 'far-field');
               } else {
                 setField([...path, 'fresnelDistanceUm'], undefined);
               }

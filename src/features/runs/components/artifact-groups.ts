@@ -21,6 +21,8 @@ export interface MapImage {
 export interface ArtifactGroups {
   farFields: Record<InputKey, FarFieldImage[]>;
   imagePlanes: Partial<Record<ChannelKey, RunArtifact>>;
+  /** Pictures meant for a flat screen, as seen there. */
+  screens: Partial<Record<ChannelKey, RunArtifact>>;
   maps: MapImage[];
   /** δx / δy stored only as .npy arrays: the page draws them itself. */
   arrayMaps: RunArtifact[];
@@ -34,6 +36,7 @@ const stem = (name: string) => name.replace(/\.[^.]+$/, '').toLowerCase();
 
 const FAR_FIELD = /^far[_-]?field[_-]?(a|b|extra)(?:[_-](.+))?$/;
 const IMAGE_PLANE = /^image[_-]?plane[_-]?(a|b)$/;
+const SCREEN = /^screen[_-]?(a|b)$/;
 const PHASE = /^phase[_-]?(a|b)$/;
 const CELL_PHASE = /^(delta[_-]?x|delta[_-]?y|dx|dy)$/;
 const ROTATION = /^(theta|rotation)$/;
@@ -65,6 +68,7 @@ export function groupArtifacts(artifacts: RunArtifact[]): ArtifactGroups {
   const groups: ArtifactGroups = {
     farFields: { a: [], b: [], extra: [] },
     imagePlanes: {},
+    screens: {},
     maps: [],
     arrayMaps: [],
     slices: {},
@@ -77,6 +81,7 @@ export function groupArtifacts(artifacts: RunArtifact[]): ArtifactGroups {
     let match: RegExpExecArray | null;
     if ((match = FAR_FIELD.exec(name))) groups.farFields[match[1] as InputKey].push({ artifact, component: match[2] ?? '' });
     else if ((match = IMAGE_PLANE.exec(name))) groups.imagePlanes[match[1] as ChannelKey] = artifact;
+    else if ((match = SCREEN.exec(name))) groups.screens[match[1] as ChannelKey] = artifact;
     else if ((match = PHASE.exec(name))) groups.maps.push({ artifact, kind: 'phase', channel: match[1] as ChannelKey });
     else if (CELL_PHASE.test(name)) groups.maps.push({ artifact, kind: 'cell-phase', channel: null });
     else if (ROTATION.test(name)) groups.maps.push({ artifact, kind: 'rotation', channel: null });

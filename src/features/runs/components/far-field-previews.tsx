@@ -24,7 +24,11 @@ export function FarFieldPreviews({ projectId, runId, groups, inputs, channelName
   const [selected, setSelected] = useState<InputKey>(available[0] ?? 'a');
   const baseId = useId();
   const tabRefs = useRef<Partial<Record<InputKey, HTMLButtonElement | null>>>({});
-  const imagePlanes = (['a', 'b'] as const).filter((c) => groups.imagePlanes[c]);
+  // Where a channel's picture is really looked at: the image plane of a Fresnel hologram, a flat screen.
+  const viewed = (['a', 'b'] as const).flatMap((c) => [
+    ...(groups.imagePlanes[c] ? [{ key: `plane-${c}`, artifact: groups.imagePlanes[c]!, title: `${channelNames[c]}: image plane (Fresnel hologram)` }] : []),
+    ...(groups.screens[c] ? [{ key: `screen-${c}`, artifact: groups.screens[c]!, title: `${channelNames[c]}: on the flat screen` }] : []),
+  ]);
 
   useEffect(() => {
     if (!reveal) return;
@@ -32,7 +36,7 @@ export function FarFieldPreviews({ projectId, runId, groups, inputs, channelName
     if (input) setSelected(input);
   }, [reveal, groups]);
 
-  if (available.length === 0 && imagePlanes.length === 0) return null;
+  if (available.length === 0 && viewed.length === 0) return null;
   const split = available.some((input) => groups.farFields[input].length > 1);
   const current = available.includes(selected) ? selected : available[0];
 
@@ -105,17 +109,10 @@ export function FarFieldPreviews({ projectId, runId, groups, inputs, channelName
           ))}
         </>
       ) : null}
-      {imagePlanes.length > 0 ? (
+      {viewed.length > 0 ? (
         <div className="mt-6 grid gap-6 xl:grid-cols-2">
-          {imagePlanes.map((c) => (
-            <ArtifactFigure
-              key={c}
-              projectId={projectId}
-              runId={runId}
-              artifact={groups.imagePlanes[c]!}
-              title={`${channelNames[c]}: image plane (Fresnel hologram)`}
-              annotation={annotate?.(groups.imagePlanes[c]!.name)}
-            />
+          {viewed.map(({ key, artifact, title }) => (
+            <ArtifactFigure key={key} projectId={projectId} runId={runId} artifact={artifact} title={title} annotation={annotate?.(artifact.name)} />
           ))}
         </div>
       ) : null}
