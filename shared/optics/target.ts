@@ -214,6 +214,63 @@ export function screenRect(spec: ScreenWindowSpec, aspect: number): ScreenRect {
   return { x0, x1, y0: middle - half, y1: middle + half };
 }
 
+/** Bounding box of the directions (u, v) that land on a screen rectangle (direction cosines). */
+export interface DirectionBox {
+  uMin: number;
+  uMax: number;
+  vMin: number;
+  vMax: number;
+}
+
+/**
+ * The directions that land on a screen rectangle, as a box in direction cosines. u grows with X and shrinks
+ * with |Y| (v likewise), so the extremes lie on the rectangle's edges: they are sampled densely, with the
+ * crossings of the axes when inside. Example: the rectangle X ∈ [1, 2], Y ∈ [0, 0] → u from 1/√2 to 2/√5.
+ */
+export function screenFootprint(rect: ScreenRect): DirectionBox {
+  const box: DirectionBox = { uMin: Infinity, uMax: -Infinity, vMin: Infinity, vMax: -Infinity };
+  const visit = (x: number, y: number) => {
+    const [u, v] = screenDirection(x, y);
+    box.uMin = Math.min(box.uMin, u);
+    box.uMax = Math.max(box.uMax, u);
+    box.vMin = Math.min(box.vMin, v);
+    box.vMax = Math.max(box.vMax, v);
+  };
+  const steps = 1024;
+  const along = (from: number, to: number, k: number) => from + ((to - from) * k) / steps;
+  for (let k = 0; k <= steps; k++) {
+    visit(along(rect.x0, rect.x1, k), rect.y0);
+    visit(along(rect.x0, rect.x1, k), rect.y1);
+    visit(rect.x0, along(rect.y0, rect.y1, k));
+    visit(rect.x1, along(rect.y0, rect.y1, k));
+  }
+  const zeroX = Math.min(Math.max(0, rect.x0), rect.x1);
+  const zeroY = Math.min(Math.max(0, rect.y0), rect.y1);
+  visit(rect.x0, zeroY);
+  visit(rect.x1, zeroY);
+  visit(zeroX, rect.y0);
+  visit(zeroX, rect.y1);
+  return box;
+}
+
+/**
+ * The far-field pixel window (centred N×N grid) that holds every direction landing on a screen rectangle.
+ * Throws RangeError when it covers less than 2×2 pixels or leaves the grid.
+ */
+export function placeScreenWindow(grid: CellGrid, rect: ScreenRect): PixelWindow {
+  const { n } = grid;
+  const deltaU = grid.lambda / (n * grid.period);
+  const { uMin, uMax, vMin, vMax } = screenFootprint(rect);
+  const x0 = Math.floor(n / 2 + uMin / deltaU);
+  const y0 = Math.floor(n / 2 + vMin / deltaU);
+  const window: PixelWindow = { x0, y0, width: Math.ceil(n / 2 + uMax / deltaU) - x0 + 1, height: Math.ceil(n / 2 + vMax / deltaU) - y0 + 1 };
+  if (window.width < 2 || window.height < 2) throw new RangeError(`The flat-screen window covers less than two far-field pixels (${window.width}×${window.height}); make it larger`);
+  if (x0 < 0 || y0 < 0 || x0 + window.width > n || y0 + window.height > n) {
+    throw new RangeError(`The flat-screen window needs far-field columns ${x0}…${x0 + window.width - 1} and rows ${y0}…${y0 + window.height - 1}, outside the ${n}×${n} grid; make it smaller or move it towards the zero order`);
+  }
+  return window;
+}
+
 /**
  * Target amplitude pre-distorted for a flat screen (Fourier geometry): a direction (u, v) lands on the screen
  * at (X, Y) = (u, v)/√(1 − u² − v²) (units of the distance L), so a picture laid out evenly in direction
@@ -229,40 +286,8 @@ export function buildScreenTarget(grid: CellGrid, image: GrayImage, spec: Screen
   const { n } = grid;
   const deltaU = grid.lambda / (n * grid.period);
   const sample = pictureSampler(image, options.gamma ?? 1);
-  // Footprint bounding box: u grows with X and shrinks with |Y| (and the other way round for v), so the
-  // extremes lie on the rectangle's edges; sample them densely, with the axis crossing when inside.
-  let uMin = Infinity;
-  let uMax = -Infinity;
-  let vMin = Infinity;
-  let vMax = -Infinity;
-  const steps = 1024;
-  const along = (from: number, to: number, k: number) => from + ((to - from) * k) / steps;
-  const visit = (x: number, y: number) => {
-    const [u, v] = screenDirection(x, y);
-    uMin = Math.min(uMin, u);
-    uMax = Math.max(uMax, u);
-    vMin = Math.min(vMin, v);
-    vMax = Math.max(vMax, v);
-  };
-  for (let k = 0; k <= steps; k++) {
-    visit(along(rect.x0, rect.x1, k), rect.y0);
-    visit(along(rect.x0, rect.x1, k), rect.y1);
-    visit(rect.x0, along(rect.y0, rect.y1, k));
-    visit(rect.x1, along(rect.y0, rect.y1, k));
-  }
-  const zeroX = Math.min(Math.max(0, rect.x0), rect.x1);
-  const zeroY = Math.min(Math.max(0, rect.y0), rect.y1);
-  visit(rect.x0, zeroY);
-  visit(rect.x1, zeroY);
-  visit(zeroX, rect.y0);
-  visit(zeroX, rect.y1);
-  const x0 = Math.floor(n / 2 + uMin / deltaU);
-  const y0 = Math.floor(n / 2 + vMin / deltaU);
-  const window: PixelWindow = { x0, y0, width: Math.ceil(n / 2 + uMax / deltaU) - x0 + 1, height: Math.ceil(n / 2 + vMax / deltaU) - y0 + 1 };
-  if (window.width < 2 || window.height < 2) throw new RangeError(`The flat-screen window covers less than two far-field pixels (${window.width}×${window.height}); make it larger`);
-  if (x0 < 0 || y0 < 0 || x0 + window.width > n || y0 + window.height > n) {
-    throw new RangeError(`The flat-screen window needs far-field columns ${x0}…${x0 + window.width - 1} and rows ${y0}…${y0 + window.height - 1}, outside the ${n}×${n} grid; make it smaller or move it towards the zero order`);
-  }
+  const window = placeScreenWindow(grid, rect);
+  const { x0, y0 } = window;
   const amplitude = new Float64Array(n * n);
   let peak = 0;
   for (let iy = y0; iy < y0 + window.height; iy++) {

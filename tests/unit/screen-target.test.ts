@@ -5,7 +5,7 @@
  * screen area.
  */
 import { describe, expect, it } from 'vitest';
-import { buildScreenTarget, screenDirection, screenPoint, screenRect, screenView, type GrayImage } from '../../shared/optics/target';
+import { buildScreenTarget, screenDirection, screenFootprint, screenPoint, screenRect, screenView, type GrayImage } from '../../shared/optics/target';
 import type { CellGrid } from '../../shared/optics/types';
 import { screenSamples } from '../support/screen-samples';
 
@@ -38,6 +38,18 @@ describe('flat-screen target', () => {
     expect(back[1]).toBeCloseTo(v, 14);
     // A ray at 45° in the x–z plane meets the screen at X = L·tan 45° = L.
     expect(screenPoint(Math.SQRT1_2, 0)[0]).toBeCloseTo(1, 14);
+  });
+
+  it('screenFootprint: the box of directions landing on a screen rectangle, extremes on its edges', () => {
+    const line = screenFootprint({ x0: 1, x1: 2, y0: 0, y1: 0 });
+    expect(line.uMin).toBeCloseTo(1 / Math.SQRT2, 12);
+    expect(line.uMax).toBeCloseTo(2 / Math.sqrt(5), 12);
+    // Straddling the axis in y: u is largest on the axis (|Y| = 0), v extremes at the near edge X = 1.
+    const box = screenFootprint({ x0: 1, x1: 2, y0: -1, y1: 1 });
+    expect(box.uMax).toBeCloseTo(2 / Math.sqrt(5), 12);
+    expect(box.uMin).toBeCloseTo(1 / Math.sqrt(3), 12);
+    expect(box.vMax).toBeCloseTo(1 / Math.sqrt(3), 12);
+    expect(box.vMin).toBeCloseTo(-1 / Math.sqrt(3), 12);
   });
 
   it('screenRect: edges at tan of the edge angles; an omitted height keeps the picture aspect on the screen', () => {

@@ -73,6 +73,7 @@ export function HologramTermFields({ projectId, path, term, canUpload }: Hologra
           } as FarFieldWindow,
           setup,
           aspect,
+          term.seenOn,
         )
       : null;
 

@@ -1,6 +1,6 @@
 import type { FarFieldWindow } from '@shared/schemas/design';
-import { farFieldWindowOf } from '@shared/optics/design-units';
-import { placeWindow } from '@shared/optics/target';
+import { farFieldWindowOf, screenWindowOf } from '@shared/optics/design-units';
+import { placeScreenWindow, placeWindow, screenFootprint, screenRect } from '@shared/optics/target';
 
 const DEG = 180 / Math.PI;
 
@@ -51,13 +51,32 @@ export interface WindowPlacement {
 /**
  * Where a hologram window lands in the far field, in direction cosines, with the same conversion and fit
  * check as a run (design-units.ts, target.ts). `aspect` = picture width / height, used when no height is given.
+ * A picture seen on a flat screen covers the box of the directions that land on its screen rectangle.
  */
 export function placeFarFieldWindow(
   window: FarFieldWindow,
   setup: { wavelengthNm: number; periodNm: number; cells: number },
   aspect: number,
+  seenOn: 'far-field' | 'flat-screen' = 'far-field',
 ): WindowPlacement | { error: string } {
   const deltaU = setup.wavelengthNm / (setup.cells * setup.periodNm);
+  const grid = { n: setup.cells, period: setup.periodNm * 1e-9, lambda: setup.wavelengthNm * 1e-9 };
+  if (seenOn === 'flat-screen') {
+    let rect;
+    try {
+      rect = screenRect(screenWindowOf(window, 'fourier', 'term'), aspect);
+    } catch (error) {
+      return { error: (error as Error).message.replace(/^term(\.\w+)*: /, '') };
+    }
+    const box = screenFootprint(rect);
+    let problem: string | null = null;
+    try {
+      placeScreenWindow(grid, rect);
+    } catch (error) {
+      problem = (error as Error).message;
+    }
+    return { centerU: (box.uMin + box.uMax) / 2, centerV: (box.vMin + box.vMax) / 2, width: box.uMax - box.uMin, height: box.vMax - box.vMin, problem };
+  }
   let spec;
   try {
     spec = farFieldWindowOf(window, 'fourier', 'window');
@@ -69,7 +88,7 @@ export function placeFarFieldWindow(
   const height = (spec.height ?? spec.width / aspect) * perUnit;
   let problem: string | null = null;
   try {
-    placeWindow({ n: setup.cells, period: setup.periodNm * 1e-9, lambda: setup.wavelengthNm * 1e-9 }, spec, aspect, 'fourier');
+    placeWindow(grid, spec, aspect, 'fourier');
   } catch (error) {
     problem = (error as Error).message;
   }
