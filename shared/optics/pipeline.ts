@@ -186,9 +186,10 @@ export interface ChannelPlan {
 /**
  * Turns a channel's recipe into engine terms, its hologram target and its beam facts. Throws
  * DesignUnitsError naming the design field when a value cannot be used (window outside the propagating
- * region, two holograms in one channel, custom map of the wrong size …).
+ * region, two holograms in one channel, custom map of the wrong size …). `memory`: where the hologram target's
+ * amplitude plane is allocated (arrays.ts), so a retrieval thread gets it without a copy.
  */
-export function planChannel(design: Design, id: ChannelId, resources: Pick<DesignResources, 'images' | 'phaseMaps'>): ChannelPlan {
+export function planChannel(design: Design, id: ChannelId, resources: Pick<DesignResources, 'images' | 'phaseMaps'>, memory?: ArrayMemory): ChannelPlan {
   const grid = cellGridOf(design);
   const illumination = illuminationOf(design);
   const recipe = design.channels[id];
@@ -212,9 +213,9 @@ export function planChannel(design: Design, id: ChannelId, resources: Pick<Desig
         if (term.seenOn === 'flat-screen') {
           const spec = screenWindowOf(term.window, geometry, path);
           screen = screenRect(spec, image.width / image.height);
-          target = buildScreenTarget(grid, image, spec, { gamma: term.gamma });
+          target = buildScreenTarget(grid, image, spec, { gamma: term.gamma, memory });
         } else {
-          target = buildTargetPlane(grid, image, farFieldWindowOf(term.window, geometry, `${path}.window`), { geometry, gamma: term.gamma });
+          target = buildTargetPlane(grid, image, farFieldWindowOf(term.window, geometry, `${path}.window`), { geometry, gamma: term.gamma, memory });
         }
       } catch (error) {
         if (error instanceof RangeError && !(error instanceof DesignUnitsError)) throw new DesignUnitsError(`${path}.window`, error.message);
@@ -452,7 +453,7 @@ export async function runDesign(design: Design, resources: DesignResources, opti
   const pair = polarizationPairOf(design);
   const inputs: Record<InputId, JonesVector> = { a: normalizeJones(pair.a), b: normalizeJones(pair.b), extra: normalizeJones(jonesVectorOf(design.simulation.extraInput)) };
   const analyser: [JonesVector, JonesVector] = [conjugateJones(inputs.a), conjugateJones(inputs.b)];
-  const plans: Record<ChannelId, ChannelPlan> = { a: planChannel(design, 'a', resources), b: planChannel(design, 'b', resources) };
+  const plans: Record<ChannelId, ChannelPlan> = { a: planChannel(design, 'a', resources, options.memory), b: planChannel(design, 'b', resources, options.memory) };
   const hologramChannels = CHANNEL_IDS.filter((c) => plans[c].hologram);
   const needsPropagation = CHANNEL_IDS.some((c) => plans[c].beam || plans[c].focalLength || plans[c].hologram?.geometry === 'fresnel');
   const stages = ['prepare'];

@@ -12,6 +12,7 @@
  * (= image-plane pixels: steps of Δu in the far field, steps of P in the Fresnel plane).
  * Image rows run top to bottom; image row 0 is placed at the smallest y of the window.
  */
+import { float64Array, type ArrayMemory } from './arrays';
 import type { CellGrid } from './types';
 
 /** A grayscale picture: `pixels` row-major, `width × height` values. */
@@ -60,6 +61,8 @@ export interface TargetOptions {
   geometry?: TargetGeometry;
   /** Display gamma applied to the normalized gray value: intensity = (value/max)^gamma. Default 1. */
   gamma?: number;
+  /** Where the amplitude plane is allocated (arrays.ts): 'shared' hands it to a retrieval thread without a copy. */
+  memory?: ArrayMemory;
 }
 
 /**
@@ -151,7 +154,7 @@ export function buildTargetPlane(grid: CellGrid, image: GrayImage, spec: TargetW
   const window = placeWindow(grid, spec, image.width / image.height, geometry);
   const intensity = resampleIntensity(image, window.width, window.height, options.gamma ?? 1);
   const n = grid.n;
-  const amplitude = new Float64Array(n * n);
+  const amplitude = float64Array(n * n, options.memory);
   for (let b = 0; b < window.height; b++) {
     for (let a = 0; a < window.width; a++) {
       amplitude[(window.y0 + b) * n + window.x0 + a] = Math.sqrt(intensity[b * window.width + a]);
@@ -281,14 +284,14 @@ export function placeScreenWindow(grid: CellGrid, rect: ScreenRect): PixelWindow
  * outside the footprint are dark. Amplitude normalized to a maximum of 1. Example: a white picture on a
  * rectangle centred on the axis gives amplitude 1/w², largest at the footprint's corners.
  */
-export function buildScreenTarget(grid: CellGrid, image: GrayImage, spec: ScreenWindowSpec, options: Pick<TargetOptions, 'gamma'> = {}): TargetPlane {
+export function buildScreenTarget(grid: CellGrid, image: GrayImage, spec: ScreenWindowSpec, options: Pick<TargetOptions, 'gamma' | 'memory'> = {}): TargetPlane {
   const rect = screenRect(spec, image.width / image.height);
   const { n } = grid;
   const deltaU = grid.lambda / (n * grid.period);
   const sample = pictureSampler(image, options.gamma ?? 1);
   const window = placeScreenWindow(grid, rect);
   const { x0, y0 } = window;
-  const amplitude = new Float64Array(n * n);
+  const amplitude = float64Array(n * n, options.memory);
   let peak = 0;
   for (let iy = y0; iy < y0 + window.height; iy++) {
     for (let ix = x0; ix < x0 + window.width; ix++) {
