@@ -12,7 +12,9 @@
  *   G' = m·T·G/|G| in the signal region (the window), (1 − m)·G in the rest of the propagating region.
  *
  * Geometry: 'fourier' — image plane = far field, G = FFT of the device field; 'fresnel' — image plane at
- * distance z, G = angular-spectrum propagation (propagation.ts, band-limited) of the device field.
+ * distance z, G = angular-spectrum propagation (propagation.ts, band-limited) of the device field, on a grid
+ * zero-padded by `padding` (the device in its centre, zero around it) so light leaving the aperture is not
+ * folded back in — the same propagation the run's simulation of the image plane uses.
  * Evanescent far-field pixels are always set to zero. Target values outside the window are ignored (target.ts
  * keeps them zero).
  *
@@ -57,6 +59,8 @@ export interface RetrievalOptions {
   illumination?: Illumination;
   /** Image distance z in metres, required for the Fresnel geometry. */
   fresnelDistance?: number;
+  /** Fresnel geometry: zero-padding factor of the propagation grid (1 or 2; a power of two). Default 1. */
+  padding?: number;
   onProgress?: ProgressCallback;
   signal?: CancelSignal;
   /** Where the result phase is allocated (arrays.ts); default 'private'. */
@@ -106,15 +110,21 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
   const z = options.fresnelDistance;
   if (fresnel && !(z !== undefined && Number.isFinite(z) && z > 0)) throw new RangeError('Fresnel geometry needs a positive fresnelDistance (metres)');
 
-  const plan = getFft2d(n);
+  const padding = fresnel ? (options.padding ?? 1) : 1;
+  if (!Number.isInteger(padding) || padding < 1 || (padding & (padding - 1)) !== 0) throw new RangeError(`Padding factor must be a power of two ≥ 1, got ${padding}`);
+  // The plan's grid: m = n·padding, the device and the target plane in its centre (offset o).
+  const m = n * padding;
+  const o = (m - n) / 2;
+  const plan = getFft2d(m);
   const illumination = illuminationAmplitude(grid, options.illumination);
   const power = incidentPower(illumination);
-  const deviceAmplitude = Float32Array.from(illumination);
+  const deviceAmplitude = new Float32Array(m * m);
+  for (let y = 0; y < n; y++) deviceAmplitude.set(illumination.subarray(y * n, y * n + n), (y + o) * m + o);
 
   // Image-plane arrays in the layout the plan presents them: transposed and unshifted spectrum (Fourier),
   // normal centred rows (Fresnel image plane).
-  const targetScaled = new Float32Array(n * n);
-  const region = new Uint8Array(n * n);
+  const targetScaled = new Float32Array(m * m);
+  const region = new Uint8Array(m * m);
   const { x0, y0, width, height } = target.window;
   let targetPower = 0;
   for (let iy = y0; iy < y0 + height; iy++) {
@@ -125,36 +135,36 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
   const scale = Math.sqrt(power / targetPower) * (fresnel ? 1 : n);
   const half = n / 2;
   const deltaU = grid.lambda / (n * grid.period);
-  for (let r = 0; r < n; r++) {
-    for (let j = 0; j < n; j++) {
-      const ix = fresnel ? j : (r + half) % n;
-      const iy = fresnel ? r : (j + half) % n;
+  for (let r = 0; r < m; r++) {
+    for (let j = 0; j < m; j++) {
+      const ix = fresnel ? j - o : (r + half) % n;
+      const iy = fresnel ? r - o : (j + half) % n;
       const u = (ix - half) * deltaU;
       const v = (iy - half) * deltaU;
       const inWindow = ix >= x0 && ix < x0 + width && iy >= y0 && iy < y0 + height;
-      const index = r * n + j;
+      const index = r * m + j;
       targetScaled[index] = inWindow ? target.amplitude[iy * n + ix] * scale : 0;
       region[index] = inWindow ? SIGNAL : !fresnel && u * u + v * v > 1 ? EVANESCENT : NOISE;
     }
   }
-  const weights = algorithm === 'weighted-gs' ? new Float32Array(n * n).fill(1) : null;
+  const weights = algorithm === 'weighted-gs' ? new Float32Array(m * m).fill(1) : null;
   const accumulator = new Float64Array(7);
   let previousMeanRatio = 0;
   const spectrumRows = !fresnel && algorithm !== 'mraf' ? windowSpectrumRows(target.window, n) : null;
 
-  const imagePlaneOp = makeImagePlaneOp(algorithm, n, targetScaled, region, weights, accumulator, mixing, () => previousMeanRatio);
-  const deviceOp = makeDeviceOp(n, deviceAmplitude);
+  const imagePlaneOp = makeImagePlaneOp(algorithm, m, targetScaled, region, weights, accumulator, mixing, () => previousMeanRatio);
+  const deviceOp = makeDeviceOp(m, deviceAmplitude);
 
   let forwardOp: RowOperation | null = null;
   let backwardOp: RowOperation | null = null;
   if (fresnel) {
-    const h = transferFunction(n, grid.period, grid.lambda, z as number, true);
-    const norm = 1 / (n * n);
-    forwardOp = (data, offset, row) => multiplyRow(data, offset, h.re, h.im, row * n, n, norm, 1);
-    backwardOp = (data, offset, row) => multiplyRow(data, offset, h.re, h.im, row * n, n, norm, -1);
+    const h = transferFunction(m, grid.period, grid.lambda, z as number, true);
+    const norm = 1 / (m * m);
+    forwardOp = (data, offset, row) => multiplyRow(data, offset, h.re, h.im, row * m, m, norm, 1);
+    backwardOp = (data, offset, row) => multiplyRow(data, offset, h.re, h.im, row * m, m, norm, -1);
   }
 
-  loadStartField(plan, n, deviceAmplitude, options.initialPhase, options.seed ?? 1);
+  loadStartField(plan, n, o, deviceAmplitude, options.initialPhase, options.seed ?? 1);
   const fourierError = new Float64Array(iterations);
   const windowError = new Float64Array(iterations);
   const windowEfficiency = new Float64Array(iterations);
@@ -193,24 +203,35 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
 
   const data = plan.data;
   const phase = float64Array(n * n, options.memory);
-  for (let i = 0; i < n * n; i++) {
-    const angle = Math.atan2(data[2 * i + 1], data[2 * i]);
-    phase[i] = angle === -Math.PI ? Math.PI : angle;
+  for (let y = 0; y < n; y++) {
+    for (let x = 0; x < n; x++) {
+      const q = 2 * ((y + o) * m + x + o);
+      const angle = Math.atan2(data[q + 1], data[q]);
+      phase[y * n + x] = angle === -Math.PI ? Math.PI : angle;
+    }
   }
   return { phase, fourierError, windowError, windowEfficiency, iterations };
 }
 
-function loadStartField(plan: Fft2d, n: number, amplitude: Float32Array, initialPhase: ArrayLike<number> | undefined, seed: number): void {
+/**
+ * The start field in the plan's buffer: amplitude a·e^{iφ} on the n×n device at offset o of the plan's grid
+ * (zero around it), φ given or uniform random (mulberry32, cell order y·n + x).
+ */
+function loadStartField(plan: Fft2d, n: number, o: number, amplitude: Float32Array, initialPhase: ArrayLike<number> | undefined, seed: number): void {
   if (initialPhase && initialPhase.length !== n * n) throw new RangeError(`Initial phase must have ${n * n} values, got ${initialPhase.length}`);
   const random = mulberry32(seed);
-  const re = new Float64Array(n * n);
-  const im = new Float64Array(n * n);
-  for (let i = 0; i < n * n; i++) {
-    const phi = initialPhase ? initialPhase[i] : 2 * Math.PI * random() - Math.PI;
-    re[i] = amplitude[i] * Math.cos(phi);
-    im[i] = amplitude[i] * Math.sin(phi);
+  const m = plan.n;
+  plan.load(amplitude);
+  const data = plan.data;
+  for (let y = 0; y < n; y++) {
+    for (let x = 0; x < n; x++) {
+      const phi = initialPhase ? initialPhase[y * n + x] : 2 * Math.PI * random() - Math.PI;
+      const q = (y + o) * m + x + o;
+      const a = amplitude[q];
+      data[2 * q] = a * Math.cos(phi);
+      data[2 * q + 1] = a * Math.sin(phi);
+    }
   }
-  plan.load(re, im);
 }
 
 /**

@@ -235,6 +235,7 @@ export function planChannel(design: Design, id: ChannelId, resources: Pick<Desig
       if (term.fresnelDistanceUm !== undefined) {
         plan.fresnelDistance = term.fresnelDistanceUm * 1e-6;
         options.fresnelDistance = plan.fresnelDistance;
+        options.padding = design.simulation.padding;
       }
       hologram = plan;
       return;

@@ -146,6 +146,27 @@ describe('Gerchberg–Saxton family', () => {
     expect(() => retrievePhase({ grid, target: fresnelTarget, iterations: 2 })).toThrow(RangeError);
   });
 
+  it('Fresnel geometry on a zero-padded grid: the efficiency it reports is what padded angular-spectrum propagation finds', () => {
+    // Angular spectrum (Goodman, Introduction to Fourier Optics, §3.10) on an FFT grid is periodic: without
+    // padding, light leaving the aperture re-enters from the other side, and GS counts it in an off-axis window.
+    const z = 150e-6;
+    const sampled: CellGrid = { n: 128, period: 450e-9, lambda };
+    const offAxis = buildTargetPlane(sampled, ringAndBar(), { units: 'cells', width: 40, centerX: 30, centerY: 0 }, { geometry: 'fresnel' });
+    const windowShare = (phase: Float64Array) => {
+      const image = intensityOf(angularSpectrumPropagate(deviceField(phase), sampled, z, { padding: 2 }));
+      const { x0, y0, width, height } = offAxis.window;
+      let power = 0;
+      for (let y = y0; y < y0 + height; y++) for (let x = x0; x < x0 + width; x++) power += image[y * 128 + x];
+      return power / (128 * 128);
+    };
+    const padded = retrievePhase({ grid: sampled, target: offAxis, iterations: 40, seed: 2, fresnelDistance: z, padding: 2 });
+    expect(windowShare(padded.phase)).toBeCloseTo(padded.windowEfficiency[39], 2);
+    for (let k = 1; k < 40; k++) expect(padded.fourierError[k]).toBeLessThanOrEqual(padded.fourierError[k - 1] * (1 + 1e-5));
+    const periodic = retrievePhase({ grid: sampled, target: offAxis, iterations: 40, seed: 2, fresnelDistance: z, padding: 1 });
+    expect(periodic.windowEfficiency[39] - windowShare(periodic.phase)).toBeGreaterThan(0.1);
+    expect(() => retrievePhase({ grid: sampled, target: offAxis, iterations: 2, fresnelDistance: z, padding: 3 })).toThrow(RangeError);
+  });
+
   it('reports progress and stops when cancelled', () => {
     const stages: number[] = [];
     let aborted = false;
