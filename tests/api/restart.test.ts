@@ -65,7 +65,8 @@ describe('restart recovery', () => {
     server = await startServer();
     let client: ApiClient = await signedInClient(url, person);
     const projectId = (await client.post('/api/projects', { name: 'Restart project' })).body.project.id;
-    const design = twinImageDesign({ cells: 256, iterations: 300, name: 'Long enough to interrupt' });
+    // Long enough to be caught mid-retrieval by a poll every 100 ms (a few seconds per attempt).
+    const design = twinImageDesign({ cells: 512, iterations: 1200, name: 'Long enough to interrupt' });
     const number = (await client.post(`/api/projects/${projectId}/revisions`, { design })).body.revision.number;
     const runId = (await client.post(`/api/projects/${projectId}/revisions/${number}/runs`)).body.run.id;
     await waitForRun(client, projectId, runId, (r) => r.status === 'running' && r.stage === 'phase retrieval' && r.progress > 0.05);
@@ -81,7 +82,7 @@ describe('restart recovery', () => {
     expect(run.status, run.error ?? '').toBe('succeeded');
     expect(run.attempts).toBe(2);
     expect(run.progress).toBe(1);
-    expect(run.convergence.a).toHaveLength(300);
+    expect(run.convergence.a).toHaveLength(1200);
     expect(run.events.map((e) => e.message)).toEqual(
       expect.arrayContaining(['started', 'the server stopped during attempt 1; queued again', 'started again (attempt 2 of 3)', 'finished']),
     );

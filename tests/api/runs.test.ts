@@ -76,7 +76,7 @@ describe('runs', () => {
 
 describe('cancelling', () => {
   it('cancels a queued run and a running one; the queue keeps working afterwards', async () => {
-    const long = await saveRevision(twinImageDesign({ cells: 256, iterations: 2000, name: 'Long twin' }));
+    const long = await saveRevision(twinImageDesign({ cells: 512, iterations: 2000, name: 'Long twin' }));
     const first = (await designer.post(`/api/projects/${projectId}/revisions/${long}/runs`)).body.run;
     const second = (await designer.post(`/api/projects/${projectId}/revisions/${long}/runs`)).body.run;
     // One worker thread in tests: the second run waits behind the first.
