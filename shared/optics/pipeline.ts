@@ -55,7 +55,7 @@ import {
 } from './metrics';
 import { axiconSinBeta, sumPhaseMaps, sumPhaseTerms, wrapPhase, type PhaseTerm } from './phase-terms';
 import type { PolarizationPair } from './polarization';
-import { AngularSpectrumPropagator, directionCosineStep, farField } from './propagation';
+import { AngularSpectrumPropagator, directionCosineStep } from './propagation';
 import { blazedEfficiency, equivalentPhaseLevels, metric, type MetricGroup } from './run-metrics';
 import { createPreviewScratch, previewDevice, type FarFieldSet, type Field32 } from './device-preview';
 import { atomUsage, mappingReport, RETARDANCE_THRESHOLD, type MappingReport } from './mapping-report';
