@@ -1,7 +1,7 @@
-import { Router, type Request, type Response } from 'express';
-import multer from 'multer';
+import { Router, type Request } from 'express';
 import { ATOM_LIBRARY_LIMITS, createAtomLibrarySchema, type AtomCsvProblem } from '../../../shared/schemas/atom-libraries';
 import { AppError } from '../../lib/app-error';
+import { fileReceiver } from '../../lib/receive-file';
 import { contentDisposition } from '../../lib/content-disposition';
 import { parseId, parseInput } from '../../lib/validate';
 import { currentUser } from '../auth/auth.middleware';
@@ -20,30 +20,12 @@ const KIB = 1024;
 /** Problems listed in one answer; the message gives the total. */
 const MAX_PROBLEMS = 100;
 
-const receive = multer({
-  storage: multer.memoryStorage(),
-  defParamCharset: 'utf8',
-  limits: { fileSize: ATOM_LIBRARY_LIMITS.maxBytes, files: 1, fields: 8, fieldSize: 1024, parts: 9 },
-}).single('file');
-
-/** Reads the multipart body into memory, turning multer's errors into messages that say what to fix. */
-function receiveFile(req: Request, res: Response): Promise<void> {
-  return new Promise((resolve, reject) => {
-    receive(req, res, (error: unknown) => {
-      if (!error) return resolve();
-      if (error instanceof multer.MulterError) {
-        if (error.code === 'LIMIT_FILE_SIZE') {
-          return reject(new AppError(413, `The library file is larger than ${ATOM_LIBRARY_LIMITS.maxBytes / KIB / KIB} MiB; split it or remove unused atoms`, { file: 'too large' }));
-        }
-        if (error.code === 'LIMIT_UNEXPECTED_FILE') {
-          return reject(new AppError(400, `Send one CSV file, in the form field "file" (got "${error.field}")`, { file: 'missing' }));
-        }
-        return reject(new AppError(400, `The upload form is not acceptable: ${error.message}`));
-      }
-      reject(new AppError(400, 'The upload could not be read as a multipart form; send the CSV in the form field "file"'));
-    });
-  });
-}
+const receiveFile = fileReceiver({
+  maxBytes: ATOM_LIBRARY_LIMITS.maxBytes,
+  fields: 8,
+  what: 'CSV file',
+  tooLarge: `The library file is larger than ${ATOM_LIBRARY_LIMITS.maxBytes / KIB / KIB} MiB; split it or remove unused atoms`,
+});
 
 function viewerOf(req: Request): LibraryViewer {
   const user = currentUser(req);

@@ -1,7 +1,7 @@
-import { Router, type Request, type Response } from 'express';
-import multer from 'multer';
+import { Router } from 'express';
 import { createUploadSchema, UPLOAD_LIMITS } from '../../../shared/schemas/uploads';
 import { AppError } from '../../lib/app-error';
+import { fileReceiver } from '../../lib/receive-file';
 import { contentDisposition } from '../../lib/content-disposition';
 import { parseId, parseInput } from '../../lib/validate';
 import { currentUser } from '../auth/auth.middleware';
@@ -10,30 +10,12 @@ import { createUpload, listUploads, uploadContent } from './upload.service';
 
 const MIB = 1024 * 1024;
 
-const receive = multer({
-  storage: multer.memoryStorage(),
-  defParamCharset: 'utf8',
-  limits: { fileSize: UPLOAD_LIMITS.maxBytes, files: 1, fields: 5, fieldSize: 1024, parts: 6 },
-}).single('file');
-
-/** Reads the multipart body into memory, turning multer's errors into messages that say what to fix. */
-function receiveFile(req: Request, res: Response): Promise<void> {
-  return new Promise((resolve, reject) => {
-    receive(req, res, (error: unknown) => {
-      if (!error) return resolve();
-      if (error instanceof multer.MulterError) {
-        if (error.code === 'LIMIT_FILE_SIZE') {
-          return reject(new AppError(413, `The file is larger than ${UPLOAD_LIMITS.maxBytes / MIB} MiB; make it smaller and upload again`, { file: 'too large' }));
-        }
-        if (error.code === 'LIMIT_UNEXPECTED_FILE') {
-          return reject(new AppError(400, `Send one file, in the form field "file" (got "${error.field}")`, { file: 'missing' }));
-        }
-        return reject(new AppError(400, `The upload form is not acceptable: ${error.message}`));
-      }
-      reject(new AppError(400, 'The upload could not be read as a multipart form; send the file in the form field "file"'));
-    });
-  });
-}
+const receiveFile = fileReceiver({
+  maxBytes: UPLOAD_LIMITS.maxBytes,
+  fields: 5,
+  what: 'file',
+  tooLarge: `The file is larger than ${UPLOAD_LIMITS.maxBytes / MIB} MiB; make it smaller and upload again`,
+});
 
 /** `/api/projects/:projectId/uploads`: pictures and phase maps a design refers to. */
 export function uploadRoutes() {
