@@ -6,14 +6,12 @@ import { PageLoader } from '@/components/ui/spinner';
 import { ArtifactUrlContext, type ArtifactAddress } from '@/features/runs/api/artifact-url-context';
 import { DESIGN_ARTIFACT, useRunDesign } from '@/features/runs/api/get-run-design';
 import { groupArtifacts } from '@/features/runs/components/artifact-groups';
-import { BeamChannel } from '@/features/runs/components/beam-channel';
 import { ConvergenceCard } from '@/features/runs/components/convergence-card';
 import { FarFieldPreviews } from '@/features/runs/components/far-field-previews';
 import { sectionName } from '@/features/runs/components/format-run';
-import { MapPreviews } from '@/features/runs/components/map-previews';
 import { MetricsTable } from '@/features/runs/components/metrics-table';
-import { OtherPlots } from '@/features/runs/components/other-plots';
 import { RunDownloads } from '@/features/runs/components/run-downloads';
+import { RunFigures } from '@/features/runs/components/run-figures';
 import { channelLayout, inputNames } from '@/features/runs/components/run-facts';
 import { readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusBadge } from '@/features/runs/components/run-status-badge';
@@ -71,41 +69,14 @@ function SharedRunResults({ run }: { run: RunDetail }) {
   const notes = readNotes(run.plots).filter((note) => !/laser safety|approximate/i.test(note));
   const mapping = Object.entries(run.metrics ?? {}).find(([key]) => sectionName(key) === 'Atom mapping')?.[1] ?? null;
 
-  const { channels, channelNames, beamChannels, profilesOf, linesOf, unplacedProfiles } = channelLayout(run, design, plots, groups.slices);
+  const layout = channelLayout(run, design, plots, groups.slices);
+  const { channelNames } = layout;
 
   return (
     <>
       <ConvergenceCard run={run} channelNames={channelNames} />
       <FarFieldPreviews projectId={NO_PROJECT} runId={run.id} groups={groups} inputs={inputNames(design)} channelNames={channelNames} />
-      {beamChannels.map((c) => (
-        <BeamChannel
-          key={c}
-          projectId={NO_PROJECT}
-          runId={run.id}
-          channel={channels[c]}
-          slice={groups.slices[c]}
-          profiles={profilesOf(c)}
-          lines={linesOf(c)}
-        />
-      ))}
-      <MapPreviews
-        projectId={NO_PROJECT}
-        runId={run.id}
-        maps={groups.maps}
-        arrayMaps={groups.arrayMaps}
-        channelNames={channelNames}
-        mapping={mapping}
-      />
-      <OtherPlots
-        projectId={NO_PROJECT}
-        runId={run.id}
-        images={[
-          ...groups.otherImages,
-          ...(['a', 'b'] as const).flatMap((c) => (groups.slices[c] && !beamChannels.includes(c) ? [groups.slices[c]!] : [])),
-        ]}
-        histograms={plots.histograms}
-        profiles={unplacedProfiles}
-      />
+      <RunFigures projectId={NO_PROJECT} runId={run.id} groups={groups} layout={layout} plots={plots} mapping={mapping} />
       {run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} /> : null}
       {run.artifacts.length > 0 ? <RunDownloads projectId={NO_PROJECT} runId={run.id} downloads={groups.downloads} notes={notes} /> : null}
     </>

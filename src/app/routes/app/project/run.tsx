@@ -16,16 +16,14 @@ import { runQueryOptions, useRun } from '@/features/runs/api/get-run';
 import { DESIGN_ARTIFACT, useRunDesign } from '@/features/runs/api/get-run-design';
 import { isRunActive } from '@/features/runs/api/run-status';
 import { groupArtifacts } from '@/features/runs/components/artifact-groups';
-import { BeamChannel } from '@/features/runs/components/beam-channel';
 import { DesignRulesCard } from '@/features/runs/components/design-rules-card';
 import { ConvergenceCard } from '@/features/runs/components/convergence-card';
 import { sectionName } from '@/features/runs/components/format-run';
 import { FarFieldPreviews } from '@/features/runs/components/far-field-previews';
-import { MapPreviews } from '@/features/runs/components/map-previews';
 import { MappingReportCard, readMappingReport } from '@/features/runs/components/mapping-report-card';
 import { MetricsTable } from '@/features/runs/components/metrics-table';
-import { OtherPlots } from '@/features/runs/components/other-plots';
 import { RunDownloads } from '@/features/runs/components/run-downloads';
+import { RunFigures } from '@/features/runs/components/run-figures';
 import { RunEvents } from '@/features/runs/components/run-events';
 import { channelLayout, inputNames, usesApproximateLibrary } from '@/features/runs/components/run-facts';
 import { readDesignRules, readNotes, readRunPlots } from '@/features/runs/components/run-plots';
@@ -142,7 +140,8 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
   const designQuery = useRunDesign(projectId, run.id, hasDesign);
   const design: Design | null = designQuery.data ?? null;
 
-  const { channels, channelNames, beamChannels, profilesOf, linesOf, unplacedProfiles } = channelLayout(run, design, plots, groups.slices);
+  const layout = channelLayout(run, design, plots, groups.slices);
+  const { channelNames } = layout;
   const approximate = usesApproximateLibrary(run, design);
   const active = isRunActive(run.status);
 
@@ -217,38 +216,13 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
         ) : null}
       </div>
 
-      {beamChannels.map((c) => (
-        <BeamChannel
-          key={c}
-          projectId={projectId}
-          runId={run.id}
-          channel={channels[c]}
-          slice={groups.slices[c]}
-          profiles={profilesOf(c)}
-          lines={linesOf(c)}
-          annotate={review.annotate}
-        />
-      ))}
-
-      <MapPreviews
+      <RunFigures
         projectId={projectId}
         runId={run.id}
-        maps={groups.maps}
-        arrayMaps={groups.arrayMaps}
-        channelNames={channelNames}
+        groups={groups}
+        layout={layout}
+        plots={plots}
         mapping={sectionOf('Atom mapping')}
-        annotate={review.annotate}
-      />
-
-      <OtherPlots
-        projectId={projectId}
-        runId={run.id}
-        images={[
-          ...groups.otherImages,
-          ...(['a', 'b'] as const).flatMap((c) => (groups.slices[c] && !beamChannels.includes(c) ? [groups.slices[c]!] : [])),
-        ]}
-        histograms={plots.histograms}
-        profiles={unplacedProfiles}
         annotate={review.annotate}
       />
 
