@@ -6,7 +6,7 @@
 
 /**
  * Returns a generator of uniform numbers in [0, 1) from a 32-bit integer seed.
- * Example: the first value of mulberry32(1) is 0.6270739405881613 (from the reference C code, as run here).
+ * Example: the first value of mulberry32(1) is 0.6270739405881613 (tests/fixtures/mulberry32.py, the published C code rewritten in Python).
  */
 export function mulberry32(seed: number): () => number {
   let state = seed >>> 0;

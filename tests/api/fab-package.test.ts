@@ -17,6 +17,7 @@ import { decodeNpy } from '../../shared/optics/npy-decode';
 import type { LayoutRegion, RunDesignCheck } from '../../shared/schemas/fab';
 import { deflectorDesign, download, waitForRun } from '../support/designs';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
+import { PYTHON } from '../support/python';
 
 let t: TestApp;
 let owner: ApiClient;
@@ -86,7 +87,7 @@ async function unzip(zip: Buffer, tag: string) {
   const zipPath = join(work, `${tag}.zip`);
   const gdsPath = join(work, `${tag}.gds`);
   await writeFile(zipPath, zip);
-  const listing = JSON.parse(execFileSync('python3', ['-c', PY_LIST, zipPath, gdsPath], { encoding: 'utf8' })) as {
+  const listing = JSON.parse(execFileSync(PYTHON, ['-c', PY_LIST, zipPath, gdsPath], { encoding: 'utf8' })) as {
     files: Record<string, number>;
     npy: Record<string, { shape: number[]; dtype: string; sum: number }>;
   };
@@ -308,7 +309,7 @@ describe('a layout that breaks the project rules', () => {
     expect(res.status).toBe(200);
     const zip = await unzip(res.body as Buffer, 'override');
     expect(Object.keys(zip.files).some((f) => f.endsWith('/report.html'))).toBe(true);
-    const html = execFileSync('python3', ['-c', 'import sys, zipfile; z = zipfile.ZipFile(sys.argv[1]); print(z.read([n for n in z.namelist() if n.endswith("report.html")][0]).decode())', join(work, 'override.zip')], {
+    const html = execFileSync(PYTHON, ['-c', 'import sys, zipfile; z = zipfile.ZipFile(sys.argv[1]); print(z.read([n for n in z.namelist() if n.endswith("report.html")][0]).decode())', join(work, 'override.zip')], {
       encoding: 'utf8',
     });
     expect(html).toContain('Test structure only: gaps below 420 nm are fine for this dose test.');

@@ -13,6 +13,7 @@ import { atomLibraryToCsv } from '../../shared/optics/atoms';
 import { demoAtomLibrary } from '../../shared/optics/demo-library';
 import { screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
+import { PYTHON } from '../support/python';
 
 const demo = useDemoBrowser();
 const work = mkdtempSync(path.join(tmpdir(), 'pw-fab-e2e-'));
@@ -78,7 +79,7 @@ describe('atom library → run → layout → fab package', () => {
     await download.saveAs(zipPath);
     expect(statSync(zipPath).size).toBeGreaterThan(100_000);
     const listing = JSON.parse(
-      execFileSync(process.env.PW_PYTHON ?? 'python3', [
+      execFileSync(PYTHON, [
         '-c',
         'import json, sys, zipfile; z = zipfile.ZipFile(sys.argv[1]); print(json.dumps({i.filename: i.file_size for i in z.infolist()}))',
         zipPath,
@@ -94,14 +95,14 @@ describe('atom library → run → layout → fab package', () => {
     expect(names.some((n) => n.startsWith('previews/') && n.endsWith('.png'))).toBe(true);
     expect(listing[`${folder}/layout.gds`]).toBeGreaterThan(1000);
     // The package was made with the uploaded library.
-    const atomsCsv = execFileSync(process.env.PW_PYTHON ?? 'python3', [
+    const atomsCsv = execFileSync(PYTHON, [
       '-c',
       'import sys, zipfile; sys.stdout.write(zipfile.ZipFile(sys.argv[1]).read(sys.argv[2]).decode())',
       zipPath,
       `${folder}/atoms.csv`,
     ]).toString();
     expect(atomsCsv).toContain('Bench library 633');
-    const report = execFileSync(process.env.PW_PYTHON ?? 'python3', [
+    const report = execFileSync(PYTHON, [
       '-c',
       'import sys, zipfile; sys.stdout.write(zipfile.ZipFile(sys.argv[1]).read(sys.argv[2]).decode())',
       zipPath,

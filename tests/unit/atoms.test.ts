@@ -20,6 +20,7 @@ import { jonesAt, synthesizeDecomposition, synthesizeJones } from '../../shared/
 import type { JonesDecomposition } from '../../shared/optics/jones';
 import { polarizationPair } from '../../shared/optics/polarization';
 import { mulberry32 } from '../../shared/optics/random';
+import { PYTHON } from '../support/python';
 
 function atom(id: string, width: number, length: number, tx: number, alphaX: number, ty: number, alphaY: number): MetaAtom {
   return { id, shape: 'rect', width, length, height: 600e-9, period: 400e-9, tx, alphaX, ty, alphaY };
@@ -229,7 +230,7 @@ describe('library CSV', () => {
 import json, sys, numpy as np
 a = np.genfromtxt(sys.argv[1], delimiter=',', names=True, comments='#', dtype=None, encoding='utf-8')
 print(json.dumps({'names': list(a.dtype.names), 'n': int(a.shape[0]), 'w': a['width_nm'].tolist(), 'px': a['phase_x_rad'].tolist(), 'id': [str(s) for s in a['atom_id']]}))`;
-    const out = JSON.parse(execFileSync('python3', ['-c', script, path]).toString());
+    const out = JSON.parse(execFileSync(PYTHON, ['-c', script, path]).toString());
     expect(out.names).toEqual([...ATOM_CSV_COLUMNS]);
     expect(out.n).toBe(lib.atoms.length);
     out.w.forEach((w: number, i: number) => expect(w).toBeCloseTo(lib.atoms[i].width * 1e9, 6));

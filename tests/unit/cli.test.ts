@@ -6,6 +6,7 @@ import { parseGDS, RecordType } from 'gdsii';
 import { Jimp } from 'jimp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { sequentialColor } from '../../shared/optics/colormap';
+import { PYTHON } from '../support/python';
 
 const ROOT = join(import.meta.dirname, '..', '..');
 const BIN = join(ROOT, 'bin', 'phasewright.mjs');
@@ -30,7 +31,7 @@ for p in sys.argv[1:]:
     out[p.split('/')[-1]] = {'dtype': a.dtype.str, 'shape': list(a.shape), 'min': float(a.min()), 'max': float(a.max()),
                              'sum': float(a.astype(np.float64).sum()), 'argmax': [int(v) for v in np.unravel_index(np.argmax(a), a.shape)]}
 print(json.dumps(out))`;
-  return JSON.parse(execFileSync('python3', ['-c', script, ...paths], { maxBuffer: 16 << 20 }).toString()) as Record<
+  return JSON.parse(execFileSync(PYTHON, ['-c', script, ...paths], { maxBuffer: 16 << 20 }).toString()) as Record<
     string,
     { dtype: string; shape: number[]; min: number; max: number; sum: number; argmax: number[] }
   >;
@@ -80,7 +81,7 @@ let circularRun: ReturnType<typeof cli>;
 
 beforeAll(() => {
   // The custom map, written by numpy: a phase ramp of 5 periods across the device, float32 → +5 px in x.
-  execFileSync('python3', ['-c', `import numpy as np; x = np.arange(${N}); np.save('${join(dir, 'ramp.npy')}', np.tile(2*np.pi*5*x/${N}, (${N}, 1)).astype(np.float32))`]);
+  execFileSync(PYTHON, ['-c', `import numpy as np; x = np.arange(${N}); np.save('${join(dir, 'ramp.npy')}', np.tile(2*np.pi*5*x/${N}, (${N}, 1)).astype(np.float32))`]);
   writeFileSync(join(dir, 'design.json'), JSON.stringify(design));
   parallelOut = join(dir, 'out');
   sequentialOut = join(dir, 'out-sequential');

@@ -17,12 +17,11 @@ describe('preview colour maps', () => {
   });
 
   it('the sequential map rises in luminance from its first to its last stop', () => {
-    let previous = -1;
-    for (let k = 0; k <= 100; k++) {
-      const l = luma(sequentialColor(k / 100));
-      expect(l).toBeGreaterThanOrEqual(previous);
-      previous = l;
-    }
+    // A sequential map must read as "more is brighter" (common practice, no published source for the
+    // margins): every 5 % step of the value brightens the colour, and the whole map spans most of 0…255.
+    const steps = Array.from({ length: 21 }, (_, k) => luma(sequentialColor(k / 20)));
+    for (let k = 1; k < steps.length; k++) expect(steps[k] - steps[k - 1]).toBeGreaterThan(2);
+    expect(steps[20] - steps[0]).toBeGreaterThan(150);
   });
 
   it('paints phases mod 2π and intensities on a log scale to the peak', () => {

@@ -1,3 +1,5 @@
+import { execFileSync } from 'node:child_process';
+import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { initFft } from '../../shared/optics/fft';
 import { retrievePhase, windowSpectrumRows } from '../../shared/optics/gerchberg-saxton';
@@ -6,6 +8,7 @@ import { angularSpectrumPropagate, farField, intensityOf } from '../../shared/op
 import { mulberry32 } from '../../shared/optics/random';
 import { buildTargetPlane, placeWindow, type GrayImage } from '../../shared/optics/target';
 import type { CancelSignal, CellGrid, ComplexField } from '../../shared/optics/types';
+import { PYTHON } from '../support/python';
 
 beforeAll(async () => {
   await initFft();
@@ -216,11 +219,19 @@ describe('target placement', () => {
 });
 
 describe('mulberry32', () => {
-  it('matches the reference C implementation', () => {
-    const random = mulberry32(1);
-    // Reference: the public-domain mulberry32 C code compiled with gcc on this machine, seed 1 and 42.
-    expect(random()).toBe(0.6270739405881613);
-    expect(random()).toBe(0.002735721180215478);
-    expect(mulberry32(42)()).toBe(0.6011037519201636);
+  it('matches an independent implementation of the published algorithm', () => {
+    // Reference: tests/fixtures/mulberry32.py, the public-domain mulberry32 C code (Ettinger 2017) rewritten
+    // in Python with explicit 32-bit wrap-around; values divided by 2³² exactly, so equality is exact.
+    const seeds = [1, 42, 0x7fffffff, 0x80000007, 0xffffffff];
+    const count = 64;
+    const script = fileURLToPath(new URL('../fixtures/mulberry32.py', import.meta.url));
+    const expected = JSON.parse(execFileSync(PYTHON, [script, String(count), ...seeds.map(String)], { encoding: 'utf8' })) as Record<string, number[]>;
+    for (const seed of seeds) {
+      const random = mulberry32(seed);
+      expect(Array.from({ length: count }, () => random())).toEqual(expected[String(seed)]);
+    }
+    // The same script's first values, kept as literals so a change of the fixture itself shows up here.
+    expect(expected['1'].slice(0, 2)).toEqual([0.6270739405881613, 0.002735721180215478]);
+    expect(expected['42'][0]).toBe(0.6011037519201636);
   });
 });

@@ -12,6 +12,7 @@ import { mulberry32 } from '../../shared/optics/random';
 import { buildTargetPlane } from '../../shared/optics/target';
 import { assembleKernels } from '../../scripts/lib/kernels';
 import { initFftInNode } from '../../server/lib/fft-node';
+import { PYTHON } from '../support/python';
 
 beforeAll(async () => {
   await initFftInNode();
@@ -74,7 +75,7 @@ describe('SIMD kernels', () => {
     // Outside the window the target is zero, so `T > 0` marks the window's lit pixels; dark window pixels
     // get amplitude 0 either way.
     const input = JSON.stringify({ n, iterations, target: Array.from(target.amplitude), start: Array.from(start) });
-    const expected = JSON.parse(execFileSync('python3', ['-c', script], { input, encoding: 'utf8' })) as number[];
+    const expected = JSON.parse(execFileSync(PYTHON, ['-c', script], { input, encoding: 'utf8' })) as number[];
     let error = 0;
     for (let i = 0; i < n * n; i++) {
       const d = Math.abs(result.phase[i] - expected[i]) % (2 * Math.PI);

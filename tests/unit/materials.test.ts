@@ -1,6 +1,7 @@
 import { execFileSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
 import { FUSED_SILICA, SILICON_NITRIDE, fusedSilicaIndex, refractiveIndex, siliconNitrideIndex } from '../../shared/optics/materials';
+import { PYTHON } from '../support/python';
 
 describe('fused silica (Malitson, JOSA 55, 1205 (1965))', () => {
   it('n(632.8 nm) = 1.45702 — Malitson 1965 table value (from memory)', () => {
@@ -34,7 +35,7 @@ def n(l):
     l2 = l*l
     return math.sqrt(1 + 3.0249*l2/(l2 - 0.1353406**2) + 40314*l2/(l2 - 1239.842**2))
 print(json.dumps([n(l) for l in ${JSON.stringify(wavelengthsUm)}]))`;
-    const expected = JSON.parse(execFileSync('python3', ['-c', script]).toString()) as number[];
+    const expected = JSON.parse(execFileSync(PYTHON, ['-c', script]).toString()) as number[];
     wavelengthsUm.forEach((um, i) => {
       expect(siliconNitrideIndex(um * 1e-6)).toBeCloseTo(expected[i], 12);
     });

@@ -26,6 +26,7 @@ import { tiltPhase } from '../../shared/optics/phase-terms';
 import { farField, intensityOf } from '../../shared/optics/propagation';
 import { mulberry32 } from '../../shared/optics/random';
 import type { CellGrid } from '../../shared/optics/types';
+import { PYTHON } from '../support/python';
 
 beforeAll(async () => {
   await initFft();
@@ -122,7 +123,7 @@ describe('Bessel beam formulas', () => {
 
   it('first maxima of J_ℓ: table (A&S 9.5) and numerical search agree with scipy.special.jnp_zeros', () => {
     const scipy = JSON.parse(
-      execFileSync('python3', ['-c', 'import json; from scipy.special import jnp_zeros; print(json.dumps([float(jnp_zeros(l, 1)[0]) for l in range(1, 9)]))'], {
+      execFileSync(PYTHON, ['-c', 'import json; from scipy.special import jnp_zeros; print(json.dumps([float(jnp_zeros(l, 1)[0]) for l in range(1, 9)]))'], {
         encoding: 'utf8',
       }),
     ) as number[];

@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { encodeNpy } from '../../shared/optics/npy';
 import { decodeNpy } from '../../shared/optics/npy-decode';
+import { PYTHON } from '../support/python';
 
 const dir = mkdtempSync(join(tmpdir(), 'phasewright-npy-read-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -34,7 +35,7 @@ np.save(d + '/i2.npy', (a * 8).astype(np.int16))
 with open(d + '/v2.npy', 'wb') as f:
     np.lib.format.write_array(f, a, version=(2, 0))
 print(json.dumps(a.ravel(order='C').tolist()))`;
-    const expected = JSON.parse(execFileSync('python3', ['-c', script, dir]).toString()) as number[];
+    const expected = JSON.parse(execFileSync(PYTHON, ['-c', script, dir]).toString()) as number[];
     for (const [name, descr] of [
       ['c', '<f8'],
       ['f', '<f8'],

@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { encodeNpy, npyChunks, npyHeader } from '../../shared/optics/npy';
 import type { NpyArray } from '../../shared/optics/npy';
+import { PYTHON } from '../support/python';
 
 const dir = mkdtempSync(join(tmpdir(), 'phasewright-npy-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -18,7 +19,7 @@ for p in sys.argv[1:]:
     a = np.load(p, allow_pickle=False)
     out.append({'dtype': a.dtype.str, 'shape': list(a.shape), 'values': a.ravel(order='C').astype(float).tolist()})
 print(json.dumps(out))`;
-  return JSON.parse(execFileSync('python3', ['-c', script, ...paths], { maxBuffer: 64 << 20 }).toString());
+  return JSON.parse(execFileSync(PYTHON, ['-c', script, ...paths], { maxBuffer: 64 << 20 }).toString());
 }
 
 describe('.npy v1.0 encoder (NEP 1, numpy.lib.format)', () => {

@@ -201,11 +201,40 @@ describe('axicon → Bessel beam (Durnin, JOSA A 4, 651 (1987))', () => {
     });
   }
 
-  it('negative charge gives the same ring as positive charge', () => {
+  /**
+   * Winding number of the field's phase along a circle of radius r about the axis, counted with the angle
+   * measured from +x towards +y: Σ of wrapped phase steps / 2π over 720 points (nearest cell).
+   */
+  function windingAt(field: ComplexField, r: number): number {
+    const n = grid.n;
+    const coordinates = cellCoordinates(grid);
+    const cellOf = (c: number) => Math.round((c - coordinates[0]) / grid.period);
+    let total = 0;
+    let previous = NaN;
+    for (let k = 0; k <= 720; k++) {
+      const a = (2 * Math.PI * k) / 720;
+      const i = cellOf(r * Math.sin(a)) * n + cellOf(r * Math.cos(a));
+      const phase = Math.atan2(field.im[i], field.re[i]);
+      if (k > 0) total += Math.atan2(Math.sin(phase - previous), Math.cos(phase - previous));
+      previous = phase;
+    }
+    return total / (2 * Math.PI);
+  }
+
+  it('negative charge gives the same ring as positive charge, with the opposite winding of the phase', () => {
     const plus = measuredFirstMaximum(beamAtMidRange(2));
     const minus = measuredFirstMaximum(beamAtMidRange(-2));
     // Symmetry: J_{−ℓ}² = J_ℓ².
     expect(Math.abs(minus / plus - 1)).toBeLessThan(1e-3);
+    // A beam exp(iℓφ) keeps its azimuthal factor under free propagation (Allen et al., Phys. Rev. A 45,
+    // 8185 (1992)): the phase winds ℓ times around the axis, counter-clockwise (+x towards +y) for ℓ > 0.
+    for (const charge of [2, -2, 3]) {
+      const phase = sumPhaseMaps(grid.n, [axiconPhase(grid, { numericalAperture: sinBeta }), vortexPhase(grid, charge)]);
+      const field = new AngularSpectrumPropagator(phaseField(grid, phase, apertureRadius), grid).propagate(zMax / 2);
+      const ring = besselRingRadius(lambda, sinBeta, Math.abs(charge));
+      expect(Math.round(windingAt(field, ring))).toBe(charge);
+      expect(Math.abs(windingAt(field, ring) - charge)).toBeLessThan(0.05);
+    }
   });
 
   it('non-diffracting length: on-axis intensity falls below half its peak near z_max = R/tanβ (Durnin 1987)', () => {
