@@ -204,6 +204,8 @@ describe('mentions, replies and notifications', () => {
 
 describe('activity feed', () => {
   it('lists revisions, runs, comments, resolutions, membership changes and exports — who and when', async () => {
+    // Database times are kept to the second: allow one second either side.
+    const since = Date.now() - 1000;
     const extra = await makeUser({ name: 'Guest Reader' });
     await clients.owner.post(`/api/projects/${projectId}/members`, { email: extra.email, role: 'viewer' }).expect(201);
     await clients.owner.patch(`/api/projects/${projectId}/members/${extra.id}`, { role: 'reviewer' }).expect(200);
@@ -228,5 +230,31 @@ describe('activity feed', () => {
     expect(find('export', `downloaded the fab package of run #${runId}`)?.actor?.name).toBe(names.owner);
     const times = activity.map((a) => a.at);
     expect([...times].sort().reverse()).toEqual(times);
+
+    // Each entry's actor and time are those of the thing it reports.
+    const until = Date.now() + 1000;
+    const revision = (await clients.viewer.get(`/api/projects/${projectId}/revisions/1`).expect(200)).body.revision;
+    const run = (await RunModel.findByPk(runId))!;
+    expect(find('revision-saved', 'saved revision 1')!.at).toBe(revision.createdAt);
+    expect(find('run-started', `started run #${runId}`)!.at).toBe(run.queuedAt.toISOString());
+    expect(find('run-finished', `run #${runId} finished`)!.at).toBe(run.finishedAt!.toISOString());
+    expect(find('run-finished', `run #${runId} finished`)!.actor?.name).toBe(names.designer);
+    expect(find('member-role-changed', 'made Guest Reader reviewer')!.actor?.name).toBe(names.owner);
+    expect(find('member-removed', 'removed Guest Reader')!.actor?.name).toBe(names.owner);
+    for (const [kind, text] of [
+      ['member-added', 'added Guest Reader as viewer'],
+      ['member-role-changed', 'made Guest Reader reviewer'],
+      ['member-removed', 'removed Guest Reader'],
+      ['comment', `commented on run #${runId}`],
+      ['thread-resolved', `resolved a thread on run #${runId}`],
+      ['export', `downloaded the fab package of run #${runId}`],
+    ] as const) {
+      const at = Date.parse(find(kind, text)!.at);
+      expect(at, `${kind} at`).toBeGreaterThanOrEqual(since);
+      expect(at, `${kind} at`).toBeLessThanOrEqual(until);
+    }
+    const added = Date.parse(find('member-added', 'added Guest Reader as viewer')!.at);
+    const removed = Date.parse(find('member-removed', 'removed Guest Reader')!.at);
+    expect(added).toBeLessThanOrEqual(removed);
   });
 });

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { RunEventModel, RunModel } from '../../server/components/runs/run.model';
 import { deflectorDesign, download, twinImageDesign, waitForRun } from '../support/designs';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
 
@@ -95,16 +96,22 @@ describe('cancelling', () => {
     expect(again.status).toBe(409);
     expect(again.body.error).toMatch(/already finished \(cancelled\)/);
 
-    // The cancelled run stays cancelled (no late progress write) and has no files.
-    await new Promise((r) => setTimeout(r, 700));
-    const after = await waitForRun(designer, projectId, first.id);
-    expect(after.status).toBe('cancelled');
-    expect(after.artifacts).toEqual([]);
+    // The row as the cancel left it: a late progress or status write from the stopping worker would change it.
+    const rowAtCancel = (await RunModel.findByPk(first.id, { raw: true }))!;
+    const eventsAtCancel = await RunEventModel.count({ where: { runId: first.id } });
 
     const quick = await saveRevision(deflectorDesign());
     const next = (await designer.post(`/api/projects/${projectId}/revisions/${quick}/runs`)).body.run;
     const done = await waitForRun(designer, projectId, next.id);
     expect(done.status, done.error ?? '').toBe('succeeded');
+
+    // The next run had the only worker thread, so the cancelled run's task has ended by now: its row and
+    // events are exactly as the cancel left them, and it has no files.
+    expect((await RunModel.findByPk(first.id, { raw: true }))!).toEqual(rowAtCancel);
+    expect(await RunEventModel.count({ where: { runId: first.id } })).toBe(eventsAtCancel);
+    const after = await waitForRun(designer, projectId, first.id);
+    expect(after.status).toBe('cancelled');
+    expect(after.artifacts).toEqual([]);
     expect(done.convergence).toEqual({ a: [], b: [] });
     expect(done.headline.efficiencyA).toBeGreaterThan(0.3);
   });

@@ -18,11 +18,13 @@ let projectId: number;
 let sharedRunId: number;
 let otherRunId: number;
 
-async function finishedRun(revisionId: number, content: string) {
+/** A finished run whose files are design.json (`content`) and, optionally, files only it has. */
+async function finishedRun(revisionId: number, content: string, ownFiles: Record<string, string> = {}) {
   const run = await RunModel.create({ projectId, revisionId, startedById: null, queuedAt: new Date(), status: 'succeeded', progress: 1, stage: 'done', finishedAt: new Date() });
   const dir = await mkdtemp(join(tmpdir(), 'pw-share-'));
-  await writeFile(join(dir, 'design.json'), content);
-  await storeArtifacts(run.id, dir, [{ name: 'design.json', bytes: 0 }]);
+  const files = { 'design.json': content, ...ownFiles };
+  for (const [name, text] of Object.entries(files)) await writeFile(join(dir, name), text);
+  await storeArtifacts(run.id, dir, Object.keys(files).map((name) => ({ name, bytes: 0 })));
   await rm(dir, { recursive: true });
   return run.id;
 }
@@ -37,7 +39,7 @@ beforeAll(async () => {
   await owner.post(`/api/projects/${projectId}/members`, { email: designerUser.email, role: 'designer' });
   const revision = (await owner.post(`/api/projects/${projectId}/revisions`, { design: deflectorDesign() })).body.revision;
   sharedRunId = await finishedRun(revision.id, '{"shared":true}');
-  otherRunId = await finishedRun(revision.id, '{"shared":false}');
+  otherRunId = await finishedRun(revision.id, '{"shared":false}', { 'metrics.json': '{"other":true}' });
 });
 afterAll(async () => {
   await t?.close();
@@ -66,7 +68,14 @@ describe('share links', () => {
     expect(file.body).toEqual({ shared: true });
     expect((await anon.get(`/api/shared/${token}/artifacts/nothing.png`)).status).toBe(404);
 
-    // Nothing else of the project opens: other runs, members, revisions, writes.
+    // Nothing else of the project opens: the other run's files through the real file route (its own file
+    // name, which the shared run lacks, and the name both have, which must give the shared run's bytes),
+    // other runs, members, revisions, writes.
+    const othersFile = await anon.get(`/api/shared/${token}/artifacts/metrics.json`);
+    expect(othersFile.status).toBe(404);
+    expect(JSON.stringify(othersFile.body)).not.toContain('other');
+    expect((await request(t.app).get(`/api/shared/${token}/artifacts/design.json`).buffer(true)).body).toEqual({ shared: true });
+    expect((await owner.get(`/api/projects/${projectId}/runs/${otherRunId}/artifacts/metrics.json`)).status).toBe(200);
     expect((await anon.get(`/api/shared/${token}/runs/${otherRunId}`)).status).toBe(404);
     expect((await anon.get(`/api/shared/${token}/artifacts/..%2F${otherRunId}`)).status).toBe(404);
     expect((await anon.get(`/api/projects/${projectId}/runs/${otherRunId}`)).status).toBe(401);

@@ -55,6 +55,34 @@ describe('design → run → preview in the browser', () => {
       return ((await res.json()) as { revisions: unknown[] }).revisions[0];
     }, runUrl);
     expect(revision).toMatchObject({ number: 2, message: 'Charge 3 for the wider ring' });
+
+    // The revision stores ℓ = 3 in channel B, and the run's ring follows it: the first maximum of J_ℓ lies at
+    // j'_{ℓ,1}/(k sinβ), so going from ℓ = 2 to ℓ = 3 widens the ring by 4.201189/3.054237 = 1.3755
+    // (Abramowitz & Stegun, Table 9.5).
+    const facts = await page.evaluate(async (url) => {
+      const [, projectId, runId] = /projects\/(\d+)\/runs\/(\d+)/.exec(url)!;
+      const get = async (path: string) => (await (await fetch(`/api/projects/${projectId}${path}`)).json()) as Record<string, any>;
+      const saved = (await get('/revisions/2')).revision;
+      const runs = (await get('/runs?status=succeeded')).runs as { id: number; revisionNumber: number }[];
+      const before = runs.find((r) => r.revisionNumber === 1)!;
+      return { saved, now: (await get(`/runs/${runId}`)).run, before: (await get(`/runs/${before.id}`)).run };
+    }, runUrl);
+    const vortex = (facts.saved.design.channels.b.terms as { kind: string; charge?: number }[]).find((t) => t.kind === 'vortex');
+    expect(vortex?.charge).toBe(3);
+    const ring = (run: { metrics: Record<string, Record<string, { value: number | null }>> }) =>
+      Object.values(run.metrics).find((section) => section.ringRadiusMeasured)!;
+    const ratioFormula = ring(facts.now).ringRadiusFormula.value! / ring(facts.before).ringRadiusFormula.value!;
+    const ratioMeasured = ring(facts.now).ringRadiusMeasured.value! / ring(facts.before).ringRadiusMeasured.value!;
+    expect(ratioFormula).toBeCloseTo(4.201189 / 3.054237, 5);
+    // Measured on P/2 bins of the simulated profile: 5 % (as the engine's own Bessel tests allow).
+    expect(Math.abs(ratioMeasured / (4.201189 / 3.054237) - 1)).toBeLessThan(0.05);
+
+    // Every preview on the run page has really loaded and decoded to a picture.
+    const pictures = page.locator('main img');
+    await expect.poll(async () => pictures.count()).toBeGreaterThan(3);
+    await expect
+      .poll(async () => pictures.evaluateAll((imgs) => (imgs as { complete: boolean; naturalWidth: number }[]).filter((img) => !(img.complete && img.naturalWidth > 0)).length), { timeout: 30_000 })
+      .toBe(0);
     await page.close();
   });
 

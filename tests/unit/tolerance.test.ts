@@ -234,9 +234,26 @@ describe('mapping report', () => {
     expect(report.topAtoms.length).toBeLessThanOrEqual(20);
     for (let i = 1; i < report.topAtoms.length; i++) expect(report.topAtoms[i].cells).toBeLessThanOrEqual(report.topAtoms[i - 1].cells);
     expect(report.retardanceThreshold).toBe(Math.PI / 4);
-    // The same numbers from the stored arrays (what a reader of atom_index.npy would count).
-    const again = mappingReport(run.mapping.atomIndex, run.mapping.cost, library, { top: 5 });
-    expect(again.topAtoms).toEqual(report.topAtoms.slice(0, 5));
+    // Counted here from the stored arrays, as a reader of atom_index.npy would: every atom's cells, the
+    // number of distinct atoms, and which atoms are the most used.
+    const uses = new Map<number, number>();
+    for (const atom of run.mapping.atomIndex) uses.set(atom, (uses.get(atom) ?? 0) + 1);
+    expect(report.distinctAtoms).toBe(uses.size);
+    for (const top of report.topAtoms) {
+      expect(top.cells).toBe(uses.get(top.index));
+      expect(top.id).toBe(library.atoms[top.index].id);
+    }
+    const ranked = [...uses.values()].sort((x, y) => y - x);
+    expect(report.topAtoms.map((u) => u.cells)).toEqual(ranked.slice(0, report.topAtoms.length));
+    expect(report.otherCells).toBe(ranked.slice(report.topAtoms.length).reduce((s, v) => s + v, 0));
+    // Histogram of the per-cell mapping error: equal-width bins from 0 to the largest error, the largest in
+    // the last bin, counted here from the cost array.
+    const largest = run.mapping.cost.reduce((m, v) => Math.max(m, v), 0);
+    const bins = report.errorHistogram.counts.length;
+    expect(report.errorHistogram.edges[bins]).toBeCloseTo(largest, 6);
+    const counted = new Array<number>(bins).fill(0);
+    for (const cost of run.mapping.cost) counted[Math.min(bins - 1, Math.floor((cost / largest) * bins))]++;
+    expect(report.errorHistogram.counts).toEqual(counted);
   });
 
   it('histogram edges and counts of a small example', () => {
