@@ -110,6 +110,12 @@ async function withClientOptions<T>(config: BackupConfig, use: (optionFile: stri
   }
 }
 
+/** The tool's own `ERROR …` line when there is one (the mariadb client also echoes the failed statement). */
+function toolMessage(stderr: string): string {
+  const lines = stderr.split('\n').map((line) => line.trim()).filter((line) => line && !/^-+$/.test(line));
+  return lines.filter((line) => line.startsWith('ERROR')).pop() ?? (lines.slice(-3).join(' ') || 'no message');
+}
+
 /**
  * Runs a MariaDB tool, `feed` writing its stdin and `drain` reading its stdout; rejects with the tool's own
  * error output when it fails.
@@ -132,7 +138,7 @@ async function runTool(
     (err: Error) => err,
   );
   const [code, streamError] = await Promise.all([exited, piped]);
-  if (code !== 0) throw new BackupError(`${tool} stopped (exit code ${code}): ${stderr.trim() || 'no message'}`);
+  if (code !== 0) throw new BackupError(`${tool} stopped (exit code ${code}): ${toolMessage(stderr)}`);
   if (streamError) throw streamError;
 }
 

@@ -5,8 +5,8 @@
  * and change nothing.
  */
 import { spawn } from 'node:child_process';
-import { createHash } from 'node:crypto';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { createHash, randomBytes } from 'node:crypto';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { gunzipSync, gzipSync } from 'node:zlib';
@@ -16,7 +16,9 @@ import type { RunDetail } from '../../shared/schemas/runs';
 import { freePort } from '../../scripts/lib/free-port';
 import { startMariaDb, type RunningMariaDb } from '../../scripts/lib/mariadb';
 import { createApp } from '../../server/app';
+import { ARTIFACT_CHUNK_BYTES, storeArtifacts } from '../../server/components/runs/run-artifacts';
 import { createEmbeddedRunQueue } from '../../server/components/runs/run-queue';
+import { RunModel } from '../../server/components/runs/run.model';
 import type { AppConfig } from '../../server/config';
 import { createSequelize, migrateUp } from '../../server/db/database';
 import { download, twinImageDesign, waitForRun } from '../support/designs';
@@ -95,6 +97,13 @@ describe('npm run backup / npm run restore', () => {
     expect(run.status).toBe('succeeded');
     const before = await runFileHashes(t.app, designer, project.id, run.id);
     expect(Object.keys(before)).toEqual(expect.arrayContaining(['phase_a.npy', 'layout.gds', 'metrics.json']));
+    // A second run with a large file: three chunks, two of the full 8 MiB (16 MiB statements as hex).
+    const large = await RunModel.create({ projectId: project.id, revisionId: (await RunModel.findByPk(run.id))!.revisionId, startedById: designer.id, queuedAt: new Date(), status: 'succeeded', progress: 1, stage: 'done', finishedAt: new Date() });
+    const largeDir = path.join(work, 'large-run');
+    mkdirSync(largeDir);
+    writeFileSync(path.join(largeDir, 'layout.gds'), randomBytes(2 * ARTIFACT_CHUNK_BYTES + 12_345));
+    await storeArtifacts(large.id, largeDir, [{ name: 'layout.gds', bytes: 0 }]);
+    const largeBefore = await runFileHashes(t.app, designer, project.id, large.id);
 
     // Back up the live database (the app is still connected to it).
     const file = path.join(work, 'phasewright.sql.gz');
@@ -102,7 +111,7 @@ describe('npm run backup / npm run restore', () => {
     const backup = await npmRun('backup', [file], sourceEnv);
     expect(backup.stderr).toBe('');
     expect(backup.code).toBe(0);
-    expect(backup.stdout).toMatch(/1 runs with \d+ run files/);
+    expect(backup.stdout).toMatch(/2 runs with \d+ run files/);
     expect(readFileSync(file).subarray(0, 2)).toEqual(Buffer.from([0x1f, 0x8b]));
     const dump = gunzipSync(readFileSync(file)).toString('latin1');
     expect(dump.slice(0, 512)).toMatch(/^-- MariaDB dump/m);
@@ -119,7 +128,7 @@ describe('npm run backup / npm run restore', () => {
     const restore = await npmRun('restore', [file], targetEnv);
     expect(restore.stderr).toBe('');
     expect(restore.code).toBe(0);
-    expect(restore.stdout).toMatch(/Restored .* \d+ tables, 1 runs with \d+ run files/);
+    expect(restore.stdout).toMatch(/Restored .* \d+ tables, 2 runs with \d+ run files/);
 
     // Bad files are refused before anything is touched.
     const bad = async (name: string, bytes: Buffer, message: RegExp) => {
@@ -147,12 +156,22 @@ describe('npm run backup / npm run restore', () => {
     expect(refused.code).toBe(1);
     expect(refused.stderr).toMatch(/^Restore refused: the database "phasewright_restored" on 127\.0\.0\.1:\d+ already holds \d+ tables/);
 
+    // A load that fails half-way (here: a bad row after every table exists) is undone, leaving the database empty.
+    const end = dump.lastIndexOf('-- Dump completed');
+    const broken = `${dump.slice(0, end)}INSERT INTO \`users\` VALUES (1,'not a whole row');\n${dump.slice(end)}`;
+    writeFileSync(path.join(work, 'broken.sql.gz'), gzipSync(Buffer.from(broken, 'latin1')));
+    const failed = await npmRun('restore', [path.join(work, 'broken.sql.gz')], { ...targetEnv, DB_NAME: 'phasewright_broken' });
+    expect(failed.code).toBe(1);
+    expect(failed.stderr).toMatch(/^The restore failed and was undone \(the database is empty again\): mariadb stopped \(exit code 1\): ERROR 1136 .*Column count doesn't match value count at row 1\n$/);
+
     const config: AppConfig = { ...t.ctx.config, ...target };
     restoredSequelize = createSequelize(config);
     expect(await migrateUp(restoredSequelize)).toEqual([]);
+    const [leftOver] = await restoredSequelize.query("SELECT COUNT(*) AS n FROM information_schema.tables WHERE table_schema = 'phasewright_broken'");
+    expect(Number((leftOver as { n: number }[])[0].n)).toBe(0);
     const runQueue = createEmbeddedRunQueue({ logger: t.ctx.logger, threads: 1 });
     const { app } = createApp({ ...t.ctx, config, sequelize: restoredSequelize, runQueue });
-    const after = await runFileHashes(app, designer, project.id, run.id);
-    expect(after).toEqual(before);
+    expect(await runFileHashes(app, designer, project.id, run.id)).toEqual(before);
+    expect(await runFileHashes(app, designer, project.id, large.id)).toEqual(largeBefore);
   });
 });

@@ -100,7 +100,7 @@ export function AuditPager({ page, pageSize, total, onPage }: AuditPagerProps) {
       <p className="text-ink-soft" role="status">
         {total === 0 ? 'No events' : `Events ${first}–${last} of ${total} · page ${page} of ${pages}`}
       </p>
-      <div className="flex gap-2">
+      <div className={`flex gap-2 ${pages === 1 ? 'hidden' : ''}`}>
         <Button variant="secondary" size="sm" disabled={page <= 1} onClick={() => onPage(page - 1)}>
           Newer
         </Button>
