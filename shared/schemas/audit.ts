@@ -22,8 +22,6 @@ export const AUDIT_KINDS = [
 ] as const;
 export type AuditKind = (typeof AUDIT_KINDS)[number];
 
-export const AUDIT_PAGE_SIZES = [25, 50, 100] as const;
-
 export const listAuditQuerySchema = z.object({
   /** Events where this account acted or was acted on. */
   userId: z.coerce.number().int().positive().optional(),
