@@ -35,9 +35,9 @@ async function main() {
   const config = loadConfig();
   const mailWebPort = Number(process.env.MAIL_WEB_PORT ?? 1080);
 
-  say(`Starting MariaDB on 127.0.0.1:${config.DB_PORT} (data in .data/mariadb)`);
+  say(`Starting MariaDB on 127.0.0.1:${config.DB_PORT} (data in ${config.DB_DATA_DIR})`);
   const db = await startMariaDb({
-    dataDir: '.data/mariadb',
+    dataDir: config.DB_DATA_DIR,
     port: config.DB_PORT,
     user: config.DB_USER,
     password: config.DB_PASSWORD,

@@ -8,6 +8,7 @@ import helmet from 'helmet';
 import { accessTokenRoutes } from './components/access-tokens/access-token.routes';
 import { bearerAuth, unlessBearer } from './components/access-tokens/bearer-auth';
 import { adminRoutes } from './components/admin/admin.routes';
+import { withAuditScope } from './components/audit/audit-scope';
 import { atomLibraryRoutes } from './components/atom-libraries/atom-library.routes';
 import { authRoutes } from './components/auth/auth.routes';
 import { createPassport } from './components/auth/passport';
@@ -86,6 +87,7 @@ export function createApp(ctx: AppContext) {
   const api = express.Router();
   api.use(express.json({ limit: '256kb' }));
   api.use(bearerAuth);
+  api.use(withAuditScope(() => ctx.logger));
   api.use(unlessBearer(csrfSynchronisedProtection));
   api.get('/openapi.json', (_req, res) => {
     res.json(openApiDocument(config.publicUrl));

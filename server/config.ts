@@ -14,6 +14,8 @@ const envSchema = z.object({
   DB_NAME: z.string().regex(/^[A-Za-z0-9_]+$/, 'letters, digits and _ only').default('phasewright'),
   DB_USER: z.string().default('phasewright'),
   DB_PASSWORD: z.string().default('phasewright-local'),
+  /** Data folder of the private MariaDB that `npm start`, `npm run backup` and `npm run restore` run on loopback. */
+  DB_DATA_DIR: z.string().min(1).default('.data/mariadb'),
   SESSION_SECRET: z.string().min(16, 'use at least 16 characters').default('phasewright-local-session-secret'),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(1025),

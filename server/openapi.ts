@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { createAccessTokenSchema, createShareLinkSchema } from '../shared/schemas/access';
 import { createUserSchema, updateUserSchema } from '../shared/schemas/admin';
+import { listAuditQuerySchema } from '../shared/schemas/audit';
 import { createAtomLibrarySchema } from '../shared/schemas/atom-libraries';
 import {
   acceptInvitationSchema,
@@ -141,6 +142,7 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'get', path: '/admin/users', summary: 'All accounts', role: 'admin', ok: [200, '`{ users }`'] },
   { method: 'post', path: '/admin/users', summary: 'Invite a new account by e-mail', role: 'admin', body: createUserSchema, ok: [201, '`{ user }`'] },
   { method: 'patch', path: '/admin/users/:userId', summary: 'Change role or disable an account', role: 'admin', body: updateUserSchema, ok: [200, '`{ user }`'] },
+  { method: 'get', path: '/admin/audit', summary: 'Security events, newest first (filter by account and kind)', role: 'admin', query: listAuditQuerySchema, ok: [200, '`{ events, total, page, pageSize }`'] },
 ];
 
 const ROLE_TEXT: Record<RouteRole, string> = {

@@ -19,13 +19,15 @@ export interface MariaDbOptions {
 
 export interface RunningMariaDb {
   port: number;
+  /** True when this call started the server; false when one was already running on this data dir. */
+  started: boolean;
   socket: string;
   stop(): Promise<void>;
   /** Runs SQL as root over the socket. */
   sql(statement: string): string;
 }
 
-function binary(name: string): string {
+export function binary(name: string): string {
   for (const dir of ['/usr/sbin', '/usr/bin', '/usr/local/sbin', '/usr/local/bin']) {
     const candidate = path.join(dir, name);
     if (existsSync(candidate)) return candidate;
@@ -127,6 +129,7 @@ export async function startMariaDb(options: MariaDbOptions): Promise<RunningMari
 
   return {
     port: options.port,
+    started: child !== null,
     socket,
     sql,
     /** Shuts the server down — also one found running from an earlier start that ended abruptly (same data dir). */

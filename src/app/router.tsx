@@ -46,6 +46,7 @@ export function createAppRouter(queryClient: QueryClient) {
             },
             { path: paths.settings.path, lazy: () => import('@/app/routes/app/settings').then(convert) },
             { path: paths.admin.path, lazy: () => import('@/app/routes/app/admin').then(convert) },
+            { path: paths.audit.path, lazy: () => import('@/app/routes/app/audit').then(convert) },
           ],
         },
         { path: '*', lazy: () => import('@/app/routes/not-found').then(convert) },

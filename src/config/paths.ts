@@ -88,6 +88,10 @@ export const paths = {
     path: '/admin',
     getHref: () => '/admin',
   },
+  audit: {
+    path: '/admin/audit',
+    getHref: () => '/admin/audit',
+  },
 } as const;
 
 /** Accepts only in-app paths so a crafted `redirectTo` cannot send the user to another site. */

@@ -49,8 +49,10 @@ describe('admin', () => {
     const client = await signedInClient(t.app, member);
     expect((await client.get('/api/admin/users')).status).toBe(403);
     expect((await client.patch(`/api/admin/users/${member.id}`, { siteRole: 'admin' })).status).toBe(403);
+    expect((await client.get('/api/admin/audit')).status).toBe(403);
     const anon = await new ApiClient(t.app).start();
     expect((await anon.get('/api/admin/users')).status).toBe(401);
+    expect((await anon.get('/api/admin/audit')).status).toBe(401);
   });
 
   it('rejects a bad role or an empty change', async () => {

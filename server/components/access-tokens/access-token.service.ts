@@ -1,6 +1,7 @@
 import type { AccessToken, TokenScope } from '../../../shared/schemas/access';
 import { AppError } from '../../lib/app-error';
 import { hashToken, newToken } from '../../lib/tokens';
+import { recordAudit } from '../audit/audit.service';
 import type { UserModel } from '../users/user.model';
 import { findActiveUser } from '../users/user.service';
 import { AccessTokenModel } from './access-token.model';
@@ -42,6 +43,7 @@ export async function createAccessToken(user: UserModel, input: { name: string; 
     prefix: token.slice(0, 10),
     expiresAt: input.expiresAt ? new Date(input.expiresAt) : null,
   });
+  await recordAudit('token-created', { subjectUserId: user.id, detail: { tokenId: row.id, name: row.name, scope: row.scope, expiresAt: iso(row.expiresAt) } });
   return { accessToken: toDto(row), token };
 }
 
@@ -51,6 +53,7 @@ export async function revokeAccessToken(userId: number, tokenId: number): Promis
   if (!row.revokedAt) {
     row.revokedAt = new Date();
     await row.save();
+    await recordAudit('token-revoked', { subjectUserId: userId, detail: { tokenId: row.id, name: row.name, scope: row.scope } });
   }
   return toDto(row);
 }

@@ -1,8 +1,10 @@
 import { Router } from 'express';
 import { createUserSchema, updateUserSchema } from '../../../shared/schemas/admin';
+import { listAuditQuerySchema } from '../../../shared/schemas/audit';
 import type { AppContext } from '../../context';
 import { parseId, parseInput } from '../../lib/validate';
 import { currentUser, requireAdmin } from '../auth/auth.middleware';
+import { listAuditEvents } from '../audit/audit.service';
 import { inviteUser } from '../auth/auth.service';
 import { toUserDto } from '../users/user.service';
 import { listUsers, updateUser } from './admin.service';
@@ -24,6 +26,10 @@ export function adminRoutes(ctx: AppContext) {
   router.patch('/users/:userId', async (req, res) => {
     const input = parseInput(updateUserSchema, req.body);
     res.json({ user: await updateUser(currentUser(req), parseId(req.params.userId, 'userId'), input) });
+  });
+
+  router.get('/audit', async (req, res) => {
+    res.json(await listAuditEvents(parseInput(listAuditQuerySchema, req.query, 'query')));
   });
 
   return router;

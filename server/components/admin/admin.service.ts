@@ -1,5 +1,6 @@
 import type { UpdateUserInput } from '../../../shared/schemas/admin';
 import { AppError } from '../../lib/app-error';
+import { recordAccountChange } from '../audit/audit.service';
 import { UserModel } from '../users/user.model';
 import { toUserDto } from '../users/user.service';
 
@@ -15,8 +16,10 @@ export async function updateUser(actor: UserModel, userId: number, input: Update
   if (user.id === actor.id) {
     throw new AppError(409, 'You cannot change your own role or disable your own account — ask another admin');
   }
+  const before = { siteRole: user.siteRole, disabled: user.disabledAt != null };
   if (input.siteRole !== undefined) user.siteRole = input.siteRole;
   if (input.disabled !== undefined) user.disabledAt = input.disabled ? (user.disabledAt ?? new Date()) : null;
   await user.save();
+  await recordAccountChange(actor.id, user, before);
   return toUserDto(user);
 }

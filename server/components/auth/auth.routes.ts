@@ -13,6 +13,7 @@ import {
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
 import { parseInput } from '../../lib/validate';
+import { recordAudit, recordLockout, recordSignInFailure } from '../audit/audit.service';
 import { changePassword, toUserDto, updateProfile } from '../users/user.service';
 import type { UserModel } from '../users/user.model';
 import { currentUser, requireUser } from './auth.middleware';
@@ -26,7 +27,11 @@ function perAccount(req: Request): string {
 }
 
 function tooMany(message: string) {
-  return (_req: unknown, _res: unknown, next: (err: AppError) => void) => next(new AppError(429, message));
+  return async (req: Request, _res: unknown, next: (err: AppError) => void) => {
+    const usage = (req as Request & { rateLimit?: { used: number; limit: number } }).rateLimit;
+    await recordLockout(req.path, String(req.body?.email ?? '').trim().toLowerCase(), usage);
+    next(new AppError(429, message));
+  };
 }
 
 export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken: CsrfTokenFn) {
@@ -68,13 +73,15 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken:
   });
 
   router.post('/sign-in', signInLimiter, async (req, res) => {
-    parseInput(signInSchema, req.body);
+    const { email } = parseInput(signInSchema, req.body);
     const user = await new Promise<UserModel | false>((resolve, reject) =>
       passport.authenticate('local', { session: false }, (err: Error | null, found: UserModel | false) =>
         err ? reject(err) : resolve(found),
       )(req, res, () => undefined),
     );
+    if (!user) await recordSignInFailure(email);
     if (!user) throw new AppError(401, 'E-mail or password is not correct, or the account is disabled');
+    await recordAudit('sign-in', { actorId: user.id, subjectUserId: user.id });
     res.json(await signedIn(req, user));
   });
 

@@ -2,6 +2,7 @@ import { Op, type Transaction } from 'sequelize';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
 import { hashToken, newToken } from '../../lib/tokens';
+import { recordAudit } from '../audit/audit.service';
 import { UserModel } from '../users/user.model';
 import { hashPassword } from '../users/user.service';
 import { AuthTokenModel, type AuthTokenPurpose } from './auth-token.model';
@@ -44,6 +45,7 @@ export async function requestPasswordReset(ctx: AppContext, email: string) {
   const user = await UserModel.findOne({ where: { email } });
   if (!user || user.disabledAt) return;
   const token = await issueToken(user.id, 'reset', RESET_LIFETIME_MS);
+  await recordAudit('password-reset-requested', { subjectUserId: user.id });
   const link = `${ctx.config.publicUrl}/reset-password?token=${token}`;
   ctx.mailer.enqueue({
     to: user.email,
@@ -64,6 +66,7 @@ export async function resetPassword(ctx: AppContext, token: string, password: st
   const user = await consumeToken(ctx, token, 'reset');
   user.passwordHash = await hashPassword(password, ctx.config.BCRYPT_COST);
   await user.save();
+  await recordAudit('password-reset', { actorId: user.id, subjectUserId: user.id });
   return user;
 }
 
@@ -101,6 +104,7 @@ export async function inviteUser(
   const user = await UserModel.create({ ...input, passwordHash: null });
   const token = await issueToken(user.id, 'invite', INVITE_LIFETIME_MS);
   mailInvitation(ctx, user, invitedBy, token, project);
+  await recordAudit('invitation-sent', { actorId: invitedBy.id, subjectUserId: user.id, detail: { email: user.email, siteRole: user.siteRole, project: project?.name ?? null } });
   return user;
 }
 
@@ -134,6 +138,7 @@ export async function acceptInvitation(ctx: AppContext, token: string, name: str
   user.name = name;
   user.passwordHash = await hashPassword(password, ctx.config.BCRYPT_COST);
   await user.save();
+  await recordAudit('invitation-accepted', { actorId: user.id, subjectUserId: user.id });
   return user;
 }
 

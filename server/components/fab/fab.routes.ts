@@ -4,6 +4,7 @@ import { exportOverrideSchema, fabPackageQuerySchema, layoutRegionQuerySchema, p
 import { AppError } from '../../lib/app-error';
 import { contentDisposition } from '../../lib/content-disposition';
 import { parseId, parseInput } from '../../lib/validate';
+import { recordAudit } from '../audit/audit.service';
 import { currentUser } from '../auth/auth.middleware';
 import { projectAccess, requireProject } from '../projects/project-access';
 import { findRun } from '../runs/run.service';
@@ -94,6 +95,7 @@ export function fabRoutes() {
     const check = await designCheckOf(run);
     if (check.total === 0) throw new AppError(409, `Run ${run.id} has no design-rule violations; it can be exported without an override`);
     const row = await ExportOverrideModel.create({ runId: run.id, userId: currentUser(req).id, reason, counts: check.counts, at: new Date() });
+    await recordAudit('export-override', { projectId: run.projectId, detail: { runId: run.id, overrideId: row.id, violations: check.total, reason } });
     const { latestOverrideId: _latest, ...after } = await designCheckOf(run);
     res.status(201).json({ override: { id: row.id, reason: row.reason, at: row.at.toISOString() }, check: after });
   });

@@ -2,6 +2,7 @@ import { Op } from 'sequelize';
 import type { PendingInvitation } from '../../../shared/schemas/projects';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
+import { recordAudit } from '../audit/audit.service';
 import { invalidateInvitations, latestInvitations, reissueInvitation } from '../auth/auth.service';
 import { UserModel } from '../users/user.model';
 import { MembershipModel } from './membership.model';
@@ -41,6 +42,7 @@ export async function resendInvitation(ctx: AppContext, projectId: number, userI
   const membership = await findPendingMembership(projectId, userId);
   const project = await ProjectModel.findByPk(projectId, { attributes: ['name'] });
   await reissueInvitation(ctx, membership.user!, invitedBy, { name: project?.name ?? 'a project', role: membership.role });
+  await recordAudit('invitation-resent', { subjectUserId: userId, projectId, detail: { email: membership.user!.email, role: membership.role } });
   const [pending] = (await listPendingInvitations(projectId)).filter((p) => p.userId === userId);
   return pending;
 }
@@ -60,5 +62,6 @@ export async function revokeInvitation(ctx: AppContext, projectId: number, userI
     await invalidateInvitations(userId, transaction);
     await user.destroy({ transaction });
   });
+  await recordAudit('invitation-revoked', { subjectUserId: userId, projectId, detail: { email: user.email, role: membership.role } });
   return { email: user.email };
 }

@@ -3,6 +3,7 @@ import type { ProjectRole } from '../../../shared/roles';
 import type { ListProjectsQuery, Member, Project } from '../../../shared/schemas/projects';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
+import { recordAudit } from '../audit/audit.service';
 import { inviteUser } from '../auth/auth.service';
 import { UserModel } from '../users/user.model';
 import { MembershipModel } from './membership.model';
@@ -129,14 +130,17 @@ export async function addMember(ctx: AppContext, projectId: number, input: { ema
     throw new AppError(409, 'This person is already a member', { email: 'Already a member' });
   }
   await MembershipModel.create({ projectId, userId: user.id, role: input.role });
+  await recordAudit('project-role-changed', { subjectUserId: user.id, projectId, detail: { from: null, to: input.role } });
   return { member: toMemberDto(await findMembership(projectId, user.id)), invited };
 }
 
 export async function changeMemberRole(projectId: number, userId: number, role: ProjectRole) {
   const membership = await findMembership(projectId, userId);
   if (membership.role === 'owner' && role !== 'owner') await assertOwnerRemains(projectId, userId);
+  const from = membership.role;
   membership.role = role;
   await membership.save();
+  await recordAudit('project-role-changed', { subjectUserId: userId, projectId, detail: { from, to: role } });
   return toMemberDto(membership);
 }
 
@@ -144,4 +148,5 @@ export async function removeMember(projectId: number, userId: number) {
   const membership = await findMembership(projectId, userId);
   if (membership.role === 'owner') await assertOwnerRemains(projectId, userId);
   await membership.destroy();
+  await recordAudit('project-role-changed', { subjectUserId: userId, projectId, detail: { from: membership.role, to: null } });
 }

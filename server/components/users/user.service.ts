@@ -1,6 +1,7 @@
 import bcrypt from 'bcryptjs';
 import type { User } from '../../../shared/schemas/auth';
 import { AppError } from '../../lib/app-error';
+import { recordAudit } from '../audit/audit.service';
 import { UserModel } from './user.model';
 
 export function toUserDto(user: UserModel): User {
@@ -41,6 +42,7 @@ export async function changePassword(user: UserModel, currentPassword: string, n
   }
   user.passwordHash = await hashPassword(newPassword, cost);
   await user.save();
+  await recordAudit('password-changed', { actorId: user.id, subjectUserId: user.id });
 }
 
 export async function updateProfile(user: UserModel, name: string) {

@@ -2,7 +2,7 @@ import type { ReactNode } from 'react';
 import { Link, useLocation, useNavigation } from 'react-router-dom';
 import { Logo } from '@/components/ui/logo';
 import { Spinner } from '@/components/ui/spinner';
-import { AdminIcon, ProjectsIcon, SettingsIcon, SignOutIcon } from '@/components/ui/icons';
+import { AdminIcon, AuditIcon, ProjectsIcon, SettingsIcon, SignOutIcon } from '@/components/ui/icons';
 import { paths } from '@/config/paths';
 
 interface AppShellProps {
@@ -36,7 +36,14 @@ const navItems = [
     label: 'Admin',
     icon: AdminIcon,
     adminOnly: true,
-    match: (pathname: string) => pathname.startsWith(paths.admin.path),
+    match: (pathname: string) => pathname === paths.admin.path,
+  },
+  {
+    to: paths.audit.getHref(),
+    label: 'Audit',
+    icon: AuditIcon,
+    adminOnly: true,
+    match: (pathname: string) => pathname.startsWith(paths.audit.path),
   },
 ];
 

@@ -46,6 +46,18 @@ export function AdminIcon(props: SVGProps<SVGSVGElement>) {
   );
 }
 
+export function AuditIcon(props: SVGProps<SVGSVGElement>) {
+  return (
+    <Icon {...props}>
+      <path d="M7 3.5h7l4 4v13H7a2 2 0 0 1-2-2v-13a2 2 0 0 1 2-2Z" />
+      <path d="M14 3.5v4h4" />
+      <path d="M8.5 12h6M8.5 15.5h4" />
+      <circle cx="16.5" cy="17.5" r="2.5" />
+      <path d="m18.3 19.3 2.2 2.2" />
+    </Icon>
+  );
+}
+
 export function SignOutIcon(props: SVGProps<SVGSVGElement>) {
   return (
     <Icon {...props}>

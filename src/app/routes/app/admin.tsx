@@ -1,14 +1,12 @@
 import type { QueryClient } from '@tanstack/react-query';
-import { Link } from 'react-router-dom';
 import { PageHeader } from '@/components/layouts/page-header';
-import { StatusPage } from '@/components/layouts/status-page';
 import { Banner } from '@/components/ui/banner';
-import { Button, buttonClasses } from '@/components/ui/button';
+import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { PageLoader } from '@/components/ui/spinner';
-import { paths } from '@/config/paths';
 import { meQueryOptions, useCurrentUser } from '@/features/auth/api/get-me';
 import { usersQueryOptions, useUsers } from '@/features/admin/api/get-users';
+import { AdminOnly } from '@/features/admin/components/admin-only';
 import { InviteUserForm } from '@/features/admin/components/invite-user-form';
 import { UsersTable } from '@/features/admin/components/users-table';
 
@@ -17,23 +15,6 @@ export const clientLoader = (queryClient: QueryClient) => async () => {
   if (me.user?.siteRole === 'admin') await queryClient.prefetchQuery(usersQueryOptions());
   return null;
 };
-
-function AdminOnly() {
-  return (
-    <StatusPage
-      code="403"
-      title="This page is for site admins"
-      actions={
-        <Link to={paths.home.getHref()} className={buttonClasses('primary')}>
-          Back to projects
-        </Link>
-      }
-    >
-      <title>Admins only · Phasewright</title>
-      Accounts and invitations are managed by the people who run this Phasewright site.
-    </StatusPage>
-  );
-}
 
 function AdminPage({ currentUserId }: { currentUserId: number }) {
   const users = useUsers();
