@@ -1,8 +1,10 @@
+import { execFileSync } from 'node:child_process';
 import { describe, expect, it } from 'vitest';
 import { fresnelTransmittance, pillarEffectiveIndices, pillarTransmission, slabModeIndex } from '../../shared/optics/effective-index';
 import { demoAtomLibrary, demoLibraryRules } from '../../shared/optics/demo-library';
 import { largestPhaseGap, validateAtomLibrary } from '../../shared/optics/atoms';
 import { fusedSilicaIndex, siliconNitrideIndex } from '../../shared/optics/materials';
+import { PYTHON } from '../support/python';
 
 const lambda = 633e-9;
 const nCore = siliconNitrideIndex(lambda);
@@ -22,6 +24,30 @@ describe('symmetric slab, fundamental mode', () => {
     const dTM = (2 * Math.hypot(Math.PI / 4, w)) / (k * Math.sqrt(nCore * nCore - nClad * nClad));
     const expectedTM = Math.sqrt(nCore * nCore - ((2 * (Math.PI / 4)) / (k * dTM)) ** 2);
     expect(slabModeIndex(dTM, nCore, nClad, lambda, 'TM')).toBeCloseTo(expectedTM, 12);
+  });
+
+  it('meets published points of the normalized TE dispersion curve b(V) (Kogelnik & Ramaswamy, Appl. Opt. 13, 1857 (1974))', () => {
+    // Symmetric guide (asymmetry a = 0), fundamental TE mode: V√(1 − b) = 2·atan√(b/(1 − b)), with
+    // V = k·d·√(n1² − n2²) and b = (n² − n2²)/(n1² − n2²). Exact points: b = 1/4 at V = 2π/(3√3),
+    // b = 1/2 at V = π/√2, b = 3/4 at V = 4π/3. Checked for a high-contrast (Si₃N₄/air) and a
+    // low-contrast (1.50/1.45) slab.
+    const k = (2 * Math.PI) / lambda;
+    const points: [number, number][] = [
+      [0.25, (2 * Math.PI) / (3 * Math.sqrt(3))],
+      [0.5, Math.PI / Math.SQRT2],
+      [0.75, (4 * Math.PI) / 3],
+    ];
+    for (const [n1, n2] of [
+      [nCore, 1],
+      [1.5, 1.45],
+    ]) {
+      for (const [b, V] of points) {
+        const d = V / (k * Math.sqrt(n1 * n1 - n2 * n2));
+        const expected = Math.sqrt(n2 * n2 + b * (n1 * n1 - n2 * n2));
+        // 1e-10: the bisection's own tolerance is 1e-14 in n.
+        expect(Math.abs(slabModeIndex(d, n1, n2, lambda, 'TE') - expected)).toBeLessThan(1e-10);
+      }
+    }
   });
 
   it('TE index exceeds TM index for the same slab; thick slab → core, thin slab → cladding (waveguide theory)', () => {
@@ -62,10 +88,54 @@ describe('effective-index method for a rectangular pillar', () => {
     expect(fresnelTransmittance(1.5, 1)).toBeCloseTo(0.96, 14);
     const nSub = fusedSilicaIndex(lambda);
     const t = pillarTransmission({ width: 200e-9, length: 200e-9, height: 1e-6, lambda, nPillar: nCore, nSubstrate: nSub, nAmbient: 1 });
-    expect(t.alphaX).toBeCloseTo(((2 * Math.PI) / lambda) * (t.nx - 1) * 1e-6, 12);
-    expect(t.tx).toBeCloseTo(Math.sqrt(fresnelTransmittance(nSub, t.nx) * fresnelTransmittance(t.nx, 1)), 14);
     expect(t.tx).toBeGreaterThan(0.95);
     expect(t.tx).toBeLessThanOrEqual(1);
+  });
+
+  it('pillar indices, phases and transmissions agree with an independent scipy solution of the same method', () => {
+    // Reference: the slab eigenvalue equations in normalized form (Kogelnik & Ramaswamy 1974:
+    // V√(1 − b) = 2·atan(ρ·√(b/(1 − b)))) solved with scipy.optimize.brentq, the effective-index method in
+    // both orders averaged, α = k(n − 1)H and t = √(T(n_sub→n)·T(n→1)) with Fresnel's T = 4n₁n₂/(n₁+n₂)².
+    const nSub = fusedSilicaIndex(lambda);
+    const sizes = [
+      [100e-9, 300e-9],
+      [200e-9, 200e-9],
+      [320e-9, 150e-9],
+    ];
+    const script = [
+      'import json, sys, math',
+      'from scipy.optimize import brentq',
+      'lam, n_core, n_sub, height = 633e-9, float(sys.argv[1]), float(sys.argv[2]), 1.2e-6',
+      'k = 2 * math.pi / lam',
+      'def slab(d, n1, n2, tm):',
+      '    V = k * d * math.sqrt(n1 * n1 - n2 * n2)',
+      '    rho = (n1 * n1) / (n2 * n2) if tm else 1.0',
+      '    f = lambda b: V * math.sqrt(1 - b) - 2 * math.atan(rho * math.sqrt(b / (1 - b)))',
+      '    b = brentq(f, 1e-15, 1 - 1e-15, xtol=1e-16, rtol=1e-15)',
+      '    return math.sqrt(n2 * n2 + b * (n1 * n1 - n2 * n2))',
+      'def along(across, other):',
+      '    first = slab(other, slab(across, n_core, 1.0, True), 1.0, False)',
+      '    second = slab(across, slab(other, n_core, 1.0, False), 1.0, True)',
+      '    return 0.5 * (first + second)',
+      'T = lambda a, b: 4 * a * b / (a + b) ** 2',
+      'out = []',
+      'for w, l in json.loads(sys.argv[3]):',
+      '    nx, ny = along(w, l), along(l, w)',
+      '    out.append([nx, ny, k * (nx - 1) * height, k * (ny - 1) * height, math.sqrt(T(n_sub, nx) * T(nx, 1)), math.sqrt(T(n_sub, ny) * T(ny, 1))])',
+      'print(json.dumps(out))',
+    ].join('\n');
+    const expected = JSON.parse(execFileSync(PYTHON, ['-c', script, String(nCore), String(nSub), JSON.stringify(sizes)], { encoding: 'utf8' })) as number[][];
+    sizes.forEach(([width, length], i) => {
+      const t = pillarTransmission({ width, length, height: 1.2e-6, lambda, nPillar: nCore, nSubstrate: nSub, nAmbient: 1 });
+      const [nx, ny, alphaX, alphaY, tx, ty] = expected[i];
+      // 1e-9: both solve to ~1e-14 in the index; the phase multiplies by kH ≈ 1.2e7 m⁻¹·m ≈ 12.
+      expect(Math.abs(t.nx - nx)).toBeLessThan(1e-9);
+      expect(Math.abs(t.ny - ny)).toBeLessThan(1e-9);
+      expect(Math.abs(t.alphaX - alphaX)).toBeLessThan(1e-8);
+      expect(Math.abs(t.alphaY - alphaY)).toBeLessThan(1e-8);
+      expect(Math.abs(t.tx - tx)).toBeLessThan(1e-9);
+      expect(Math.abs(t.ty - ty)).toBeLessThan(1e-9);
+    });
   });
 });
 
