@@ -10,6 +10,7 @@ import { bearerAuth, unlessBearer } from './components/access-tokens/bearer-auth
 import { adminRoutes } from './components/admin/admin.routes';
 import { atomLibraryRoutes } from './components/atom-libraries/atom-library.routes';
 import { authRoutes } from './components/auth/auth.routes';
+import { csrfState } from './components/auth/csrf-state';
 import { createPassport } from './components/auth/passport';
 import { fabRoutes } from './components/fab/fab.routes';
 import { notificationRoutes } from './components/notifications/notification.routes';
@@ -75,12 +76,13 @@ export function createApp(ctx: AppContext) {
       },
     }),
   );
-  const passport = createPassport();
+  const passport = createPassport(config);
   app.use(passport.initialize());
   app.use(passport.session());
 
   const { csrfSynchronisedProtection, generateToken } = csrfSync({
     getTokenFromRequest: (req) => req.get('x-csrf-token'),
+    ...csrfState(config.publicUrl.startsWith('https://')),
   });
 
   const api = express.Router();

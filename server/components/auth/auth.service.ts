@@ -4,6 +4,7 @@ import { AppError } from '../../lib/app-error';
 import { hashToken, newToken } from '../../lib/tokens';
 import { UserModel } from '../users/user.model';
 import { hashPassword } from '../users/user.service';
+import { replacePassword } from './credentials.service';
 import { AuthTokenModel, type AuthTokenPurpose } from './auth-token.model';
 
 const RESET_LIFETIME_MS = 60 * 60 * 1000;
@@ -60,11 +61,11 @@ export async function requestPasswordReset(ctx: AppContext, email: string) {
   });
 }
 
+/** Sets the new password of a reset link's account; its other sessions end and its access tokens are revoked. */
 export async function resetPassword(ctx: AppContext, token: string, password: string) {
   const user = await consumeToken(ctx, token, 'reset');
-  user.passwordHash = await hashPassword(password, ctx.config.BCRYPT_COST);
-  await user.save();
-  return user;
+  const { revokedTokens } = await replacePassword(user, password, ctx.config.BCRYPT_COST);
+  return { user, revokedTokens };
 }
 
 export interface InvitationContext {
@@ -132,8 +133,7 @@ export async function latestInvitations(userIds: number[]) {
 export async function acceptInvitation(ctx: AppContext, token: string, name: string, password: string) {
   const user = await consumeToken(ctx, token, 'invite');
   user.name = name;
-  user.passwordHash = await hashPassword(password, ctx.config.BCRYPT_COST);
-  await user.save();
+  await replacePassword(user, password, ctx.config.BCRYPT_COST);
   return user;
 }
 

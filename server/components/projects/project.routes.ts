@@ -55,7 +55,7 @@ export function projectRoutes(ctx: AppContext) {
     res.json({ project: await setArchived(project, role, true) });
   });
 
-  router.post('/:projectId/unarchive', requireProject('manage'), async (req, res) => {
+  router.post('/:projectId/unarchive', requireProject('manage', { whenArchived: 'allow' }), async (req, res) => {
     const { project, role } = projectAccess(req);
     res.json({ project: await setArchived(project, role, false) });
   });
