@@ -101,6 +101,8 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'get', path: `${P}/atom-libraries/:libraryId`, summary: 'One atom library with its atoms', role: 'project:read', ok: [200, '`{ atomLibrary }`'] },
   { method: 'get', path: `${P}/atom-libraries/:libraryId/csv`, summary: 'The library as CSV', role: 'project:read', ok: [200, 'CSV file'] },
   { method: 'delete', path: `${P}/atom-libraries/:libraryId`, summary: 'Delete an unused library (its uploader or an owner)', role: 'project:design', ok: [204, 'No content'] },
+  { method: 'post', path: `${P}/atom-libraries/:libraryId/share`, summary: 'Share your personal library with the project (only its owner)', role: 'project:design', ok: [200, '`{ atomLibrary }`'] },
+  { method: 'delete', path: `${P}/atom-libraries/:libraryId/share`, summary: 'Stop sharing your personal library with the project', role: 'project:design', ok: [200, '`{ atomLibrary }`'] },
 
   { method: 'post', path: `${P}/revisions/:number/runs`, summary: 'Start a run of a revision', role: 'project:design', ok: [202, '`{ run: RunDetail }`'] },
   { method: 'get', path: `${P}/runs`, summary: 'Runs of the project', role: 'project:read', query: listRunsQuerySchema, ok: [200, '`{ runs: RunSummary[] }`'] },

@@ -3,6 +3,7 @@ import { Sequelize } from 'sequelize';
 import { SequelizeStorage, Umzug } from 'umzug';
 import type { AppConfig } from '../config';
 import { AccessTokenModel } from '../components/access-tokens/access-token.model';
+import { AtomLibraryShareModel } from '../components/atom-libraries/atom-library-share.model';
 import { AtomLibraryModel } from '../components/atom-libraries/atom-library.model';
 import { AuthTokenModel } from '../components/auth/auth-token.model';
 import { SessionModel } from '../components/auth/session.model';
@@ -56,6 +57,7 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
     NotificationPreferenceModel,
     AccessTokenModel,
     ShareLinkModel,
+    AtomLibraryShareModel,
   ]) {
     model.initModel(sequelize);
   }

@@ -148,6 +148,24 @@ const ROUTES: RouteCase[] = [
     expected: { ...design(204), designer: 403 },
   },
   {
+    // Only its owner shares a personal library; to others it is invisible (404) until shared.
+    name: 'POST /projects/:id/atom-libraries/:libraryId/share (the owner’s personal library)',
+    send: async (c, f) => {
+      const lib = (await uploadAtomLibrary(clients.owner, f.projectId, eightAtomCsv(), { scope: 'personal' })).body.atomLibrary.id;
+      return c.post(`/api/projects/${f.projectId}/atom-libraries/${lib}/share`);
+    },
+    expected: { ...design(200), designer: 404, admin: 404 },
+  },
+  {
+    name: 'DELETE /projects/:id/atom-libraries/:libraryId/share (the owner’s shared personal library)',
+    send: async (c, f) => {
+      const lib = (await uploadAtomLibrary(clients.owner, f.projectId, eightAtomCsv(), { scope: 'personal' })).body.atomLibrary.id;
+      await clients.owner.post(`/api/projects/${f.projectId}/atom-libraries/${lib}/share`);
+      return c.delete(`/api/projects/${f.projectId}/atom-libraries/${lib}/share`);
+    },
+    expected: { ...design(200), designer: 403, admin: 403 },
+  },
+  {
     name: 'POST /projects/:id/revisions/:number/runs',
     needs: ['revision'],
     send: (c, f) => c.post(`/api/projects/${f.projectId}/revisions/${f.revisionNumber}/runs`),
