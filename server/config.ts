@@ -50,7 +50,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
   }
   const c = parsed.data;
   if (!isLoopback(c.HOST) && c.SESSION_SECRET === DEFAULT_SESSION_SECRET) {
-    throw new Error(`Invalid configuration:\n  SESSION_SECRET: set your own secret (at least 16 random characters) before listening on ${c.HOST}, which is not loopback`);
+    throw new Error(`Invalid configuration: SESSION_SECRET is the published default; set your own (at least 16 random characters) to listen on HOST=${c.HOST}, which is not loopback`);
   }
   return { ...c, publicUrl: (c.PUBLIC_URL ?? `http://${c.HOST}:${c.PORT}`).replace(/\/$/, '') };
 }
