@@ -93,7 +93,7 @@ export function createApp(ctx: AppContext) {
     res.json(openApiDocument(config.publicUrl));
   });
   api.use('/shared', sharedRoutes());
-  api.use('/access-tokens', accessTokenRoutes());
+  api.use('/access-tokens', accessTokenRoutes(config));
   api.use('/auth', authRoutes(ctx, passport as never, generateToken));
   api.use('/projects/:projectId/revisions', revisionRoutes());
   api.use('/projects/:projectId/uploads', uploadRoutes());

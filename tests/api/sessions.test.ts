@@ -82,6 +82,26 @@ describe('password changes end what the old password opened', () => {
   });
 });
 
+describe('current-password checks', () => {
+  it('limits wrong current passwords per account (SIGNIN_LIMIT), for token creation and password change alike', async () => {
+    const user = await makeUser();
+    const client = await signedInClient(t.app, user);
+    const statuses: number[] = [];
+    for (let i = 0; i < 6; i++) {
+      statuses.push((await client.post('/api/access-tokens', { name: 'guess', scope: 'write', currentPassword: `guess ${i}` })).status);
+      statuses.push((await client.post('/api/auth/password', { currentPassword: `guess ${i}`, newPassword: 'a brand new secret' })).status);
+    }
+    expect(statuses.slice(0, 10)).toEqual(Array(10).fill(400));
+    expect(statuses.slice(10)).toEqual([429, 429]);
+    const blocked = await client.post('/api/access-tokens', { name: 'right', scope: 'write', currentPassword: user.password });
+    expect(blocked.status).toBe(429);
+    expect(blocked.body.error).toMatch(/Too many wrong current passwords/);
+    // Another account at the same address is not affected.
+    const other = await makeUser();
+    await createToken(await signedInClient(t.app, other), other.password);
+  });
+});
+
 describe('sign-in', () => {
   it('answers an unknown address in about the time of a known one (same bcrypt cost)', async () => {
     const known = await makeUser();

@@ -18,6 +18,7 @@ import type { UserModel } from '../users/user.model';
 import { currentUser, requireUser } from './auth.middleware';
 import { acceptInvitation, requestPasswordReset, resetPassword, signUp } from './auth.service';
 import { changePassword } from './credentials.service';
+import { currentPasswordLimiter } from './current-password-limit';
 
 type CsrfTokenFn = (req: Request, overwrite?: boolean) => string;
 
@@ -125,7 +126,7 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken:
     res.json(await signedIn(req, user));
   });
 
-  router.post('/password', requireUser, async (req, res) => {
+  router.post('/password', requireUser, currentPasswordLimiter(ctx.config), async (req, res) => {
     const { currentPassword, newPassword } = parseInput(changePasswordSchema, req.body);
     const user = currentUser(req);
     const { revokedTokens } = await changePassword(user, currentPassword, newPassword, ctx.config.BCRYPT_COST);
