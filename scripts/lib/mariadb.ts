@@ -103,7 +103,10 @@ export async function startMariaDb(options: MariaDbOptions): Promise<RunningMari
   const account = serverAccount(dataDir);
   handOver(dataDir, account);
   // The database account our own statements use: root, or one named after the ordinary user starting us.
-  const adminUser = process.getuid?.() === 0 ? 'root' : userInfo().username;
+  const asRoot = process.getuid?.() === 0;
+  const adminUser = asRoot ? 'root' : userInfo().username;
+  // --user matters only when started by root (mariadbd then switches to that account).
+  const runAs = asRoot ? [`--user=${account?.name ?? 'root'}`] : [];
 
   if (!existsSync(path.join(files, 'mysql'))) {
     const init = spawnSync(
@@ -111,7 +114,7 @@ export async function startMariaDb(options: MariaDbOptions): Promise<RunningMari
       [
         '--no-defaults',
         `--datadir=${files}`,
-        `--user=${account?.name ?? userInfo().username}`,
+        ...runAs,
         '--auth-root-authentication-method=socket',
         `--auth-root-socket-user=${adminUser}`,
         '--skip-test-db',
@@ -139,7 +142,7 @@ export async function startMariaDb(options: MariaDbOptions): Promise<RunningMari
         `--pid-file=${pidFile}`,
         `--port=${options.port}`,
         '--bind-address=127.0.0.1',
-        `--user=${account?.name ?? userInfo().username}`,
+        ...runAs,
         `--tmpdir=${path.join(dataDir, 'tmp')}`,
         `--log-error=${log}`,
         '--skip-name-resolve',
