@@ -5,7 +5,7 @@
  * then stops them in order — server, mail fake, MariaDB.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
-import { loadConfig } from '../server/config';
+import { loadConfig, seedsDemo } from '../server/config';
 import { createSequelize, migrateUp } from '../server/db/database';
 import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemo } from '../server/db/seed-demo';
 import { startMailFake } from './lib/mail-fake';
@@ -52,8 +52,14 @@ async function main() {
   const sequelize = createSequelize(config);
   const applied = await migrateUp(sequelize);
   say(applied.length ? `Applied migrations: ${applied.join(', ')}` : 'Database schema is up to date');
-  const { created } = await seedDemo(sequelize, config.BCRYPT_COST);
-  say(created.length ? `Seeded demo data: ${created.join(', ')}` : 'Demo data already present; kept as it is');
+  const demo = seedsDemo(config);
+  if (demo) {
+    const { created } = await seedDemo(sequelize, config.BCRYPT_COST);
+    say(created.length ? `Seeded demo data: ${created.join(', ')}` : 'Demo data already present; kept as it is');
+  } else {
+    const why = config.SEED_DEMO === false ? 'SEED_DEMO=false' : `${config.HOST} is not loopback and their password is published; SEED_DEMO=true seeds them anyway`;
+    say(`Demo accounts not seeded (${why})`);
+  }
   await sequelize.close();
 
   if (!dev) {
@@ -90,8 +96,7 @@ async function main() {
     [
       '',
       `  Phasewright is running at ${url}`,
-      `  Demo sign-in (password for all: ${DEMO_PASSWORD}):`,
-      ...people,
+      ...(demo ? [`  Demo sign-in (password for all: ${DEMO_PASSWORD}):`, ...people] : []),
       `  Mail sent by the app: http://127.0.0.1:${mailWebPort}  (or: npm run mail:list)`,
       '  Press Ctrl-C to stop.',
       '',

@@ -11,6 +11,7 @@ import { adminRoutes } from './components/admin/admin.routes';
 import { withAuditScope } from './components/audit/audit-scope';
 import { atomLibraryRoutes } from './components/atom-libraries/atom-library.routes';
 import { authRoutes } from './components/auth/auth.routes';
+import { csrfState } from './components/auth/csrf-state';
 import { createPassport } from './components/auth/passport';
 import { fabRoutes } from './components/fab/fab.routes';
 import { notificationRoutes } from './components/notifications/notification.routes';
@@ -76,12 +77,13 @@ export function createApp(ctx: AppContext) {
       },
     }),
   );
-  const passport = createPassport();
+  const passport = createPassport(config);
   app.use(passport.initialize());
   app.use(passport.session());
 
   const { csrfSynchronisedProtection, generateToken } = csrfSync({
     getTokenFromRequest: (req) => req.get('x-csrf-token'),
+    ...csrfState(config.publicUrl.startsWith('https://')),
   });
 
   const api = express.Router();
@@ -93,7 +95,7 @@ export function createApp(ctx: AppContext) {
     res.json(openApiDocument(config.publicUrl));
   });
   api.use('/shared', sharedRoutes());
-  api.use('/access-tokens', accessTokenRoutes());
+  api.use('/access-tokens', accessTokenRoutes(config));
   api.use('/auth', authRoutes(ctx, passport as never, generateToken));
   api.use('/projects/:projectId/revisions', revisionRoutes());
   api.use('/projects/:projectId/uploads', uploadRoutes());

@@ -4,6 +4,9 @@ const flag = z
   .enum(['true', 'false', '1', '0', 'yes', 'no'])
   .transform((v) => v === 'true' || v === '1' || v === 'yes');
 
+/** The session secret used when none is set: fine on loopback, refused anywhere else. */
+const DEFAULT_SESSION_SECRET = 'phasewright-local-session-secret';
+
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
   HOST: z.string().default('127.0.0.1'),
@@ -16,13 +19,19 @@ const envSchema = z.object({
   DB_PASSWORD: z.string().default('phasewright-local'),
   /** Data folder of the private MariaDB that `npm start`, `npm run backup` and `npm run restore` run on loopback. */
   DB_DATA_DIR: z.string().min(1).default('.data/mariadb'),
-  SESSION_SECRET: z.string().min(16, 'use at least 16 characters').default('phasewright-local-session-secret'),
+  SESSION_SECRET: z.string().min(16, 'use at least 16 characters').default(DEFAULT_SESSION_SECRET),
+  /** Absolute lifetime of a signed-in session, days, however active it is. */
+  SESSION_MAX_DAYS: z.coerce.number().positive('use a positive number of days').max(365).default(7),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(1025),
   MAIL_FROM: z.string().default('Phasewright <no-reply@phasewright.local>'),
   ALLOW_SIGNUP: flag.default(false),
   SIGNIN_LIMIT: z.coerce.number().int().min(1).default(10),
   SIGNIN_WINDOW_MINUTES: z.coerce.number().min(0.01).default(15),
+  /** Failed sign-ins allowed from one client address, whatever the e-mails, per SIGNIN_WINDOW_MINUTES. */
+  SIGNIN_ADDRESS_LIMIT: z.coerce.number().int().min(1).default(50),
+  /** Seed the demo accounts (published password) on a non-loopback HOST too; on loopback they are always seeded. */
+  SEED_DEMO: flag.optional(),
   BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(12),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   CLIENT_DIST: z.string().default('dist'),
@@ -42,5 +51,19 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     throw new Error(`Invalid configuration:\n${lines.join('\n')}`);
   }
   const c = parsed.data;
+  if (!isLoopback(c.HOST) && c.SESSION_SECRET === DEFAULT_SESSION_SECRET) {
+    throw new Error(`Invalid configuration: SESSION_SECRET is the published default; set your own (at least 16 random characters) to listen on HOST=${c.HOST}, which is not loopback`);
+  }
   return { ...c, publicUrl: (c.PUBLIC_URL ?? `http://${c.HOST}:${c.PORT}`).replace(/\/$/, '') };
+}
+
+/** 127.0.0.0/8, ::1 and localhost: reachable from this machine only. */
+export function isLoopback(host: string): boolean {
+  const h = host.trim().toLowerCase().replace(/^\[|\]$/g, '');
+  return h === 'localhost' || h === '::1' || /^127(\.\d{1,3}){3}$/.test(h) || /^::ffff:127(\.\d{1,3}){3}$/.test(h);
+}
+
+/** The demo accounts share a published password: seeded on loopback, elsewhere only when SEED_DEMO=true. */
+export function seedsDemo(config: AppConfig): boolean {
+  return config.SEED_DEMO ?? isLoopback(config.HOST);
 }

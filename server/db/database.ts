@@ -4,6 +4,7 @@ import { SequelizeStorage, Umzug } from 'umzug';
 import type { AppConfig } from '../config';
 import { AccessTokenModel } from '../components/access-tokens/access-token.model';
 import { AuditEventModel } from '../components/audit/audit.model';
+import { AtomLibraryShareModel } from '../components/atom-libraries/atom-library-share.model';
 import { AtomLibraryModel } from '../components/atom-libraries/atom-library.model';
 import { AuthTokenModel } from '../components/auth/auth-token.model';
 import { SessionModel } from '../components/auth/session.model';
@@ -58,6 +59,7 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
     AccessTokenModel,
     ShareLinkModel,
     AuditEventModel,
+    AtomLibraryShareModel,
   ]) {
     model.initModel(sequelize);
   }

@@ -14,6 +14,8 @@ export const createAccessTokenSchema = z.object({
   name: z.string().trim().min(1, 'Name the token (what script uses it?)').max(80, 'Use at most 80 characters'),
   scope: z.enum(TOKEN_SCOPES, 'Scope must be "read" or "write"'),
   expiresAt: futureDate.nullable().default(null),
+  /** Asked again: a token outlives the session, so an unattended signed-in browser must not mint one. */
+  currentPassword: z.string({ error: 'Enter your current password to create a token' }).min(1, 'Enter your current password to create a token').max(200),
 });
 export type CreateAccessTokenInput = z.input<typeof createAccessTokenSchema>;
 

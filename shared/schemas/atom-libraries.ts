@@ -4,7 +4,7 @@
  */
 import { z } from 'zod';
 
-/** 'personal': follows its owner into every project they design in; 'project': kept in one project. */
+/** 'personal': seen by its owner alone, in every project, until they share it with a project; 'project': kept in one project. */
 export const ATOM_LIBRARY_SCOPES = ['personal', 'project'] as const;
 export type AtomLibraryScope = (typeof ATOM_LIBRARY_SCOPES)[number];
 
@@ -77,6 +77,10 @@ export interface AtomLibrarySummary {
   usable: boolean;
   /** True when the person asking may delete it (it is still refused while a revision uses it). */
   canDelete: boolean;
+  /** A personal library its owner shared with this project (every member sees it, designers may use it). */
+  sharedHere: boolean;
+  /** True when the person asking owns this personal library and may share it here or stop sharing it. */
+  canShare: boolean;
   createdAt: string | null;
 }
 

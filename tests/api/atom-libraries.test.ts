@@ -209,6 +209,6 @@ describe('personal and project libraries across projects', () => {
     expect(theirList.map((l) => l.id)).toEqual(['demo']);
     const borrowed = await stranger.post(`/api/projects/${theirs}/revisions`, { design: { ...deflectorDesign(), setup, atomLibrary: { source: 'library', id: personal } } });
     expect(borrowed.status).toBe(400);
-    expect(borrowed.body.details['design.atomLibrary.id']).toMatch(/personal library of someone who cannot design in this project/);
+    expect(borrowed.body.details['design.atomLibrary.id']).toMatch(/personal library that its owner has not shared with this project/);
   });
 });

@@ -26,7 +26,7 @@ describe('sign-in and sign-out', () => {
     expect((await client.get('/api/auth/me')).body.user.email).toBe(user.email);
     const [rows] = await t.ctx.sequelize.query('SELECT data FROM sessions');
     const stored = (rows as { data: string }[]).map((r) => JSON.parse(r.data));
-    expect(stored.some((d) => d.passport?.user === user.id)).toBe(true);
+    expect(stored.some((d) => d.passport?.user?.id === user.id)).toBe(true);
     const out = await client.post('/api/auth/sign-out');
     expect(out.status).toBe(200);
     client.csrfToken = out.body.csrfToken;

@@ -33,7 +33,7 @@ interface Fixture {
   /** 'thread': an open thread the owner pinned on the finished run's far-field preview, and its first comment. */
   threadId: number;
   commentId: number;
-  /** 'invite': a member the owner invited by e-mail, who has not accepted yet. */
+  /** 'invite': a member a site admin invited by e-mail into the project, who has not accepted yet. */
   inviteeUserId: number;
 }
 /** Parts of the fixture a route needs beyond the project and its members (built only then: they cost time). */
@@ -146,6 +146,24 @@ const ROUTES: RouteCase[] = [
     needs: ['library'],
     send: (c, f) => c.delete(`/api/projects/${f.projectId}/atom-libraries/${f.libraryId}`),
     expected: { ...design(204), designer: 403 },
+  },
+  {
+    // Only its owner shares a personal library; to others it is invisible (404) until shared.
+    name: 'POST /projects/:id/atom-libraries/:libraryId/share (the owner’s personal library)',
+    send: async (c, f) => {
+      const lib = (await uploadAtomLibrary(clients.owner, f.projectId, eightAtomCsv(), { scope: 'personal' })).body.atomLibrary.id;
+      return c.post(`/api/projects/${f.projectId}/atom-libraries/${lib}/share`);
+    },
+    expected: { ...design(200), designer: 404, admin: 404 },
+  },
+  {
+    name: 'DELETE /projects/:id/atom-libraries/:libraryId/share (the owner’s shared personal library)',
+    send: async (c, f) => {
+      const lib = (await uploadAtomLibrary(clients.owner, f.projectId, eightAtomCsv(), { scope: 'personal' })).body.atomLibrary.id;
+      await clients.owner.post(`/api/projects/${f.projectId}/atom-libraries/${lib}/share`);
+      return c.delete(`/api/projects/${f.projectId}/atom-libraries/${lib}/share`);
+    },
+    expected: { ...design(200), designer: 403, admin: 403 },
   },
   {
     name: 'POST /projects/:id/revisions/:number/runs',
@@ -321,7 +339,8 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs', 'libr
   const fixture: Fixture = { projectId: project.id, targetUserId: target.id, revisionNumber: 0, uploadId: 0, libraryId: 0, queuedRunId: 0, finishedRunId: 0, threadId: 0, commentId: 0, inviteeUserId: 0 };
   if (needs.includes('invite')) {
     const email = `matrix.invitee.${project.id}@partner-lab.example`;
-    fixture.inviteeUserId = (await owner.post(`/api/projects/${project.id}/members`, { email, role: 'reviewer' })).body.member.userId;
+    // With sign-up closed only a site admin brings a new account in; the owner then manages the invitation.
+    fixture.inviteeUserId = (await clients.admin.post(`/api/projects/${project.id}/members`, { email, role: 'reviewer' })).body.member.userId;
   }
   if (needs.includes('upload')) fixture.uploadId = (await uploadPhaseMap(owner, project.id)).body.upload.id;
   if (needs.includes('library')) fixture.libraryId = (await uploadAtomLibrary(owner, project.id, eightAtomCsv())).body.atomLibrary.id;
@@ -375,5 +394,37 @@ describe('authorization matrix', () => {
       await viewer.delete(`/api/projects/${fixture.projectId}/atom-libraries/${fixture.libraryId}`),
     ];
     expect(writes.map((r) => r.status)).toEqual([403, 403, 403, 403, 403, 403, 403, 403, 403, 403, 403]);
+  });
+
+  it('an archived project refuses every write with 409 naming the archive, to its owner and a site admin; unarchiving works', async () => {
+    const fixture = await freshProject();
+    const p = `/api/projects/${fixture.projectId}`;
+    expect((await clients.owner.post(`${p}/archive`)).status).toBe(200);
+    for (const who of ['owner', 'admin'] as const) {
+      const c = clients[who];
+      const writes = {
+        rename: await c.patch(p, { description: 'x' }),
+        addMember: await c.post(`${p}/members`, { email: users.outsider.email, role: 'viewer' }),
+        changeRole: await c.patch(`${p}/members/${fixture.targetUserId}`, { role: 'designer' }),
+        removeMember: await c.delete(`${p}/members/${fixture.targetUserId}`),
+        saveRevision: await c.post(`${p}/revisions`, { design: deflectorDesign() }),
+        upload: await uploadPhaseMap(c, fixture.projectId),
+        startRun: await c.post(`${p}/revisions/${fixture.revisionNumber}/runs`),
+        cancelRun: await c.post(`${p}/runs/${fixture.queuedRunId}/cancel`),
+        tolerance: await c.post(`${p}/runs/${fixture.finishedRunId}/tolerance`, { widthBiasNm: [0], detuneNm: [] }),
+        uploadLibrary: await uploadAtomLibrary(c, fixture.projectId, eightAtomCsv()),
+        deleteLibrary: await c.delete(`${p}/atom-libraries/${fixture.libraryId}`),
+        thread: await c.post(`${p}/runs/${fixture.finishedRunId}/threads`, { artifact: 'farfield_a.png', x: 0.5, y: 0.5, body: 'On an archive' }),
+        shareLink: await c.post(`${p}/runs/${fixture.finishedRunId}/share-links`, {}),
+        designRules: await c.agent.put(`${p}/design-rules`).set('x-csrf-token', c.csrfToken).send({ minGapNm: 60, minFeatureNm: 100, maxAspectRatio: 10 }),
+      };
+      for (const [what, res] of Object.entries(writes)) {
+        expect({ what, who, status: res.status }).toEqual({ what, who, status: 409 });
+        expect(res.body.error).toMatch(/archived/);
+      }
+    }
+    expect((await clients.viewer.get(`${p}/runs`)).status).toBe(200);
+    expect((await clients.owner.post(`${p}/unarchive`)).status).toBe(200);
+    expect((await clients.owner.post(`${p}/revisions/${fixture.revisionNumber}/runs`)).status).toBe(202);
   });
 });

@@ -6,7 +6,8 @@ let t: TestApp;
 let owner: ApiClient;
 let ownerUser: Awaited<ReturnType<typeof makeUser>>;
 beforeAll(async () => {
-  t = await createTestApp();
+  // Open sign-up: the project owner here (a member) may invite unknown e-mails; closed sign-up is in invitations.test.ts.
+  t = await createTestApp({ ALLOW_SIGNUP: 'true' });
   ownerUser = await makeUser({ name: 'Owner One' });
   owner = await signedInClient(t.app, ownerUser);
 });

@@ -19,7 +19,8 @@ afterAll(async () => {
 });
 
 async function createToken(client: ApiClient, scope: 'read' | 'write', extra: object = {}) {
-  const res = await client.post('/api/access-tokens', { name: `script ${scope}`, scope, ...extra });
+  // Every account here has makeUser's default password.
+  const res = await client.post('/api/access-tokens', { name: `script ${scope}`, scope, currentPassword: 'correct horse battery', ...extra });
   expect(res.status).toBe(201);
   return res.body as { token: string; accessToken: { id: number; prefix: string; lastUsedAt: string | null } };
 }

@@ -1,12 +1,11 @@
 /**
- * In a real browser: a demo designer signs in, creates a project, finds it in the table, adds a member and
- * invites someone without an account;
+ * In a real browser: a demo designer signs in, creates a project, finds it in the table, adds a member, and
+ * is told that only a site admin invites someone without an account;
  * a demo viewer sees the project but none of the owner's controls.
  */
 import { describe, expect, it } from 'vitest';
 import { screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
-import { waitForMail } from '../support/mailbox';
 
 const demo = useDemoBrowser();
 
@@ -55,13 +54,11 @@ describe('foundation in the browser', () => {
     await page.getByLabel('Role of Kai Brenner').waitFor();
     expect(await page.getByLabel('Role of Kai Brenner').inputValue()).toBe('reviewer');
 
-    // Someone without an account is invited by e-mail with the chosen role.
+    // Sign-up is closed: someone without an account is invited by a site admin, not by a designer.
+    await addForm.getByText(/a site admin invites anyone new/).waitFor();
     await addForm.getByLabel("Member's e-mail").fill('visiting.scientist@partner-lab.example');
     await addForm.getByRole('button', { name: 'Add member' }).click();
-    await page.getByText(/has no account yet: an invitation is on its way/).first().waitFor();
-    const invitation = await waitForMail('visiting.scientist@partner-lab.example', 'invited you');
-    expect(invitation.text).toContain('Metalens for a fibre tip');
-    expect(invitation.text).toContain('/welcome?token=');
+    await page.getByText(/No active account can be added for this address/).first().waitFor();
     // A malformed address gets the field's own message.
     await addForm.getByLabel("Member's e-mail").fill('not-an-address');
     await addForm.getByRole('button', { name: 'Add member' }).click();

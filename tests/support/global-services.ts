@@ -20,11 +20,14 @@ declare module 'vitest' {
 
 export const TEST_DB_USER = 'phasewright_test';
 export const TEST_DB_PASSWORD = 'phasewright-test-password';
+/** Names of the test databases (tests/support/test-app.ts), as a LIKE pattern for the grant. */
+export const TEST_DB_PATTERN = 'pw\\_test\\_%';
 
 export default async function setup(project: TestProject) {
   const dataDir = mkdtempSync(path.join(tmpdir(), 'pw-test-db-'));
   const [dbPort, smtpPort, mailWebPort] = [await freePort(), await freePort(), await freePort()];
-  const db = await startMariaDb({ dataDir, port: dbPort, user: TEST_DB_USER, password: TEST_DB_PASSWORD, databases: [] });
+  // Each test file creates its own pw_test_… database: the test user may create and use those, nothing else.
+  const db = await startMariaDb({ dataDir, port: dbPort, user: TEST_DB_USER, password: TEST_DB_PASSWORD, databases: [], grants: [TEST_DB_PATTERN] });
   const mail = await startMailFake(smtpPort, mailWebPort);
   project.provide('dbPort', dbPort);
   project.provide('smtpPort', smtpPort);

@@ -1,20 +1,23 @@
 import { Router } from 'express';
+import type { AppConfig } from '../../config';
 import { createAccessTokenSchema } from '../../../shared/schemas/access';
 import { parseId, parseInput } from '../../lib/validate';
 import { currentUser } from '../auth/auth.middleware';
+import { currentPasswordLimiter } from '../auth/current-password-limit';
 import { createAccessToken, listAccessTokens, revokeAccessToken } from './access-token.service';
 import { requireSession } from './bearer-auth';
 
 /** The signed-in user's personal access tokens, under `/api/access-tokens`. */
-export function accessTokenRoutes() {
+export function accessTokenRoutes(config: AppConfig) {
   const router = Router();
   router.use(requireSession);
+  const passwordChecks = currentPasswordLimiter(config);
 
   router.get('/', async (req, res) => {
     res.json({ accessTokens: await listAccessTokens(currentUser(req).id) });
   });
 
-  router.post('/', async (req, res) => {
+  router.post('/', passwordChecks, async (req, res) => {
     const input = parseInput(createAccessTokenSchema, req.body);
     res.status(201).json(await createAccessToken(currentUser(req), input));
   });

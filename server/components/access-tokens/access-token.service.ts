@@ -1,9 +1,10 @@
+import { Op } from 'sequelize';
 import type { AccessToken, TokenScope } from '../../../shared/schemas/access';
 import { AppError } from '../../lib/app-error';
 import { hashToken, newToken } from '../../lib/tokens';
 import { recordAudit } from '../audit/audit.service';
 import type { UserModel } from '../users/user.model';
-import { findActiveUser } from '../users/user.service';
+import { checkCurrentPassword, findActiveUser } from '../users/user.service';
 import { AccessTokenModel } from './access-token.model';
 
 /** Every personal access token starts with this, so a leaked one is recognisable in logs and scanners. */
@@ -31,8 +32,9 @@ export async function listAccessTokens(userId: number): Promise<AccessToken[]> {
   return rows.map(toDto);
 }
 
-/** Creates a token; the secret is returned here once and never again (only its hash is kept). */
-export async function createAccessToken(user: UserModel, input: { name: string; scope: TokenScope; expiresAt: string | null }) {
+/** Creates a token once the current password is confirmed; the secret is returned here once and never again (only its hash is kept). */
+export async function createAccessToken(user: UserModel, input: { name: string; scope: TokenScope; expiresAt: string | null; currentPassword: string }) {
+  await checkCurrentPassword(user, input.currentPassword);
   const { token: random } = newToken();
   const token = `${ACCESS_TOKEN_PREFIX}${random}`;
   const row = await AccessTokenModel.create({
@@ -56,6 +58,12 @@ export async function revokeAccessToken(userId: number, tokenId: number): Promis
     await recordAudit('token-revoked', { subjectUserId: userId, detail: { tokenId: row.id, name: row.name, scope: row.scope } });
   }
   return toDto(row);
+}
+
+/** Revokes every live token of the account (after a password change or reset); returns how many. */
+export async function revokeAllAccessTokens(userId: number): Promise<number> {
+  const [count] = await AccessTokenModel.update({ revokedAt: new Date() }, { where: { userId, revokedAt: { [Op.is]: null } } });
+  return count;
 }
 
 /**

@@ -15,6 +15,7 @@ import {
   readAtomLibraryCsv,
   type LibraryViewer,
 } from './atom-library.service';
+import { shareAtomLibrary, unshareAtomLibrary } from './atom-library-sharing.service';
 
 const KIB = 1024;
 /** Problems listed in one answer; the message gives the total. */
@@ -83,13 +84,23 @@ export function atomLibraryRoutes() {
 
   router.get('/:libraryId/csv', requireProject('read'), async (req, res) => {
     const id = parseLibraryId(req.params.libraryId);
-    const { name, csv } = await atomLibraryCsv(projectAccess(req).project.id, id);
+    const { name, csv } = await atomLibraryCsv(projectAccess(req).project.id, id, viewerOf(req));
     res.set({
       'Content-Type': 'text/csv; charset=utf-8',
       'Content-Disposition': contentDisposition('attachment', name),
       'X-Content-Type-Options': 'nosniff',
     });
     res.send(csv);
+  });
+
+  router.post('/:libraryId/share', requireProject('design'), async (req, res) => {
+    const id = parseId(req.params.libraryId, 'libraryId');
+    res.json({ atomLibrary: await shareAtomLibrary(projectAccess(req).project.id, id, viewerOf(req)) });
+  });
+
+  router.delete('/:libraryId/share', requireProject('design'), async (req, res) => {
+    const id = parseId(req.params.libraryId, 'libraryId');
+    res.json({ atomLibrary: await unshareAtomLibrary(projectAccess(req).project.id, id, viewerOf(req)) });
   });
 
   router.delete('/:libraryId', requireProject('design'), async (req, res) => {

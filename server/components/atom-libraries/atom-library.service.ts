@@ -1,7 +1,7 @@
 import { literal, Op, type WhereOptions } from 'sequelize';
 import { atomLibraryToCsv, parseAtomLibraryCsv, type AtomLibrary, type AtomLibraryMeta, type MetaAtom } from '../../../shared/optics/atoms';
 import { demoAtomLibrary } from '../../../shared/optics/demo-library';
-import type { ProjectRole } from '../../../shared/roles';
+import { projectRoleAllows, type ProjectRole } from '../../../shared/roles';
 import {
   ATOM_LIBRARY_LIMITS,
   type AtomCsvProblem,
@@ -14,6 +14,7 @@ import {
 import { AppError } from '../../lib/app-error';
 import { RevisionModel } from '../revisions/revision.model';
 import { UserModel } from '../users/user.model';
+import { AtomLibraryShareModel } from './atom-library-share.model';
 import { AtomLibraryModel } from './atom-library.model';
 
 /** Who asks, and with which role in the project of the request. */
@@ -64,33 +65,40 @@ function demoSummary(): AtomLibrarySummary {
     owner: null,
     usable: true,
     canDelete: false,
+    sharedHere: false,
+    canShare: false,
     createdAt: null,
   };
 }
 
-/** Project libraries of the project, and personal libraries of anyone who may design in it (a site admin may design anywhere). */
-function usableWhere(projectId: number): WhereOptions {
-  const id = Number(projectId);
+/** Personal libraries their owners shared with the project (atom_library_shares). */
+function sharedWith(projectId: number) {
+  return literal(`(SELECT s.atom_library_id FROM atom_library_shares s WHERE s.project_id = ${Number(projectId)})`);
+}
+
+/**
+ * Libraries a revision of the project may use, saved by `userId`: the project's own libraries, personal ones
+ * their owners shared with it, and the person's own personal libraries (saving a revision with one is their
+ * own act of sharing). Nobody else's personal library, a site admin's included.
+ */
+function usableWhere(projectId: number, userId: number): WhereOptions {
   return {
     [Op.or]: [
-      { scope: 'project', projectId: id },
-      {
-        scope: 'personal',
-        ownerId: {
-          [Op.in]: literal(
-            `(SELECT m.user_id FROM project_members m WHERE m.project_id = ${id} AND m.role IN ('owner', 'designer') UNION SELECT u.id FROM users u WHERE u.site_role = 'admin')`,
-          ),
-        },
-      },
+      { scope: 'project', projectId: Number(projectId) },
+      { scope: 'personal', id: { [Op.in]: sharedWith(projectId) } },
+      { scope: 'personal', ownerId: Number(userId) },
     ],
   };
 }
 
 /** Usable here, or used by a revision of this project (then readable, though perhaps no longer usable). */
-function visibleWhere(projectId: number): WhereOptions {
+function visibleWhere(projectId: number, userId: number): WhereOptions {
   const id = Number(projectId);
   return {
-    [Op.or]: [usableWhere(id), { id: { [Op.in]: literal(`(SELECT r.atom_library_id FROM revisions r WHERE r.project_id = ${id} AND r.atom_library_id IS NOT NULL)`) } }],
+    [Op.or]: [
+      usableWhere(id, userId),
+      { id: { [Op.in]: literal(`(SELECT r.atom_library_id FROM revisions r WHERE r.project_id = ${id} AND r.atom_library_id IS NOT NULL)`) } },
+    ],
   };
 }
 
@@ -99,7 +107,14 @@ function mayDelete(library: AtomLibraryModel, viewer: LibraryViewer): boolean {
   return library.scope === 'project' && viewer.role === 'owner';
 }
 
-function toSummary(library: AtomLibraryModel, usableIds: Set<number>, viewer: LibraryViewer): AtomLibrarySummary {
+/** Which of these libraries their owners shared with the project. */
+async function sharedIdsIn(projectId: number, ids: number[]): Promise<Set<number>> {
+  if (ids.length === 0) return new Set();
+  const rows = await AtomLibraryShareModel.findAll({ where: { projectId, atomLibraryId: { [Op.in]: ids } }, attributes: ['atomLibraryId'] });
+  return new Set(rows.map((r) => r.atomLibraryId));
+}
+
+function toSummary(library: AtomLibraryModel, usableIds: Set<number>, viewer: LibraryViewer, sharedIds: Set<number>): AtomLibrarySummary {
   return {
     id: library.id,
     name: library.name,
@@ -114,31 +129,34 @@ function toSummary(library: AtomLibraryModel, usableIds: Set<number>, viewer: Li
     owner: library.owner ? { id: library.owner.id, name: library.owner.name } : null,
     usable: usableIds.has(library.id),
     canDelete: mayDelete(library, viewer),
+    sharedHere: sharedIds.has(library.id),
+    canShare: library.scope === 'personal' && library.ownerId === viewer.userId && projectRoleAllows(viewer.role, 'design'),
     createdAt: library.createdAt.toISOString(),
   };
 }
 
-async function usableIdsIn(projectId: number, ids: number[]): Promise<Set<number>> {
+async function usableIdsIn(projectId: number, ids: number[], userId: number): Promise<Set<number>> {
   if (ids.length === 0) return new Set();
-  const rows = await AtomLibraryModel.findAll({ where: { [Op.and]: [{ id: { [Op.in]: ids } }, usableWhere(projectId)] }, attributes: ['id'] });
+  const rows = await AtomLibraryModel.findAll({ where: { [Op.and]: [{ id: { [Op.in]: ids } }, usableWhere(projectId, userId)] }, attributes: ['id'] });
   return new Set(rows.map((r) => r.id));
 }
 
 /** The demo library first, then the project's libraries and the personal ones visible here, newest first. */
 export async function listAtomLibraries(projectId: number, viewer: LibraryViewer): Promise<AtomLibrarySummary[]> {
   const libraries = await AtomLibraryModel.findAll({
-    where: visibleWhere(projectId),
+    where: visibleWhere(projectId, viewer.userId),
     attributes: WITHOUT_ATOMS,
     include: [owner],
     order: [['createdAt', 'DESC'], ['id', 'DESC']],
   });
-  const usable = await usableIdsIn(projectId, libraries.map((l) => l.id));
-  return [demoSummary(), ...libraries.map((l) => toSummary(l, usable, viewer))];
+  const ids = libraries.map((l) => l.id);
+  const [usable, shared] = await Promise.all([usableIdsIn(projectId, ids, viewer.userId), sharedIdsIn(projectId, ids)]);
+  return [demoSummary(), ...libraries.map((l) => toSummary(l, usable, viewer, shared))];
 }
 
-async function findVisible(projectId: number, id: number, withAtoms: boolean): Promise<AtomLibraryModel> {
+export async function findVisible(projectId: number, id: number, userId: number, withAtoms: boolean): Promise<AtomLibraryModel> {
   const library = await AtomLibraryModel.findOne({
-    where: { [Op.and]: [{ id }, visibleWhere(projectId)] },
+    where: { [Op.and]: [{ id }, visibleWhere(projectId, userId)] },
     attributes: withAtoms ? undefined : WITHOUT_ATOMS,
     include: [owner],
   });
@@ -162,25 +180,26 @@ function engineLibrary(library: AtomLibraryModel): AtomLibrary {
 
 export async function getAtomLibrary(projectId: number, id: number | 'demo', viewer: LibraryViewer): Promise<AtomLibraryDetail> {
   if (id === 'demo') return { ...demoSummary(), atoms: toRows(demoLibrary().atoms), usedBy: [] };
-  const library = await findVisible(projectId, id, true);
-  const [usable, revisions] = await Promise.all([
-    usableIdsIn(projectId, [id]),
+  const library = await findVisible(projectId, id, viewer.userId, true);
+  const [usable, shared, revisions] = await Promise.all([
+    usableIdsIn(projectId, [id], viewer.userId),
+    sharedIdsIn(projectId, [id]),
     RevisionModel.findAll({ where: { projectId, atomLibraryId: id }, attributes: ['number'], order: [['number', 'ASC']] }),
   ]);
-  return { ...toSummary(library, usable, viewer), atoms: toRows(JSON.parse(library.atoms) as MetaAtom[]), usedBy: revisions.map((r) => r.number) };
+  return { ...toSummary(library, usable, viewer, shared), atoms: toRows(JSON.parse(library.atoms) as MetaAtom[]), usedBy: revisions.map((r) => r.number) };
 }
 
 /** The library as CSV text (the upload format), with a file name. */
-export async function atomLibraryCsv(projectId: number, id: number | 'demo'): Promise<{ name: string; csv: string }> {
+export async function atomLibraryCsv(projectId: number, id: number | 'demo', viewer: LibraryViewer): Promise<{ name: string; csv: string }> {
   if (id === 'demo') return { name: 'demo-atom-library.csv', csv: atomLibraryToCsv(demoLibrary()) };
-  const library = await findVisible(projectId, id, true);
+  const library = await findVisible(projectId, id, viewer.userId, true);
   const stem = library.name.replace(/[^\p{L}\p{N}._ -]+/gu, '').trim().slice(0, 100) || `atom-library-${id}`;
   return { name: `${stem}.csv`, csv: atomLibraryToCsv(engineLibrary(library)) };
 }
 
 /** Deletes a library nobody uses: the uploader, a site admin, or (for a project library) an owner of the project. */
 export async function deleteAtomLibrary(projectId: number, id: number, viewer: LibraryViewer): Promise<void> {
-  const library = await findVisible(projectId, id, false);
+  const library = await findVisible(projectId, id, viewer.userId, false);
   if (!mayDelete(library, viewer)) {
     throw new AppError(403, `Only ${library.owner?.name ?? 'the person who uploaded it'}${library.scope === 'project' ? ' or an owner of the project' : ''} may delete this library`);
   }
@@ -290,8 +309,8 @@ export async function createAtomLibrary(
  * The stored library a revision of `projectId` may use, with its wavelength and period, or a sentence
  * saying why not.
  */
-export async function usableLibrary(projectId: number, id: number): Promise<{ library: AtomLibraryModel } | { refusal: string }> {
-  const library = await AtomLibraryModel.findOne({ where: { [Op.and]: [{ id }, usableWhere(projectId)] }, attributes: WITHOUT_ATOMS });
+export async function usableLibrary(projectId: number, id: number, userId: number): Promise<{ library: AtomLibraryModel } | { refusal: string }> {
+  const library = await AtomLibraryModel.findOne({ where: { [Op.and]: [{ id }, usableWhere(projectId, userId)] }, attributes: WITHOUT_ATOMS });
   if (library) return { library };
   const exists = await AtomLibraryModel.findByPk(id, { attributes: ['id', 'scope'] });
   if (!exists) return { refusal: `there is no atom library ${id}` };
@@ -299,7 +318,7 @@ export async function usableLibrary(projectId: number, id: number): Promise<{ li
     refusal:
       exists.scope === 'project'
         ? `atom library ${id} belongs to another project; upload it to this project to use it`
-        : `atom library ${id} is a personal library of someone who cannot design in this project`,
+        : `atom library ${id} is someone else's personal library that its owner has not shared with this project`,
   };
 }
 

@@ -10,6 +10,8 @@ export class AuthTokenModel extends Model<InferAttributes<AuthTokenModel>, Infer
   declare tokenHash: string;
   declare expiresAt: Date;
   declare usedAt: CreationOptional<Date | null>;
+  /** Who issued an invitation link (null for reset links). */
+  declare createdById: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -22,6 +24,7 @@ export class AuthTokenModel extends Model<InferAttributes<AuthTokenModel>, Infer
         tokenHash: { type: DataTypes.CHAR(64), allowNull: false, unique: true },
         expiresAt: { type: DataTypes.DATE, allowNull: false },
         usedAt: { type: DataTypes.DATE, allowNull: true },
+        createdById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

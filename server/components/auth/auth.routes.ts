@@ -14,16 +14,23 @@ import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
 import { parseInput } from '../../lib/validate';
 import { recordAudit, recordLockout, recordSignInFailure } from '../audit/audit.service';
-import { changePassword, toUserDto, updateProfile } from '../users/user.service';
+import { toUserDto, updateProfile } from '../users/user.service';
 import type { UserModel } from '../users/user.model';
 import { currentUser, requireUser } from './auth.middleware';
 import { acceptInvitation, requestPasswordReset, resetPassword, signUp } from './auth.service';
+import { changePassword } from './credentials.service';
+import { currentPasswordLimiter } from './current-password-limit';
 
 type CsrfTokenFn = (req: Request, overwrite?: boolean) => string;
 
 /** Rate-limit key: the caller's address (IPv6 folded to its /56) together with the account e-mail. */
 function perAccount(req: Request): string {
   return `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').trim().toLowerCase()}`;
+}
+
+/** Rate-limit key: the caller's address alone (IPv6 folded to its /56), whatever e-mails it tries. */
+function perAddress(req: Request): string {
+  return ipKeyGenerator(req.ip ?? '');
 }
 
 function tooMany(message: string) {
@@ -45,6 +52,16 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken:
     legacyHeaders: false,
     keyGenerator: perAccount,
     handler: tooMany(`Too many failed sign-in attempts — wait ${ctx.config.SIGNIN_WINDOW_MINUTES} minutes and try again`),
+  });
+  // Password spraying: few tries on each of many accounts from one address.
+  const signInAddressLimiter = rateLimit({
+    windowMs,
+    limit: ctx.config.SIGNIN_ADDRESS_LIMIT,
+    skipSuccessfulRequests: true,
+    standardHeaders: false,
+    legacyHeaders: false,
+    keyGenerator: perAddress,
+    handler: tooMany(`Too many failed sign-in attempts from your network address — wait ${ctx.config.SIGNIN_WINDOW_MINUTES} minutes and try again`),
   });
   const resetMailLimiter = rateLimit({
     windowMs,
@@ -72,7 +89,7 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken:
     res.json({ user: req.user ? toUserDto(req.user) : null, signupOpen: ctx.config.ALLOW_SIGNUP });
   });
 
-  router.post('/sign-in', signInLimiter, async (req, res) => {
+  router.post('/sign-in', signInAddressLimiter, signInLimiter, async (req, res) => {
     const { email } = parseInput(signInSchema, req.body);
     const user = await new Promise<UserModel | false>((resolve, reject) =>
       passport.authenticate('local', { session: false }, (err: Error | null, found: UserModel | false) =>
@@ -106,8 +123,8 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken:
 
   router.post('/password-reset/complete', async (req, res) => {
     const { token, password } = parseInput(resetPasswordSchema, req.body);
-    const user = await resetPassword(ctx, token, password);
-    res.json(await signedIn(req, user));
+    const { user, revokedTokens } = await resetPassword(ctx, token, password);
+    res.json({ ...(await signedIn(req, user)), revokedTokens });
   });
 
   router.post('/invitation/accept', async (req, res) => {
@@ -116,10 +133,13 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken:
     res.json(await signedIn(req, user));
   });
 
-  router.post('/password', requireUser, async (req, res) => {
+  router.post('/password', requireUser, currentPasswordLimiter(ctx.config), async (req, res) => {
     const { currentPassword, newPassword } = parseInput(changePasswordSchema, req.body);
-    await changePassword(currentUser(req), currentPassword, newPassword, ctx.config.BCRYPT_COST);
-    res.json({ ok: true });
+    const user = currentUser(req);
+    const { revokedTokens } = await changePassword(user, currentPassword, newPassword, ctx.config.BCRYPT_COST);
+    // Every other session of the account has ended; this one starts again under the new password.
+    await signInAs(req, user);
+    res.json({ ok: true, revokedTokens, csrfToken: csrfToken(req, true) });
   });
 
   router.patch('/profile', requireUser, async (req, res) => {

@@ -5,14 +5,15 @@ import { hashToken, newToken } from '../../lib/tokens';
 import { recordAudit } from '../audit/audit.service';
 import { UserModel } from '../users/user.model';
 import { hashPassword } from '../users/user.service';
+import { replacePassword } from './credentials.service';
 import { AuthTokenModel, type AuthTokenPurpose } from './auth-token.model';
 
 const RESET_LIFETIME_MS = 60 * 60 * 1000;
 const INVITE_LIFETIME_MS = 7 * 24 * 60 * 60 * 1000;
 
-async function issueToken(userId: number, purpose: AuthTokenPurpose, lifetimeMs: number): Promise<string> {
+async function issueToken(userId: number, purpose: AuthTokenPurpose, lifetimeMs: number, createdById: number | null = null): Promise<string> {
   const { token, hash } = newToken();
-  await AuthTokenModel.create({ userId, purpose, tokenHash: hash, expiresAt: new Date(Date.now() + lifetimeMs) });
+  await AuthTokenModel.create({ userId, purpose, tokenHash: hash, expiresAt: new Date(Date.now() + lifetimeMs), createdById });
   return token;
 }
 
@@ -62,12 +63,12 @@ export async function requestPasswordReset(ctx: AppContext, email: string) {
   });
 }
 
+/** Sets the new password of a reset link's account; its other sessions end and its access tokens are revoked. */
 export async function resetPassword(ctx: AppContext, token: string, password: string) {
   const user = await consumeToken(ctx, token, 'reset');
-  user.passwordHash = await hashPassword(password, ctx.config.BCRYPT_COST);
-  await user.save();
+  const { revokedTokens } = await replacePassword(user, password, ctx.config.BCRYPT_COST);
   await recordAudit('password-reset', { actorId: user.id, subjectUserId: user.id });
-  return user;
+  return { user, revokedTokens };
 }
 
 export interface InvitationContext {
@@ -101,23 +102,41 @@ export async function inviteUser(
   if (await UserModel.findOne({ where: { email: input.email } })) {
     throw new AppError(409, 'An account with this e-mail already exists', { email: 'Already registered' });
   }
-  const user = await UserModel.create({ ...input, passwordHash: null });
-  const token = await issueToken(user.id, 'invite', INVITE_LIFETIME_MS);
+  const user = await UserModel.create({ ...input, passwordHash: null, invitedById: invitedBy.id });
+  const token = await issueToken(user.id, 'invite', INVITE_LIFETIME_MS, invitedBy.id);
   mailInvitation(ctx, user, invitedBy, token, project);
   await recordAudit('invitation-sent', { actorId: invitedBy.id, subjectUserId: user.id, detail: { email: user.email, siteRole: user.siteRole, project: project?.name ?? null } });
   return user;
 }
 
-/** Marks every unused invitation link of this account as used, so none of them works any more. */
-export async function invalidateInvitations(userId: number, transaction?: Transaction) {
-  await AuthTokenModel.update({ usedAt: new Date() }, { where: { userId, purpose: 'invite', usedAt: { [Op.is]: null } }, transaction });
+/**
+ * Marks unused invitation links of this account as used, so they no longer work: those `issuedBy` one person
+ * (their own links), or every one.
+ */
+export async function invalidateInvitations(userId: number, options: { issuedBy?: number; transaction?: Transaction } = {}) {
+  const where = { userId, purpose: 'invite' as const, usedAt: { [Op.is]: null }, ...(options.issuedBy === undefined ? {} : { createdById: options.issuedBy }) };
+  await AuthTokenModel.update({ usedAt: new Date() }, { where, transaction: options.transaction });
 }
 
-/** Replaces the account's invitation links with a fresh one and mails it again. */
+/** Unused, unexpired invitation links of the account issued by anyone but `person`. */
+export async function invitationsByOthers(userId: number, person: number, transaction?: Transaction): Promise<number> {
+  return AuthTokenModel.count({
+    where: {
+      userId,
+      purpose: 'invite',
+      usedAt: { [Op.is]: null },
+      expiresAt: { [Op.gt]: new Date() },
+      [Op.or]: [{ createdById: { [Op.is]: null } }, { createdById: { [Op.ne]: person } }],
+    },
+    transaction,
+  });
+}
+
+/** Replaces the inviter's own links to the account with a fresh one and mails it; other people's links keep working. */
 export async function reissueInvitation(ctx: AppContext, user: UserModel, invitedBy: UserModel, project: InvitationContext) {
   if (user.passwordHash) throw new AppError(409, 'This person has already accepted the invitation');
-  await invalidateInvitations(user.id);
-  const token = await issueToken(user.id, 'invite', INVITE_LIFETIME_MS);
+  await invalidateInvitations(user.id, { issuedBy: invitedBy.id });
+  const token = await issueToken(user.id, 'invite', INVITE_LIFETIME_MS, invitedBy.id);
   mailInvitation(ctx, user, invitedBy, token, project);
 }
 
@@ -136,8 +155,7 @@ export async function latestInvitations(userIds: number[]) {
 export async function acceptInvitation(ctx: AppContext, token: string, name: string, password: string) {
   const user = await consumeToken(ctx, token, 'invite');
   user.name = name;
-  user.passwordHash = await hashPassword(password, ctx.config.BCRYPT_COST);
-  await user.save();
+  await replacePassword(user, password, ctx.config.BCRYPT_COST);
   await recordAudit('invitation-accepted', { actorId: user.id, subjectUserId: user.id });
   return user;
 }

@@ -3,7 +3,7 @@ import type { PendingInvitation } from '../../../shared/schemas/projects';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
 import { recordAudit } from '../audit/audit.service';
-import { invalidateInvitations, latestInvitations, reissueInvitation } from '../auth/auth.service';
+import { invalidateInvitations, invitationsByOthers, latestInvitations, reissueInvitation } from '../auth/auth.service';
 import { UserModel } from '../users/user.model';
 import { MembershipModel } from './membership.model';
 import { ProjectModel } from './project.model';
@@ -48,18 +48,19 @@ export async function resendInvitation(ctx: AppContext, projectId: number, userI
 }
 
 /**
- * Withdraws the invitation: the membership goes, and so does the password-less account when no other
- * project is waiting for it (its links with it). An account still invited elsewhere keeps its link,
- * which then no longer leads into this project.
+ * Withdraws the invitation: the membership goes. The password-less account (and its links) goes too only when
+ * the revoker created it by inviting it and nobody else is still waiting for it (no other project, no one
+ * else's unused link); otherwise it stays with its links, which then no longer lead into this project.
  */
-export async function revokeInvitation(ctx: AppContext, projectId: number, userId: number) {
+export async function revokeInvitation(ctx: AppContext, projectId: number, userId: number, revoker: UserModel) {
   const membership = await findPendingMembership(projectId, userId);
   const user = membership.user!;
   await ctx.sequelize.transaction(async (transaction) => {
     await membership.destroy({ transaction });
+    if (user.invitedById !== revoker.id) return;
     const elsewhere = await MembershipModel.count({ where: { userId }, transaction });
-    if (elsewhere > 0) return;
-    await invalidateInvitations(userId, transaction);
+    if (elsewhere > 0 || (await invitationsByOthers(userId, revoker.id, transaction)) > 0) return;
+    await invalidateInvitations(userId, { transaction });
     await user.destroy({ transaction });
   });
   await recordAudit('invitation-revoked', { subjectUserId: userId, projectId, detail: { email: user.email, role: membership.role } });

@@ -24,11 +24,14 @@ export async function effectiveRole(user: UserModel, projectId: number): Promise
   return membership?.role ?? null;
 }
 
+const READS = new Set(['GET', 'HEAD', 'OPTIONS']);
+
 /**
  * Route guard for `/projects/:projectId/…`: 401 when signed out, 404 when the project does not exist or the
- * user is not a member (so project names never leak), 403 when the role lacks `ability`.
+ * user is not a member (so project names never leak), 403 when the role lacks `ability`, 409 for any write to
+ * an archived project (an archived project is read-only; `whenArchived: 'allow'` is for unarchiving).
  */
-export function requireProject(ability: ProjectAbility) {
+export function requireProject(ability: ProjectAbility, options: { whenArchived?: 'refuse' | 'allow' } = {}) {
   return async (req: Request, _res: Response, next: NextFunction) => {
     if (!req.user) throw new AppError(401, 'Sign in to continue');
     const projectId = parseId(req.params.projectId, 'projectId');
@@ -37,6 +40,9 @@ export function requireProject(ability: ProjectAbility) {
     if (!project || !role) throw new AppError(404, 'Project not found');
     if (!projectRoleAllows(role, ability)) {
       throw new AppError(403, `Your role on this project (${role}) does not allow this`);
+    }
+    if (project.archivedAt && !READS.has(req.method) && options.whenArchived !== 'allow') {
+      throw new AppError(409, 'This project is archived and read-only — an owner can unarchive it to make changes');
     }
     req.projectAccess = { project, role };
     next();

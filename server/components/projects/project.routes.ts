@@ -55,7 +55,7 @@ export function projectRoutes(ctx: AppContext) {
     res.json({ project: await setArchived(project, role, true) });
   });
 
-  router.post('/:projectId/unarchive', requireProject('manage'), async (req, res) => {
+  router.post('/:projectId/unarchive', requireProject('manage', { whenArchived: 'allow' }), async (req, res) => {
     const { project, role } = projectAccess(req);
     res.json({ project: await setArchived(project, role, false) });
   });
@@ -104,7 +104,7 @@ export function projectRoutes(ctx: AppContext) {
   router.delete('/:projectId/invitations/:userId', requireProject('manage'), async (req, res) => {
     const { project } = projectAccess(req);
     const userId = parseId(req.params.userId, 'userId');
-    const revoked = await revokeInvitation(ctx, project.id, userId);
+    const revoked = await revokeInvitation(ctx, project.id, userId, currentUser(req));
     await recordMembershipActivity(project.id, currentUser(req).id, 'member-removed', { name: revoked.email });
     res.status(204).end();
   });

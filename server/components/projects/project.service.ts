@@ -113,19 +113,39 @@ async function assertOwnerRemains(projectId: number, leavingUserId: number) {
 }
 
 /**
+ * Who may bring a new account into the site by adding an unknown e-mail to a project: a site admin, or anyone
+ * while open sign-up is on (they could sign the person up anyway).
+ */
+function mayCreateAccounts(ctx: AppContext, person: UserModel): boolean {
+  return ctx.config.ALLOW_SIGNUP || person.siteRole === 'admin';
+}
+
+/**
  * Adds the account with this e-mail to the project. An e-mail without an account gets one (no password yet)
- * and an invitation mail; the membership waits for them, so they see the project once they accept.
+ * and an invitation mail when the adder may create accounts; the membership waits for them, so they see the
+ * project once they accept. An unknown and a disabled address get the same refusal, so the answer never says
+ * which it was.
  */
 export async function addMember(ctx: AppContext, projectId: number, input: { email: string; role: ProjectRole }, invitedBy: UserModel) {
   let user = await UserModel.findOne({ where: { email: input.email } });
   let invited = false;
+  // Site admins manage accounts and see them all; to anyone else a disabled account looks like none.
+  if (user?.disabledAt && invitedBy.siteRole === 'admin') {
+    throw new AppError(409, 'This account is disabled — enable it under Accounts first', { email: 'Account disabled' });
+  }
+  if (user?.disabledAt || (!user && !mayCreateAccounts(ctx, invitedBy))) {
+    throw new AppError(
+      403,
+      'This e-mail cannot be added: only people with an active account can be, and only a site admin can invite someone new — ask one to invite this address',
+      { email: 'No active account can be added for this address' },
+    );
+  }
   if (!user) {
     const project = await ProjectModel.findByPk(projectId, { attributes: ['name'] });
     const name = input.email.split('@')[0].slice(0, 80) || input.email.slice(0, 80);
     user = await inviteUser(ctx, { email: input.email, name, siteRole: 'member' }, invitedBy, { name: project?.name ?? 'a project', role: input.role });
     invited = true;
   }
-  if (user.disabledAt) throw new AppError(409, 'This account is disabled', { email: 'Account disabled' });
   if (await MembershipModel.findOne({ where: { projectId, userId: user.id } })) {
     throw new AppError(409, 'This person is already a member', { email: 'Already a member' });
   }

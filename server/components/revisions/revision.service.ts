@@ -59,7 +59,7 @@ export async function getRevision(projectId: number, number: number): Promise<Re
  * kind; files on disk are for the command line only; a stored atom library must be usable in the project
  * and made for the design's wavelength and period (within LIBRARY_MATCH_TOLERANCE).
  */
-async function checkReferences(projectId: number, design: Design) {
+async function checkReferences(projectId: number, userId: number, design: Design) {
   const details: Record<string, string> = {};
   for (const { ref, path, accepts } of assetUses(design)) {
     const field = `design.${path}`;
@@ -76,7 +76,7 @@ async function checkReferences(projectId: number, design: Design) {
     details['design.atomLibrary'] = 'library files on disk are for the command line; upload the CSV on the Atom libraries page and use { "source": "library", "id": … }';
   }
   if (library.source === 'library') {
-    const found = await usableLibrary(projectId, library.id);
+    const found = await usableLibrary(projectId, library.id, userId);
     if ('refusal' in found) details['design.atomLibrary.id'] = found.refusal;
     else {
       const mismatches = libraryMismatches(design.setup, found.library);
@@ -93,7 +93,7 @@ async function checkReferences(projectId: number, design: Design) {
 
 /** Saves the next revision of the project (numbers 1, 2, 3…, never reused). */
 export async function createRevision(projectId: number, userId: number, input: { design: Design; message: string }): Promise<Revision> {
-  await checkReferences(projectId, input.design);
+  await checkReferences(projectId, userId, input.design);
   for (let attempt = 0; ; attempt++) {
     const last = (await RevisionModel.max('number', { where: { projectId } })) as number | null;
     try {

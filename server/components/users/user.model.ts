@@ -9,6 +9,10 @@ export class UserModel extends Model<InferAttributes<UserModel>, InferCreationAt
   declare siteRole: CreationOptional<SiteRole>;
   declare disabledAt: CreationOptional<Date | null>;
   declare lastSignInAt: CreationOptional<Date | null>;
+  /** The person whose invitation created this account; null for sign-up, the demo seed and the first admin. */
+  declare invitedById: CreationOptional<number | null>;
+  /** Last password change or reset: sessions signed in before then are over. */
+  declare credentialsChangedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -22,6 +26,8 @@ export class UserModel extends Model<InferAttributes<UserModel>, InferCreationAt
         siteRole: { type: DataTypes.ENUM('admin', 'member'), allowNull: false, defaultValue: 'member' },
         disabledAt: { type: DataTypes.DATE, allowNull: true },
         lastSignInAt: { type: DataTypes.DATE, allowNull: true },
+        invitedById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
+        credentialsChangedAt: { type: DataTypes.DATE(3), allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -1,7 +1,6 @@
 import bcrypt from 'bcryptjs';
 import type { User } from '../../../shared/schemas/auth';
 import { AppError } from '../../lib/app-error';
-import { recordAudit } from '../audit/audit.service';
 import { UserModel } from './user.model';
 
 export function toUserDto(user: UserModel): User {
@@ -20,29 +19,50 @@ export async function hashPassword(password: string, cost: number): Promise<stri
   return bcrypt.hash(password, cost);
 }
 
-/** A hash of nothing, compared against when the account does not exist so timing does not reveal it. */
-const decoyHash = bcrypt.hashSync('phasewright-decoy-password', 10);
+const decoys = new Map<number, string>();
+/**
+ * A hash of nothing at the cost new passwords get, compared against when the account does not exist or has no
+ * password yet, so the answer takes as long as for a real account and timing does not reveal it.
+ */
+export function decoyHash(cost: number): string {
+  let hash = decoys.get(cost);
+  if (!hash) {
+    hash = bcrypt.hashSync('phasewright-decoy-password', cost);
+    decoys.set(cost, hash);
+  }
+  return hash;
+}
 
-/** Returns the enabled user whose password matches, or null. */
-export async function verifyCredentials(email: string, password: string): Promise<UserModel | null> {
+/** Returns the enabled user whose password matches, or null; as slow for unknown addresses as for known ones. */
+export async function verifyCredentials(email: string, password: string, cost: number): Promise<UserModel | null> {
   const user = await UserModel.findOne({ where: { email } });
-  const ok = await bcrypt.compare(password, user?.passwordHash ?? decoyHash);
+  const ok = await bcrypt.compare(password, user?.passwordHash ?? decoyHash(cost));
   if (!user || !user.passwordHash || !ok || user.disabledAt) return null;
   return user;
+}
+
+/**
+ * The enabled user of a session signed in at `signedInAt` (ms), or null when the session is older than
+ * `maxAgeMs` or began before the account's last password change.
+ */
+export async function findSessionUser(id: number, signedInAt: number, maxAgeMs: number): Promise<UserModel | null> {
+  if (!(Date.now() - signedInAt <= maxAgeMs)) return null;
+  const user = await findActiveUser(id);
+  if (!user) return null;
+  if (user.credentialsChangedAt && signedInAt < user.credentialsChangedAt.getTime()) return null;
+  return user;
+}
+
+/** 400 naming the field unless `password` is the user's current password. */
+export async function checkCurrentPassword(user: UserModel, password: string) {
+  if (!user.passwordHash || !(await bcrypt.compare(password, user.passwordHash))) {
+    throw new AppError(400, 'Your current password is not correct', { currentPassword: 'Not correct' });
+  }
 }
 
 export async function findActiveUser(id: number): Promise<UserModel | null> {
   const user = await UserModel.findByPk(id);
   return user && !user.disabledAt ? user : null;
-}
-
-export async function changePassword(user: UserModel, currentPassword: string, newPassword: string, cost: number) {
-  if (!user.passwordHash || !(await bcrypt.compare(currentPassword, user.passwordHash))) {
-    throw new AppError(400, 'Your current password is not correct', { currentPassword: 'Not correct' });
-  }
-  user.passwordHash = await hashPassword(newPassword, cost);
-  await user.save();
-  await recordAudit('password-changed', { actorId: user.id, subjectUserId: user.id });
 }
 
 export async function updateProfile(user: UserModel, name: string) {

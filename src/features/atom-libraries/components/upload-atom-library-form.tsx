@@ -8,7 +8,7 @@ import { useCreateAtomLibrary } from '@/features/atom-libraries/api/create-atom-
 
 const SCOPE_OPTIONS: { value: AtomLibraryScope; label: string }[] = [
   { value: 'project', label: 'This project only' },
-  { value: 'personal', label: 'Me, in every project I design in' },
+  { value: 'personal', label: 'Only me, until I share it with a project' },
 ];
 
 interface UploadAtomLibraryFormProps {

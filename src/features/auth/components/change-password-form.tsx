@@ -26,7 +26,15 @@ export function ChangePasswordForm() {
       }, change.reset)}
     >
       <FormErrorBanner message={form.formError} />
-      {change.isSuccess ? <Banner tone="success">Your password is changed. Use the new one next time you sign in.</Banner> : null}
+      {change.isSuccess ? (
+        <Banner tone="success">
+          Your password is changed. Every other browser signed in to your account is signed out
+          {change.data.revokedTokens > 0
+            ? `, and your ${change.data.revokedTokens} access token${change.data.revokedTokens === 1 ? ' was' : 's were'} revoked — create new ones for your scripts`
+            : ''}
+          .
+        </Banner>
+      ) : null}
       <TextField
         label="Current password"
         type="password"

@@ -10,7 +10,8 @@ import { projectRoleDuties, projectRoleName } from '@/features/projects/componen
 const roleOptions = PROJECT_ROLES.map((role) => ({ value: role, label: projectRoleName(role) }));
 const empty = { email: '', role: 'designer' as ProjectRole };
 
-export function AddMemberForm({ projectId }: { projectId: number }) {
+/** `mayInvite`: the person adding may bring in someone without an account (a site admin, or while sign-up is open). */
+export function AddMemberForm({ projectId, mayInvite }: { projectId: number; mayInvite: boolean }) {
   const add = useAddMember(projectId);
   const form = useSchemaForm(addMemberSchema, empty);
 
@@ -38,7 +39,11 @@ export function AddMemberForm({ projectId }: { projectId: number }) {
           label="Member's e-mail"
           type="email"
           autoComplete="off"
-          hint="Someone without a Phasewright account gets an e-mail invitation to join with this role."
+          hint={
+            mayInvite
+              ? 'Someone without a Phasewright account gets an e-mail invitation to join with this role.'
+              : 'Only people who already have a Phasewright account can be added; a site admin invites anyone new.'
+          }
           value={form.values.email}
           onValueChange={(value) => {
             add.reset();

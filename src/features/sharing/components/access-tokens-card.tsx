@@ -21,17 +21,21 @@ export function AccessTokensCard() {
   const [name, setName] = useState('');
   const [scope, setScope] = useState<TokenScope>('read');
   const [expires, setExpires] = useState('');
+  const [currentPassword, setCurrentPassword] = useState('');
   const [secret, setSecret] = useState<string | null>(null);
   const details = isApiError(create.error) ? create.error.details : {};
 
   const submit = (event: FormEvent) => {
     event.preventDefault();
     const expiresAt = expires ? new Date(`${expires}T23:59:59`).toISOString() : null;
-    create.mutate({ name, scope, expiresAt }, { onSuccess: (data) => { setSecret(data.token); setName(''); setExpires(''); } });
+    create.mutate(
+      { name, scope, expiresAt, currentPassword },
+      { onSuccess: (data) => { setSecret(data.token); setName(''); setExpires(''); setCurrentPassword(''); } },
+    );
   };
 
   return (
-    <Card title="Access tokens" description="For scripts and the API: send “Authorization: Bearer <token>”. A token acts as you, with your project roles.">
+    <Card title="Access tokens" description="For scripts and the API: send “Authorization: Bearer <token>”. A token acts as you, with your project roles. Changing your password revokes every token.">
       {secret ? (
         <Banner tone="success" title="Copy the token now — it is shown only this once" className="mb-4">
           <code className="block break-all font-mono text-xs select-all">{secret}</code>
@@ -44,6 +48,14 @@ export function AccessTokensCard() {
         <TextField label="Name" value={name} onValueChange={setName} error={details.name} placeholder="Nightly batch" />
         <SelectField label="Scope" value={scope} onValueChange={setScope} options={SCOPES} error={details.scope} />
         <TextField label="Expires (optional)" type="date" value={expires} onValueChange={setExpires} error={details.expiresAt} />
+        <TextField
+          label="Your current password"
+          type="password"
+          autoComplete="current-password"
+          value={currentPassword}
+          onValueChange={setCurrentPassword}
+          error={details.currentPassword}
+        />
         <div className="sm:col-span-3">
           <FormErrorBanner message={create.error && !Object.keys(details).length ? create.error.message : null} />
           <Button type="submit" disabled={create.isPending}>

@@ -61,7 +61,7 @@ export default function ProjectAtomLibrariesRoute() {
           <AtomLibrariesTable libraries={libraries.data} libraryHref={(id) => paths.projects.atomLibrary.getHref(project.id, id)} />
         )}
         {canUpload ? (
-          <Card title="Upload a library" description="A CSV with the columns below. A personal library follows you into every project you design in.">
+          <Card title="Upload a library" description="A CSV with the columns below. A personal library is yours alone, in every project, until you share it with one from its page.">
             <UploadAtomLibraryForm
               projectId={project.id}
               onUploaded={(library, remarks) => {

@@ -10,6 +10,7 @@ import { paths } from '@/config/paths';
 import { isApiError } from '@/lib/api-client';
 import { formatDate } from '@/lib/format';
 import { useDeleteAtomLibrary } from '@/features/atom-libraries/api/delete-atom-library';
+import { useShareAtomLibrary } from '@/features/atom-libraries/api/share-atom-library';
 import { atomLibraryCsvHref, atomLibraryQueryOptions, parseLibraryId, useAtomLibrary } from '@/features/atom-libraries/api/get-atom-library';
 import { AtomLibraryBadges } from '@/features/atom-libraries/components/atom-library-badges';
 import { PhaseCoverageChart, RetardanceHistogram } from '@/features/atom-libraries/components/atom-library-charts';
@@ -29,6 +30,7 @@ function LibraryPage({ projectId, libraryId }: { projectId: number; libraryId: n
   const navigate = useNavigate();
   const library = useAtomLibrary(projectId, libraryId);
   const remove = useDeleteAtomLibrary(projectId);
+  const share = useShareAtomLibrary(projectId);
   const [confirming, setConfirming] = useState(false);
   const back = (
     <Link to={paths.projects.atomLibraries.getHref(projectId)} className={buttonClasses('secondary', 'sm')}>
@@ -64,6 +66,16 @@ function LibraryPage({ projectId, libraryId }: { projectId: number; libraryId: n
           <a href={atomLibraryCsvHref(projectId, data.id)} className={buttonClasses('secondary', 'sm')} download>
             Download CSV
           </a>
+          {data.canShare && typeof data.id === 'number' ? (
+            <Button
+              variant="secondary"
+              size="sm"
+              pending={share.isPending}
+              onClick={() => share.mutate({ libraryId: data.id as number, shared: !data.sharedHere })}
+            >
+              {data.sharedHere ? 'Stop sharing with this project' : 'Share with this project'}
+            </Button>
+          ) : null}
           {canDelete ? (
             <Button variant="danger" size="sm" onClick={() => setConfirming(true)}>
               Delete library
@@ -71,6 +83,16 @@ function LibraryPage({ projectId, libraryId }: { projectId: number; libraryId: n
           ) : null}
         </div>
       </div>
+      {share.error ? (
+        <Banner tone="error" title="Sharing did not change" className="mb-6">
+          {share.error.message}
+        </Banner>
+      ) : null}
+      {data.canShare && !data.sharedHere ? (
+        <Banner tone="info" title="Only you see this personal library" className="mb-6">
+          Other members of this project do not see it until you share it with the project; you can stop sharing at any time.
+        </Banner>
+      ) : null}
       {data.approximate ? (
         <Banner tone="warning" title="Approximate library" className="mb-6">
           {isDemo

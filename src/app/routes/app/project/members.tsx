@@ -6,7 +6,7 @@ import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
 import { PageLoader } from '@/components/ui/spinner';
 import { paths } from '@/config/paths';
-import { useCurrentUser } from '@/features/auth/api/get-me';
+import { useCurrentUser, useMe } from '@/features/auth/api/get-me';
 import { membersQueryOptions, useMembers } from '@/features/projects/api/get-members';
 import { AddMemberForm } from '@/features/projects/components/add-member-form';
 import { MembersList } from '@/features/projects/components/members-list';
@@ -25,6 +25,7 @@ export const clientLoader =
 export default function ProjectMembersRoute() {
   const { project } = useProjectOutlet();
   const user = useCurrentUser();
+  const signupOpen = useMe().data?.signupOpen ?? false;
   const navigate = useNavigate();
   const members = useMembers(project.id);
   const canManage = projectRoleAllows(project.myRole, 'manage');
@@ -35,7 +36,7 @@ export default function ProjectMembersRoute() {
       <div className="flex min-w-0 flex-col gap-6">
         {canManage ? (
           <Card title="Add a member" description="Give a colleague access to this project and choose what they may do.">
-            <AddMemberForm projectId={project.id} />
+            <AddMemberForm projectId={project.id} mayInvite={signupOpen || user.siteRole === 'admin'} />
           </Card>
         ) : null}
         <Card
