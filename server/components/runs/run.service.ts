@@ -1,11 +1,11 @@
-import { literal, Op, type OrderItem, type WhereOptions } from 'sequelize';
+import { literal, Op, type OrderItem, type Transaction, type WhereOptions } from 'sequelize';
 import type { ListRunsQuery, RunDetail, RunHeadline, RunSummary } from '../../../shared/schemas/runs';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
+import { withRunSlot } from '../quotas/quota.service';
 import { findRevision } from '../revisions/revision.service';
 import { UserModel } from '../users/user.model';
 import { findArtifact, listArtifacts } from './run-artifacts';
-import { addEvent } from './run-state';
 import { RunEventModel, RunModel } from './run.model';
 
 const EMPTY_HEADLINE: RunHeadline = { efficiencyA: null, efficiencyB: null, crosstalkDb: null, zeroOrder: null };
@@ -84,18 +84,22 @@ export async function listRuns(projectId: number, query: ListRunsQuery): Promise
   return runs.map(toSummary);
 }
 
-/** Queues a run of revision `number`; the queue picks it up off the request thread. */
+/**
+ * Queues a run of revision `number`; the queue picks it up off the request thread. 429 past the person's
+ * or the project's limit of runs at once, 413 while the project's storage is full (quota.service.ts).
+ */
 export async function startRun(ctx: AppContext, projectId: number, number: number, userId: number): Promise<RunDetail> {
   const revision = await findRevision(projectId, number);
-  const runId = await createQueuedRun(projectId, revision.id, userId);
+  const runId = await withRunSlot(ctx, { userId, projectId, needsStorage: true }, (transaction) => createQueuedRun(projectId, revision.id, userId, transaction));
   ctx.runQueue.enqueue(runId);
   return getRun(projectId, runId);
 }
 
 /** Records a queued run of a revision; the caller hands it to the queue (or the next server start does). */
-export async function createQueuedRun(projectId: number, revisionId: number, userId: number): Promise<number> {
-  const run = await RunModel.create({ projectId, revisionId, startedById: userId, queuedAt: new Date(), stage: 'queued' });
-  await addEvent(run.id, 'queued', 'queued', `queued by ${(await UserModel.findByPk(userId, { attributes: ['name'] }))?.name ?? 'someone'}`);
+export async function createQueuedRun(projectId: number, revisionId: number, userId: number, transaction?: Transaction): Promise<number> {
+  const run = await RunModel.create({ projectId, revisionId, startedById: userId, queuedAt: new Date(), stage: 'queued' }, { transaction });
+  const by = await UserModel.findByPk(userId, { attributes: ['name'], transaction });
+  await RunEventModel.create({ runId: run.id, status: 'queued', stage: 'queued', message: `queued by ${by?.name ?? 'someone'}`, at: new Date() }, { transaction });
   return run.id;
 }
 

@@ -21,6 +21,7 @@ import { RunArtifactChunkModel, RunModel } from '../runs/run.model';
 import { UploadModel } from '../uploads/upload.model';
 import { TOLERANCE_ARRAYS, type ToleranceArrayName, type ToleranceMessage, type ToleranceTask, type ToleranceTaskResult } from './tolerance-task';
 import { ToleranceStudyModel } from './tolerance.model';
+import { timeLimitMessage } from '../quotas/quota.service';
 
 const TASK_FILE = new URL(`./tolerance-task${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`, import.meta.url);
 const MAX_ATTEMPTS = 3;
@@ -77,6 +78,8 @@ export function createToleranceExecutor(options: {
   /** The run pool while it accepts work, null otherwise. */
   pool: () => Piscina | null;
   progressIntervalMs: number;
+  /** Longest a study may run once started (RUN_TIME_LIMIT_MINUTES); null: no limit. */
+  timeLimitMs: number | null;
 }): ToleranceExecutor {
   const { logger } = options;
   const active = new Map<number, AbortController>();
@@ -117,11 +120,18 @@ export function createToleranceExecutor(options: {
       return chain;
     };
     let lastWrite = 0;
+    let deadline: NodeJS.Timeout | undefined;
     port1.on('message', (message: ToleranceMessage) => {
       if (message.type === 'started') {
         void later(async () => {
           const ok = await transition(studyId, ['queued'], { status: 'running', attempts: study.attempts + 1, startedAt: new Date(), stage: 'loading', progress: 0, error: null });
-          if (!ok) controller.abort('gone');
+          if (!ok) return controller.abort('gone');
+          const limit = options.timeLimitMs;
+          if (limit !== null && !controller.signal.aborted) {
+            deadline = setTimeout(() => void later(async () => {
+              if (await transition(studyId, ['running'], { status: 'failed', error: timeLimitMessage('study', limit / 60_000), finishedAt: new Date() })) controller.abort('time limit');
+            }), limit);
+          }
         });
       } else if (Date.now() - lastWrite >= options.progressIntervalMs || message.fraction === 1) {
         lastWrite = Date.now();
@@ -151,6 +161,7 @@ export function createToleranceExecutor(options: {
       )
       .catch((err: unknown) => logger.error({ err, studyId }, 'tolerance result could not be stored'))
       .finally(async () => {
+        clearTimeout(deadline);
         active.delete(studyId);
         port1.close();
         await rm(workDir, { recursive: true, force: true }).catch(() => undefined);
