@@ -61,6 +61,9 @@ export function requireSucceeded(run: RunModel): void {
   if (run.status !== 'succeeded') {
     throw new AppError(409, `Run ${run.id} is ${run.status}; only a run that succeeded has a layout to show or export`);
   }
+  if (run.filesDeletedAt) {
+    throw new AppError(409, `The files of run ${run.id} were deleted; start the revision again to lay it out, check it or export it`);
+  }
 }
 
 /** The last few layouts read (artifacts never change after a run succeeded); two 2048² layouts are ~100 MB. */

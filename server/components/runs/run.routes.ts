@@ -7,7 +7,7 @@ import { currentUser } from '../auth/auth.middleware';
 import { projectAccess, requireProject } from '../projects/project-access';
 import { toleranceRoutes } from '../tolerance/tolerance.routes';
 import { streamArtifact } from './run-artifacts';
-import { artifactForDownload, cancelRun, getRun, getRunSummary, listRuns, startRun } from './run.service';
+import { artifactForDownload, cancelRun, deleteRunFiles, getRun, getRunSummary, listRuns, startRun } from './run.service';
 
 /** Runs of a project, under `/api/projects/:projectId`. */
 export function runRoutes(ctx: AppContext) {
@@ -32,6 +32,11 @@ export function runRoutes(ctx: AppContext) {
   router.post('/runs/:runId/cancel', requireProject('design'), async (req, res) => {
     const runId = parseId(req.params.runId, 'runId');
     res.json({ run: await cancelRun(ctx, projectAccess(req).project.id, runId) });
+  });
+
+  router.delete('/runs/:runId/files', requireProject('design'), async (req, res) => {
+    const runId = parseId(req.params.runId, 'runId');
+    res.json({ run: await deleteRunFiles(ctx, projectAccess(req).project.id, runId, currentUser(req).id) });
   });
 
   router.get('/runs/:runId/artifacts/:name', requireProject('read'), async (req, res) => {

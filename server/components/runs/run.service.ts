@@ -6,7 +6,7 @@ import { withRunSlot } from '../quotas/quota.service';
 import { findRevision } from '../revisions/revision.service';
 import { UserModel } from '../users/user.model';
 import { findArtifact, listArtifacts } from './run-artifacts';
-import { RunEventModel, RunModel } from './run.model';
+import { RunArtifactModel, RunEventModel, RunModel } from './run.model';
 
 const EMPTY_HEADLINE: RunHeadline = { efficiencyA: null, efficiencyB: null, crosstalkDb: null, zeroOrder: null };
 const SUMMARY_ATTRIBUTES = { exclude: ['convergence', 'metrics', 'plots'] };
@@ -32,6 +32,7 @@ function toSummary(run: RunModel): RunSummary {
     finishedAt: iso(run.finishedAt),
     durationMs: run.durationMs ?? null,
     headline: run.headline ?? EMPTY_HEADLINE,
+    filesDeletedAt: iso(run.filesDeletedAt),
   };
 }
 
@@ -113,11 +114,34 @@ export async function cancelRun(ctx: AppContext, projectId: number, runId: numbe
   return getRun(projectId, runId);
 }
 
+/**
+ * Deletes the stored files of a finished run to free the project's storage; the run row, its metrics,
+ * plots and events stay, and an event records who deleted them. 409 while the run is queued or running.
+ */
+export async function deleteRunFiles(ctx: AppContext, projectId: number, runId: number, userId: number): Promise<RunDetail> {
+  const run = await findRun(projectId, runId);
+  if (run.status === 'queued' || run.status === 'running') {
+    throw new AppError(409, `Run ${runId} is ${run.status}; cancel it or wait for it to finish before deleting its files`);
+  }
+  if (!run.filesDeletedAt) {
+    const by = await UserModel.findByPk(userId, { attributes: ['name'] });
+    await ctx.sequelize.transaction(async (transaction) => {
+      await RunArtifactModel.destroy({ where: { runId }, transaction });
+      await RunModel.update({ filesDeletedAt: new Date(), filesDeletedById: userId }, { where: { id: runId }, transaction });
+      await RunEventModel.create({ runId, status: run.status, stage: run.stage, message: `files deleted by ${by?.name ?? 'someone'}`, at: new Date() }, { transaction });
+    });
+  }
+  return getRun(projectId, runId);
+}
+
 /** An artifact of a finished run with the download name `<project-slug>-r<revision>-run<id>-<name>`. */
 export async function artifactForDownload(projectId: number, projectName: string, runId: number, name: string) {
   const run = await findRun(projectId, runId);
   const artifact = await findArtifact(runId, name);
-  if (!artifact) throw new AppError(404, `Run ${runId} has no file "${name}"${run.status === 'succeeded' ? '' : ` (the run is ${run.status})`}`);
+  if (!artifact) {
+    const why = run.filesDeletedAt ? ' (its files were deleted)' : run.status === 'succeeded' ? '' : ` (the run is ${run.status})`;
+    throw new AppError(404, `Run ${runId} has no file "${name}"${why}`);
+  }
   return { artifact, fileName: `${slugOf(projectName)}-r${run.revision!.number}-run${run.id}-${artifact.name}` };
 }
 

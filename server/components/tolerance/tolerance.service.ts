@@ -40,6 +40,7 @@ export async function getToleranceStudy(projectId: number, runId: number): Promi
 export async function startToleranceStudy(ctx: AppContext, projectId: number, runId: number, userId: number, request: ToleranceRequestBody): Promise<ToleranceStudy> {
   const run = await findRun(projectId, runId);
   if (run.status !== 'succeeded') throw new AppError(409, `Run ${runId} is ${run.status}; a tolerance study needs a run that has succeeded`);
+  if (run.filesDeletedAt) throw new AppError(409, `The files of run ${runId} were deleted; a tolerance study needs them. Start the revision again.`);
   const latest = await ToleranceStudyModel.findOne({ where: { runId }, order: [['id', 'DESC']], attributes: ['id', 'status'] });
   if (latest && (latest.status === 'queued' || latest.status === 'running')) {
     throw new AppError(409, `A tolerance study of run ${runId} is already ${latest.status}; wait for it to finish`);

@@ -5,6 +5,7 @@ import * as designRulesAndExports from './20261201-0004-design-rules-and-exports
 import * as toleranceStudies from './20261201-0005-tolerance-studies';
 import * as review from './20261201-0006-review';
 import * as linksAndTokens from './20261201-0007-links-and-tokens';
+import * as runFilesAndQuotas from './20261203-0020-run-files-and-quotas';
 
 /** Every migration in order. Add a new file `YYYYMMDD-NNNN-what.ts` and list it here. */
 export const migrations = [
@@ -15,4 +16,5 @@ export const migrations = [
   { name: '20261201-0005-tolerance-studies', ...toleranceStudies },
   { name: '20261201-0006-review', ...review },
   { name: '20261201-0007-links-and-tokens', ...linksAndTokens },
+  { name: '20261203-0020-run-files-and-quotas', ...runFilesAndQuotas },
 ];
