@@ -1,7 +1,8 @@
 /**
  * What one person and one project may make the server do at once: runs and tolerance studies queued or
  * running per person (RUNS_PER_USER) and per project (RUNS_PER_PROJECT), counted so that simultaneous
- * requests cannot slip past together, and the run time limit (RUN_TIME_LIMIT_MINUTES).
+ * requests cannot slip past together; the run time limit (RUN_TIME_LIMIT_MINUTES); run event streams per
+ * person (EVENT_STREAMS_PER_USER), which end once their reader loses access (EVENT_STREAM_RECHECK_SECONDS).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { RunModel } from '../../server/components/runs/run.model';
@@ -17,7 +18,13 @@ let designerEmail: string;
 
 beforeAll(async () => {
   // 0.05 minutes = 3 s: long enough for a run to start on a loaded machine, far shorter than the long design.
-  t = await createTestApp({ RUNS_PER_USER: '2', RUNS_PER_PROJECT: '3', RUN_TIME_LIMIT_MINUTES: '0.05' });
+  t = await createTestApp({
+    RUNS_PER_USER: '2',
+    RUNS_PER_PROJECT: '3',
+    RUN_TIME_LIMIT_MINUTES: '0.05',
+    EVENT_STREAMS_PER_USER: '2',
+    EVENT_STREAM_RECHECK_SECONDS: '0.5',
+  });
   const ownerUser = await makeUser({ name: 'Quota Owner' });
   const designerUser = await makeUser({ name: 'Quota Designer' });
   designerId = designerUser.id;
@@ -127,5 +134,82 @@ describe('run time limit', () => {
     const next = (await designer.post(`/api/projects/${p.projectId}/revisions/${quick}/runs`)).body.run;
     const done = await waitForRun(designer, p.projectId, next.id, undefined, 90_000);
     expect(done.status, done.error ?? '').toBe('succeeded');
+  });
+});
+
+/** An event stream held open: `opened` once the first event arrived, `done` with everything once it ends. */
+function openStream(client: ApiClient, url: string) {
+  let opened!: () => void;
+  const first = new Promise<void>((resolve) => (opened = resolve));
+  const request = client
+    .get(url)
+    .buffer(true)
+    .parse((stream, callback) => {
+      let text = '';
+      stream.setEncoding('utf8');
+      stream.on('data', (chunk: string) => {
+        text += chunk;
+        opened();
+      });
+      stream.on('end', () => callback(null, text));
+    });
+  // An aborted stream (closed by this side) settles as status 0.
+  const done = request.then(
+    (res) => ({ status: res.status, text: String(res.body ?? '') }),
+    () => ({ status: 0, text: '' }),
+  );
+  return { request, done, opened: Promise.race([first, done.then(() => undefined)]) };
+}
+
+function within<T>(promise: Promise<T>, ms: number, what: string): Promise<T> {
+  return Promise.race([promise, new Promise<never>((_, reject) => setTimeout(() => reject(new Error(`${what} did not happen within ${ms} ms`)), ms))]);
+}
+
+describe('run event streams', () => {
+  it('a person may hold EVENT_STREAMS_PER_USER streams; the next gets 429 naming it, and closing one frees it', async () => {
+    const p = await project();
+    const run = await waitingRun(p.projectId, p.revisionId, null);
+    const url = `/api/projects/${p.projectId}/runs/${run.id}/events`;
+    const streams = [openStream(designer, url), openStream(designer, url)];
+    await within(Promise.all(streams.map((s) => s.opened)), 20_000, 'two streams opening');
+    const refused = await designer.get(url);
+    expect(refused.status).toBe(429);
+    expect(refused.body.error).toMatch(/EVENT_STREAMS_PER_USER = 2/);
+    // Another person is not held back by the designer's streams.
+    const other = openStream(owner, url);
+    await within(other.opened, 20_000, 'the owner’s stream opening');
+    other.request.abort();
+
+    streams[0].request.abort();
+    let third: ReturnType<typeof openStream> | null = null;
+    const deadline = Date.now() + 20_000;
+    while (!third && Date.now() < deadline) {
+      const attempt = openStream(designer, url);
+      const first = await within(Promise.race([attempt.opened.then(() => 'open'), attempt.done.then((r) => r.status)]), 20_000, 'a stream answer');
+      if (first === 'open') third = attempt;
+      else await new Promise((r) => setTimeout(r, 200));
+    }
+    expect(third).not.toBeNull();
+    third!.request.abort();
+    streams[1].request.abort();
+    await run.update({ status: 'cancelled' });
+  });
+
+  it('a member removed from the project stops receiving: the stream ends', async () => {
+    const p = await project();
+    const viewer = await makeUser({ name: 'Soon Removed' });
+    await owner.post(`/api/projects/${p.projectId}/members`, { email: viewer.email, role: 'viewer' });
+    const client = await signedInClient(t.app, viewer);
+    const run = await waitingRun(p.projectId, p.revisionId, null);
+    const stream = openStream(client, `/api/projects/${p.projectId}/runs/${run.id}/events`);
+    await within(stream.opened, 20_000, 'the stream opening');
+    expect((await owner.delete(`/api/projects/${p.projectId}/members/${viewer.id}`)).status).toBe(204);
+    const { status, text } = await within(stream.done, 20_000, 'the stream ending');
+    expect(status).toBe(200);
+    expect(text).toMatch(/event: end\ndata: \{"reason":"You no longer have access to this project"\}/);
+    // Nothing about the run was sent after the end.
+    expect(text.trim().endsWith('}')).toBe(true);
+    expect(text.lastIndexOf('event: update')).toBeLessThan(text.indexOf('event: end'));
+    await run.update({ status: 'cancelled' });
   });
 });
