@@ -97,7 +97,7 @@ export function createApp(ctx: AppContext) {
   api.use('/projects/:projectId/uploads', uploadRoutes(ctx));
   api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes());
   api.use('/projects/:projectId', runRoutes(ctx));
-  api.use('/projects/:projectId', fabRoutes());
+  api.use('/projects/:projectId', fabRoutes(ctx));
   api.use('/projects/:projectId', reviewRoutes(ctx));
   api.use('/notifications', notificationRoutes());
   api.use('/projects/:projectId', shareLinkRoutes(ctx));

@@ -25,6 +25,7 @@ import { addEvent, markCancelled, markFailed, markStarted, markSucceeded, record
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
 import { RunModel } from './run.model';
 import type { AppConfig } from '../../config';
+import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { runFilesTooLarge, storageQuotaBytes, storedBytes, timeLimitMessage } from '../quotas/quota.service';
 
 export interface RunQueue {
@@ -56,15 +57,7 @@ export interface EmbeddedRunQueueOptions {
   limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'>;
 }
 
-const WORKER_FILE = new URL(`./run-worker${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`, import.meta.url);
-
-/** A TypeScript worker needs the tsx loader in its thread (the compiled .js worker does not). */
-function workerExecArgv(): string[] {
-  const argv = process.execArgv;
-  if (!WORKER_FILE.pathname.endsWith('.ts')) return argv;
-  const hasTsx = argv.some((arg, i) => (arg === '--import' || arg === '--loader') && /tsx/.test(argv[i + 1] ?? ''));
-  return hasTsx ? argv : [...argv, '--import', 'tsx'];
-}
+const WORKER_FILE = workerFile('run-worker', import.meta.url);
 
 /**
  * Whether runs may use helper threads (two for the channels' retrieval, one for the previews while writing)
@@ -82,7 +75,7 @@ export function createRunPool(threads: number): Piscina<RunTask, RunTaskResult> 
     maxThreads: threads,
     minThreads: 0,
     idleTimeout: 60_000,
-    execArgv: workerExecArgv(),
+    execArgv: workerExecArgv(WORKER_FILE),
   });
 }
 
