@@ -93,6 +93,27 @@ describe('storage quota', () => {
     expect((await upload(designer, p.projectId)).status).toBe(201);
   });
 
+  it('a revision whose upload was deleted cannot be run: 409 naming the upload, and a queued run of it fails saying so', async () => {
+    const p = await project();
+    const map = (await upload(designer, p.projectId)).body.upload;
+    const design = deflectorDesign() as { channels: { b: { terms: object[] } } };
+    design.channels.b.terms = [{ kind: 'custom', phaseMap: { source: 'upload', id: map.id } }];
+    const number = (await designer.post(`/api/projects/${p.projectId}/revisions`, { design })).body.revision.number;
+    expect((await designer.delete(`/api/projects/${p.projectId}/uploads/${map.id}`)).status).toBe(204);
+    const refused = await designer.post(`/api/projects/${p.projectId}/revisions/${number}/runs`);
+    expect(refused.status).toBe(409);
+    expect(refused.body.error).toBe(`Revision ${number} uses upload ${map.id}, which was deleted; choose another file in the design and save a new revision`);
+    expect(await RunModel.count({ where: { projectId: p.projectId } })).toBe(0);
+
+    // A run queued before the upload was deleted fails with the same words when a worker picks it up.
+    const revisionId = (await designer.get(`/api/projects/${p.projectId}/revisions/${number}`)).body.revision.id;
+    const queued = await RunModel.create({ projectId: p.projectId, revisionId, startedById: null, queuedAt: new Date(), stage: 'queued' });
+    t.ctx.runQueue.enqueue(queued.id);
+    const failed = await waitForRun(designer, p.projectId, queued.id);
+    expect(failed.status).toBe('failed');
+    expect(failed.error).toBe(`The design uses upload ${map.id}, which was deleted; choose another file in the design and save a new revision.`);
+  });
+
   it('an upload is deleted only through its own project', async () => {
     const a = await project();
     const b = await project();

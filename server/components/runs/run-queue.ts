@@ -24,6 +24,7 @@ import { deleteArtifacts, storeArtifacts } from './run-artifacts';
 import { addEvent, markCancelled, markFailed, markStarted, markSucceeded, recordProgress, recoverInterrupted } from './run-state';
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
 import { RunModel } from './run.model';
+import { deletedUploadsOf } from './run.service';
 import type { AppConfig } from '../../config';
 import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { runFilesTooLarge, storageQuotaBytes, storedBytes, timeLimitMessage } from '../quotas/quota.service';
@@ -180,6 +181,11 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
     const run = await RunModel.findByPk(runId, { include: [{ association: 'revision', attributes: ['design', 'projectId'] }] });
     if (!run || run.status !== 'queued' || !run.revision) return null;
     const design = JSON.parse(run.revision.design) as Design;
+    const deleted = await deletedUploadsOf(run.projectId, design);
+    if (deleted) {
+      if (await markFailed(runId, `The design ${deleted}.`, ['queued'])) changed(runId);
+      return null;
+    }
     // The project's design rules at run time (not the revision's): design.json and drc.json then record them.
     design.designRules = await rulesForRun(run.projectId);
     const ids = uploadIdsOf(design);

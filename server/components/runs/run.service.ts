@@ -1,9 +1,12 @@
 import { literal, Op, type OrderItem, type Transaction, type WhereOptions } from 'sequelize';
+import type { Design } from '../../../shared/schemas/design';
 import type { ListRunsQuery, RunDetail, RunHeadline, RunSummary } from '../../../shared/schemas/runs';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
 import { withRunSlot } from '../quotas/quota.service';
+import { uploadIdsOf } from '../revisions/design-assets';
 import { findRevision } from '../revisions/revision.service';
+import { UploadModel } from '../uploads/upload.model';
 import { UserModel } from '../users/user.model';
 import { findArtifact, listArtifacts } from './run-artifacts';
 import { RunArtifactModel, RunEventModel, RunModel } from './run.model';
@@ -91,9 +94,25 @@ export async function listRuns(projectId: number, query: ListRunsQuery): Promise
  */
 export async function startRun(ctx: AppContext, projectId: number, number: number, userId: number): Promise<RunDetail> {
   const revision = await findRevision(projectId, number);
+  const missing = await deletedUploadsOf(projectId, JSON.parse(revision.design) as Design);
+  if (missing) throw new AppError(409, `Revision ${number} ${missing}`);
   const runId = await withRunSlot(ctx, { userId, projectId, needsStorage: true }, (transaction) => createQueuedRun(projectId, revision.id, userId, transaction));
   ctx.runQueue.enqueue(runId);
   return getRun(projectId, runId);
+}
+
+/**
+ * What is wrong when a design names uploads the project no longer has (deleted since), or null. Example:
+ * 'uses upload 12, which was deleted; choose another file in the design and save a new revision'.
+ */
+export async function deletedUploadsOf(projectId: number, design: Design): Promise<string | null> {
+  const ids = uploadIdsOf(design);
+  if (!ids.length) return null;
+  const present = new Set((await UploadModel.findAll({ where: { id: ids, projectId }, attributes: ['id'] })).map((u) => u.id));
+  const gone = ids.filter((id) => !present.has(id));
+  if (!gone.length) return null;
+  const which = gone.length === 1 ? `upload ${gone[0]}, which was` : `uploads ${gone.join(', ')}, which were`;
+  return `uses ${which} deleted; choose another file in the design and save a new revision`;
 }
 
 /** Records a queued run of a revision; the caller hands it to the queue (or the next server start does). */
