@@ -15,8 +15,11 @@ import { Op } from 'sequelize';
 import { Piscina } from 'piscina';
 import type { Logger } from 'pino';
 import type { Design } from '../../../shared/schemas/design';
+import type { AppConfig } from '../../config';
+import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { rulesForRun } from '../fab/design-rules.service';
 import { libraryForRun } from '../atom-libraries/atom-library.service';
+import { runFilesTooLarge, storageQuotaBytes, storedBytes, timeLimitMessage } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { UploadModel } from '../uploads/upload.model';
 import { createToleranceExecutor } from '../tolerance/tolerance-executor';
@@ -25,9 +28,6 @@ import { addEvent, markCancelled, markFailed, markStarted, markSucceeded, record
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
 import { RunModel } from './run.model';
 import { deletedUploadsOf } from './run.service';
-import type { AppConfig } from '../../config';
-import { workerExecArgv, workerFile } from '../../lib/worker-pool';
-import { runFilesTooLarge, storageQuotaBytes, storedBytes, timeLimitMessage } from '../quotas/quota.service';
 
 export interface RunQueue {
   /** Recovers interrupted runs, then accepts work. */
@@ -148,7 +148,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
             if (!(await markStarted(runId))) return controller.abort('cancel');
             changed(runId);
             if (timeLimitMs !== null && !controller.signal.aborted) {
-              entry.deadline = setTimeout(() => void later(() => stopAtTimeLimit(runId, entry)), timeLimitMs);
+              entry.deadline = setTimeout(() => void later(() => stopAtTimeLimit(runId, entry)), timeLimitMs).unref();
             }
           });
         } else if (message.type === 'note') {
@@ -224,6 +224,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
         async (result) => {
           clearTimeout(entry.deadline);
           await track.settle();
+          clearTimeout(entry.deadline);
           if (result.ok) {
             // Cancelled or timed out while finishing: keep nothing.
             const row = await RunModel.findByPk(runId, { attributes: ['status', 'projectId'] });

@@ -15,15 +15,16 @@ import { Op, type InferAttributes } from 'sequelize';
 import { parseAtomLibraryCsv } from '../../../shared/optics/atoms';
 import type { Design } from '../../../shared/schemas/design';
 import type { ToleranceStatus } from '../../../shared/schemas/tolerance';
+import { workerFile } from '../../lib/worker-pool';
+import { timeLimitMessage } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { findArtifact } from '../runs/run-artifacts';
 import { RunArtifactChunkModel, RunModel } from '../runs/run.model';
 import { UploadModel } from '../uploads/upload.model';
 import { TOLERANCE_ARRAYS, type ToleranceArrayName, type ToleranceMessage, type ToleranceTask, type ToleranceTaskResult } from './tolerance-task';
 import { ToleranceStudyModel } from './tolerance.model';
-import { timeLimitMessage } from '../quotas/quota.service';
 
-const TASK_FILE = new URL(`./tolerance-task${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`, import.meta.url);
+const TASK_FILE = workerFile('tolerance-task', import.meta.url);
 const MAX_ATTEMPTS = 3;
 const INTERNAL_FAILURE = 'The study stopped on an internal error of the server (it has been logged). Start it again; if it fails again, tell your administrator.';
 
@@ -127,11 +128,13 @@ export function createToleranceExecutor(options: {
           const ok = await transition(studyId, ['queued'], { status: 'running', attempts: study.attempts + 1, startedAt: new Date(), stage: 'loading', progress: 0, error: null });
           if (!ok) return controller.abort('gone');
           const limit = options.timeLimitMs;
-          if (limit !== null && !controller.signal.aborted) {
-            deadline = setTimeout(() => void later(async () => {
-              if (await transition(studyId, ['running'], { status: 'failed', error: timeLimitMessage('study', limit / 60_000), finishedAt: new Date() })) controller.abort('time limit');
-            }), limit);
-          }
+          if (limit === null || controller.signal.aborted) return;
+          // Past the time limit: the row is failed first (the truth), then the worker is stopped.
+          const stop = async () => {
+            const error = timeLimitMessage('study', limit / 60_000);
+            if (await transition(studyId, ['running'], { status: 'failed', error, finishedAt: new Date() })) controller.abort('time limit');
+          };
+          deadline = setTimeout(() => void later(stop), limit).unref();
         });
       } else if (Date.now() - lastWrite >= options.progressIntervalMs || message.fraction === 1) {
         lastWrite = Date.now();
