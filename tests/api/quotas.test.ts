@@ -2,11 +2,13 @@
  * What one person and one project may make the server do at once: runs and tolerance studies queued or
  * running per person (RUNS_PER_USER) and per project (RUNS_PER_PROJECT), counted so that simultaneous
  * requests cannot slip past together; the run time limit (RUN_TIME_LIMIT_MINUTES); run event streams per
- * person (EVENT_STREAMS_PER_USER), which end once their reader loses access (EVENT_STREAM_RECHECK_SECONDS).
+ * person (EVENT_STREAMS_PER_USER), which end once their reader loses access: at once when a membership is
+ * removed, otherwise at the next periodic check (EVENT_STREAM_RECHECK_SECONDS).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { RunModel } from '../../server/components/runs/run.model';
 import { ToleranceStudyModel } from '../../server/components/tolerance/tolerance.model';
+import { UserModel } from '../../server/components/users/user.model';
 import { deflectorDesign, twinImageDesign, waitForRun } from '../support/designs';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
 
@@ -196,21 +198,52 @@ describe('run event streams', () => {
     await run.update({ status: 'cancelled' });
   });
 
-  it('a member removed from the project stops receiving: the stream ends', async () => {
+  it('a disabled account stops receiving at the next periodic check (EVENT_STREAM_RECHECK_SECONDS): the stream ends', async () => {
     const p = await project();
-    const viewer = await makeUser({ name: 'Soon Removed' });
+    const viewer = await makeUser({ name: 'Soon Disabled' });
     await owner.post(`/api/projects/${p.projectId}/members`, { email: viewer.email, role: 'viewer' });
     const client = await signedInClient(t.app, viewer);
     const run = await waitingRun(p.projectId, p.revisionId, null);
     const stream = openStream(client, `/api/projects/${p.projectId}/runs/${run.id}/events`);
     await within(stream.opened, 20_000, 'the stream opening');
-    expect((await owner.delete(`/api/projects/${p.projectId}/members/${viewer.id}`)).status).toBe(204);
+    // Straight in the database: no hook announces it, only the periodic check can notice.
+    await UserModel.update({ disabledAt: new Date() }, { where: { id: viewer.id } });
+    const { status, text } = await within(stream.done, 20_000, 'the stream ending');
+    expect(status).toBe(200);
+    expect(text).toMatch(/event: end\ndata: \{"reason":"You no longer have access to this project"\}/);
+    await run.update({ status: 'cancelled' });
+  });
+});
+
+describe('membership removal', () => {
+  let t2: TestApp;
+  let owner2: ApiClient;
+  beforeAll(async () => {
+    // A periodic check far beyond the test's patience: only the removal itself can end the stream.
+    t2 = await createTestApp({ EVENT_STREAM_RECHECK_SECONDS: '600' });
+    owner2 = await signedInClient(t2.app, await makeUser({ name: 'Removing Owner' }));
+  });
+  afterAll(async () => {
+    await t2?.close();
+  });
+
+  it('a member removed from the project stops receiving at once: the stream ends', async () => {
+    const projectId = (await owner2.post('/api/projects', { name: 'Removal project' })).body.project.id as number;
+    const revision = (await owner2.post(`/api/projects/${projectId}/revisions`, { design: deflectorDesign() })).body.revision;
+    const viewer = await makeUser({ name: 'Soon Removed' });
+    await owner2.post(`/api/projects/${projectId}/members`, { email: viewer.email, role: 'viewer' });
+    const client = await signedInClient(t2.app, viewer);
+    const run = await waitingRun(projectId, revision.id, null);
+    const stream = openStream(client, `/api/projects/${projectId}/runs/${run.id}/events`);
+    await within(stream.opened, 20_000, 'the stream opening');
+    expect((await owner2.delete(`/api/projects/${projectId}/members/${viewer.id}`)).status).toBe(204);
     const { status, text } = await within(stream.done, 20_000, 'the stream ending');
     expect(status).toBe(200);
     expect(text).toMatch(/event: end\ndata: \{"reason":"You no longer have access to this project"\}/);
     // Nothing about the run was sent after the end.
-    expect(text.trim().endsWith('}')).toBe(true);
     expect(text.lastIndexOf('event: update')).toBeLessThan(text.indexOf('event: end'));
+    // The stream's slot is free again: the removed person's next stream is refused for access, not for the cap.
+    expect((await client.get(`/api/projects/${projectId}/runs/${run.id}/events`)).status).toBe(404);
     await run.update({ status: 'cancelled' });
   });
 });

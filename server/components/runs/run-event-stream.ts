@@ -1,12 +1,15 @@
 /**
  * Server-Sent Events of one run, with the limits a long-lived connection needs: at most
- * EVENT_STREAMS_PER_USER open at once per person (429 past it), and access checked again every
- * EVENT_STREAM_RECHECK_SECONDS, so a member removed from the project (or a disabled account) stops
- * receiving and the stream ends.
+ * EVENT_STREAMS_PER_USER open at once per person (429 past it), and access checked again whenever a
+ * membership is removed and every EVENT_STREAM_RECHECK_SECONDS, so a member removed from the project (or a
+ * disabled account) stops receiving and the stream ends.
  */
+import { EventEmitter } from 'node:events';
+import type { Transaction } from 'sequelize';
 import { FINISHED_STATUSES, type RunSummary } from '../../../shared/schemas/runs';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
+import { MembershipModel } from '../projects/membership.model';
 import { effectiveRole } from '../projects/project-access';
 import { UserModel } from '../users/user.model';
 import { getRunSummary } from './run.service';
@@ -39,6 +42,25 @@ function reserve(ctx: AppContext, userId: number): () => void {
   };
 }
 
+/** Emits 'removed' once a removed membership is committed: every open stream then checks its access. */
+const memberships = new EventEmitter().setMaxListeners(0);
+const HOOK = 'run-event-streams';
+
+/** (Re)attaches the hooks that announce removed memberships (a model's init drops earlier hooks). */
+function watchMemberships() {
+  const removed = () => {
+    memberships.emit('removed');
+  };
+  const announce = (options: { transaction?: Transaction | null }) => {
+    if (options.transaction) options.transaction.afterCommit(removed);
+    else removed();
+  };
+  MembershipModel.removeHook('afterDestroy', HOOK);
+  MembershipModel.removeHook('afterBulkDestroy', HOOK);
+  MembershipModel.addHook('afterDestroy', HOOK, (_membership, options) => announce(options));
+  MembershipModel.addHook('afterBulkDestroy', HOOK, (options) => announce(options));
+}
+
 /** Whether the person may still read the project: an enabled account with a role on it. */
 async function stillAllowed(userId: number, projectId: number): Promise<boolean> {
   const user = await UserModel.findByPk(userId);
@@ -54,6 +76,7 @@ async function stillAllowed(userId: number, projectId: number): Promise<boolean>
 export async function openRunEventStream(ctx: AppContext, projectId: number, runId: number, userId: number): Promise<(sink: EventSink) => void> {
   let summary: RunSummary = await getRunSummary(projectId, runId);
   const release = reserve(ctx, userId);
+  watchMemberships();
   return (sink) => {
     sink.send('update', summary);
     if (FINISHED_STATUSES.includes(summary.status)) {
@@ -69,6 +92,7 @@ export async function openRunEventStream(ctx: AppContext, projectId: number, run
       unsubscribe();
       clearInterval(keepAlive);
       clearInterval(recheck);
+      memberships.off('removed', checkAccess);
       if (timer) clearTimeout(timer);
       sink.end();
     };
@@ -88,7 +112,7 @@ export async function openRunEventStream(ctx: AppContext, projectId: number, run
       if (id === runId && !timer && !closed) timer = setTimeout(() => void refresh(), 250);
     });
     const keepAlive = setInterval(() => sink.comment('keep-alive'), 20_000);
-    const recheck = setInterval(() => {
+    const checkAccess = () => {
       stillAllowed(userId, projectId)
         .then((allowed) => {
           if (allowed || closed) return;
@@ -96,7 +120,9 @@ export async function openRunEventStream(ctx: AppContext, projectId: number, run
           finish();
         })
         .catch((err: unknown) => ctx.logger.error({ err, runId }, 'event stream access check failed'));
-    }, ctx.config.EVENT_STREAM_RECHECK_SECONDS * 1000);
+    };
+    const recheck = setInterval(checkAccess, ctx.config.EVENT_STREAM_RECHECK_SECONDS * 1000);
+    memberships.on('removed', checkAccess);
     sink.onClose(finish);
   };
 }
