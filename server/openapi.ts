@@ -109,7 +109,7 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'post', path: `${P}/runs/:runId/cancel`, summary: 'Cancel a queued or running run', role: 'project:design', ok: [200, '`{ run }`'] },
   { method: 'delete', path: `${P}/runs/:runId/files`, summary: 'Delete a finished run’s files (the run, its metrics and events stay)', role: 'project:design', ok: [200, '`{ run }` with filesDeletedAt'] },
   { method: 'get', path: `${P}/runs/:runId/artifacts/:name`, summary: 'A file of a run', role: 'project:read', ok: [200, 'The file'] },
-  { method: 'get', path: `${P}/runs/:runId/events`, summary: 'Server-Sent Events following a run', role: 'project:read', ok: [200, 'text/event-stream of `update` events'] },
+  { method: 'get', path: `${P}/runs/:runId/events`, summary: 'Server-Sent Events following a run (at most EVENT_STREAMS_PER_USER open per person)', role: 'project:read', ok: [200, 'text/event-stream of `update` events, and `end` when access was lost'] },
   { method: 'post', path: `${P}/runs/:runId/tolerance`, summary: 'Start a tolerance study of a finished run', role: 'project:design', body: toleranceRequestSchema, ok: [202, '`{ study }`'] },
   { method: 'get', path: `${P}/runs/:runId/tolerance`, summary: 'Tolerance studies of a run', role: 'project:read', ok: [200, '`{ studies }`'] },
 
