@@ -98,10 +98,10 @@ export function createApp(ctx: AppContext) {
   api.use('/access-tokens', accessTokenRoutes(config));
   api.use('/auth', authRoutes(ctx, passport as never, generateToken));
   api.use('/projects/:projectId/revisions', revisionRoutes());
-  api.use('/projects/:projectId/uploads', uploadRoutes());
+  api.use('/projects/:projectId/uploads', uploadRoutes(ctx));
   api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes());
   api.use('/projects/:projectId', runRoutes(ctx));
-  api.use('/projects/:projectId', fabRoutes());
+  api.use('/projects/:projectId', fabRoutes(ctx));
   api.use('/projects/:projectId', reviewRoutes(ctx));
   api.use('/notifications', notificationRoutes());
   api.use('/projects/:projectId', shareLinkRoutes(ctx));

@@ -39,6 +39,22 @@ const envSchema = z.object({
   RUN_WORKERS: z.coerce.number().int().min(1, 'use at least 1').max(256).optional(),
   /** Helper threads inside each run (both channels retrieved at once); omitted: on when 2·RUN_WORKERS ≤ cores. */
   RUN_HELPER_THREADS: flag.optional(),
+  /** Queued + running runs (tolerance studies included) one person may have at once, over all projects. */
+  RUNS_PER_USER: z.coerce.number().int().min(1).default(4),
+  /** Queued + running runs (tolerance studies included) of one project at once. */
+  RUNS_PER_PROJECT: z.coerce.number().int().min(1).default(8),
+  /** A run or tolerance study still running this long after it started is stopped and failed. */
+  RUN_TIME_LIMIT_MINUTES: z.coerce.number().positive().default(60),
+  /** Bytes one project may store (uploads + run files), in MiB. */
+  PROJECT_STORAGE_MB: z.coerce.number().positive().default(2048),
+  /** Run event streams (Server-Sent Events) one person may hold open at once. */
+  EVENT_STREAMS_PER_USER: z.coerce.number().int().min(1).default(8),
+  /** How often an open event stream checks again that its reader may still see the project. */
+  EVENT_STREAM_RECHECK_SECONDS: z.coerce.number().positive().default(15),
+  /** Layout regions, design checks, reports and fab packages one person may ask for per minute. */
+  FAB_REQUESTS_PER_MINUTE: z.coerce.number().int().min(1).default(120),
+  /** Longest a layout job (region, design-rule check, GDSII regeneration) may take on its worker thread. */
+  FAB_JOB_TIME_LIMIT_SECONDS: z.coerce.number().positive().default(60),
 });
 
 export type AppConfig = z.infer<typeof envSchema> & { publicUrl: string };

@@ -1,6 +1,7 @@
 import type { Server } from 'node:http';
 import pino from 'pino';
 import { createApp } from './app';
+import { stopLayoutJobs } from './components/fab/layout-jobs';
 import { createEmbeddedRunQueue } from './components/runs/run-queue';
 import { loadConfig } from './config';
 import { createSequelize, migrateUp } from './db/database';
@@ -19,7 +20,7 @@ async function main() {
   const applied = await migrateUp(sequelize);
   if (applied.length) logger.info({ applied }, 'migrations applied');
   const mailer = createMailer(config, logger);
-  const runQueue = createEmbeddedRunQueue({ logger, threads: config.RUN_WORKERS, parallelWithinRuns: config.RUN_HELPER_THREADS });
+  const runQueue = createEmbeddedRunQueue({ logger, threads: config.RUN_WORKERS, parallelWithinRuns: config.RUN_HELPER_THREADS, limits: config });
   const { app } = createApp({ config, sequelize, mailer, logger, runQueue });
   await runQueue.start();
   const server: Server = app.listen(config.PORT, config.HOST, () => {
@@ -40,7 +41,7 @@ async function main() {
       server.close(() => resolve());
       server.closeIdleConnections();
     });
-    await runQueue.stop();
+    await Promise.all([runQueue.stop(), stopLayoutJobs()]);
     // Requests in flight get 5 s; long-lived ones (run event streams) are then cut, clients reconnect.
     await Promise.race([closing, new Promise((resolve) => setTimeout(resolve, 5_000).unref())]);
     server.closeAllConnections();

@@ -96,6 +96,7 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'get', path: `${P}/uploads`, summary: 'Uploaded images and phase maps', role: 'project:read', ok: [200, '`{ uploads }`'] },
   { method: 'post', path: `${P}/uploads`, summary: 'Upload an image or phase map (multipart: kind, file)', role: 'project:design', body: createUploadSchema, multipart: true, ok: [201, '`{ upload }`'] },
   { method: 'get', path: `${P}/uploads/:uploadId/content`, summary: 'The uploaded file', role: 'project:read', ok: [200, 'The file'] },
+  { method: 'delete', path: `${P}/uploads/:uploadId`, summary: 'Delete an upload (frees project storage)', role: 'project:design', ok: [204, 'No content'] },
 
   { method: 'get', path: `${P}/atom-libraries`, summary: 'Atom libraries usable in the project', role: 'project:read', ok: [200, '`{ atomLibraries }`'] },
   { method: 'post', path: `${P}/atom-libraries`, summary: 'Upload an atom library (multipart: fields and CSV file)', role: 'project:design', body: createAtomLibrarySchema, multipart: true, ok: [201, '`{ atomLibrary }`'] },
@@ -109,8 +110,9 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'get', path: `${P}/runs`, summary: 'Runs of the project', role: 'project:read', query: listRunsQuerySchema, ok: [200, '`{ runs: RunSummary[] }`'] },
   { method: 'get', path: `${P}/runs/:runId`, summary: 'One run with metrics, plots and file list', role: 'project:read', ok: [200, '`{ run: RunDetail }`'] },
   { method: 'post', path: `${P}/runs/:runId/cancel`, summary: 'Cancel a queued or running run', role: 'project:design', ok: [200, '`{ run }`'] },
+  { method: 'delete', path: `${P}/runs/:runId/files`, summary: 'Delete a finished run’s files (the run, its metrics and events stay)', role: 'project:design', ok: [200, '`{ run }` with filesDeletedAt'] },
   { method: 'get', path: `${P}/runs/:runId/artifacts/:name`, summary: 'A file of a run', role: 'project:read', ok: [200, 'The file'] },
-  { method: 'get', path: `${P}/runs/:runId/events`, summary: 'Server-Sent Events following a run', role: 'project:read', ok: [200, 'text/event-stream of `update` events'] },
+  { method: 'get', path: `${P}/runs/:runId/events`, summary: 'Server-Sent Events following a run (at most EVENT_STREAMS_PER_USER open per person)', role: 'project:read', ok: [200, 'text/event-stream of `update` events, and `end` when access was lost'] },
   { method: 'post', path: `${P}/runs/:runId/tolerance`, summary: 'Start a tolerance study of a finished run', role: 'project:design', body: toleranceRequestSchema, ok: [202, '`{ study }`'] },
   { method: 'get', path: `${P}/runs/:runId/tolerance`, summary: 'Tolerance studies of a run', role: 'project:read', ok: [200, '`{ studies }`'] },
 

@@ -44,6 +44,8 @@ export interface RunSummary {
   finishedAt: string | null;
   durationMs: number | null;
   headline: RunHeadline;
+  /** When the run's files were deleted to free storage (its metrics and events stay); null while kept. */
+  filesDeletedAt: string | null;
 }
 
 export interface RunEvent {

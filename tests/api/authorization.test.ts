@@ -126,6 +126,12 @@ const ROUTES: RouteCase[] = [
     send: (c, f) => c.get(`/api/projects/${f.projectId}/uploads/${f.uploadId}/content`),
     expected: read,
   },
+  {
+    name: 'DELETE /projects/:id/uploads/:uploadId',
+    needs: ['upload'],
+    send: (c, f) => c.delete(`/api/projects/${f.projectId}/uploads/${f.uploadId}`),
+    expected: design(204),
+  },
   { name: 'GET /projects/:id/atom-libraries', send: (c, f) => c.get(`/api/projects/${f.projectId}/atom-libraries`), expected: read },
   { name: 'POST /projects/:id/atom-libraries', send: (c, f) => uploadAtomLibrary(c, f.projectId, eightAtomCsv()), expected: design(201) },
   {
@@ -179,6 +185,12 @@ const ROUTES: RouteCase[] = [
     expected: read,
   },
   { name: 'POST /projects/:id/runs/:runId/cancel', needs: ['runs'], send: (c, f) => c.post(`/api/projects/${f.projectId}/runs/${f.queuedRunId}/cancel`), expected: design(200) },
+  {
+    name: 'DELETE /projects/:id/runs/:runId/files',
+    needs: ['runs'],
+    send: (c, f) => c.delete(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/files`),
+    expected: design(200),
+  },
   {
     name: 'GET /projects/:id/runs/:runId/artifacts/:name',
     needs: ['runs'],

@@ -8,6 +8,7 @@ import { inject } from 'vitest';
 import { createApp } from '../../server/app';
 import { loadConfig } from '../../server/config';
 import type { AppContext } from '../../server/context';
+import { stopLayoutJobs } from '../../server/components/fab/layout-jobs';
 import { createEmbeddedRunQueue } from '../../server/components/runs/run-queue';
 import { createSequelize, migrateUp } from '../../server/db/database';
 import { createMailer } from '../../server/lib/mailer';
@@ -55,7 +56,7 @@ export async function createTestApp(env: Record<string, string> = {}): Promise<T
   const sequelize = createSequelize(config);
   await migrateUp(sequelize);
   const mailer = createMailer(config, logger);
-  const runQueue = createEmbeddedRunQueue({ logger, threads: config.RUN_WORKERS ?? 1, parallelWithinRuns: config.RUN_HELPER_THREADS });
+  const runQueue = createEmbeddedRunQueue({ logger, threads: config.RUN_WORKERS ?? 1, parallelWithinRuns: config.RUN_HELPER_THREADS, limits: config });
   const ctx: AppContext = { config, sequelize, mailer, logger, runQueue };
   const { app } = createApp(ctx);
   await runQueue.start();
@@ -63,7 +64,7 @@ export async function createTestApp(env: Record<string, string> = {}): Promise<T
     app,
     ctx,
     async close() {
-      await runQueue.stop();
+      await Promise.all([runQueue.stop(), stopLayoutJobs()]);
       await mailer.drain();
       await sequelize.query(`DROP DATABASE \`${dbName}\``);
       await sequelize.close();

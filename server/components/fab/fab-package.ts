@@ -2,31 +2,32 @@
  * The fab package of a run: one zip, streamed with archiver while it is written — never the whole zip, and
  * never the whole GDSII, in memory. Contents (under one folder named after the run):
  * - layout.gds — the stored file when the options equal the run's own (layer/datatype of the design,
- *   database unit 1 nm); otherwise regenerated chunk by chunk with gdsii.ts from the stored atom_index/theta;
+ *   database unit 1 nm); otherwise regenerated with gdsii.ts from the stored atom_index/theta, on the layout
+ *   worker (layout-jobs.ts, with its time limit) into a temporary file that is removed once sent;
  * - arrays/*.npy, previews/*.png, design.json, metrics.json, drc.json, atoms.csv — the stored artifacts;
  * - report.html — the design report, standalone; export.json — who exported when, with which options.
  * Refused (409) while design-rule violations stand and no owner has overridden them.
  */
-import { Readable, type Writable } from 'node:stream';
+import { createReadStream } from 'node:fs';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import type { Writable } from 'node:stream';
 import { ZipArchive } from 'archiver';
-import { gdsiiChunks } from '../../../shared/optics/gdsii';
 import { buildReportModel, type ReportInput } from '../../../shared/report/design-report';
 import type { FabPackageQuery, RunDesignCheck } from '../../../shared/schemas/fab';
+import type { AppConfig } from '../../config';
 import { AppError } from '../../lib/app-error';
 import { findArtifact, listArtifacts } from '../runs/run-artifacts';
 import type { RunModel } from '../runs/run.model';
 import { slugOf } from '../runs/run.service';
 import { FabExportModel } from './fab.model';
 import { reportHtml } from './report-html';
-import { artifactStream, designCheckOf, loadRunLayout, readArtifact } from './run-data';
+import { regenerateGds } from './layout-jobs';
+import type { GdsOptions } from './layout-task';
+import { artifactStream, designCheckOf, readArtifact } from './run-data';
 import { parseAtomLibraryCsv } from '../../../shared/optics/atoms';
 import type { Design } from '../../../shared/schemas/design';
-
-export interface FabOptions {
-  layer: number;
-  datatype: number;
-  dbUnitNm: number;
-}
 
 const KIND_WORDS = { gap: 'gap', feature: 'minimum feature', 'aspect-ratio': 'aspect ratio' } as const;
 
@@ -65,27 +66,32 @@ export async function reportInputOf(run: RunModel, projectName: string, check: R
 }
 
 /**
- * Checks that the run may be exported with these options, records the download, and returns the file name
- * and a function that streams the zip into `out`.
+ * Checks that the run may be exported with these options, regenerates the GDSII on the layout worker when the
+ * options differ from the run's own, records the download, and returns the file name and a function that
+ * streams the zip into `out` (and then removes the regenerated file).
  */
-export async function prepareFabPackage(run: RunModel, projectName: string, userId: number, query: FabPackageQuery) {
-  const check = await designCheckOf(run);
+export async function prepareFabPackage(config: AppConfig, run: RunModel, projectName: string, userId: number, query: FabPackageQuery) {
+  const check = await designCheckOf(config, run);
   if (!check.exportAllowed) throw refusal(check);
-  const layout = await loadRunLayout(run);
-  const defaults: FabOptions = { layer: layout.design.layout.layer, datatype: layout.design.layout.datatype, dbUnitNm: 1 };
-  const options: FabOptions = { layer: query.layer ?? defaults.layer, datatype: query.datatype ?? defaults.datatype, dbUnitNm: query.dbUnitNm ?? defaults.dbUnitNm };
+  const reportInput = await reportInputOf(run, projectName, check);
+  const { layer, datatype } = reportInput.design.layout;
+  const defaults: GdsOptions = { layer, datatype, dbUnitNm: 1 };
+  const options: GdsOptions = { layer: query.layer ?? defaults.layer, datatype: query.datatype ?? defaults.datatype, dbUnitNm: query.dbUnitNm ?? defaults.dbUnitNm };
   const storedGds = await findArtifact(run.id, 'layout.gds');
   const regenerated = !storedGds || options.layer !== defaults.layer || options.datatype !== defaults.datatype || options.dbUnitNm !== defaults.dbUnitNm;
-  const dbu = options.dbUnitNm * 1e-9;
-  // Every coordinate must fit a 32-bit signed integer of database units (manual, "XY" record: 4-byte integers).
-  const extent = ((layout.n - 1) / 2) * layout.period + layout.library.atoms.reduce((m, a) => Math.max(m, a.width, a.length), 0);
-  if (extent / dbu > 2147483647) {
-    throw new AppError(400, `dbUnitNm ${options.dbUnitNm} is too small for this ${layout.n}² layout: coordinates would not fit 32-bit integers`, { dbUnitNm: 'choose a larger database unit' });
+  let gdsFile: string | null = null;
+  if (regenerated) {
+    const dir = await mkdtemp(join(tmpdir(), `phasewright-gds-${run.id}-`));
+    gdsFile = join(dir, 'layout.gds');
+    try {
+      await regenerateGds(config, run, options, gdsFile);
+    } catch (error) {
+      await rm(dir, { recursive: true, force: true });
+      throw error;
+    }
   }
-  const smallest = Math.min(...layout.library.atoms.filter((a) => a.shape !== 'empty').map((a) => Math.min(a.width, a.length)));
-  if (smallest / dbu < 1) throw new AppError(400, `dbUnitNm ${options.dbUnitNm} is larger than the smallest pillar side`, { dbUnitNm: 'choose a smaller database unit' });
+  const removeGds = () => (gdsFile ? rm(dirname(gdsFile), { recursive: true, force: true }) : Promise.resolve());
 
-  const reportInput = await reportInputOf(run, projectName, check);
   const artifacts = await listArtifacts(run.id);
   const record = await FabExportModel.create({ runId: run.id, userId, options: { ...options, regenerated }, overrideId: check.exportAllowed && check.total > 0 ? check.latestOverrideId : null, at: new Date() });
   const folder = `${slugOf(projectName)}-r${reportInput.revisionNumber}-run${run.id}`;
@@ -104,12 +110,7 @@ export async function prepareFabPackage(run: RunModel, projectName: string, user
     zip.pipe(out);
     const date = run.finishedAt ?? new Date();
     const name = (file: string) => ({ name: `${folder}/${file}`, date });
-    if (regenerated) {
-      const chunks = gdsiiChunks({ ...layout, layer: options.layer, datatype: options.datatype, databaseUnit: dbu, usedAtomsOnly: true });
-      zip.append(Readable.from(chunks, { objectMode: false }), name('layout.gds'));
-    } else {
-      zip.append(artifactStream(storedGds!.id), name('layout.gds'));
-    }
+    zip.append(gdsFile ? createReadStream(gdsFile) : artifactStream(storedGds!.id), name('layout.gds'));
     const previews: { file: string; caption: string }[] = [];
     for (const a of artifacts) {
       if (a.name === 'layout.gds') continue;
@@ -139,7 +140,11 @@ export async function prepareFabPackage(run: RunModel, projectName: string, user
       ) + '\n',
       name('export.json'),
     );
-    await Promise.race([zip.finalize(), failed, gone]);
+    try {
+      await Promise.race([zip.finalize(), failed, gone]);
+    } finally {
+      await removeGds();
+    }
   }
 
   return { fileName: `${folder}-fab-package.zip`, write };

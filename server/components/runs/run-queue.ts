@@ -15,8 +15,11 @@ import { Op } from 'sequelize';
 import { Piscina } from 'piscina';
 import type { Logger } from 'pino';
 import type { Design } from '../../../shared/schemas/design';
+import type { AppConfig } from '../../config';
+import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { rulesForRun } from '../fab/design-rules.service';
 import { libraryForRun } from '../atom-libraries/atom-library.service';
+import { runFilesTooLarge, storageQuotaBytes, storedBytes, timeLimitMessage } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { UploadModel } from '../uploads/upload.model';
 import { createToleranceExecutor } from '../tolerance/tolerance-executor';
@@ -24,6 +27,7 @@ import { deleteArtifacts, storeArtifacts } from './run-artifacts';
 import { addEvent, markCancelled, markFailed, markStarted, markSucceeded, recordProgress, recoverInterrupted } from './run-state';
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
 import { RunModel } from './run.model';
+import { deletedUploadsOf } from './run.service';
 
 export interface RunQueue {
   /** Recovers interrupted runs, then accepts work. */
@@ -50,17 +54,11 @@ export interface EmbeddedRunQueueOptions {
   parallelWithinRuns?: boolean;
   /** Least time between two progress writes of one run, ms (default 500: at most 2 writes/s). */
   progressIntervalMs?: number;
+  /** The run time limit and the projects' storage quota (default: none). */
+  limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'>;
 }
 
-const WORKER_FILE = new URL(`./run-worker${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`, import.meta.url);
-
-/** A TypeScript worker needs the tsx loader in its thread (the compiled .js worker does not). */
-function workerExecArgv(): string[] {
-  const argv = process.execArgv;
-  if (!WORKER_FILE.pathname.endsWith('.ts')) return argv;
-  const hasTsx = argv.some((arg, i) => (arg === '--import' || arg === '--loader') && /tsx/.test(argv[i + 1] ?? ''));
-  return hasTsx ? argv : [...argv, '--import', 'tsx'];
-}
+const WORKER_FILE = workerFile('run-worker', import.meta.url);
 
 /**
  * Whether runs may use helper threads (two for the channels' retrieval, one for the previews while writing)
@@ -78,14 +76,16 @@ export function createRunPool(threads: number): Piscina<RunTask, RunTaskResult> 
     maxThreads: threads,
     minThreads: 0,
     idleTimeout: 60_000,
-    execArgv: workerExecArgv(),
+    execArgv: workerExecArgv(WORKER_FILE),
   });
 }
 
 interface ActiveRun {
   controller: AbortController;
   /** Why the task was aborted, if it was. */
-  reason?: 'cancel' | 'shutdown';
+  reason?: 'cancel' | 'shutdown' | 'time limit';
+  /** Fires at the run time limit once the run has started. */
+  deadline?: NodeJS.Timeout;
 }
 
 const INTERNAL_FAILURE = 'The run stopped on an internal error of the server (it has been logged). Start the run again; if it fails again, tell your administrator.';
@@ -95,7 +95,9 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
   const threads = Math.max(1, options.threads ?? availableParallelism());
   const parallel = options.parallelWithinRuns ?? parallelWithinRuns(threads);
   const progressInterval = options.progressIntervalMs ?? 500;
-  const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval });
+  const limits = options.limits;
+  const timeLimitMs = limits ? limits.RUN_TIME_LIMIT_MINUTES * 60_000 : null;
+  const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval, timeLimitMs });
   const updates = new EventEmitter();
   updates.setMaxListeners(0);
   const active = new Map<number, ActiveRun>();
@@ -108,8 +110,17 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
 
   const changed = (runId: number) => updates.emit('update', runId);
 
+  /** Past the time limit: the row is failed first (the truth), then the worker is stopped. */
+  async function stopAtTimeLimit(runId: number, entry: ActiveRun) {
+    if (!(await markFailed(runId, timeLimitMessage('run', limits!.RUN_TIME_LIMIT_MINUTES), ['running']))) return;
+    entry.reason = 'time limit';
+    entry.controller.abort('time limit');
+    changed(runId);
+  }
+
   /** Serializes one run's database writes and throttles its progress writes. */
-  function tracker(runId: number, controller: AbortController) {
+  function tracker(runId: number, entry: ActiveRun) {
+    const { controller } = entry;
     let chain: Promise<unknown> = Promise.resolve();
     const later = (write: () => Promise<unknown>) => {
       chain = chain.then(write).catch((err: unknown) => logger.error({ err, runId }, 'run progress could not be written'));
@@ -134,8 +145,11 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
       onMessage(message: RunProgressMessage) {
         if (message.type === 'started') {
           void later(async () => {
-            if (await markStarted(runId)) changed(runId);
-            else controller.abort('cancel');
+            if (!(await markStarted(runId))) return controller.abort('cancel');
+            changed(runId);
+            if (timeLimitMs !== null && !controller.signal.aborted) {
+              entry.deadline = setTimeout(() => void later(() => stopAtTimeLimit(runId, entry)), timeLimitMs).unref();
+            }
           });
         } else if (message.type === 'note') {
           void later(() => addEvent(runId, 'running', lastStage, `note: ${message.message}`));
@@ -167,6 +181,11 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
     const run = await RunModel.findByPk(runId, { include: [{ association: 'revision', attributes: ['design', 'projectId'] }] });
     if (!run || run.status !== 'queued' || !run.revision) return null;
     const design = JSON.parse(run.revision.design) as Design;
+    const deleted = await deletedUploadsOf(run.projectId, design);
+    if (deleted) {
+      if (await markFailed(runId, `The design ${deleted}.`, ['queued'])) changed(runId);
+      return null;
+    }
     // The project's design rules at run time (not the revision's): design.json and drc.json then record them.
     design.designRules = await rulesForRun(run.projectId);
     const ids = uploadIdsOf(design);
@@ -197,16 +216,27 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
     const entry: ActiveRun = { controller };
     active.set(runId, entry);
     const { port1, port2 } = new MessageChannel();
-    const track = tracker(runId, controller);
+    const track = tracker(runId, entry);
     port1.on('message', (message: RunProgressMessage) => track.onMessage(message));
     const running = pool.run({ ...loaded, workDir, port: port2, parallel }, { transferList: [port2], signal: controller.signal });
     const handled: Promise<void> = running
       .then(
         async (result) => {
+          clearTimeout(entry.deadline);
           await track.settle();
+          clearTimeout(entry.deadline);
           if (result.ok) {
-            // Cancelled while finishing: keep nothing.
-            if ((await RunModel.findByPk(runId, { attributes: ['status'] }))?.status !== 'running') return;
+            // Cancelled or timed out while finishing: keep nothing.
+            const row = await RunModel.findByPk(runId, { attributes: ['status', 'projectId'] });
+            if (row?.status !== 'running') return;
+            if (limits) {
+              const adding = result.files.reduce((sum, file) => sum + file.bytes, 0);
+              const used = await storedBytes(row.projectId);
+              if (used + adding > storageQuotaBytes(limits)) {
+                await markFailed(runId, runFilesTooLarge(limits, used, adding), ['running']);
+                return;
+              }
+            }
             await track.later(() => storeArtifacts(runId, result.outDir, result.files));
             const stored = await markSucceeded(runId, { metrics: result.metrics, plots: result.plots, headline: result.headline, convergence: result.convergence });
             if (!stored) await deleteArtifacts(runId);
@@ -216,8 +246,9 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
           }
         },
         async (error: unknown) => {
+          clearTimeout(entry.deadline);
           await track.settle();
-          if (entry.reason === 'shutdown' || entry.reason === 'cancel' || controller.signal.aborted) return;
+          if (entry.reason || controller.signal.aborted) return;
           logger.error({ err: error, runId }, 'run worker stopped');
           await markFailed(runId, INTERNAL_FAILURE);
         },

@@ -25,6 +25,9 @@ export class RunModel extends Model<InferAttributes<RunModel>, InferCreationAttr
   declare metrics: CreationOptional<Record<string, Record<string, RunMetric>> | null>;
   declare plots: CreationOptional<Record<string, unknown> | null>;
   declare headline: CreationOptional<RunHeadline | null>;
+  /** When the run's files were deleted to free storage (the row, metrics and events stay). */
+  declare filesDeletedAt: CreationOptional<Date | null>;
+  declare filesDeletedById: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare revision?: NonAttribute<RevisionModel>;
@@ -50,6 +53,8 @@ export class RunModel extends Model<InferAttributes<RunModel>, InferCreationAttr
         metrics: { type: DataTypes.JSON, allowNull: true },
         plots: { type: DataTypes.JSON, allowNull: true },
         headline: { type: DataTypes.JSON, allowNull: true },
+        filesDeletedAt: { type: DataTypes.DATE(3), allowNull: true },
+        filesDeletedById: { type: DataTypes.INTEGER.UNSIGNED, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -1,5 +1,5 @@
 import { Router } from 'express';
-import { FINISHED_STATUSES, listRunsQuerySchema } from '../../../shared/schemas/runs';
+import { listRunsQuerySchema } from '../../../shared/schemas/runs';
 import type { AppContext } from '../../context';
 import { contentDisposition } from '../../lib/content-disposition';
 import { parseId, parseInput } from '../../lib/validate';
@@ -7,7 +7,8 @@ import { currentUser } from '../auth/auth.middleware';
 import { projectAccess, requireProject } from '../projects/project-access';
 import { toleranceRoutes } from '../tolerance/tolerance.routes';
 import { streamArtifact } from './run-artifacts';
-import { artifactForDownload, cancelRun, getRun, getRunSummary, listRuns, startRun } from './run.service';
+import { openRunEventStream } from './run-event-stream';
+import { artifactForDownload, cancelRun, deleteRunFiles, getRun, listRuns, startRun } from './run.service';
 
 /** Runs of a project, under `/api/projects/:projectId`. */
 export function runRoutes(ctx: AppContext) {
@@ -34,6 +35,11 @@ export function runRoutes(ctx: AppContext) {
     res.json({ run: await cancelRun(ctx, projectAccess(req).project.id, runId) });
   });
 
+  router.delete('/runs/:runId/files', requireProject('design'), async (req, res) => {
+    const runId = parseId(req.params.runId, 'runId');
+    res.json({ run: await deleteRunFiles(ctx, projectAccess(req).project.id, runId, currentUser(req).id) });
+  });
+
   router.get('/runs/:runId/artifacts/:name', requireProject('read'), async (req, res) => {
     const runId = parseId(req.params.runId, 'runId');
     const { project } = projectAccess(req);
@@ -49,46 +55,17 @@ export function runRoutes(ctx: AppContext) {
     res.end();
   });
 
-  /**
-   * Server-Sent Events of one run: an `update` event with the RunSummary whenever the row changes (at
-   * most every 250 ms), and a final one when the run has finished; then the stream ends.
-   */
+  /** Server-Sent Events of one run (run-event-stream.ts): `update` events until it finishes, capped per person. */
   router.get('/runs/:runId/events', requireProject('read'), async (req, res) => {
     const runId = parseId(req.params.runId, 'runId');
-    const projectId = projectAccess(req).project.id;
-    let summary = await getRunSummary(projectId, runId);
+    const stream = await openRunEventStream(ctx, projectAccess(req).project.id, runId, currentUser(req).id);
     res.set({ 'Content-Type': 'text/event-stream; charset=utf-8', 'Cache-Control': 'no-cache', Connection: 'keep-alive', 'X-Accel-Buffering': 'no' });
     res.flushHeaders();
-    const send = () => res.write(`event: update\ndata: ${JSON.stringify(summary)}\n\n`);
-    send();
-    if (FINISHED_STATUSES.includes(summary.status)) return res.end();
-    let timer: NodeJS.Timeout | null = null;
-    let closed = false;
-    const finish = () => {
-      closed = true;
-      unsubscribe();
-      clearInterval(keepAlive);
-      if (timer) clearTimeout(timer);
-      res.end();
-    };
-    const refresh = async () => {
-      timer = null;
-      if (closed) return;
-      try {
-        summary = await getRunSummary(projectId, runId);
-      } catch {
-        return finish();
-      }
-      if (closed) return;
-      send();
-      if (FINISHED_STATUSES.includes(summary.status)) finish();
-    };
-    const unsubscribe = ctx.runQueue.onUpdate((id) => {
-      if (id === runId && !timer && !closed) timer = setTimeout(() => void refresh(), 250);
-    });
-    const keepAlive = setInterval(() => res.write(': keep-alive\n\n'), 20_000);
-    req.on('close', () => {
-      if (!closed) finish();
+    stream({
+      send: (event, data) => res.write(`event: ${event}\ndata: ${JSON.stringify(data)}\n\n`),
+      comment: (text) => res.write(`: ${text}\n\n`),
+      end: () => res.end(),
+      onClose: (listener) => res.on('close', listener),
     });
   });
 

@@ -1,12 +1,15 @@
-import { literal, Op, type OrderItem, type WhereOptions } from 'sequelize';
+import { literal, Op, type OrderItem, type Transaction, type WhereOptions } from 'sequelize';
+import type { Design } from '../../../shared/schemas/design';
 import type { ListRunsQuery, RunDetail, RunHeadline, RunSummary } from '../../../shared/schemas/runs';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
+import { withRunSlot } from '../quotas/quota.service';
+import { uploadIdsOf } from '../revisions/design-assets';
 import { findRevision } from '../revisions/revision.service';
+import { UploadModel } from '../uploads/upload.model';
 import { UserModel } from '../users/user.model';
 import { findArtifact, listArtifacts } from './run-artifacts';
-import { addEvent } from './run-state';
-import { RunEventModel, RunModel } from './run.model';
+import { RunArtifactModel, RunEventModel, RunModel } from './run.model';
 
 const EMPTY_HEADLINE: RunHeadline = { efficiencyA: null, efficiencyB: null, crosstalkDb: null, zeroOrder: null };
 const SUMMARY_ATTRIBUTES = { exclude: ['convergence', 'metrics', 'plots'] };
@@ -32,6 +35,7 @@ function toSummary(run: RunModel): RunSummary {
     finishedAt: iso(run.finishedAt),
     durationMs: run.durationMs ?? null,
     headline: run.headline ?? EMPTY_HEADLINE,
+    filesDeletedAt: iso(run.filesDeletedAt),
   };
 }
 
@@ -84,18 +88,38 @@ export async function listRuns(projectId: number, query: ListRunsQuery): Promise
   return runs.map(toSummary);
 }
 
-/** Queues a run of revision `number`; the queue picks it up off the request thread. */
+/**
+ * Queues a run of revision `number`; the queue picks it up off the request thread. 429 past the person's
+ * or the project's limit of runs at once, 413 while the project's storage is full (quota.service.ts).
+ */
 export async function startRun(ctx: AppContext, projectId: number, number: number, userId: number): Promise<RunDetail> {
   const revision = await findRevision(projectId, number);
-  const runId = await createQueuedRun(projectId, revision.id, userId);
+  const missing = await deletedUploadsOf(projectId, JSON.parse(revision.design) as Design);
+  if (missing) throw new AppError(409, `Revision ${number} ${missing}`);
+  const runId = await withRunSlot(ctx, { userId, projectId, needsStorage: true }, (transaction) => createQueuedRun(projectId, revision.id, userId, transaction));
   ctx.runQueue.enqueue(runId);
   return getRun(projectId, runId);
 }
 
+/**
+ * What is wrong when a design names uploads the project no longer has (deleted since), or null. Example:
+ * 'uses upload 12, which was deleted; choose another file in the design and save a new revision'.
+ */
+export async function deletedUploadsOf(projectId: number, design: Design): Promise<string | null> {
+  const ids = uploadIdsOf(design);
+  if (!ids.length) return null;
+  const present = new Set((await UploadModel.findAll({ where: { id: ids, projectId }, attributes: ['id'] })).map((u) => u.id));
+  const gone = ids.filter((id) => !present.has(id));
+  if (!gone.length) return null;
+  const which = gone.length === 1 ? `upload ${gone[0]}, which was` : `uploads ${gone.join(', ')}, which were`;
+  return `uses ${which} deleted; choose another file in the design and save a new revision`;
+}
+
 /** Records a queued run of a revision; the caller hands it to the queue (or the next server start does). */
-export async function createQueuedRun(projectId: number, revisionId: number, userId: number): Promise<number> {
-  const run = await RunModel.create({ projectId, revisionId, startedById: userId, queuedAt: new Date(), stage: 'queued' });
-  await addEvent(run.id, 'queued', 'queued', `queued by ${(await UserModel.findByPk(userId, { attributes: ['name'] }))?.name ?? 'someone'}`);
+export async function createQueuedRun(projectId: number, revisionId: number, userId: number, transaction?: Transaction): Promise<number> {
+  const run = await RunModel.create({ projectId, revisionId, startedById: userId, queuedAt: new Date(), stage: 'queued' }, { transaction });
+  const by = await UserModel.findByPk(userId, { attributes: ['name'], transaction });
+  await RunEventModel.create({ runId: run.id, status: 'queued', stage: 'queued', message: `queued by ${by?.name ?? 'someone'}`, at: new Date() }, { transaction });
   return run.id;
 }
 
@@ -109,11 +133,34 @@ export async function cancelRun(ctx: AppContext, projectId: number, runId: numbe
   return getRun(projectId, runId);
 }
 
+/**
+ * Deletes the stored files of a finished run to free the project's storage; the run row, its metrics,
+ * plots and events stay, and an event records who deleted them. 409 while the run is queued or running.
+ */
+export async function deleteRunFiles(ctx: AppContext, projectId: number, runId: number, userId: number): Promise<RunDetail> {
+  const run = await findRun(projectId, runId);
+  if (run.status === 'queued' || run.status === 'running') {
+    throw new AppError(409, `Run ${runId} is ${run.status}; cancel it or wait for it to finish before deleting its files`);
+  }
+  if (!run.filesDeletedAt) {
+    const by = await UserModel.findByPk(userId, { attributes: ['name'] });
+    await ctx.sequelize.transaction(async (transaction) => {
+      await RunArtifactModel.destroy({ where: { runId }, transaction });
+      await RunModel.update({ filesDeletedAt: new Date(), filesDeletedById: userId }, { where: { id: runId }, transaction });
+      await RunEventModel.create({ runId, status: run.status, stage: run.stage, message: `files deleted by ${by?.name ?? 'someone'}`, at: new Date() }, { transaction });
+    });
+  }
+  return getRun(projectId, runId);
+}
+
 /** An artifact of a finished run with the download name `<project-slug>-r<revision>-run<id>-<name>`. */
 export async function artifactForDownload(projectId: number, projectName: string, runId: number, name: string) {
   const run = await findRun(projectId, runId);
   const artifact = await findArtifact(runId, name);
-  if (!artifact) throw new AppError(404, `Run ${runId} has no file "${name}"${run.status === 'succeeded' ? '' : ` (the run is ${run.status})`}`);
+  if (!artifact) {
+    const why = run.filesDeletedAt ? ' (its files were deleted)' : run.status === 'succeeded' ? '' : ` (the run is ${run.status})`;
+    throw new AppError(404, `Run ${runId} has no file "${name}"${why}`);
+  }
   return { artifact, fileName: `${slugOf(projectName)}-r${run.revision!.number}-run${run.id}-${artifact.name}` };
 }
 

@@ -15,6 +15,8 @@ import { Op, type InferAttributes } from 'sequelize';
 import { parseAtomLibraryCsv } from '../../../shared/optics/atoms';
 import type { Design } from '../../../shared/schemas/design';
 import type { ToleranceStatus } from '../../../shared/schemas/tolerance';
+import { workerFile } from '../../lib/worker-pool';
+import { timeLimitMessage } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { findArtifact } from '../runs/run-artifacts';
 import { RunArtifactChunkModel, RunModel } from '../runs/run.model';
@@ -22,7 +24,7 @@ import { UploadModel } from '../uploads/upload.model';
 import { TOLERANCE_ARRAYS, type ToleranceArrayName, type ToleranceMessage, type ToleranceTask, type ToleranceTaskResult } from './tolerance-task';
 import { ToleranceStudyModel } from './tolerance.model';
 
-const TASK_FILE = new URL(`./tolerance-task${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`, import.meta.url);
+const TASK_FILE = workerFile('tolerance-task', import.meta.url);
 const MAX_ATTEMPTS = 3;
 const INTERNAL_FAILURE = 'The study stopped on an internal error of the server (it has been logged). Start it again; if it fails again, tell your administrator.';
 
@@ -77,6 +79,8 @@ export function createToleranceExecutor(options: {
   /** The run pool while it accepts work, null otherwise. */
   pool: () => Piscina | null;
   progressIntervalMs: number;
+  /** Longest a study may run once started (RUN_TIME_LIMIT_MINUTES); null: no limit. */
+  timeLimitMs: number | null;
 }): ToleranceExecutor {
   const { logger } = options;
   const active = new Map<number, AbortController>();
@@ -117,11 +121,20 @@ export function createToleranceExecutor(options: {
       return chain;
     };
     let lastWrite = 0;
+    let deadline: NodeJS.Timeout | undefined;
     port1.on('message', (message: ToleranceMessage) => {
       if (message.type === 'started') {
         void later(async () => {
           const ok = await transition(studyId, ['queued'], { status: 'running', attempts: study.attempts + 1, startedAt: new Date(), stage: 'loading', progress: 0, error: null });
-          if (!ok) controller.abort('gone');
+          if (!ok) return controller.abort('gone');
+          const limit = options.timeLimitMs;
+          if (limit === null || controller.signal.aborted) return;
+          // Past the time limit: the row is failed first (the truth), then the worker is stopped.
+          const stop = async () => {
+            const error = timeLimitMessage('study', limit / 60_000);
+            if (await transition(studyId, ['running'], { status: 'failed', error, finishedAt: new Date() })) controller.abort('time limit');
+          };
+          deadline = setTimeout(() => void later(stop), limit).unref();
         });
       } else if (Date.now() - lastWrite >= options.progressIntervalMs || message.fraction === 1) {
         lastWrite = Date.now();
@@ -151,6 +164,7 @@ export function createToleranceExecutor(options: {
       )
       .catch((err: unknown) => logger.error({ err, studyId }, 'tolerance result could not be stored'))
       .finally(async () => {
+        clearTimeout(deadline);
         active.delete(studyId);
         port1.close();
         await rm(workDir, { recursive: true, force: true }).catch(() => undefined);

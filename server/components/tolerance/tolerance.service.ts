@@ -1,6 +1,7 @@
 import type { ToleranceRequestBody, ToleranceStudy } from '../../../shared/schemas/tolerance';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
+import { withRunSlot } from '../quotas/quota.service';
 import { findRun } from '../runs/run.service';
 import { ToleranceStudyModel } from './tolerance.model';
 
@@ -33,16 +34,20 @@ export async function getToleranceStudy(projectId: number, runId: number): Promi
 
 /**
  * Queues a tolerance study of a finished run on the run queue's worker pool. 409 when the run has not
- * succeeded or a study of it is still queued or running.
+ * succeeded or a study of it is still queued or running; 429 past the limits of runs at once (a study
+ * counts as a run).
  */
 export async function startToleranceStudy(ctx: AppContext, projectId: number, runId: number, userId: number, request: ToleranceRequestBody): Promise<ToleranceStudy> {
   const run = await findRun(projectId, runId);
   if (run.status !== 'succeeded') throw new AppError(409, `Run ${runId} is ${run.status}; a tolerance study needs a run that has succeeded`);
+  if (run.filesDeletedAt) throw new AppError(409, `The files of run ${runId} were deleted; a tolerance study needs them. Start the revision again.`);
   const latest = await ToleranceStudyModel.findOne({ where: { runId }, order: [['id', 'DESC']], attributes: ['id', 'status'] });
   if (latest && (latest.status === 'queued' || latest.status === 'running')) {
     throw new AppError(409, `A tolerance study of run ${runId} is already ${latest.status}; wait for it to finish`);
   }
-  const study = await ToleranceStudyModel.create({ runId, request, startedById: userId, queuedAt: new Date(), stage: 'queued' });
+  const study = await withRunSlot(ctx, { userId, projectId, needsStorage: false }, (transaction) =>
+    ToleranceStudyModel.create({ runId, request, startedById: userId, queuedAt: new Date(), stage: 'queued' }, { transaction }),
+  );
   ctx.runQueue.enqueueTolerance(study.id);
   return toStudy(study);
 }

@@ -1,12 +1,13 @@
 import { Router } from 'express';
 import { createUploadSchema, UPLOAD_LIMITS } from '../../../shared/schemas/uploads';
+import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
 import { fileReceiver } from '../../lib/receive-file';
 import { contentDisposition } from '../../lib/content-disposition';
 import { parseId, parseInput } from '../../lib/validate';
 import { currentUser } from '../auth/auth.middleware';
 import { projectAccess, requireProject } from '../projects/project-access';
-import { createUpload, listUploads, uploadContent } from './upload.service';
+import { createUpload, deleteUpload, listUploads, uploadContent } from './upload.service';
 
 const MIB = 1024 * 1024;
 
@@ -18,7 +19,7 @@ const receiveFile = fileReceiver({
 });
 
 /** `/api/projects/:projectId/uploads`: pictures and phase maps a design refers to. */
-export function uploadRoutes() {
+export function uploadRoutes(ctx: AppContext) {
   const router = Router({ mergeParams: true });
 
   router.get('/', requireProject('read'), async (req, res) => {
@@ -29,12 +30,18 @@ export function uploadRoutes() {
     await receiveFile(req, res);
     const { kind } = parseInput(createUploadSchema, req.body);
     if (!req.file) throw new AppError(400, 'Choose a file: send it in the form field "file"', { file: 'missing' });
-    const upload = await createUpload(projectAccess(req).project.id, currentUser(req).id, {
+    const upload = await createUpload(ctx, projectAccess(req).project.id, currentUser(req).id, {
       kind,
       name: req.file.originalname,
       bytes: req.file.buffer,
     });
     res.status(201).json({ upload });
+  });
+
+  router.delete('/:uploadId', requireProject('design'), async (req, res) => {
+    const id = parseId(req.params.uploadId, 'uploadId');
+    await deleteUpload(projectAccess(req).project.id, id);
+    res.status(204).end();
   });
 
   router.get('/:uploadId/content', requireProject('read'), async (req, res) => {

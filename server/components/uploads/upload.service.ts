@@ -2,7 +2,9 @@ import { createHash } from 'node:crypto';
 import { Jimp } from 'jimp';
 import { decodeNpy } from '../../../shared/optics/npy-decode';
 import type { Upload, UploadKind } from '../../../shared/schemas/uploads';
+import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
+import { formatBytes, withStorage } from '../quotas/quota.service';
 import { UserModel } from '../users/user.model';
 import { EXTENSIONS, inspectUpload, type InspectedUpload } from './upload-inspect';
 import { UploadModel } from './upload.model';
@@ -58,10 +60,10 @@ async function confirmDecodes(bytes: Buffer, inspected: InspectedUpload) {
 }
 
 /** Checks (type, size, pixels) before decoding, confirms it decodes, and stores the bytes. */
-export async function createUpload(projectId: number, userId: number, input: { kind: UploadKind; name: string; bytes: Buffer }): Promise<Upload> {
+export async function createUpload(ctx: AppContext, projectId: number, userId: number, input: { kind: UploadKind; name: string; bytes: Buffer }): Promise<Upload> {
   const inspected = inspectUpload(input.bytes, input.kind);
   await confirmDecodes(input.bytes, inspected);
-  const created = await UploadModel.create({
+  const created = await withStorage(ctx, projectId, input.bytes.length, `the file (${formatBytes(input.bytes.length)})`, (transaction) => UploadModel.create({
     projectId,
     kind: input.kind,
     name: cleanFileName(input.name, inspected.mime),
@@ -72,8 +74,14 @@ export async function createUpload(projectId: number, userId: number, input: { k
     sha256: createHash('sha256').update(input.bytes).digest('hex'),
     bytes: input.bytes,
     createdById: userId,
-  });
+  }, { transaction }));
   return getUpload(projectId, created.id);
+}
+
+/** Deletes an upload to free the project's storage; revisions that name it can no longer be run. */
+export async function deleteUpload(projectId: number, id: number): Promise<void> {
+  const deleted = await UploadModel.destroy({ where: { id, projectId } });
+  if (!deleted) throw new AppError(404, `This project has no upload ${id}`);
 }
 
 export async function getUpload(projectId: number, id: number): Promise<Upload> {

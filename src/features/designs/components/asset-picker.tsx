@@ -3,10 +3,12 @@ import type { AssetRef } from '@shared/schemas/design';
 import { UPLOAD_LIMITS, type Upload, type UploadKind } from '@shared/schemas/uploads';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
+import { ConfirmDialog } from '@/components/ui/confirm-dialog';
 import { PlusIcon } from '@/components/ui/icons';
 import { Spinner } from '@/components/ui/spinner';
 import { isApiError } from '@/lib/api-client';
 import { useCreateUpload } from '@/features/designs/api/create-upload';
+import { useDeleteUpload } from '@/features/designs/api/delete-upload';
 import { uploadContentUrl, useUploads } from '@/features/designs/api/get-uploads';
 import { DEMO_IMAGES } from '@/features/designs/utils/demo-images';
 
@@ -16,6 +18,8 @@ interface Choice {
   label: string;
   detail: string;
   thumbnail: string | null;
+  /** Set for the project's own uploads, which a designer may delete. */
+  upload?: Upload;
 }
 
 function sameRef(a: AssetRef | undefined, b: AssetRef) {
@@ -38,6 +42,7 @@ function uploadChoice(projectId: number, upload: Upload): Choice {
     label: upload.name,
     detail: `${upload.width} × ${upload.height}`,
     thumbnail: upload.mime === 'application/x-npy' ? null : uploadContentUrl(projectId, upload.id),
+    upload,
   };
 }
 
@@ -56,6 +61,8 @@ interface AssetPickerProps {
 export function AssetPicker({ projectId, kind, legend, value, onChange, canUpload, error, dataField }: AssetPickerProps) {
   const uploads = useUploads(projectId);
   const create = useCreateUpload(projectId);
+  const remove = useDeleteUpload(projectId);
+  const [deleting, setDeleting] = useState<Upload | null>(null);
   const inputRef = useRef<HTMLInputElement>(null);
   const [uploadError, setUploadError] = useState<string | null>(null);
   const name = useId();
@@ -109,29 +116,35 @@ export function AssetPicker({ projectId, kind, legend, value, onChange, canUploa
         {choices.map((choice) => {
           const selected = sameRef(value, choice.ref);
           return (
-            <label
-              key={choice.key}
-              className={`flex w-28 cursor-pointer flex-col gap-1 rounded-xl p-1.5 text-xs ring-1 ring-inset transition-colors has-[:focus-visible]:outline-3 has-[:focus-visible]:outline-teal has-[:disabled]:cursor-default ${
-                selected ? 'bg-ember-wash ring-2 ring-ember' : 'bg-card ring-line hover:bg-paper'
-              }`}
-            >
-              <input
-                type="radio"
-                name={name}
-                className="sr-only"
-                checked={selected}
-                onChange={() => onChange(choice.ref, sizeOf(choice.ref))}
-              />
-              {choice.thumbnail ? (
-                <img src={choice.thumbnail} alt="" className="aspect-square w-full rounded-lg bg-ink-deep object-contain" loading="lazy" />
-              ) : (
-                <span className="flex aspect-square w-full items-center justify-center rounded-lg bg-paper-deep font-bold text-ink-soft">.npy</span>
-              )}
-              <span className="truncate font-bold" title={choice.label}>
-                {choice.label}
-              </span>
-              <span className="text-ink-soft">{choice.detail}</span>
-            </label>
+            <div key={choice.key} className="flex w-28 flex-col items-stretch gap-1">
+              <label
+                className={`flex w-full cursor-pointer flex-col gap-1 rounded-xl p-1.5 text-xs ring-1 ring-inset transition-colors has-[:focus-visible]:outline-3 has-[:focus-visible]:outline-teal has-[:disabled]:cursor-default ${
+                  selected ? 'bg-ember-wash ring-2 ring-ember' : 'bg-card ring-line hover:bg-paper'
+                }`}
+              >
+                <input
+                  type="radio"
+                  name={name}
+                  className="sr-only"
+                  checked={selected}
+                  onChange={() => onChange(choice.ref, sizeOf(choice.ref))}
+                />
+                {choice.thumbnail ? (
+                  <img src={choice.thumbnail} alt="" className="aspect-square w-full rounded-lg bg-ink-deep object-contain" loading="lazy" />
+                ) : (
+                  <span className="flex aspect-square w-full items-center justify-center rounded-lg bg-paper-deep font-bold text-ink-soft">.npy</span>
+                )}
+                <span className="truncate font-bold" title={choice.label}>
+                  {choice.label}
+                </span>
+                <span className="text-ink-soft">{choice.detail}</span>
+              </label>
+              {choice.upload && canUpload ? (
+                <Button variant="quiet" size="sm" className="text-danger" onClick={() => setDeleting(choice.upload ?? null)} aria-label={`Delete ${choice.label}`}>
+                  Delete
+                </Button>
+              ) : null}
+            </div>
           );
         })}
         {value && !selectedIsListed && !uploads.isPending ? (
@@ -179,6 +192,23 @@ export function AssetPicker({ projectId, kind, legend, value, onChange, canUploa
         </div>
       ) : null}
       {uploadError ? <Banner title="Upload refused">{uploadError}</Banner> : null}
+      <ConfirmDialog
+        open={deleting !== null}
+        title={`Delete “${deleting?.name ?? ''}”?`}
+        confirmLabel="Delete upload"
+        pending={remove.isPending}
+        error={remove.error?.message ?? null}
+        onClose={() => {
+          remove.reset();
+          setDeleting(null);
+        }}
+        onConfirm={() => {
+          if (deleting) remove.mutate(deleting.id, { onSuccess: () => setDeleting(null) });
+        }}
+      >
+        The file is removed from the project and its storage is freed. Revisions that use it keep their settings
+        but can no longer be run until you choose another file.
+      </ConfirmDialog>
     </fieldset>
   );
 }

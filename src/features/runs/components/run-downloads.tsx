@@ -1,20 +1,33 @@
 import type { ArtifactGroups } from '@/features/runs/components/artifact-groups';
 import { formatBytes } from '@/features/runs/components/artifact-groups';
 import { Card } from '@/components/ui/card';
+import { formatDateTime } from '@/lib/format';
 import { DownloadLink } from '@/features/runs/components/artifact-figure';
+import { DeleteRunFilesButton } from '@/features/runs/components/delete-run-files-button';
 
 interface RunDownloadsProps {
   projectId: number;
   runId: number;
   downloads: ArtifactGroups['downloads'];
   notes: string[];
+  /** When the files were deleted to free storage, if they were. */
+  filesDeletedAt?: string | null;
+  /** Offer to delete the files (a designer or owner, once the run has finished). */
+  canDelete?: boolean;
 }
 
 /** Every file the run stored, grouped by kind, each a plain download link. */
-export function RunDownloads({ projectId, runId, downloads, notes }: RunDownloadsProps) {
+export function RunDownloads({ projectId, runId, downloads, notes, filesDeletedAt = null, canDelete = false }: RunDownloadsProps) {
+  const totalBytes = downloads.reduce((sum, group) => sum + group.files.reduce((s, file) => s + file.size, 0), 0);
   return (
-    <Card title="Files of this run" description="Everything the run stored. Each link saves the file under a name that carries the project and run.">
-      {downloads.length === 0 ? (
+    <Card
+      title="Files of this run"
+      description="Everything the run stored. Each link saves the file under a name that carries the project and run."
+      actions={canDelete && downloads.length > 0 ? <DeleteRunFilesButton projectId={projectId} runId={runId} totalBytes={totalBytes} /> : null}
+    >
+      {filesDeletedAt ? (
+        <p className="text-sm text-ink-soft">The files of this run were deleted on {formatDateTime(filesDeletedAt)} to free storage.</p>
+      ) : downloads.length === 0 ? (
         <p className="text-sm text-ink-soft">No files yet: a run stores them when it finishes.</p>
       ) : (
         <div className="gap-6 md:columns-2">

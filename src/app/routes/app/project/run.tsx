@@ -12,6 +12,7 @@ import { ArrowLeftIcon } from '@/components/ui/icons';
 import { PageLoader } from '@/components/ui/spinner';
 import { paths } from '@/config/paths';
 import { isApiError } from '@/lib/api-client';
+import { formatDateTime } from '@/lib/format';
 import { runQueryOptions, useRun } from '@/features/runs/api/get-run';
 import { DESIGN_ARTIFACT, useRunDesign } from '@/features/runs/api/get-run-design';
 import { isRunActive } from '@/features/runs/api/run-status';
@@ -144,6 +145,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
   const { channelNames } = layout;
   const approximate = usesApproximateLibrary(run, design);
   const active = isRunActive(run.status);
+  const filesDeleted = run.filesDeletedAt !== null;
 
 
   return (
@@ -183,6 +185,14 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
           <RunEvents events={run.events} />
         </Card>
       </div>
+
+      {run.filesDeletedAt ? (
+        <Banner tone="info" title="This run’s files were deleted">
+          They were deleted on {formatDateTime(run.filesDeletedAt)} to free the project’s storage. The status, metrics,
+          history and review threads stay; previews, maps, the layout, the fab package and downloads are gone. Run the
+          revision again to make new files.
+        </Banner>
+      ) : null}
 
       {active ? (
         <Banner tone="info">
@@ -232,15 +242,24 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
 
       {mappingReport ? <MappingReportCard report={mappingReport} figures={sectionOf('Atom mapping')} /> : null}
 
-      {run.status === 'succeeded' ? <ToleranceCard projectId={projectId} runId={run.id} canRun={canRun} channelNames={channelNames} /> : null}
+      {run.status === 'succeeded' && !filesDeleted ? <ToleranceCard projectId={projectId} runId={run.id} canRun={canRun} channelNames={channelNames} /> : null}
 
       {run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} /> : null}
 
-      {run.status === 'succeeded' ? <ExportPanel projectId={projectId} runId={run.id} canManage={canManage} /> : null}
+      {run.status === 'succeeded' && !filesDeleted ? <ExportPanel projectId={projectId} runId={run.id} canManage={canManage} /> : null}
 
       {canManage ? <ShareLinksCard projectId={projectId} runId={run.id} /> : null}
 
-      {run.artifacts.length > 0 || !active ? <RunDownloads projectId={projectId} runId={run.id} downloads={groups.downloads} notes={notes} /> : null}
+      {run.artifacts.length > 0 || !active ? (
+        <RunDownloads
+          projectId={projectId}
+          runId={run.id}
+          downloads={groups.downloads}
+          notes={notes}
+          filesDeletedAt={run.filesDeletedAt}
+          canDelete={canRun && !active}
+        />
+      ) : null}
     </div>
   );
 }

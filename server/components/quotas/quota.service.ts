@@ -1,0 +1,132 @@
+/**
+ * What one person and one project may make the server do: queued + running runs and tolerance studies
+ * (RUNS_PER_USER, RUNS_PER_PROJECT) and stored bytes (PROJECT_STORAGE_MB: uploads + run files).
+ *
+ * Counting and inserting happen in one transaction that first locks the person's row and then the project's
+ * (always in that order, so two such transactions never wait on each other crosswise) and reads at READ
+ * COMMITTED: a second request for the same person or project waits for the first to commit and then counts
+ * its insert, so two simultaneous requests can never both slip under a limit.
+ */
+import { QueryTypes, Transaction } from 'sequelize';
+import type { AppConfig } from '../../config';
+import type { AppContext } from '../../context';
+import { AppError } from '../../lib/app-error';
+import { ProjectModel } from '../projects/project.model';
+import { UserModel } from '../users/user.model';
+
+const MIB = 1024 * 1024;
+
+/** Bytes a project may store under PROJECT_STORAGE_MB. */
+export const storageQuotaBytes = (config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>) => Math.floor(config.PROJECT_STORAGE_MB * MIB);
+
+/** Example: 1536 → '1.5 KiB'; 3 * 1024 ** 3 → '3 GiB'. */
+export function formatBytes(bytes: number): string {
+  const units = ['bytes', 'KiB', 'MiB', 'GiB', 'TiB'];
+  let value = bytes;
+  let unit = 0;
+  while (value >= 1024 && unit < units.length - 1) {
+    value /= 1024;
+    unit += 1;
+  }
+  return `${unit === 0 ? value : Number(value.toFixed(1))} ${units[unit]}`;
+}
+
+/** Locks the person's row, then the project's, for the rest of `transaction`. */
+async function lockOwners(userId: number | null, projectId: number, transaction: Transaction) {
+  if (userId !== null) await UserModel.findByPk(userId, { attributes: ['id'], lock: transaction.LOCK.UPDATE, transaction });
+  await ProjectModel.findByPk(projectId, { attributes: ['id'], lock: transaction.LOCK.UPDATE, transaction });
+}
+
+const ACTIVE = `('queued', 'running')`;
+
+/** Queued + running runs and tolerance studies of a person (over all projects) and of a project. */
+export async function activeWork(userId: number, projectId: number, transaction?: Transaction): Promise<{ user: number; project: number }> {
+  const [row] = await ProjectModel.sequelize!.query<{ user: number | string; project: number | string }>(
+    `SELECT
+       (SELECT COUNT(*) FROM runs WHERE started_by_id = :userId AND status IN ${ACTIVE})
+     + (SELECT COUNT(*) FROM tolerance_studies WHERE started_by_id = :userId AND status IN ${ACTIVE}) AS user,
+       (SELECT COUNT(*) FROM runs WHERE project_id = :projectId AND status IN ${ACTIVE})
+     + (SELECT COUNT(*) FROM tolerance_studies s JOIN runs r ON r.id = s.run_id WHERE r.project_id = :projectId AND s.status IN ${ACTIVE}) AS project`,
+    { replacements: { userId, projectId }, type: QueryTypes.SELECT, transaction },
+  );
+  return { user: Number(row.user), project: Number(row.project) };
+}
+
+/** Bytes the project stores: its uploads and the files of its runs. */
+export async function storedBytes(projectId: number, transaction?: Transaction): Promise<number> {
+  const [row] = await ProjectModel.sequelize!.query<{ uploads: number | string | null; runs: number | string | null }>(
+    `SELECT
+       (SELECT SUM(size) FROM uploads WHERE project_id = :projectId) AS uploads,
+       (SELECT SUM(a.size) FROM run_artifacts a JOIN runs r ON r.id = a.run_id WHERE r.project_id = :projectId) AS runs`,
+    { replacements: { projectId }, type: QueryTypes.SELECT, transaction },
+  );
+  return Number(row.uploads ?? 0) + Number(row.runs ?? 0);
+}
+
+function storageUse(config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, used: number): string {
+  return `This project stores ${formatBytes(used)} of its ${formatBytes(storageQuotaBytes(config))} quota (PROJECT_STORAGE_MB = ${config.PROJECT_STORAGE_MB})`;
+}
+
+/** The message of a run whose files would not fit the project's storage quota (the run then fails). */
+export function runFilesTooLarge(config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, used: number, adding: number): string {
+  return `${storageUse(config, used)}; this run's files (${formatBytes(adding)}) do not fit, so they were not kept. Delete uploads or the files of old runs, then start the run again.`;
+}
+
+/** 413 unless `adding` more bytes fit the project's storage quota. */
+function requireRoom(config: AppConfig, used: number, adding: number, what: string) {
+  if (used + adding <= storageQuotaBytes(config)) return;
+  throw new AppError(413, `${storageUse(config, used)}; ${what} does not fit. Delete uploads or the files of old runs (on the run's page), then try again.`, {
+    storage: `${formatBytes(used)} of ${formatBytes(storageQuotaBytes(config))} used`,
+  });
+}
+
+/**
+ * Runs `insert` (which stores `bytes` more in the project) inside a transaction that holds the project's
+ * lock, after checking the storage quota; 413 naming the quota when they do not fit.
+ */
+export async function withStorage<T>(ctx: AppContext, projectId: number, bytes: number, what: string, insert: (transaction: Transaction) => Promise<T>): Promise<T> {
+  return ctx.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
+    await lockOwners(null, projectId, transaction);
+    requireRoom(ctx.config, await storedBytes(projectId, transaction), bytes, what);
+    return insert(transaction);
+  });
+}
+
+/**
+ * Runs `insert` (which queues one run or tolerance study for the person in the project) only while both
+ * stay under their limits; 429 naming the limit and its variable otherwise. `needsStorage`: a run, which
+ * stores files, is refused (413) while the project's storage quota is already used up.
+ */
+export async function withRunSlot<T>(
+  ctx: AppContext,
+  slot: { userId: number; projectId: number; needsStorage: boolean },
+  insert: (transaction: Transaction) => Promise<T>,
+): Promise<T> {
+  const { config } = ctx;
+  return ctx.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
+    await lockOwners(slot.userId, slot.projectId, transaction);
+    const active = await activeWork(slot.userId, slot.projectId, transaction);
+    if (active.user >= config.RUNS_PER_USER) {
+      throw new AppError(
+        429,
+        `You already have ${active.user} runs and tolerance studies queued or running, the most one person may have at once (RUNS_PER_USER = ${config.RUNS_PER_USER}). Wait for one to finish or cancel one, then start again.`,
+      );
+    }
+    if (active.project >= config.RUNS_PER_PROJECT) {
+      throw new AppError(
+        429,
+        `This project already has ${active.project} runs and tolerance studies queued or running, the most one project may have at once (RUNS_PER_PROJECT = ${config.RUNS_PER_PROJECT}). Wait for one to finish or cancel one, then start again.`,
+      );
+    }
+    if (slot.needsStorage) requireRoom(config, await storedBytes(slot.projectId, transaction), 1, 'a new run’s files');
+    return insert(transaction);
+  });
+}
+
+/** The message of a run or study stopped at RUN_TIME_LIMIT_MINUTES. */
+export function timeLimitMessage(what: 'run' | 'study', minutes: number): string {
+  return (
+    `The ${what} was stopped after the time limit of ${minutes} minute${minutes === 1 ? '' : 's'} (RUN_TIME_LIMIT_MINUTES). ` +
+    'Make the design smaller (fewer cells or iterations), or ask your administrator to raise the limit.'
+  );
+}
