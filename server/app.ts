@@ -95,7 +95,7 @@ export function createApp(ctx: AppContext) {
   api.use('/auth', authRoutes(ctx, passport as never, generateToken));
   api.use('/projects/:projectId/revisions', revisionRoutes());
   api.use('/projects/:projectId/uploads', uploadRoutes());
-  api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes());
+  api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes(config));
   api.use('/projects/:projectId', runRoutes(ctx));
   api.use('/projects/:projectId', fabRoutes());
   api.use('/projects/:projectId', reviewRoutes(ctx));

@@ -1,9 +1,9 @@
-import { crc32 } from 'node:zlib';
 import { Jimp } from 'jimp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { encodeNpy } from '../../shared/optics/npy';
 import { UPLOAD_LIMITS } from '../../shared/schemas/uploads';
 import { download, twinImageDesign, waitForRun } from '../support/designs';
+import { pngChunk } from '../support/hostile-corpus';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
 
 let t: TestApp;
@@ -22,16 +22,6 @@ async function picture(mime: 'image/png' | 'image/jpeg', width = 64, height = 48
     }
   }
   return mime === 'image/png' ? image.getBuffer('image/png') : image.getBuffer('image/jpeg', { quality: 90 });
-}
-
-/** A PNG chunk with its CRC (PNG spec §5.3). */
-function pngChunk(type: string, data: Buffer): Buffer {
-  const head = Buffer.alloc(8);
-  head.writeUInt32BE(data.length, 0);
-  head.write(type, 4, 'latin1');
-  const crc = Buffer.alloc(4);
-  crc.writeUInt32BE(crc32(Buffer.concat([head.subarray(4), data])), 0);
-  return Buffer.concat([head, data, crc]);
 }
 
 /** A PNG that only claims a size: valid signature and IHDR, a tiny IDAT, IEND. */
