@@ -12,6 +12,7 @@ import { atomLibraryRoutes } from './components/atom-libraries/atom-library.rout
 import { authRoutes } from './components/auth/auth.routes';
 import { createPassport } from './components/auth/passport';
 import { fabRoutes } from './components/fab/fab.routes';
+import { healthRoutes } from './components/health/health.routes';
 import { notificationRoutes } from './components/notifications/notification.routes';
 import { notifyRunFinished } from './components/notifications/notification.service';
 import { projectRoutes } from './components/projects/project.routes';
@@ -23,6 +24,8 @@ import { shareLinkRoutes, sharedRoutes } from './components/share-links/share-li
 import { uploadRoutes } from './components/uploads/upload.routes';
 import type { AppContext } from './context';
 import { apiNotFound, errorHandler } from './lib/error-handler';
+import { createInputPool } from './lib/input-pool';
+import { limitJsonDepth } from './lib/json-depth';
 import { openApiDocument } from './openapi';
 
 const SessionStore = connectSessionSequelize(session.Store);
@@ -30,6 +33,7 @@ const SessionStore = connectSessionSequelize(session.Store);
 /** Builds the Express app (API + built client) around its context; supertest imports this directly. */
 export function createApp(ctx: AppContext) {
   const { config, logger } = ctx;
+  const inputs = createInputPool(config);
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -58,6 +62,9 @@ export function createApp(ctx: AppContext) {
     next();
   });
 
+  // Before the session: a health check never touches the session store.
+  app.use('/api/health', healthRoutes(ctx, inputs));
+
   const store = new SessionStore({ db: ctx.sequelize, table: 'Session', checkExpirationInterval: 15 * 60_000 });
   app.use(
     session({
@@ -84,7 +91,7 @@ export function createApp(ctx: AppContext) {
   });
 
   const api = express.Router();
-  api.use(express.json({ limit: '256kb' }));
+  api.use(express.json({ limit: `${config.JSON_MAX_KIB}kb`, verify: limitJsonDepth(config.JSON_MAX_DEPTH) }));
   api.use(bearerAuth);
   api.use(unlessBearer(csrfSynchronisedProtection));
   api.get('/openapi.json', (_req, res) => {
@@ -94,8 +101,8 @@ export function createApp(ctx: AppContext) {
   api.use('/access-tokens', accessTokenRoutes());
   api.use('/auth', authRoutes(ctx, passport as never, generateToken));
   api.use('/projects/:projectId/revisions', revisionRoutes());
-  api.use('/projects/:projectId/uploads', uploadRoutes());
-  api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes(config));
+  api.use('/projects/:projectId/uploads', uploadRoutes(config, inputs));
+  api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes(config, inputs));
   api.use('/projects/:projectId', runRoutes(ctx));
   api.use('/projects/:projectId', fabRoutes());
   api.use('/projects/:projectId', reviewRoutes(ctx));
@@ -103,9 +110,6 @@ export function createApp(ctx: AppContext) {
   api.use('/projects/:projectId', shareLinkRoutes(ctx));
   api.use('/projects', projectRoutes(ctx));
   api.use('/admin', adminRoutes(ctx));
-  api.get('/health', (_req, res) => {
-    res.json({ ok: true });
-  });
   api.use(apiNotFound);
   app.use('/api', api);
 
@@ -121,5 +125,5 @@ export function createApp(ctx: AppContext) {
   onRunFinished((runId, status) => {
     notifyRunFinished(ctx, runId, status).catch((err: unknown) => logger.error({ err, runId }, 'run notification could not be recorded'));
   });
-  return { app, sessionStore: store };
+  return { app, sessionStore: store, inputs };
 }

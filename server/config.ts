@@ -49,7 +49,7 @@ const envSchema = z.object({
   ATOM_CSV_MAX_COLUMNS: z.coerce.number().int().min(10).default(64),
   ATOM_CSV_MAX_LINE_CHARS: z.coerce.number().int().min(80).default(4_000),
   ATOM_CSV_MAX_PROBLEMS: z.coerce.number().int().min(1).default(200),
-  HEALTH_DB_TIMEOUT_MS: z.coerce.number().int().min(1).default(100),
+  HEALTH_DB_TIMEOUT_MS: z.coerce.number().int().min(1).max(150, 'keep it under 150 ms: the health check answers within 200 ms').default(50),
 });
 
 export type AppConfig = z.infer<typeof envSchema> & { publicUrl: string };

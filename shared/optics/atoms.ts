@@ -132,10 +132,37 @@ export function largestPhaseGap(alphas: readonly number[]): number {
  * Example: validateAtomLibrary({ …, atoms: [] }) → [{ severity: 'error', field: 'atoms', … }].
  */
 export function validateAtomLibrary(library: AtomLibrary, options: ValidationOptions = {}): LibraryIssue[] {
+  return checkAtomLibrary(library, options).issues;
+}
+
+/** Options of `checkAtomLibrary`: those of `validateAtomLibrary`, a cap on the issues listed, and cells to leave out. */
+export interface CheckOptions extends ValidationOptions {
+  /** Issues listed in full; further ones are only counted (their messages are never built). Default: all. */
+  maxIssues?: number;
+  /** Cells (1-based atom row, MetaAtom field) whose issues the caller has already reported: neither listed nor counted. */
+  skip?: (row: number, field: string) => boolean;
+}
+
+/**
+ * `validateAtomLibrary` with a budget: the first `maxIssues` issues in full, the counts of all. Linear in the
+ * number of atoms (plus a sort of the phases). Example: checkAtomLibrary(lib, { maxIssues: 0 }).count → the
+ * length of validateAtomLibrary(lib).
+ */
+export function checkAtomLibrary(library: AtomLibrary, options: CheckOptions = {}): { issues: LibraryIssue[]; count: number; errorCount: number } {
   const minLevels = options.minPhaseLevels ?? 8;
+  const maxIssues = options.maxIssues ?? Infinity;
   const issues: LibraryIssue[] = [];
+  let count = 0;
+  let errorCount = 0;
+  /** Counts an issue; true when it is to be listed (its message is built only then). */
+  const listed = (severity: LibraryIssue['severity'], row: number, field: string): boolean => {
+    if (options.skip && row > 0 && options.skip(row, field)) return false;
+    count++;
+    if (severity === 'error') errorCount++;
+    return issues.length < maxIssues;
+  };
   const libError = (field: string, message: string): void => {
-    issues.push({ severity: 'error', row: 0, field, message });
+    if (listed('error', 0, field)) issues.push({ severity: 'error', row: 0, field, message });
   };
   if (typeof library.name !== 'string' || library.name.trim() === '') libError('name', 'library name is empty');
   for (const field of ['lambda', 'period', 'height'] as const) {
@@ -145,7 +172,7 @@ export function validateAtomLibrary(library: AtomLibrary, options: ValidationOpt
   if (typeof library.approximate !== 'boolean') libError('approximate', 'library must say whether it is approximate');
   if (!Array.isArray(library.atoms) || library.atoms.length === 0) {
     libError('atoms', 'library holds no atoms');
-    return issues;
+    return { issues, count, errorCount };
   }
 
   const seenIds = new Map<string, number>();
@@ -157,49 +184,51 @@ export function validateAtomLibrary(library: AtomLibrary, options: ValidationOpt
   library.atoms.forEach((atom, index) => {
     const row = index + 1;
     const atomId = typeof atom.id === 'string' ? atom.id : undefined;
-    const err = (field: string, message: string): void => {
-      issues.push({ severity: 'error', row, atomId, field, message: `atom ${atomId ?? '?'} (row ${row}): ${message}` });
+    const err = (field: string, message: string | (() => string)): void => {
+      if (!listed('error', row, field)) return;
+      const text = typeof message === 'string' ? message : message();
+      issues.push({ severity: 'error', row, atomId, field, message: `atom ${atomId ?? '?'} (row ${row}): ${text}` });
     };
     if (atomId === undefined || atomId.trim() === '') err('id', 'id is empty');
-    else if (seenIds.has(atomId)) err('id', `id repeats row ${seenIds.get(atomId)}`);
+    else if (seenIds.has(atomId)) err('id', () => `id repeats row ${seenIds.get(atomId)}`);
     else seenIds.set(atomId, row);
-    if (atom.shape !== 'rect' && atom.shape !== 'empty') err('shape', `shape must be 'rect' or 'empty', got ${String(atom.shape)}`);
+    if (atom.shape !== 'rect' && atom.shape !== 'empty') err('shape', () => `shape must be 'rect' or 'empty', got ${String(atom.shape)}`);
 
     let finite = true;
     for (const field of ['width', 'length', 'height', 'period', 'tx', 'alphaX', 'ty', 'alphaY'] as const) {
       if (!Number.isFinite(atom[field])) {
-        err(field, `${field} is not a finite number (${atom[field]})`);
+        err(field, () => `${field} is not a finite number (${atom[field]})`);
         finite = false;
       }
     }
     for (const field of ['tx', 'ty'] as const) {
       if (Number.isFinite(atom[field]) && (atom[field] < 0 || atom[field] > 1)) {
-        err(field, `${field} = ${atom[field]} lies outside 0…1`);
+        err(field, () => `${field} = ${atom[field]} lies outside 0…1`);
       }
     }
     if (atom.shape === 'rect') {
       for (const field of ['width', 'length', 'height'] as const) {
-        if (Number.isFinite(atom[field]) && atom[field] <= 0) err(field, `${field} must be positive, got ${atom[field]} m`);
+        if (Number.isFinite(atom[field]) && atom[field] <= 0) err(field, () => `${field} must be positive, got ${atom[field]} m`);
       }
       for (const field of ['width', 'length'] as const) {
         if (Number.isFinite(atom[field]) && Number.isFinite(atom.period) && atom[field] > atom.period) {
-          err(field, `${field} ${atom[field]} m exceeds the period ${atom.period} m`);
+          err(field, () => `${field} ${atom[field]} m exceeds the period ${atom.period} m`);
         }
       }
     } else if (atom.shape === 'empty') {
       for (const field of ['width', 'length'] as const) {
-        if (atom[field] !== 0) err(field, `an empty atom must have ${field} 0, got ${atom[field]}`);
+        if (atom[field] !== 0) err(field, () => `an empty atom must have ${field} 0, got ${atom[field]}`);
       }
     }
     if (Number.isFinite(atom.period) && Number.isFinite(library.period) && Math.abs(atom.period - library.period) > 1e-9 * library.period) {
-      err('period', `period ${atom.period} m differs from the library period ${library.period} m`);
+      err('period', () => `period ${atom.period} m differs from the library period ${library.period} m`);
     }
     if (finite) {
       const key = geometryKey(atom);
       const twin = geometries.get(key);
-      if (twin) err('geometry', `same geometry as atom ${twin.atom.id} (row ${twin.row})`);
+      if (twin) err('geometry', () => `same geometry as atom ${twin.atom.id} (row ${twin.row})`);
       else geometries.set(key, { row, atom });
-      if (atom.shape === 'rect' && Number.isFinite(library.height) && Math.abs(atom.height - library.height) > GEOMETRY_TOLERANCE) {
+      if (atom.shape === 'rect' && Number.isFinite(library.height) && Math.abs(atom.height - library.height) > GEOMETRY_TOLERANCE && listed('warning', row, 'height')) {
         issues.push({
           severity: 'warning',
           row,
@@ -225,7 +254,7 @@ export function validateAtomLibrary(library: AtomLibrary, options: ValidationOpt
       libError(field, `phases on the ${axis} axis leave a gap of ${gap.toFixed(3)} rad, more than 2π/${minLevels} = ${limit.toFixed(3)} rad`);
     }
   }
-  return issues;
+  return { issues, count, errorCount };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -615,6 +644,9 @@ const NUMBER_COLUMNS = [
   ['phase_y_rad', 1],
 ] as const;
 
+/** The MetaAtom fields of NUMBER_COLUMNS, in the same order. */
+const NUMBER_FIELDS = ['width', 'length', 'height', 'period', 'tx', 'alphaX', 'ty', 'alphaY'] as const;
+
 /** Limits of reading a library CSV, checked while reading: the first excess stops the reader. */
 export interface CsvLimits {
   /** Most atom rows after the header. */
@@ -798,8 +830,8 @@ export function parseAtomLibraryCsv(
     add({ severity: 'error', row: 0, field: 'header', column: missing.join(', '), message: `missing columns: ${missing.join(', ')}` });
     return done();
   }
-  /** Row and column of every CSV problem, so the validator does not report the same cell again. */
-  const reported = new Set<string>();
+  /** The numeric cells that had a CSV problem (row-major, NUMBER_COLUMNS order): the validator does not report them again. */
+  const reported = new Uint8Array(rows.length * NUMBER_COLUMNS.length);
   const at = NUMBER_COLUMNS.map(([column]) => columnIndex.get(column)!);
   const idAt = columnIndex.get('atom_id')!;
   const shapeAt = columnIndex.get('shape');
@@ -814,7 +846,7 @@ export function parseAtomLibraryCsv(
       const v = rawValue === undefined || rawValue === '' ? NaN : Number(rawValue);
       values[c] = v * scale;
       if (Number.isFinite(v)) continue;
-      reported.add(`${row}:${column}`);
+      reported[index * NUMBER_COLUMNS.length + c] = 1;
       if (keep('error')) {
         issues.push({ severity: 'error', row, atomId: id, field: column, line, column, message: `line ${line}, atom ${id || '?'}: ${column} is not a number (${rawValue ?? 'missing'})` });
       }
@@ -824,9 +856,18 @@ export function parseAtomLibraryCsv(
     library.atoms.push({ id, shape: shapeCell === 'empty' ? 'empty' : (shapeCell as AtomShape), width, length, height, period, tx, alphaX, ty, alphaY });
   }
   const lineOfRow = (row: number): number | undefined => rows[row - 1]?.line;
-  for (const issue of validateAtomLibrary(library, options)) {
+  const checked = checkAtomLibrary(library, {
+    ...options,
+    maxIssues: Math.max(0, limits.maxIssues - issues.length),
+    skip: (row, field) => {
+      const c = NUMBER_FIELDS.indexOf(field as (typeof NUMBER_FIELDS)[number]);
+      return c >= 0 && reported[(row - 1) * NUMBER_COLUMNS.length + c] === 1;
+    },
+  });
+  issueCount += checked.count;
+  errorCount += checked.errorCount;
+  for (const issue of checked.issues) {
     const column = CSV_COLUMN_OF_FIELD[issue.field] ?? issue.field;
-    if (reported.has(`${issue.row}:${column}`) || !keep(issue.severity)) continue;
     const line = issue.row > 0 ? lineOfRow(issue.row) : undefined;
     // The validator counts atoms (row 1 = first atom); a CSV reader counts lines of the file.
     const message = issue.message.replace(/\brow (\d+)\b/g, (text, n: string) => {

@@ -1,6 +1,7 @@
 import { Router, type Request } from 'express';
 import { createAtomLibrarySchema, type AtomCsvProblem } from '../../../shared/schemas/atom-libraries';
 import type { AppConfig } from '../../config';
+import type { InputPool } from '../../lib/input-pool';
 import { AppError } from '../../lib/app-error';
 import { fileReceiver } from '../../lib/receive-file';
 import { contentDisposition } from '../../lib/content-disposition';
@@ -13,8 +14,6 @@ import {
   deleteAtomLibrary,
   getAtomLibrary,
   listAtomLibraries,
-  readAtomLibraryCsv,
-  type CsvUploadLimits,
   type LibraryViewer,
 } from './atom-library.service';
 
@@ -40,17 +39,10 @@ function detailsOf(problems: AtomCsvProblem[]): Record<string, string> {
 }
 
 /** `/api/projects/:projectId/atom-libraries`: the demo library and uploaded CSV libraries. */
-export function atomLibraryRoutes(config: AppConfig) {
+export function atomLibraryRoutes(config: AppConfig, inputs: InputPool) {
   const router = Router({ mergeParams: true });
-  const limits: CsvUploadLimits = {
-    maxBytes: Math.floor(config.ATOM_CSV_MAX_MIB * MIB),
-    maxRows: config.ATOM_CSV_MAX_ROWS,
-    maxColumns: config.ATOM_CSV_MAX_COLUMNS,
-    maxLineChars: config.ATOM_CSV_MAX_LINE_CHARS,
-    maxIssues: config.ATOM_CSV_MAX_PROBLEMS,
-  };
   const receiveFile = fileReceiver({
-    maxBytes: limits.maxBytes,
+    maxBytes: Math.floor(config.ATOM_CSV_MAX_MIB * MIB),
     fields: 8,
     what: 'CSV file',
     tooLarge: `The library file is larger than ${config.ATOM_CSV_MAX_MIB} MiB; split it or remove unused atoms`,
@@ -64,8 +56,8 @@ export function atomLibraryRoutes(config: AppConfig) {
     await receiveFile(req, res);
     const input = parseInput(createAtomLibrarySchema, req.body);
     if (!req.file) throw new AppError(400, 'Choose a CSV file: send it in the form field "file"', { file: 'missing' });
-    const reading = readAtomLibraryCsv(req.file.buffer, input, limits);
-    if (reading.problemCount > 0) {
+    const reading = await inputs.readAtomLibraryCsv(req.file.buffer, input);
+    if (reading.problemCount > 0 || !reading.library) {
       const shown = reading.problems;
       const first = shown[0];
       const count = reading.problemCount;

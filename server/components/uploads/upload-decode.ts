@@ -1,0 +1,69 @@
+/**
+ * The full check of an upload: inspect its structure against the limits (upload-inspect.ts), then decode it
+ * once, so that only a file that really decodes is kept. A PNG's image data is inflated with its exact size
+ * as the output cap (a stream that inflates further is refused at the first byte past it), then decoded by
+ * pngjs; a JPEG by jpeg-js (through Jimp) with its memory bounded; a .npy by decodeNpy, with every value
+ * finite. Runs on the input worker (input-worker.ts) under its time and heap limits.
+ */
+import { inflateSync } from 'node:zlib';
+import { PNG } from 'pngjs';
+import { decodeNpy } from '../../../shared/optics/npy-decode';
+import type { UploadKind } from '../../../shared/schemas/uploads';
+import { AppError } from '../../lib/app-error';
+import { broken, inspectUpload, pngStructure, type InspectedUpload, type UploadLimits } from './upload-inspect';
+
+const MIB = 1024 * 1024;
+
+/** Inflates the IDAT stream with its exact size as the cap (zlib stops at the first byte past it). */
+function inflateExactly(bytes: Buffer, limits: UploadLimits): void {
+  const png = pngStructure(bytes, limits);
+  let inflated: Buffer;
+  try {
+    inflated = inflateSync(Buffer.concat(png.idat), { maxOutputLength: png.rawBytes });
+  } catch (error) {
+    if ((error as { code?: string }).code === 'ERR_BUFFER_TOO_LARGE') {
+      throw new AppError(
+        400,
+        `The PNG's image data inflates to more than the ${png.rawBytes} bytes its header declares (${png.width}×${png.height}${png.interlaced ? ', interlaced' : ''}); the file is damaged or made to exhaust memory. Export it again.`,
+        { file: 'image data too long' },
+      );
+    }
+    throw broken('the PNG image data is not a valid zlib stream');
+  }
+  if (inflated.length !== png.rawBytes) throw broken(`the PNG image data holds ${inflated.length} of the ${png.rawBytes} bytes its header declares`);
+}
+
+async function decodePicture(bytes: Buffer, inspected: InspectedUpload, limits: UploadLimits): Promise<{ width: number; height: number }> {
+  if (inspected.mime === 'image/png') {
+    inflateExactly(bytes, limits);
+    return PNG.sync.read(bytes);
+  }
+  const { Jimp } = await import('jimp');
+  const picture = await Jimp.fromBuffer(bytes, {
+    'image/jpeg': { maxMemoryUsageInMB: Math.ceil((2 * limits.maxDecodedBytes) / MIB), maxResolutionInMP: (limits.maxSide * limits.maxSide) / 1e6 },
+  });
+  return picture.bitmap;
+}
+
+/**
+ * Inspects and decodes an upload of `kind`; returns its type and size. Throws AppError (4xx) naming the problem.
+ * Example: checkUpload(a 64×32 PNG, 'image', limits) → { mime: 'image/png', width: 64, height: 32 }.
+ */
+export async function checkUpload(bytes: Buffer, kind: UploadKind, limits: UploadLimits): Promise<InspectedUpload> {
+  const inspected = inspectUpload(bytes, kind, limits);
+  try {
+    if (inspected.mime === 'application/x-npy') {
+      const decoded = decodeNpy(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength), { maxHeaderBytes: limits.npyMaxHeaderBytes });
+      if (decoded.data.some((v) => !Number.isFinite(v))) {
+        throw new AppError(400, 'The phase map holds values that are not finite numbers (NaN or infinity)', { file: 'non-finite values' });
+      }
+      return inspected;
+    }
+    const picture = await decodePicture(bytes, inspected, limits);
+    if (picture.width !== inspected.width || picture.height !== inspected.height) throw new Error('decoded size differs from the header');
+  } catch (error) {
+    if (error instanceof AppError) throw error;
+    throw new AppError(400, 'The file is damaged or incomplete: it could not be decoded. Export it again and upload the new file.', { file: 'cannot be decoded' });
+  }
+  return inspected;
+}
