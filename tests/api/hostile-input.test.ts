@@ -16,9 +16,14 @@ import {
   npyShortData,
   npyWithHeader,
   progressiveJpegManyScans,
+  longAstralText,
+  pngWith,
   smallNpy,
   smallPng,
+  VERBATIM_TEXTS,
+  zeroZlib,
 } from '../support/hostile-corpus';
+import { deflectorDesign, waitForRun } from '../support/designs';
 import { ApiClient, createTestDatabase, makeUser, signedInClient } from '../support/test-app';
 import { healthy, observe, startWatchedServer, type Observation, type WatchedServer } from '../support/watched-server';
 
@@ -68,22 +73,26 @@ interface Answer {
   body: { error?: string; [key: string]: unknown };
 }
 
-function upload(kind: 'image' | 'phase-map', bytes: Buffer, filename: string): () => Promise<Answer> {
+function upload(kind: 'image' | 'phase-map', bytes: Buffer, filename: string, project = projectId): () => Promise<Answer> {
   return async () =>
     client.agent
-      .post(`/api/projects/${projectId}/uploads`)
+      .post(`/api/projects/${project}/uploads`)
       .set('x-csrf-token', client.csrfToken)
       .field('kind', kind)
       .attach('file', bytes, { filename, contentType: 'application/octet-stream' })
       .then((r) => ({ status: r.status, body: r.body }));
 }
 
-function library(bytes: Buffer, fields: Record<string, string> = {}): () => Promise<Answer> {
+function library(bytes: Buffer, fields: Record<string, string> = {}, project = projectId): () => Promise<Answer> {
   return async () => {
-    const req = client.agent.post(`/api/projects/${projectId}/atom-libraries`).set('x-csrf-token', client.csrfToken).field('scope', 'project');
+    const req = client.agent.post(`/api/projects/${project}/atom-libraries`).set('x-csrf-token', client.csrfToken).field('scope', 'project');
     for (const [k, v] of Object.entries(fields)) req.field(k, v);
     return req.attach('file', bytes, { filename: 'library.csv', contentType: 'text/csv' }).then((r) => ({ status: r.status, body: r.body }));
   };
+}
+
+function json(method: 'post' | 'patch', url: string, body: object): () => Promise<Answer> {
+  return async () => client[method](url, body).then((r) => ({ status: r.status, body: r.body }));
 }
 
 function rawJson(method: 'post' | 'patch', url: string, text: string): () => Promise<Answer> {
@@ -153,6 +162,12 @@ describe('pictures', () => {
     await expectHeldUp('PNG 4096² 16-bit RGBA', upload('image', big16BitPng(), 'deep.png'), { status: 413, message: /128 MiB.*at most 64 MiB/ });
   });
 
+  it('a 4096² grey PNG at 16 bits per sample (32 MiB of pixel data) decodes on the input worker and is kept', async () => {
+    const png = pngWith({ width: 4096, height: 4096, bitDepth: 16, colourType: 0, interlace: 0 }, zeroZlib(4096 * (1 + 4096 * 2)));
+    const answer = await expectHeldUp('PNG 4096² 16-bit grey (accepted)', upload('image', png, 'grey16.png'), { status: 201 });
+    expect(answer.body.upload).toMatchObject({ width: 4096, height: 4096, mime: 'image/png' });
+  });
+
   it('a progressive JPEG with thousands of scans', async () => {
     await expectHeldUp('JPEG progressive, 3000 scans', upload('image', progressiveJpegManyScans(), 'scans.jpg'), {
       status: 400,
@@ -215,5 +230,75 @@ describe('JSON bodies', () => {
       status: 400,
       message: /nests deeper than 64 levels/,
     });
+  });
+});
+
+describe('text fields', () => {
+  const tooLong = longAstralText(50_000);
+
+  it('markup, SQL and non-Latin text are stored and returned exactly as sent', async () => {
+    for (const [i, text] of VERBATIM_TEXTS.entries()) {
+      const created = await expectHeldUp(`project name and description: verbatim text ${i + 1}`, json('post', '/api/projects', { name: text, description: `${text}\n${text}` }), {
+        status: 201,
+      });
+      const id = (created.body.project as { id: number }).id;
+      const read = (await client.get(`/api/projects/${id}`)).body.project;
+      expect(read).toMatchObject({ name: text, description: `${text}\n${text}` });
+      const revision = await expectHeldUp(`revision note: verbatim text ${i + 1}`, json('post', `/api/projects/${id}/revisions`, { design: deflectorDesign(), message: text }), {
+        status: 201,
+      });
+      const number = (revision.body.revision as { number: number }).number;
+      expect((await client.get(`/api/projects/${id}/revisions/${number}`)).body.revision.message).toBe(text);
+      const csv = Buffer.from((await client.get(`/api/projects/${projectId}/atom-libraries/demo/csv`)).text);
+      const stored = await expectHeldUp(`library name: verbatim text ${i + 1}`, library(csv, { name: text }, id), { status: 201 });
+      expect((stored.body.atomLibrary as { name: string }).name).toBe(text);
+      const picture = await expectHeldUp(`upload name: verbatim text ${i + 1}`, upload('image', smallPng(), `${text}.png`, id), { status: 201 });
+      // A file name loses folders (up to the last / or \\), quotes and control characters: it travels in a Content-Disposition header.
+      expect((picture.body.upload as { name: string }).name).toBe(`${text.split(/[\\/]/).pop()!.replace(/"/g, '')}.png`);
+    }
+  });
+
+  it('a comment with markup and SQL is stored and returned as text', async () => {
+    const number = (await client.post(`/api/projects/${projectId}/revisions`, { design: deflectorDesign(), message: 'for comments' })).body.revision.number;
+    const runId = (await client.post(`/api/projects/${projectId}/revisions/${number}/runs`)).body.run.id;
+    const run = await waitForRun(client, projectId, runId);
+    const artifact = run.artifacts.find((a: { name: string }) => a.name.endsWith('.png'))!.name;
+    for (const [i, text] of VERBATIM_TEXTS.entries()) {
+      const thread = await expectHeldUp(`comment: verbatim text ${i + 1}`, json('post', `/api/projects/${projectId}/runs/${runId}/threads`, { artifact, x: 0.5, y: 0.5, body: text }), {
+        status: 201,
+      });
+      expect((thread.body.thread as { comments: { body: string }[] }).comments[0].body).toBe(text);
+    }
+    await expectHeldUp('comment: 50 000 astral characters', json('post', `/api/projects/${projectId}/runs/${runId}/threads`, { artifact, x: 0.5, y: 0.5, body: tooLong }), {
+      status: 400,
+      message: /at most 4000 characters/,
+    });
+  });
+
+  it('over-long text in every text field is refused with the limit', async () => {
+    await expectHeldUp('project name: 50 000 astral characters', json('post', '/api/projects', { name: tooLong }), { status: 400, message: /at most 120 characters/ });
+    await expectHeldUp('project description: 50 000 astral characters', json('post', '/api/projects', { name: 'ok', description: tooLong }), {
+      status: 400,
+      message: /at most 2000 characters/,
+    });
+    await expectHeldUp('revision note: 50 000 astral characters', json('post', `/api/projects/${projectId}/revisions`, { design: deflectorDesign(), message: tooLong }), {
+      status: 400,
+      message: /at most 500 characters/,
+    });
+    await expectHeldUp('profile name: 50 000 astral characters', json('patch', '/api/auth/profile', { name: tooLong }), { status: 400, message: /at most 80 characters/ });
+    await expectHeldUp('project name: 100 000 astral characters (past the body limit)', json('post', '/api/projects', { name: longAstralText(100_000) }), {
+      status: 413,
+      message: /too large/,
+    });
+    const csv = Buffer.from((await client.get(`/api/projects/${projectId}/atom-libraries/demo/csv`)).text);
+    await expectHeldUp('library name field: 300 characters', library(csv, { name: 'λ'.repeat(300) }), { status: 400, message: /name must be at most 120 characters/ });
+    await expectHeldUp('library name field: 900 two-byte characters', library(csv, { name: 'λ'.repeat(900) }), {
+      status: 400,
+      message: /form field "name" is longer than 1024 bytes/,
+    });
+    const named = await expectHeldUp('upload name: 3 000 characters', upload('image', smallPng(), `${'偏'.repeat(3_000)}.png`), { status: 201 });
+    expect((named.body.upload as { name: string }).name).toBe(`${'偏'.repeat(180)}.png`);
+    // Past the multipart reader's header size (busboy: 16 KiB per part header).
+    await expectHeldUp('upload name: 10 000 characters', upload('image', smallPng(), `${'偏'.repeat(10_000)}.png`), { status: 400, message: /multipart form/ });
   });
 });

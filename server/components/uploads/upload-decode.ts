@@ -1,21 +1,24 @@
 /**
  * The full check of an upload: inspect its structure against the limits (upload-inspect.ts), then decode it
  * once, so that only a file that really decodes is kept. A PNG's image data is inflated with its exact size
- * as the output cap (a stream that inflates further is refused at the first byte past it), then decoded by
- * pngjs; a JPEG by jpeg-js (through Jimp) with its memory bounded; a .npy by decodeNpy, with every value
- * finite. Runs on the input worker (input-worker.ts) under its time and heap limits.
+ * as the output cap and its scanlines checked (decodePng); a JPEG is decoded by jpeg-js (through Jimp) with
+ * its memory bounded; a .npy by decodeNpy, with every value finite. Runs on the input worker (input-worker.ts) under its time and heap limits.
  */
 import { inflateSync } from 'node:zlib';
-import { PNG } from 'pngjs';
 import { decodeNpy } from '../../../shared/optics/npy-decode';
 import type { UploadKind } from '../../../shared/schemas/uploads';
 import { AppError } from '../../lib/app-error';
-import { broken, inspectUpload, pngStructure, type InspectedUpload, type UploadLimits } from './upload-inspect';
+import { broken, inspectUpload, pngPasses, pngStructure, type InspectedUpload, type UploadLimits } from './upload-inspect';
 
 const MIB = 1024 * 1024;
 
-/** Inflates the IDAT stream with its exact size as the cap (zlib stops at the first byte past it). */
-function inflateExactly(bytes: Buffer, limits: UploadLimits): void {
+/**
+ * Decodes a PNG's image data as far as it can fail: the zlib stream inflated with its exact size as the cap
+ * (a stream that inflates further is refused at the first byte past it, so a bomb never expands), then every
+ * scanline's filter type checked (0…4, PNG spec §9.2) in every pass. Undoing the filters cannot fail, so a PNG
+ * that passes decodes; nothing larger than the inflated data is ever allocated.
+ */
+function decodePng(bytes: Buffer, limits: UploadLimits): void {
   const png = pngStructure(bytes, limits);
   let inflated: Buffer;
   try {
@@ -31,12 +34,19 @@ function inflateExactly(bytes: Buffer, limits: UploadLimits): void {
     throw broken('the PNG image data is not a valid zlib stream');
   }
   if (inflated.length !== png.rawBytes) throw broken(`the PNG image data holds ${inflated.length} of the ${png.rawBytes} bytes its header declares`);
+  let at = 0;
+  for (const { columns, rows } of pngPasses(png.width, png.height, png.interlaced)) {
+    const stride = 1 + Math.ceil((columns * png.bitsPerPixel) / 8);
+    for (let r = 0; r < rows; r++, at += stride) {
+      if (inflated[at] > 4) throw broken(`a PNG scanline has the unknown filter type ${inflated[at]}`);
+    }
+  }
 }
 
 async function decodePicture(bytes: Buffer, inspected: InspectedUpload, limits: UploadLimits): Promise<{ width: number; height: number }> {
   if (inspected.mime === 'image/png') {
-    inflateExactly(bytes, limits);
-    return PNG.sync.read(bytes);
+    decodePng(bytes, limits);
+    return inspected;
   }
   const { Jimp } = await import('jimp');
   const picture = await Jimp.fromBuffer(bytes, {

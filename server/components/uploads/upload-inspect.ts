@@ -38,6 +38,8 @@ export interface PngStructure {
   bitDepth: number;
   colourType: number;
   interlaced: boolean;
+  /** Samples per pixel × bit depth. */
+  bitsPerPixel: number;
   /** Exact size of the inflated image data: filter bytes and scanlines of every pass. */
   rawBytes: number;
   /** The IDAT chunks' data, in order. */
@@ -90,17 +92,21 @@ const ADAM7 = [
   [0, 1, 1, 2],
 ] as const;
 
+/** The reduced images of a PNG: the image itself, or the seven Adam7 passes, empty ones left out (PNG spec §8.2). */
+export function pngPasses(width: number, height: number, interlaced: boolean): { columns: number; rows: number }[] {
+  if (!interlaced) return [{ columns: width, rows: height }];
+  return ADAM7.map(([x0, y0, dx, dy]) => ({ columns: Math.max(0, Math.ceil((width - x0) / dx)), rows: Math.max(0, Math.ceil((height - y0) / dy)) })).filter(
+    (p) => p.columns > 0 && p.rows > 0,
+  );
+}
+
 /**
  * Bytes of a PNG's image data once inflated: per (reduced) image, rows × (1 filter byte + ⌈columns · bits per
  * pixel / 8⌉); an interlaced image is seven reduced images, empty passes taking no bytes (PNG spec §7.2, §8.2).
  * Example: pngRawBytes(1, 1, 8, true) → 2 (only pass 1 holds the pixel); pngRawBytes(4096, 4096, 64, false) → 134 221 824.
  */
 export function pngRawBytes(width: number, height: number, bitsPerPixel: number, interlaced: boolean): number {
-  const image = (w: number, h: number) => (w === 0 || h === 0 ? 0 : h * (1 + Math.ceil((w * bitsPerPixel) / 8)));
-  if (!interlaced) return image(width, height);
-  let total = 0;
-  for (const [x0, y0, dx, dy] of ADAM7) total += image(Math.max(0, Math.ceil((width - x0) / dx)), Math.max(0, Math.ceil((height - y0) / dy)));
-  return total;
+  return pngPasses(width, height, interlaced).reduce((sum, p) => sum + p.rows * (1 + Math.ceil((p.columns * bitsPerPixel) / 8)), 0);
 }
 
 /**
@@ -121,7 +127,8 @@ export function pngStructure(bytes: Buffer, limits: UploadLimits): PngStructure 
   }
   checkSide(width, height, limits);
   const interlaced = interlace === 1;
-  const rawBytes = pngRawBytes(width, height, colour.channels * bitDepth, interlaced);
+  const bitsPerPixel = colour.channels * bitDepth;
+  const rawBytes = pngRawBytes(width, height, bitsPerPixel, interlaced);
   const decoded = Math.max(rawBytes, width * height * 4);
   if (decoded > limits.maxDecodedBytes) {
     throw new AppError(
@@ -150,7 +157,7 @@ export function pngStructure(bytes: Buffer, limits: UploadLimits): PngStructure 
   }
   if (!ended) throw broken('the PNG has no end chunk (IEND)');
   if (idat.length === 0) throw broken('the PNG has no image data (IDAT)');
-  return { width, height, bitDepth, colourType, interlaced, rawBytes, idat };
+  return { width, height, bitDepth, colourType, interlaced, bitsPerPixel, rawBytes, idat };
 }
 
 /**
