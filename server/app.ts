@@ -63,7 +63,7 @@ export function createApp(ctx: AppContext) {
   });
 
   // Before the session: a health check never touches the session store.
-  app.use('/api/health', healthRoutes(ctx, inputs));
+  app.use('/api', healthRoutes(ctx, inputs));
 
   const store = new SessionStore({ db: ctx.sequelize, table: 'Session', checkExpirationInterval: 15 * 60_000 });
   app.use(

@@ -12,7 +12,7 @@ export function healthRoutes(ctx: AppContext, inputs: InputPool) {
     runQueue: () => ctx.runQueue.state(),
     inputs: () => inputs.state(),
   });
-  router.get('/', async (_req, res) => {
+  router.get('/health', async (_req, res) => {
     const health = await check();
     res.set('Cache-Control', 'no-store').status(health.ok ? 200 : 503).json(health);
   });
