@@ -79,7 +79,7 @@ export function createInputPool(config: AppConfig): InputPool {
   let running = 0;
   const seconds = config.UPLOAD_DECODE_TIMEOUT_MS / 1000;
 
-  async function run(task: InputTask, what: string): Promise<InputResult & { ok: true }> {
+  async function run(task: InputTask, what: string, simpler: string): Promise<InputResult & { ok: true }> {
     let result: InputResult;
     running++;
     try {
@@ -87,11 +87,11 @@ export function createInputPool(config: AppConfig): InputPool {
     } catch (error) {
       const e = error as { name?: string; code?: string; message?: string };
       if (e.name === 'AbortError') {
-        throw new AppError(422, `Reading the ${what} took longer than ${seconds} s and was stopped; save it in a simpler form (fewer pixels, a baseline JPEG or a PNG) and upload again.`, {
+        throw new AppError(422, `Reading the ${what} took longer than ${seconds} s and was stopped; ${simpler} and upload again.`, {
           file: 'took too long',
         });
       }
-      if (e.message === 'Task queue is at limit') {
+      if (e.message === 'Task queue is at limit' || e.message?.startsWith('No task queue available')) {
         throw new AppError(503, `The server is reading ${config.UPLOAD_DECODE_QUEUE + maxThreads} other files; upload again in a minute.`, { file: 'busy' });
       }
       if (e.code === 'ERR_WORKER_OUT_OF_MEMORY') {
@@ -110,10 +110,10 @@ export function createInputPool(config: AppConfig): InputPool {
   const copy = (bytes: Buffer) => new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   return {
     async checkUpload(bytes, kind) {
-      return (await run({ type: 'upload', bytes: copy(bytes), kind, limits: limits.upload }, 'file')).value as InspectedUpload;
+      return (await run({ type: 'upload', bytes: copy(bytes), kind, limits: limits.upload }, 'file', 'save it in a simpler form (fewer pixels, a baseline JPEG or a PNG)')).value as InspectedUpload;
     },
     async readAtomLibraryCsv(bytes, input) {
-      return (await run({ type: 'atom-csv', bytes: copy(bytes), input, limits: limits.csv }, 'library file')).value as CsvReading;
+      return (await run({ type: 'atom-csv', bytes: copy(bytes), input, limits: limits.csv }, 'library file', 'split it into smaller files')).value as CsvReading;
     },
     state() {
       return { threads: pool.threads.length, maxThreads, running, queued: pool.queueSize, maxQueue: config.UPLOAD_DECODE_QUEUE };
