@@ -5,6 +5,7 @@
  */
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { loadConfig } from '../../server/config';
+import { decodeNpy } from '../../shared/optics/npy-decode';
 import { createSequelize, migrateUp } from '../../server/db/database';
 import {
   big16BitPng,
@@ -217,6 +218,16 @@ describe('.npy phase maps', () => {
   it('fortran_order: True is read column by column and stored', async () => {
     const answer = await expectHeldUp('.npy, fortran_order True', upload('phase-map', npyFortran(), 'fortran.npy'), { status: 201 });
     expect(answer.body.upload).toMatchObject({ width: 4, height: 3, mime: 'application/x-npy' });
+    // Stored as sent; read back (as a run reads it) into C order: row r, column c holds 0.25 · (4r + c).
+    const id = (answer.body.upload as { id: number }).id;
+    const stored = await client.get(`/api/projects/${projectId}/uploads/${id}/content`).buffer(true).parse((res, done) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => done(null, Buffer.concat(chunks)));
+    });
+    expect(Buffer.compare(stored.body as Buffer, npyFortran())).toBe(0);
+    const decoded = decodeNpy(new Uint8Array(stored.body as Buffer));
+    expect(Array.from(decoded.data)).toEqual(Array.from({ length: 12 }, (_, i) => i * 0.25));
   });
 });
 
