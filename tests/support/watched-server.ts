@@ -122,10 +122,11 @@ export async function observe<T>(server: WatchedServer, request: () => Promise<T
   return { result, ms, health, healthStatus, memoryGrowth: peak - before };
 }
 
-/** True when the server answers /api/health within `ms`. */
+/** True when the server answers /api/health within `ms` (200, or 503 from a slow database ping: the process is not stalled). */
 export async function healthy(server: WatchedServer, ms = 1_000): Promise<boolean> {
   try {
-    return (await fetch(`${server.url}/api/health`, { signal: AbortSignal.timeout(ms) })).ok;
+    const { status } = await fetch(`${server.url}/api/health`, { signal: AbortSignal.timeout(ms) });
+    return status === 200 || status === 503;
   } catch {
     return false;
   }
