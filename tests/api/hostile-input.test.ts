@@ -9,6 +9,7 @@ import { decodeNpy } from '../../shared/optics/npy-decode';
 import { createSequelize, migrateUp } from '../../server/db/database';
 import {
   big16BitPng,
+  bigColourJpeg,
   csvFlood,
   deepJson,
   interlacedPngBomb,
@@ -167,6 +168,10 @@ describe('pictures', () => {
     const png = pngWith({ width: 4096, height: 4096, bitDepth: 16, colourType: 0, interlace: 0 }, zeroZlib(4096 * (1 + 4096 * 2)));
     const answer = await expectHeldUp('PNG 4096² 16-bit grey (accepted)', upload('image', png, 'grey16.png'), { status: 201 });
     expect(answer.body.upload).toMatchObject({ width: 4096, height: 4096, mime: 'image/png' });
+  });
+
+  it('a 4096² colour JPEG without subsampling is refused before decoding (256 MiB to decode)', async () => {
+    await expectHeldUp('JPEG 4096² 4:4:4', upload('image', bigColourJpeg(), 'photo.jpg'), { status: 413, message: /would need 256 MiB to decode; at most 128 MiB/ });
   });
 
   it('a progressive JPEG with thousands of scans', async () => {

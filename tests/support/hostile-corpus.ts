@@ -115,6 +115,16 @@ export function progressiveJpegManyScans(scans = 3000): Buffer {
   return Buffer.concat([Buffer.from([0xff, 0xd8]), dqt, sof2, dht, ...new Array<Buffer>(scans).fill(scan), Buffer.from([0xff, 0xd9])]);
 }
 
+/**
+ * A baseline JPEG that declares a 4096×4096 colour picture without subsampling (4:4:4) and holds one short scan:
+ * a decoder would need 256 MiB for it.
+ */
+export function bigColourJpeg(): Buffer {
+  const sof0 = segment(0xc0, Buffer.from([8, 0x10, 0x00, 0x10, 0x00, 3, 1, 0x11, 0, 2, 0x11, 0, 3, 0x11, 0]));
+  const sos = segment(0xda, Buffer.from([3, 1, 0x00, 2, 0x00, 3, 0x00, 0, 63, 0]));
+  return Buffer.concat([Buffer.from([0xff, 0xd8]), sof0, sos, Buffer.alloc(8), Buffer.from([0xff, 0xd9])]);
+}
+
 /** A small valid 16×16 grey PNG (filter 0, zeros), for truncation. */
 export function smallPng(): Buffer {
   return pngWith({ width: 16, height: 16, bitDepth: 8, colourType: 0, interlace: 0 }, zeroZlib(16 * 17));

@@ -3,7 +3,7 @@
  * pixel-by-pixel count over the Adam7 pattern of PNG spec §8.2), the PNG structure walk, and the JSON depth scan.
  */
 import { describe, expect, it } from 'vitest';
-import { inspectUpload, pngRawBytes, type UploadLimits } from '../../server/components/uploads/upload-inspect';
+import { inspectUpload, jpegDecodeBytes, pngRawBytes, type UploadLimits } from '../../server/components/uploads/upload-inspect';
 import { jsonDepth } from '../../server/lib/json-depth';
 import { mulberry32 } from '../../shared/optics/random';
 import { big16BitPng, interlacedPngBomb, pngWith, progressiveJpegManyScans, zeroZlib } from '../support/hostile-corpus';
@@ -63,6 +63,16 @@ describe('PNG image data size', () => {
     expect(() => inspectUpload(palette, 'image', limits)).toThrow(/no palette \(PLTE\) before its image data/);
     const impossible = pngWith({ width: 4, height: 4, bitDepth: 16, colourType: 3, interlace: 0 }, zeroZlib(4 * 9));
     expect(() => inspectUpload(impossible, 'image', limits)).toThrow(/impossible format \(colour type 3, bit depth 16\)/);
+  });
+
+  it('JPEG decode memory is estimated from the frame header: picture plus coefficients of each component', () => {
+    const MIB = 1024 * 1024;
+    expect(jpegDecodeBytes(4096, 4096, [{ h: 1, v: 1 }])).toBe(128 * MIB);
+    // 4:4:4 colour: three full-size coefficient planes; 4:2:0: luma full size, two chroma planes a quarter each.
+    expect(jpegDecodeBytes(4096, 4096, [{ h: 1, v: 1 }, { h: 1, v: 1 }, { h: 1, v: 1 }])).toBe(256 * MIB);
+    expect(jpegDecodeBytes(4096, 4096, [{ h: 2, v: 2 }, { h: 1, v: 1 }, { h: 1, v: 1 }])).toBe(160 * MIB);
+    // Blocks are padded to whole MCUs: 17×9 pixels in 16×16 MCUs are 2×1 MCUs of 4 luma blocks.
+    expect(jpegDecodeBytes(17, 9, [{ h: 2, v: 2 }])).toBe(17 * 9 * 4 + 2 * 2 * 1 * 2 * 256);
   });
 
   it('JPEG scans are counted while walking the segments', () => {

@@ -8,7 +8,7 @@ import { inflateSync } from 'node:zlib';
 import { decodeNpy } from '../../../shared/optics/npy-decode';
 import type { UploadKind } from '../../../shared/schemas/uploads';
 import { AppError } from '../../lib/app-error';
-import { broken, inspectUpload, pngPasses, pngStructure, type InspectedUpload, type UploadLimits } from './upload-inspect';
+import { broken, inspectUpload, JPEG_MEMORY_FACTOR, pngPasses, pngStructure, type InspectedUpload, type UploadLimits } from './upload-inspect';
 
 const MIB = 1024 * 1024;
 
@@ -50,7 +50,7 @@ async function decodePicture(bytes: Buffer, inspected: InspectedUpload, limits: 
   }
   const { Jimp } = await import('jimp');
   const picture = await Jimp.fromBuffer(bytes, {
-    'image/jpeg': { maxMemoryUsageInMB: Math.ceil((2 * limits.maxDecodedBytes) / MIB), maxResolutionInMP: (limits.maxSide * limits.maxSide) / 1e6 },
+    'image/jpeg': { maxMemoryUsageInMB: Math.ceil((1.5 * JPEG_MEMORY_FACTOR * limits.maxDecodedBytes) / MIB), maxResolutionInMP: (limits.maxSide * limits.maxSide) / 1e6 },
   });
   return picture.bitmap;
 }

@@ -160,6 +160,22 @@ export function pngStructure(bytes: Buffer, limits: UploadLimits): PngStructure 
   return { width, height, bitDepth, colourType, interlaced, bitsPerPixel, rawBytes, idat };
 }
 
+/** A JPEG decode may use this many times the decode budget: it keeps every component's coefficients besides the picture. */
+export const JPEG_MEMORY_FACTOR = 2;
+
+/**
+ * Bytes a JPEG decode holds at once (jpeg-js, the decoder behind Jimp): the RGBA picture (4 bytes per pixel) and,
+ * per component, 256 bytes per 8×8 block of coefficients, blocks padded to whole MCUs (ITU-T T.81 §A.2).
+ * Example: jpegDecodeBytes(4096, 4096, [{ h: 1, v: 1 }]) → 128 MiB (64 MiB picture + 64 MiB coefficients).
+ */
+export function jpegDecodeBytes(width: number, height: number, sampling: { h: number; v: number }[]): number {
+  const hMax = Math.max(1, ...sampling.map((c) => c.h));
+  const vMax = Math.max(1, ...sampling.map((c) => c.v));
+  const mcusPerLine = Math.ceil(width / (8 * hMax));
+  const mcusPerColumn = Math.ceil(height / (8 * vMax));
+  return width * height * 4 + sampling.reduce((sum, c) => sum + mcusPerLine * Math.max(1, c.h) * mcusPerColumn * Math.max(1, c.v) * 256, 0);
+}
+
 /**
  * JPEG: walks every marker segment (ITU-T T.81 §B.1.1.4) and the entropy-coded data after each start-of-scan
  * (SOS), to the end-of-image marker (EOI), counting the scans: a progressive file past `jpegMaxScans` is
@@ -187,14 +203,18 @@ function jpegSize(bytes: Buffer, limits: UploadLimits): { width: number; height:
     if (at + length > bytes.length) break;
     const isFrame = marker >= 0xc0 && marker <= 0xcf && marker !== 0xc4 && marker !== 0xc8 && marker !== 0xcc;
     if (isFrame && !frame) {
-      if (length < 8) throw broken('the JPEG frame header is too short');
+      const components = length >= 8 ? bytes[at + 7] : 0;
+      if (components === 0 || length < 8 + 3 * components) throw broken('the JPEG frame header is too short');
       frame = { height: bytes.readUInt16BE(at + 3), width: bytes.readUInt16BE(at + 5) };
       checkSide(frame.width, frame.height, limits);
-      const decoded = frame.width * frame.height * 4;
-      if (decoded > limits.maxDecodedBytes) {
-        throw new AppError(413, `The JPEG would decode to ${mib(decoded)} of pixels (${frame.width}×${frame.height}); at most ${mib(limits.maxDecodedBytes)} is decoded. Save it with fewer pixels.`, {
-          file: 'too much pixel data',
-        });
+      const sampling = Array.from({ length: components }, (_, c) => ({ h: bytes[at + 9 + 3 * c] >> 4, v: bytes[at + 9 + 3 * c] & 15 }));
+      const needed = jpegDecodeBytes(frame.width, frame.height, sampling);
+      if (needed > JPEG_MEMORY_FACTOR * limits.maxDecodedBytes) {
+        throw new AppError(
+          413,
+          `The JPEG (${frame.width}×${frame.height}, ${components} colour component${components === 1 ? '' : 's'}) would need ${mib(needed)} to decode; at most ${mib(JPEG_MEMORY_FACTOR * limits.maxDecodedBytes)} is used. Save it with fewer pixels, with colour subsampling (4:2:0), or as PNG.`,
+          { file: 'too much pixel data' },
+        );
       }
     }
     at += length;
