@@ -35,6 +35,7 @@ const envSchema = z.object({
   // Limits on what one request may make the server parse or decode (README "Security and limits").
   JSON_MAX_KIB: z.coerce.number().int().min(1).default(256),
   JSON_MAX_DEPTH: z.coerce.number().int().min(2).default(64),
+  FORM_FIELD_MAX_BYTES: z.coerce.number().int().min(64).default(1024),
   UPLOAD_MAX_MIB: z.coerce.number().min(0.001).default(UPLOAD_LIMITS.maxBytes / MIB),
   UPLOAD_MAX_SIDE: z.coerce.number().int().min(1).default(UPLOAD_LIMITS.maxSide),
   UPLOAD_MAX_DECODED_MIB: z.coerce.number().min(1).default(64),

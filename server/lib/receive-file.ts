@@ -6,14 +6,13 @@ import type { Request, Response } from 'express';
 import multer from 'multer';
 import { AppError } from './app-error';
 
-/** Longest text field of an upload form, bytes (UTF-8). */
-const FIELD_BYTES = 1024;
-
 export interface FileFormSpec {
   /** Largest file accepted, bytes. */
   maxBytes: number;
   /** Text fields allowed besides the file. */
   fields: number;
+  /** Longest text field, bytes (UTF-8). */
+  fieldBytes: number;
   /** What the file is, for messages: 'file', 'CSV file' … */
   what: string;
   /** Message when the file is too large (413). */
@@ -25,7 +24,7 @@ export function fileReceiver(spec: FileFormSpec): (req: Request, res: Response) 
   const receive = multer({
     storage: multer.memoryStorage(),
     defParamCharset: 'utf8',
-    limits: { fileSize: spec.maxBytes, files: 1, fields: spec.fields, fieldSize: FIELD_BYTES, parts: spec.fields + 1 },
+    limits: { fileSize: spec.maxBytes, files: 1, fields: spec.fields, fieldSize: spec.fieldBytes, parts: spec.fields + 1 },
   }).single('file');
   return (req, res) =>
     new Promise((resolve, reject) => {
@@ -34,7 +33,7 @@ export function fileReceiver(spec: FileFormSpec): (req: Request, res: Response) 
         if (error instanceof multer.MulterError) {
           if (error.code === 'LIMIT_FILE_SIZE') return reject(new AppError(413, spec.tooLarge, { file: 'too large' }));
           if (error.code === 'LIMIT_FIELD_VALUE') {
-            return reject(new AppError(400, `The form field "${error.field}" is longer than ${FIELD_BYTES} bytes; shorten it`, { [error.field ?? 'form']: 'too long' }));
+            return reject(new AppError(400, `The form field "${error.field}" is longer than ${spec.fieldBytes} bytes; shorten it`, { [error.field ?? 'form']: 'too long' }));
           }
           if (error.code === 'LIMIT_UNEXPECTED_FILE') {
             return reject(new AppError(400, `Send one ${spec.what}, in the form field "file" (got "${error.field}")`, { file: 'missing' }));

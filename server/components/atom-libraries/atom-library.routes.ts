@@ -44,6 +44,7 @@ export function atomLibraryRoutes(config: AppConfig, inputs: InputPool) {
   const receiveFile = fileReceiver({
     maxBytes: Math.floor(config.ATOM_CSV_MAX_MIB * MIB),
     fields: 8,
+    fieldBytes: config.FORM_FIELD_MAX_BYTES,
     what: 'CSV file',
     tooLarge: `The library file is larger than ${config.ATOM_CSV_MAX_MIB} MiB; split it or remove unused atoms`,
   });

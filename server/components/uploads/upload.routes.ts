@@ -18,6 +18,7 @@ export function uploadRoutes(config: AppConfig, inputs: InputPool) {
   const receiveFile = fileReceiver({
     maxBytes: Math.floor(config.UPLOAD_MAX_MIB * MIB),
     fields: 5,
+    fieldBytes: config.FORM_FIELD_MAX_BYTES,
     what: 'file',
     tooLarge: `The file is larger than ${config.UPLOAD_MAX_MIB} MiB; make it smaller and upload again`,
   });
