@@ -107,13 +107,14 @@ export function createInputPool(config: AppConfig): InputPool {
     return result;
   }
 
-  const copy = (bytes: Buffer) => new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  /** The bytes as a plain Uint8Array (posting it to the thread copies them; the caller keeps its Buffer). */
+  const plain = (bytes: Buffer) => new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   return {
     async checkUpload(bytes, kind) {
-      return (await run({ type: 'upload', bytes: copy(bytes), kind, limits: limits.upload }, 'file', 'save it in a simpler form (fewer pixels, a baseline JPEG or a PNG)')).value as InspectedUpload;
+      return (await run({ type: 'upload', bytes: plain(bytes), kind, limits: limits.upload }, 'file', 'save it in a simpler form (fewer pixels, a baseline JPEG or a PNG)')).value as InspectedUpload;
     },
     async readAtomLibraryCsv(bytes, input) {
-      return (await run({ type: 'atom-csv', bytes: copy(bytes), input, limits: limits.csv }, 'library file', 'split it into smaller files')).value as CsvReading;
+      return (await run({ type: 'atom-csv', bytes: plain(bytes), input, limits: limits.csv }, 'library file', 'split it into smaller files')).value as CsvReading;
     },
     state() {
       return { threads: pool.threads.length, maxThreads, running, queued: pool.queueSize, maxQueue: config.UPLOAD_DECODE_QUEUE };
