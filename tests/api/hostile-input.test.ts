@@ -65,7 +65,7 @@ afterEach(async () => {
 });
 afterAll(async () => {
   await server?.stop();
-  if (figures.length) console.log(`hostile-input figures:\n${figures.join('\n')}`);
+  if (figures.length) console.log(`hostile-input figures:\n| case | status | answered in | /api/health meanwhile | memory growth |\n|---|---|---|---|---|\n${figures.join('\n')}`);
   await sequelize?.query(`DROP DATABASE \`${env.DB_NAME}\``);
   await sequelize?.close();
 });
