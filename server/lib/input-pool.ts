@@ -10,7 +10,8 @@ import { Piscina } from 'piscina';
 import type { CreateAtomLibraryInput } from '../../shared/schemas/atom-libraries';
 import type { UploadKind } from '../../shared/schemas/uploads';
 import type { CsvReading, CsvUploadLimits } from '../components/atom-libraries/atom-library-csv';
-import type { InspectedUpload, UploadLimits } from '../components/uploads/upload-inspect';
+import type { CheckedUpload } from '../components/uploads/upload-decode';
+import type { UploadLimits } from '../components/uploads/upload-inspect';
 import type { AppConfig } from '../config';
 import { AppError } from './app-error';
 import type { InputResult, InputTask } from './input-task';
@@ -36,8 +37,8 @@ export interface InputPoolState {
 }
 
 export interface InputPool {
-  /** Inspects and decodes an upload; its type and size, or AppError 4xx/503. */
-  checkUpload(bytes: Buffer, kind: UploadKind): Promise<InspectedUpload>;
+  /** Inspects, decodes and hashes an upload; its type, size and SHA-256, or AppError 4xx/503. */
+  checkUpload(bytes: Buffer, kind: UploadKind): Promise<CheckedUpload>;
   /** Reads an atom-library CSV with the configured limits. */
   readAtomLibraryCsv(bytes: Buffer, input: CreateAtomLibraryInput): Promise<CsvReading>;
   state(): InputPoolState;
@@ -111,7 +112,7 @@ export function createInputPool(config: AppConfig): InputPool {
   const plain = (bytes: Buffer) => new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   return {
     async checkUpload(bytes, kind) {
-      return (await run({ type: 'upload', bytes: plain(bytes), kind, limits: limits.upload }, 'file', 'save it in a simpler form (fewer pixels, a baseline JPEG or a PNG)')).value as InspectedUpload;
+      return (await run({ type: 'upload', bytes: plain(bytes), kind, limits: limits.upload }, 'file', 'save it in a simpler form (fewer pixels, a baseline JPEG or a PNG)')).value as CheckedUpload;
     },
     async readAtomLibraryCsv(bytes, input) {
       return (await run({ type: 'atom-csv', bytes: plain(bytes), input, limits: limits.csv }, 'library file', 'split it into smaller files')).value as CsvReading;

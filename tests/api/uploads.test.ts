@@ -1,6 +1,8 @@
+import { createHash } from 'node:crypto';
 import { crc32 } from 'node:zlib';
 import { Jimp } from 'jimp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { UploadModel } from '../../server/components/uploads/upload.model';
 import { encodeNpy } from '../../shared/optics/npy';
 import { UPLOAD_LIMITS } from '../../shared/schemas/uploads';
 import { download, twinImageDesign, waitForRun } from '../support/designs';
@@ -70,6 +72,8 @@ describe('uploads that are accepted', () => {
     expect(content.headers['content-type']).toBe('image/png');
     expect(content.headers['content-disposition']).toBe('inline; filename="Lighthouse v2.png"');
     expect(Buffer.compare(content.body, png)).toBe(0);
+    // The hash is computed off the request thread, with the decode; it is the hash of the stored bytes.
+    expect((await UploadModel.findByPk(id, { attributes: ['sha256'] }))?.sha256).toBe(createHash('sha256').update(png).digest('hex'));
     expect((await designer.get(`/api/projects/${projectId}/uploads/99999/content`)).status).toBe(404);
   });
 

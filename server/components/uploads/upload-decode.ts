@@ -4,6 +4,7 @@
  * as the output cap and its scanlines checked (decodePng); a JPEG is decoded by jpeg-js (through Jimp) with
  * its memory bounded; a .npy by decodeNpy, with every value finite. Runs on the input worker (input-worker.ts) under its time and heap limits.
  */
+import { createHash } from 'node:crypto';
 import { inflateSync } from 'node:zlib';
 import { decodeNpy } from '../../../shared/optics/npy-decode';
 import type { UploadKind } from '../../../shared/schemas/uploads';
@@ -55,11 +56,16 @@ async function decodePicture(bytes: Buffer, inspected: InspectedUpload, limits: 
   return picture.bitmap;
 }
 
+/** An upload that decodes: its type, size and SHA-256 (hex). */
+export interface CheckedUpload extends InspectedUpload {
+  sha256: string;
+}
+
 /**
- * Inspects and decodes an upload of `kind`; returns its type and size. Throws AppError (4xx) naming the problem.
- * Example: checkUpload(a 64×32 PNG, 'image', limits) → { mime: 'image/png', width: 64, height: 32 }.
+ * Inspects and decodes an upload of `kind`; returns its type, size and SHA-256. Throws AppError (4xx) naming the
+ * problem. Example: checkUpload(a 64×32 PNG, 'image', limits) → { mime: 'image/png', width: 64, height: 32, sha256: '…' }.
  */
-export async function checkUpload(bytes: Buffer, kind: UploadKind, limits: UploadLimits): Promise<InspectedUpload> {
+export async function checkUpload(bytes: Buffer, kind: UploadKind, limits: UploadLimits): Promise<CheckedUpload> {
   const inspected = inspectUpload(bytes, kind, limits);
   try {
     if (inspected.mime === 'application/x-npy') {
@@ -67,7 +73,7 @@ export async function checkUpload(bytes: Buffer, kind: UploadKind, limits: Uploa
       if (decoded.data.some((v) => !Number.isFinite(v))) {
         throw new AppError(400, 'The phase map holds values that are not finite numbers (NaN or infinity)', { file: 'non-finite values' });
       }
-      return inspected;
+      return { ...inspected, sha256: sha256(bytes) };
     }
     const picture = await decodePicture(bytes, inspected, limits);
     if (picture.width !== inspected.width || picture.height !== inspected.height) throw new Error('decoded size differs from the header');
@@ -75,5 +81,7 @@ export async function checkUpload(bytes: Buffer, kind: UploadKind, limits: Uploa
     if (error instanceof AppError) throw error;
     throw new AppError(400, 'The file is damaged or incomplete: it could not be decoded. Export it again and upload the new file.', { file: 'cannot be decoded' });
   }
-  return inspected;
+  return { ...inspected, sha256: sha256(bytes) };
 }
+
+const sha256 = (bytes: Buffer) => createHash('sha256').update(bytes).digest('hex');

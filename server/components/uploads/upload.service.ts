@@ -1,4 +1,3 @@
-import { createHash } from 'node:crypto';
 import type { Upload, UploadKind } from '../../../shared/schemas/uploads';
 import { AppError } from '../../lib/app-error';
 import { UserModel } from '../users/user.model';
@@ -37,8 +36,8 @@ export function cleanFileName(original: string, mime: InspectedUpload['mime']): 
 }
 
 /**
- * Checks the file (type, size, pixels, decode budget) and decodes it once on the input pool — only a file that
- * really decodes is kept — then stores the bytes.
+ * Checks the file (type, size, pixels, decode budget), decodes it once and hashes it on the input pool — only a
+ * file that really decodes is kept — then stores the bytes.
  */
 export async function createUpload(inputs: InputPool, projectId: number, userId: number, input: { kind: UploadKind; name: string; bytes: Buffer }): Promise<Upload> {
   const inspected = await inputs.checkUpload(input.bytes, input.kind);
@@ -50,7 +49,7 @@ export async function createUpload(inputs: InputPool, projectId: number, userId:
     width: inspected.width,
     height: inspected.height,
     size: input.bytes.length,
-    sha256: createHash('sha256').update(input.bytes).digest('hex'),
+    sha256: inspected.sha256,
     bytes: input.bytes,
     createdById: userId,
   });
