@@ -14,6 +14,7 @@ import { authRoutes } from './components/auth/auth.routes';
 import { csrfState } from './components/auth/csrf-state';
 import { createPassport } from './components/auth/passport';
 import { fabRoutes } from './components/fab/fab.routes';
+import { healthRoutes } from './components/health/health.routes';
 import { notificationRoutes } from './components/notifications/notification.routes';
 import { notifyRunFinished } from './components/notifications/notification.service';
 import { projectRoutes } from './components/projects/project.routes';
@@ -25,6 +26,8 @@ import { shareLinkRoutes, sharedRoutes } from './components/share-links/share-li
 import { uploadRoutes } from './components/uploads/upload.routes';
 import type { AppContext } from './context';
 import { apiNotFound, errorHandler } from './lib/error-handler';
+import { createInputPool } from './lib/input-pool';
+import { limitJsonDepth } from './lib/json-depth';
 import { openApiDocument } from './openapi';
 
 const SessionStore = connectSessionSequelize(session.Store);
@@ -32,6 +35,7 @@ const SessionStore = connectSessionSequelize(session.Store);
 /** Builds the Express app (API + built client) around its context; supertest imports this directly. */
 export function createApp(ctx: AppContext) {
   const { config, logger } = ctx;
+  const inputs = createInputPool(config);
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
@@ -60,6 +64,9 @@ export function createApp(ctx: AppContext) {
     next();
   });
 
+  // Before the session: a health check never touches the session store.
+  app.use('/api', healthRoutes(ctx, inputs));
+
   const store = new SessionStore({ db: ctx.sequelize, table: 'Session', checkExpirationInterval: 15 * 60_000 });
   app.use(
     session({
@@ -87,7 +94,7 @@ export function createApp(ctx: AppContext) {
   });
 
   const api = express.Router();
-  api.use(express.json({ limit: '256kb' }));
+  api.use(express.json({ limit: `${config.JSON_MAX_KIB}kb`, verify: limitJsonDepth(config.JSON_MAX_DEPTH) }));
   api.use(bearerAuth);
   api.use(withAuditScope(() => ctx.logger));
   api.use(unlessBearer(csrfSynchronisedProtection));
@@ -98,8 +105,8 @@ export function createApp(ctx: AppContext) {
   api.use('/access-tokens', accessTokenRoutes(config));
   api.use('/auth', authRoutes(ctx, passport as never, generateToken));
   api.use('/projects/:projectId/revisions', revisionRoutes());
-  api.use('/projects/:projectId/uploads', uploadRoutes(ctx));
-  api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes());
+  api.use('/projects/:projectId/uploads', uploadRoutes(ctx, inputs));
+  api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes(config, inputs));
   api.use('/projects/:projectId', runRoutes(ctx));
   api.use('/projects/:projectId', fabRoutes(ctx));
   api.use('/projects/:projectId', reviewRoutes(ctx));
@@ -107,9 +114,6 @@ export function createApp(ctx: AppContext) {
   api.use('/projects/:projectId', shareLinkRoutes(ctx));
   api.use('/projects', projectRoutes(ctx));
   api.use('/admin', adminRoutes(ctx));
-  api.get('/health', (_req, res) => {
-    res.json({ ok: true });
-  });
   api.use(apiNotFound);
   app.use('/api', api);
 
@@ -125,5 +129,5 @@ export function createApp(ctx: AppContext) {
   onRunFinished((runId, status) => {
     notifyRunFinished(ctx, runId, status).catch((err: unknown) => logger.error({ err, runId }, 'run notification could not be recorded'));
   });
-  return { app, sessionStore: store };
+  return { app, sessionStore: store, inputs };
 }

@@ -1,4 +1,8 @@
 import { z } from 'zod';
+import { ATOM_LIBRARY_LIMITS } from '../shared/schemas/atom-libraries';
+import { UPLOAD_LIMITS } from '../shared/schemas/uploads';
+
+const MIB = 1024 * 1024;
 
 const flag = z
   .enum(['true', 'false', '1', '0', 'yes', 'no'])
@@ -55,6 +59,25 @@ const envSchema = z.object({
   FAB_REQUESTS_PER_MINUTE: z.coerce.number().int().min(1).default(120),
   /** Longest a layout job (region, design-rule check, GDSII regeneration) may take on its worker thread. */
   FAB_JOB_TIME_LIMIT_SECONDS: z.coerce.number().positive().default(60),
+  // Limits on what one request may make the server parse or decode (README "Security and limits").
+  JSON_MAX_KIB: z.coerce.number().int().min(1).default(256),
+  JSON_MAX_DEPTH: z.coerce.number().int().min(2).default(64),
+  FORM_FIELD_MAX_BYTES: z.coerce.number().int().min(64).default(1024),
+  UPLOAD_MAX_MIB: z.coerce.number().min(0.001).default(UPLOAD_LIMITS.maxBytes / MIB),
+  UPLOAD_MAX_SIDE: z.coerce.number().int().min(1).default(UPLOAD_LIMITS.maxSide),
+  UPLOAD_MAX_DECODED_MIB: z.coerce.number().min(1).default(64),
+  UPLOAD_DECODE_TIMEOUT_MS: z.coerce.number().int().min(100).default(10_000),
+  UPLOAD_DECODE_HEAP_MIB: z.coerce.number().int().min(16).default(256),
+  UPLOAD_DECODE_THREADS: z.coerce.number().int().min(1).max(64).default(1),
+  UPLOAD_DECODE_QUEUE: z.coerce.number().int().min(0).default(8),
+  JPEG_MAX_SCANS: z.coerce.number().int().min(1).default(100),
+  NPY_MAX_HEADER_BYTES: z.coerce.number().int().min(128).default(65_536),
+  ATOM_CSV_MAX_MIB: z.coerce.number().min(0.001).default(ATOM_LIBRARY_LIMITS.maxBytes / MIB),
+  ATOM_CSV_MAX_ROWS: z.coerce.number().int().min(1).default(ATOM_LIBRARY_LIMITS.maxAtoms),
+  ATOM_CSV_MAX_COLUMNS: z.coerce.number().int().min(10).default(64),
+  ATOM_CSV_MAX_LINE_CHARS: z.coerce.number().int().min(80).default(4_000),
+  ATOM_CSV_MAX_PROBLEMS: z.coerce.number().int().min(1).default(200),
+  HEALTH_DB_TIMEOUT_MS: z.coerce.number().int().min(1).max(150, 'keep it under 150 ms: the health check answers within 200 ms').default(50),
 });
 
 export type AppConfig = z.infer<typeof envSchema> & { publicUrl: string };

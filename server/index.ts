@@ -21,7 +21,7 @@ async function main() {
   if (applied.length) logger.info({ applied }, 'migrations applied');
   const mailer = createMailer(config, logger);
   const runQueue = createEmbeddedRunQueue({ logger, threads: config.RUN_WORKERS, parallelWithinRuns: config.RUN_HELPER_THREADS, limits: config });
-  const { app } = createApp({ config, sequelize, mailer, logger, runQueue });
+  const { app, inputs } = createApp({ config, sequelize, mailer, logger, runQueue });
   await runQueue.start();
   const server: Server = app.listen(config.PORT, config.HOST, () => {
     logger.info(`Phasewright listening on ${config.publicUrl}`);
@@ -46,6 +46,7 @@ async function main() {
     await Promise.race([closing, new Promise((resolve) => setTimeout(resolve, 5_000).unref())]);
     server.closeAllConnections();
     await closing;
+    await inputs.close();
     await mailer.drain();
     await sequelize.close();
     process.exit(0);

@@ -53,7 +53,7 @@ const P = '/projects/:projectId';
 
 /** Every route of the API. tests/api/openapi.test.ts checks this against the app's router. */
 export const API_ROUTES: ApiRoute[] = [
-  { method: 'get', path: '/health', summary: 'Liveness check', role: 'public', ok: [200, '`{ ok: true }`'] },
+  { method: 'get', path: '/health', summary: 'Health: database ping (own short time limit), run queue and input pool; 503 with the same details when not ok', role: 'public', ok: [200, '`{ ok, database: { ok, ms, error? }, runQueue, inputs }`'] },
   { method: 'get', path: '/openapi.json', summary: 'This document', role: 'public', ok: [200, 'OpenAPI 3.1 document'] },
 
   { method: 'get', path: '/auth/csrf', summary: 'CSRF token for cookie sessions (send it as x-csrf-token)', role: 'public', ok: [200, '`{ csrfToken }`'] },

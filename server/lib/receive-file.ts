@@ -11,6 +11,8 @@ export interface FileFormSpec {
   maxBytes: number;
   /** Text fields allowed besides the file. */
   fields: number;
+  /** Longest text field, bytes (UTF-8). */
+  fieldBytes: number;
   /** What the file is, for messages: 'file', 'CSV file' … */
   what: string;
   /** Message when the file is too large (413). */
@@ -22,7 +24,7 @@ export function fileReceiver(spec: FileFormSpec): (req: Request, res: Response) 
   const receive = multer({
     storage: multer.memoryStorage(),
     defParamCharset: 'utf8',
-    limits: { fileSize: spec.maxBytes, files: 1, fields: spec.fields, fieldSize: 1024, parts: spec.fields + 1 },
+    limits: { fileSize: spec.maxBytes, files: 1, fields: spec.fields, fieldSize: spec.fieldBytes, parts: spec.fields + 1 },
   }).single('file');
   return (req, res) =>
     new Promise((resolve, reject) => {
@@ -30,6 +32,9 @@ export function fileReceiver(spec: FileFormSpec): (req: Request, res: Response) 
         if (!error) return resolve();
         if (error instanceof multer.MulterError) {
           if (error.code === 'LIMIT_FILE_SIZE') return reject(new AppError(413, spec.tooLarge, { file: 'too large' }));
+          if (error.code === 'LIMIT_FIELD_VALUE') {
+            return reject(new AppError(400, `The form field "${error.field}" is longer than ${spec.fieldBytes} bytes; shorten it`, { [error.field ?? 'form']: 'too long' }));
+          }
           if (error.code === 'LIMIT_UNEXPECTED_FILE') {
             return reject(new AppError(400, `Send one ${spec.what}, in the form field "file" (got "${error.field}")`, { file: 'missing' }));
           }

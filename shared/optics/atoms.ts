@@ -132,10 +132,37 @@ export function largestPhaseGap(alphas: readonly number[]): number {
  * Example: validateAtomLibrary({ …, atoms: [] }) → [{ severity: 'error', field: 'atoms', … }].
  */
 export function validateAtomLibrary(library: AtomLibrary, options: ValidationOptions = {}): LibraryIssue[] {
+  return checkAtomLibrary(library, options).issues;
+}
+
+/** Options of `checkAtomLibrary`: those of `validateAtomLibrary`, a cap on the issues listed, and cells to leave out. */
+export interface CheckOptions extends ValidationOptions {
+  /** Issues listed in full; further ones are only counted (their messages are never built). Default: all. */
+  maxIssues?: number;
+  /** Cells (1-based atom row, MetaAtom field) whose issues the caller has already reported: neither listed nor counted. */
+  skip?: (row: number, field: string) => boolean;
+}
+
+/**
+ * `validateAtomLibrary` with a budget: the first `maxIssues` issues in full, the counts of all. Linear in the
+ * number of atoms (plus a sort of the phases). Example: checkAtomLibrary(lib, { maxIssues: 0 }).count → the
+ * length of validateAtomLibrary(lib).
+ */
+export function checkAtomLibrary(library: AtomLibrary, options: CheckOptions = {}): { issues: LibraryIssue[]; count: number; errorCount: number } {
   const minLevels = options.minPhaseLevels ?? 8;
+  const maxIssues = options.maxIssues ?? Infinity;
   const issues: LibraryIssue[] = [];
+  let count = 0;
+  let errorCount = 0;
+  /** Counts an issue; true when it is to be listed (its message is built only then). */
+  const listed = (severity: LibraryIssue['severity'], row: number, field: string): boolean => {
+    if (options.skip && row > 0 && options.skip(row, field)) return false;
+    count++;
+    if (severity === 'error') errorCount++;
+    return issues.length < maxIssues;
+  };
   const libError = (field: string, message: string): void => {
-    issues.push({ severity: 'error', row: 0, field, message });
+    if (listed('error', 0, field)) issues.push({ severity: 'error', row: 0, field, message });
   };
   if (typeof library.name !== 'string' || library.name.trim() === '') libError('name', 'library name is empty');
   for (const field of ['lambda', 'period', 'height'] as const) {
@@ -145,7 +172,7 @@ export function validateAtomLibrary(library: AtomLibrary, options: ValidationOpt
   if (typeof library.approximate !== 'boolean') libError('approximate', 'library must say whether it is approximate');
   if (!Array.isArray(library.atoms) || library.atoms.length === 0) {
     libError('atoms', 'library holds no atoms');
-    return issues;
+    return { issues, count, errorCount };
   }
 
   const seenIds = new Map<string, number>();
@@ -157,49 +184,51 @@ export function validateAtomLibrary(library: AtomLibrary, options: ValidationOpt
   library.atoms.forEach((atom, index) => {
     const row = index + 1;
     const atomId = typeof atom.id === 'string' ? atom.id : undefined;
-    const err = (field: string, message: string): void => {
-      issues.push({ severity: 'error', row, atomId, field, message: `atom ${atomId ?? '?'} (row ${row}): ${message}` });
+    const err = (field: string, message: string | (() => string)): void => {
+      if (!listed('error', row, field)) return;
+      const text = typeof message === 'string' ? message : message();
+      issues.push({ severity: 'error', row, atomId, field, message: `atom ${atomId ?? '?'} (row ${row}): ${text}` });
     };
     if (atomId === undefined || atomId.trim() === '') err('id', 'id is empty');
-    else if (seenIds.has(atomId)) err('id', `id repeats row ${seenIds.get(atomId)}`);
+    else if (seenIds.has(atomId)) err('id', () => `id repeats row ${seenIds.get(atomId)}`);
     else seenIds.set(atomId, row);
-    if (atom.shape !== 'rect' && atom.shape !== 'empty') err('shape', `shape must be 'rect' or 'empty', got ${String(atom.shape)}`);
+    if (atom.shape !== 'rect' && atom.shape !== 'empty') err('shape', () => `shape must be 'rect' or 'empty', got ${String(atom.shape)}`);
 
     let finite = true;
     for (const field of ['width', 'length', 'height', 'period', 'tx', 'alphaX', 'ty', 'alphaY'] as const) {
       if (!Number.isFinite(atom[field])) {
-        err(field, `${field} is not a finite number (${atom[field]})`);
+        err(field, () => `${field} is not a finite number (${atom[field]})`);
         finite = false;
       }
     }
     for (const field of ['tx', 'ty'] as const) {
       if (Number.isFinite(atom[field]) && (atom[field] < 0 || atom[field] > 1)) {
-        err(field, `${field} = ${atom[field]} lies outside 0…1`);
+        err(field, () => `${field} = ${atom[field]} lies outside 0…1`);
       }
     }
     if (atom.shape === 'rect') {
       for (const field of ['width', 'length', 'height'] as const) {
-        if (Number.isFinite(atom[field]) && atom[field] <= 0) err(field, `${field} must be positive, got ${atom[field]} m`);
+        if (Number.isFinite(atom[field]) && atom[field] <= 0) err(field, () => `${field} must be positive, got ${atom[field]} m`);
       }
       for (const field of ['width', 'length'] as const) {
         if (Number.isFinite(atom[field]) && Number.isFinite(atom.period) && atom[field] > atom.period) {
-          err(field, `${field} ${atom[field]} m exceeds the period ${atom.period} m`);
+          err(field, () => `${field} ${atom[field]} m exceeds the period ${atom.period} m`);
         }
       }
     } else if (atom.shape === 'empty') {
       for (const field of ['width', 'length'] as const) {
-        if (atom[field] !== 0) err(field, `an empty atom must have ${field} 0, got ${atom[field]}`);
+        if (atom[field] !== 0) err(field, () => `an empty atom must have ${field} 0, got ${atom[field]}`);
       }
     }
     if (Number.isFinite(atom.period) && Number.isFinite(library.period) && Math.abs(atom.period - library.period) > 1e-9 * library.period) {
-      err('period', `period ${atom.period} m differs from the library period ${library.period} m`);
+      err('period', () => `period ${atom.period} m differs from the library period ${library.period} m`);
     }
     if (finite) {
       const key = geometryKey(atom);
       const twin = geometries.get(key);
-      if (twin) err('geometry', `same geometry as atom ${twin.atom.id} (row ${twin.row})`);
+      if (twin) err('geometry', () => `same geometry as atom ${twin.atom.id} (row ${twin.row})`);
       else geometries.set(key, { row, atom });
-      if (atom.shape === 'rect' && Number.isFinite(library.height) && Math.abs(atom.height - library.height) > GEOMETRY_TOLERANCE) {
+      if (atom.shape === 'rect' && Number.isFinite(library.height) && Math.abs(atom.height - library.height) > GEOMETRY_TOLERANCE && listed('warning', row, 'height')) {
         issues.push({
           severity: 'warning',
           row,
@@ -225,7 +254,7 @@ export function validateAtomLibrary(library: AtomLibrary, options: ValidationOpt
       libError(field, `phases on the ${axis} axis leave a gap of ${gap.toFixed(3)} rad, more than 2π/${minLevels} = ${limit.toFixed(3)} rad`);
     }
   }
-  return issues;
+  return { issues, count, errorCount };
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -557,8 +586,13 @@ function nm(metres: number): string {
   return String(Math.round(metres * 1e13) / 1e4);
 }
 
+/**
+ * A cell as written: quoted (quotes doubled) when it holds a comma, quote or line break, starts with `#` (it
+ * would read as a comment line), or starts or ends with white space (unquoted cells are trimmed on reading), so
+ * that every text reads back exactly. Example: csvField('#1') → '"#1"'.
+ */
 function csvField(text: string): string {
-  return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+  return /[",\n\r]|^[\s#]|\s$/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 }
 
 /**
@@ -598,58 +632,173 @@ export function atomLibraryToCsv(library: AtomLibrary): string {
   return lines.join('\n') + '\n';
 }
 
-function splitCsvLine(line: string): string[] {
-  const out: string[] = [];
-  let cur = '';
-  let quoted = false;
-  for (let i = 0; i < line.length; i++) {
-    const ch = line[i];
-    if (quoted) {
-      if (ch === '"' && line[i + 1] === '"') {
-        cur += '"';
-        i++;
-      } else if (ch === '"') quoted = false;
-      else cur += ch;
-    } else if (ch === '"') quoted = true;
-    else if (ch === ',') {
-      out.push(cur);
-      cur = '';
-    } else cur += ch;
+/** The numeric columns of an atom row, in MetaAtom order, with the factor to SI units. */
+const NUMBER_COLUMNS = [
+  ['width_nm', 1e-9],
+  ['length_nm', 1e-9],
+  ['height_nm', 1e-9],
+  ['period_nm', 1e-9],
+  ['t_x', 1],
+  ['phase_x_rad', 1],
+  ['t_y', 1],
+  ['phase_y_rad', 1],
+] as const;
+
+/** The MetaAtom fields of NUMBER_COLUMNS, in the same order. */
+const NUMBER_FIELDS = ['width', 'length', 'height', 'period', 'tx', 'alphaX', 'ty', 'alphaY'] as const;
+
+/** Limits of reading a library CSV, checked while reading: the first excess stops the reader. */
+export interface CsvLimits {
+  /** Most atom rows after the header. */
+  maxRows: number;
+  /** Most cells in one row. */
+  maxColumns: number;
+  /** Longest record in characters (a quoted cell spanning lines counts whole). */
+  maxLineChars: number;
+  /** Issues returned in full; the rest are only counted. */
+  maxIssues: number;
+}
+
+/** No limits: for files the program wrote itself. */
+const UNLIMITED: CsvLimits = { maxRows: Infinity, maxColumns: Infinity, maxLineChars: Infinity, maxIssues: Infinity };
+
+/** A reading limit was exceeded at `line` of the file; nothing after it was read. */
+export class CsvLimitError extends RangeError {
+  constructor(
+    readonly limit: 'rows' | 'columns' | 'line length',
+    readonly line: number,
+    message: string,
+  ) {
+    super(message);
+    this.name = 'CsvLimitError';
   }
-  out.push(cur);
-  return out.map((s) => s.trim());
+}
+
+type CsvRecord = { line: number; comment: string } | { line: number; cells: string[]; unclosed: boolean };
+
+const SPECIAL = /[",\n]/g;
+
+/**
+ * The records of CSV text (RFC 4180: quoted cells may hold commas, doubled quotes and line breaks), one pass,
+ * linear in the text. A line whose first non-blank character is `#` is a comment. Unquoted text of a cell is
+ * trimmed, quoted text kept as it is. Blank lines are skipped. Throws CsvLimitError at the first record longer
+ * than `maxLineChars` or with more than `maxColumns` cells.
+ */
+function* csvRecords(text: string, limits: CsvLimits): Generator<CsvRecord> {
+  const n = text.length;
+  let at = 0;
+  let line = 1;
+  const tooLong = (startLine: number) =>
+    new CsvLimitError('line length', startLine, `line ${startLine} is longer than ${limits.maxLineChars} characters`);
+  while (at < n) {
+    const start = at;
+    const startLine = line;
+    let k = at;
+    while (k < n && (text[k] === ' ' || text[k] === '\t')) k++;
+    if (text[k] === '#') {
+      let end = text.indexOf('\n', k);
+      if (end < 0) end = n;
+      if (end - start > limits.maxLineChars) throw tooLong(startLine);
+      yield { line: startLine, comment: text.slice(k, end).trim() };
+      at = end + 1;
+      line++;
+      continue;
+    }
+    const cells: string[] = [];
+    let cell = '';
+    let quoteStart = -1;
+    let quoteEnd = -1;
+    let quoted = false;
+    const finish = () => {
+      cells.push(quoteStart < 0 ? cell.trim() : cell.slice(0, quoteStart).trimStart() + cell.slice(quoteStart, quoteEnd) + cell.slice(quoteEnd).trimEnd());
+      if (cells.length > limits.maxColumns) {
+        throw new CsvLimitError('columns', startLine, `line ${startLine} has more than ${limits.maxColumns} columns`);
+      }
+      cell = '';
+      quoteStart = quoteEnd = -1;
+    };
+    let ended = false;
+    while (!ended) {
+      SPECIAL.lastIndex = at;
+      const found = SPECIAL.exec(text);
+      const stop = found ? found.index : n;
+      if (stop - start > limits.maxLineChars) throw tooLong(startLine);
+      cell += text.slice(at, stop);
+      at = stop + 1;
+      if (!found) {
+        ended = true;
+        break;
+      }
+      const ch = found[0];
+      if (quoted) {
+        if (ch === '\n') {
+          cell += '\n';
+          line++;
+        } else if (ch === '"' && text[at] === '"') {
+          cell += '"';
+          at++;
+        } else if (ch === '"') {
+          quoted = false;
+          quoteEnd = cell.length;
+        } else cell += ch;
+      } else if (ch === '"') {
+        quoted = true;
+        if (quoteStart < 0) quoteStart = cell.length;
+      } else if (ch === ',') finish();
+      else ended = true;
+    }
+    if (quoted) quoteEnd = cell.length;
+    finish();
+    line++;
+    if (cells.length === 1 && cells[0] === '' && quoteStart < 0) continue;
+    yield { line: startLine, cells, unclosed: quoted };
+  }
 }
 
 /**
  * Parses library CSV (the format of `atomLibraryToCsv`; metadata lines optional, `meta` fills or
- * overrides them). Returns the library and every issue: CSV problems name the line and column,
+ * overrides them). Returns the library and its issues: CSV problems name the line and column,
  * then `validateAtomLibrary` runs on the result; every issue carries the CSV `column` it is about,
  * and messages name lines of the file (not atom rows). Without an `approximate` line or `meta.approximate`
  * the library counts as approximate (data of unknown provenance is not presented as exact).
+ * `options.limits` bound the reading (CsvLimitError at the first excess) and the issues kept: `issues` holds
+ * the first `maxIssues`, `issueCount` and `errorCount` count them all. Linear in the text.
  * Example: parseAtomLibraryCsv(atomLibraryToCsv(lib)).library.atoms.length → lib.atoms.length.
  */
 export function parseAtomLibraryCsv(
   text: string,
   meta: Partial<AtomLibraryMeta> = {},
-  options: ValidationOptions = {},
-): { library: AtomLibrary; issues: LibraryIssue[] } {
+  options: ValidationOptions & { limits?: Partial<CsvLimits> } = {},
+): { library: AtomLibrary; issues: LibraryIssue[]; issueCount: number; errorCount: number } {
+  const limits: CsvLimits = { ...UNLIMITED, ...options.limits };
   const issues: LibraryIssue[] = [];
+  let issueCount = 0;
+  let errorCount = 0;
+  /** Counts an issue; true when it is among the first `maxIssues`, to be listed (built only then). */
+  const keep = (severity: LibraryIssue['severity']): boolean => {
+    issueCount++;
+    if (severity === 'error') errorCount++;
+    return issues.length < limits.maxIssues;
+  };
+  const add = (issue: LibraryIssue) => {
+    if (keep(issue.severity)) issues.push(issue);
+  };
   const found: Record<string, string> = {};
   const rows: { line: number; cells: string[] }[] = [];
   let header: string[] | undefined;
-  text.split(/\r?\n/).forEach((raw, index) => {
-    const line = index + 1;
-    const trimmed = raw.trim();
-    if (trimmed === '') return;
-    if (trimmed.startsWith('#')) {
-      const m = /^#\s*([a-z_]+)\s*:\s*(.*)$/.exec(trimmed);
+  let unclosedAt: number | undefined;
+  for (const record of csvRecords(text, limits)) {
+    if ('comment' in record) {
+      const m = /^#\s*([a-z_]+)\s*:\s*(.*)$/.exec(record.comment);
       if (m) found[m[1]] = m[2].trim();
-      return;
+      continue;
     }
-    const cells = splitCsvLine(raw);
-    if (!header) header = cells;
-    else rows.push({ line, cells });
-  });
+    if (record.unclosed) unclosedAt = record.line;
+    if (!header) header = record.cells;
+    else if (rows.length >= limits.maxRows) {
+      throw new CsvLimitError('rows', record.line, `the file holds more than ${limits.maxRows} atom rows (line ${record.line} would be row ${rows.length + 1})`);
+    } else rows.push(record);
+  }
   const numberMeta = (key: string, scale: number): number | undefined => {
     if (found[key] === undefined) return undefined;
     const v = Number(found[key]);
@@ -666,56 +815,60 @@ export function parseAtomLibraryCsv(
   };
   const source = meta.source ?? found[META_KEYS.source];
   if (source !== undefined) library.source = source;
+  const done = () => ({ library, issues, issueCount, errorCount });
   if (!header) {
-    issues.push({ severity: 'error', row: 0, field: 'header', column: 'header', message: 'no header row found' });
-    return { library, issues };
+    add({ severity: 'error', row: 0, field: 'header', column: 'header', message: 'no header row found' });
+    return done();
+  }
+  if (unclosedAt !== undefined) {
+    add({ severity: 'error', row: 0, field: 'file', line: unclosedAt, column: 'file', message: `line ${unclosedAt}: a quoted cell is never closed (a " is missing)` });
   }
   const columnIndex = new Map<string, number>();
   header.forEach((name, i) => columnIndex.set(name, i));
   const missing = ATOM_CSV_COLUMNS.filter((c) => c !== 'shape' && !columnIndex.has(c));
   if (missing.length > 0) {
-    issues.push({ severity: 'error', row: 0, field: 'header', column: missing.join(', '), message: `missing columns: ${missing.join(', ')}` });
-    return { library, issues };
+    add({ severity: 'error', row: 0, field: 'header', column: missing.join(', '), message: `missing columns: ${missing.join(', ')}` });
+    return done();
   }
-  rows.forEach(({ line, cells }, index) => {
+  /** The numeric cells that had a CSV problem (row-major, NUMBER_COLUMNS order): the validator does not report them again. */
+  const reported = new Uint8Array(rows.length * NUMBER_COLUMNS.length);
+  const at = NUMBER_COLUMNS.map(([column]) => columnIndex.get(column)!);
+  const idAt = columnIndex.get('atom_id')!;
+  const shapeAt = columnIndex.get('shape');
+  const values = new Array<number>(NUMBER_COLUMNS.length);
+  for (let index = 0; index < rows.length; index++) {
+    const { line, cells } = rows[index];
     const row = index + 1;
-    const id = cells[columnIndex.get('atom_id')!] ?? '';
-    const num = (column: string, scale: number): number => {
-      const rawValue = cells[columnIndex.get(column)!];
+    const id = cells[idAt] ?? '';
+    for (let c = 0; c < NUMBER_COLUMNS.length; c++) {
+      const [column, scale] = NUMBER_COLUMNS[c];
+      const rawValue = cells[at[c]];
       const v = rawValue === undefined || rawValue === '' ? NaN : Number(rawValue);
-      if (!Number.isFinite(v)) {
-        issues.push({
-          severity: 'error',
-          row,
-          atomId: id,
-          field: column,
-          line,
-          column,
-          message: `line ${line}, atom ${id || '?'}: ${column} is not a number (${rawValue ?? 'missing'})`,
-        });
+      values[c] = v * scale;
+      if (Number.isFinite(v)) continue;
+      reported[index * NUMBER_COLUMNS.length + c] = 1;
+      if (keep('error')) {
+        issues.push({ severity: 'error', row, atomId: id, field: column, line, column, message: `line ${line}, atom ${id || '?'}: ${column} is not a number (${rawValue ?? 'missing'})` });
       }
-      return v * scale;
-    };
-    const shapeCell = columnIndex.has('shape') ? cells[columnIndex.get('shape')!] : 'rect';
-    library.atoms.push({
-      id,
-      shape: shapeCell === 'empty' ? 'empty' : (shapeCell as AtomShape),
-      width: num('width_nm', 1e-9),
-      length: num('length_nm', 1e-9),
-      height: num('height_nm', 1e-9),
-      period: num('period_nm', 1e-9),
-      tx: num('t_x', 1),
-      alphaX: num('phase_x_rad', 1),
-      ty: num('t_y', 1),
-      alphaY: num('phase_y_rad', 1),
-    });
-  });
+    }
+    const shapeCell = shapeAt === undefined ? 'rect' : cells[shapeAt];
+    const [width, length, height, period, tx, alphaX, ty, alphaY] = values;
+    library.atoms.push({ id, shape: shapeCell === 'empty' ? 'empty' : (shapeCell as AtomShape), width, length, height, period, tx, alphaX, ty, alphaY });
+  }
   const lineOfRow = (row: number): number | undefined => rows[row - 1]?.line;
-  for (const issue of validateAtomLibrary(library, options)) {
-    const line = issue.row > 0 ? lineOfRow(issue.row) : undefined;
+  const checked = checkAtomLibrary(library, {
+    ...options,
+    maxIssues: Math.max(0, limits.maxIssues - issues.length),
+    skip: (row, field) => {
+      const c = NUMBER_FIELDS.indexOf(field as (typeof NUMBER_FIELDS)[number]);
+      return c >= 0 && reported[(row - 1) * NUMBER_COLUMNS.length + c] === 1;
+    },
+  });
+  issueCount += checked.count;
+  errorCount += checked.errorCount;
+  for (const issue of checked.issues) {
     const column = CSV_COLUMN_OF_FIELD[issue.field] ?? issue.field;
-    const duplicateOfCsv = issues.some((i) => i.row === issue.row && i.field === column);
-    if (duplicateOfCsv) continue;
+    const line = issue.row > 0 ? lineOfRow(issue.row) : undefined;
     // The validator counts atoms (row 1 = first atom); a CSV reader counts lines of the file.
     const message = issue.message.replace(/\brow (\d+)\b/g, (text, n: string) => {
       const atLine = lineOfRow(Number(n));
@@ -723,5 +876,5 @@ export function parseAtomLibraryCsv(
     });
     issues.push(line === undefined ? { ...issue, message, column } : { ...issue, message, line, column });
   }
-  return { library, issues };
+  return done();
 }

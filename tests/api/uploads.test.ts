@@ -1,9 +1,12 @@
+import { createHash } from 'node:crypto';
 import { crc32 } from 'node:zlib';
 import { Jimp } from 'jimp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { UploadModel } from '../../server/components/uploads/upload.model';
 import { encodeNpy } from '../../shared/optics/npy';
 import { UPLOAD_LIMITS } from '../../shared/schemas/uploads';
 import { download, twinImageDesign, waitForRun } from '../support/designs';
+import { pngChunk } from '../support/hostile-corpus';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
 
 let t: TestApp;
@@ -22,16 +25,6 @@ async function picture(mime: 'image/png' | 'image/jpeg', width = 64, height = 48
     }
   }
   return mime === 'image/png' ? image.getBuffer('image/png') : image.getBuffer('image/jpeg', { quality: 90 });
-}
-
-/** A PNG chunk with its CRC (PNG spec §5.3). */
-function pngChunk(type: string, data: Buffer): Buffer {
-  const head = Buffer.alloc(8);
-  head.writeUInt32BE(data.length, 0);
-  head.write(type, 4, 'latin1');
-  const crc = Buffer.alloc(4);
-  crc.writeUInt32BE(crc32(Buffer.concat([head.subarray(4), data])), 0);
-  return Buffer.concat([head, data, crc]);
 }
 
 /** A PNG that only claims a size: valid signature and IHDR, a tiny IDAT, IEND. */
@@ -79,6 +72,8 @@ describe('uploads that are accepted', () => {
     expect(content.headers['content-type']).toBe('image/png');
     expect(content.headers['content-disposition']).toBe('inline; filename="Lighthouse v2.png"');
     expect(Buffer.compare(content.body, png)).toBe(0);
+    // The hash is computed off the request thread, with the decode; it is the hash of the stored bytes.
+    expect((await UploadModel.findByPk(id, { attributes: ['sha256'] }))?.sha256).toBe(createHash('sha256').update(png).digest('hex'));
     expect((await designer.get(`/api/projects/${projectId}/uploads/99999/content`)).status).toBe(404);
   });
 
@@ -127,7 +122,13 @@ describe('uploads that are refused', () => {
     corrupt.fill(0x55, idat + 6, idat + 40);
     const broken = await send('image', corrupt);
     expect(broken.status).toBe(400);
-    expect(broken.body.error).toMatch(/could not be decoded/);
+    expect(broken.body.error).toMatch(/IDAT chunk checksum does not match/);
+    // The same damage with a checksum that matches it: found by inflating the image data.
+    const length = corrupt.readUInt32BE(idat - 4);
+    corrupt.writeUInt32BE(crc32(corrupt.subarray(idat, idat + 4 + length)), idat + 4 + length);
+    const garbled = await send('image', corrupt);
+    expect(garbled.status).toBe(400);
+    expect(garbled.body.error).toMatch(/not a valid zlib stream|could not be decoded/);
     const badHeader = Buffer.from(png);
     badHeader[17] ^= 0xff;
     expect((await send('image', badHeader)).body.error).toMatch(/checksum/);

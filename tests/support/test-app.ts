@@ -58,13 +58,14 @@ export async function createTestApp(env: Record<string, string> = {}): Promise<T
   const mailer = createMailer(config, logger);
   const runQueue = createEmbeddedRunQueue({ logger, threads: config.RUN_WORKERS ?? 1, parallelWithinRuns: config.RUN_HELPER_THREADS, limits: config });
   const ctx: AppContext = { config, sequelize, mailer, logger, runQueue };
-  const { app } = createApp(ctx);
+  const { app, inputs } = createApp(ctx);
   await runQueue.start();
   return {
     app,
     ctx,
     async close() {
       await Promise.all([runQueue.stop(), stopLayoutJobs()]);
+      await inputs.close();
       await mailer.drain();
       await sequelize.query(`DROP DATABASE \`${dbName}\``);
       await sequelize.close();

@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { encodeNpy } from '../../shared/optics/npy';
-import { decodeNpy } from '../../shared/optics/npy-decode';
+import { decodeNpy, readNpyHeader } from '../../shared/optics/npy-decode';
 import { PYTHON } from '../support/python';
 
 const dir = mkdtempSync(join(tmpdir(), 'phasewright-npy-read-'));
@@ -61,5 +61,54 @@ print(json.dumps(a.ravel(order='C').tolist()))`;
     object.set([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, 1, 0, dict.length, 0]);
     object.set(dict, 10);
     expect(() => decodeNpy(object)).toThrow(/not a plain number type/);
+  });
+});
+
+describe('.npy header limits (readNpyHeader)', () => {
+  /** A format-2.0 file with a raw header text and `data` bytes. */
+  const withHeader = (header: string, data = 0) => {
+    const text = new TextEncoder().encode(header);
+    const out = new Uint8Array(12 + text.length + data);
+    out.set([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, 2, 0]);
+    new DataView(out.buffer).setUint32(8, text.length, true);
+    out.set(text, 12);
+    return out;
+  };
+
+  it('refuses a header past the cap from its length field, before reading it', () => {
+    const huge = new Uint8Array(12);
+    huge.set([0x93, 0x4e, 0x55, 0x4d, 0x50, 0x59, 2, 0]);
+    new DataView(huge.buffer).setUint32(8, 16 * 1024 * 1024, true);
+    // The file holds none of the 16 MiB it announces: the length alone is refused.
+    expect(() => readNpyHeader(huge)).toThrow('npy: the header is 16777216 bytes long; at most 65536 are accepted (numpy writes a few hundred)');
+    expect(() => readNpyHeader(withHeader(`{'descr': '<f8', 'fortran_order': False, 'shape': (1,), }${' '.repeat(200)}`, 8), { maxHeaderBytes: 128 })).toThrow(
+      /header is 257 bytes long; at most 128/,
+    );
+  });
+
+  it("reads a 60 KB header of repeated \"'shape':(\" in one pass and names what is wrong", () => {
+    const header = `{'descr': '<f8', 'fortran_order': False, ${"'shape':(".repeat(6600)}`;
+    expect(header.length).toBeLessThan(65_536);
+    expect(() => readNpyHeader(withHeader(header))).toThrow(/npy: the header shape should hold whole numbers \(at character 50\)/);
+  });
+
+  it('checks dtype, keys and the data the shape needs before any data is read', () => {
+    expect(readNpyHeader(withHeader("{'descr': '<f8', 'fortran_order': True, 'shape': (2, 3), }\n", 48))).toMatchObject({
+      descr: '<f8',
+      fortranOrder: true,
+      shape: [2, 3],
+      count: 6,
+      itemSize: 8,
+      dataOffset: 12 + 59,
+    });
+    expect(() => readNpyHeader(withHeader("{'descr': '<f8', 'fortran_order': False, 'shape': (4096, 4096), }", 16))).toThrow(
+      'npy: data holds 16 bytes, shape (4096, 4096) needs 134217728',
+    );
+    expect(() => readNpyHeader(withHeader("{'descr': [('a', '<f8')], 'fortran_order': False, 'shape': (1,), }", 8))).toThrow(/structured dtype/);
+    expect(() => readNpyHeader(withHeader("{'descr': '<f8', 'descr': '<f4', 'fortran_order': False, 'shape': (1,), }", 8))).toThrow(/repeats the key 'descr'/);
+    expect(() => readNpyHeader(withHeader("{'descr': '<f8', 'fortran_order': False, 'shape': (1,), 'extra': 1}", 8))).toThrow(/unexpected key 'extra'/);
+    expect(() => readNpyHeader(withHeader("{'descr': '<f8', 'shape': (1,), }", 8))).toThrow(/must give descr, fortran_order and shape/);
+    expect(() => readNpyHeader(withHeader("{'descr': '<f2', 'fortran_order': False, 'shape': (1,), }", 8))).toThrow(/not a plain number type/);
+    expect(() => readNpyHeader(withHeader("{'descr': '<f8', 'fortran_order': False, 'shape': (99999999999999999999,), }", 8))).toThrow(/shape has a number too large/);
   });
 });

@@ -1,5 +1,7 @@
 import { Router, type Request } from 'express';
-import { ATOM_LIBRARY_LIMITS, createAtomLibrarySchema, type AtomCsvProblem } from '../../../shared/schemas/atom-libraries';
+import { createAtomLibrarySchema, type AtomCsvProblem } from '../../../shared/schemas/atom-libraries';
+import type { AppConfig } from '../../config';
+import type { InputPool } from '../../lib/input-pool';
 import { AppError } from '../../lib/app-error';
 import { fileReceiver } from '../../lib/receive-file';
 import { contentDisposition } from '../../lib/content-disposition';
@@ -12,21 +14,11 @@ import {
   deleteAtomLibrary,
   getAtomLibrary,
   listAtomLibraries,
-  readAtomLibraryCsv,
   type LibraryViewer,
 } from './atom-library.service';
 import { shareAtomLibrary, unshareAtomLibrary } from './atom-library-sharing.service';
 
-const KIB = 1024;
-/** Problems listed in one answer; the message gives the total. */
-const MAX_PROBLEMS = 100;
-
-const receiveFile = fileReceiver({
-  maxBytes: ATOM_LIBRARY_LIMITS.maxBytes,
-  fields: 8,
-  what: 'CSV file',
-  tooLarge: `The library file is larger than ${ATOM_LIBRARY_LIMITS.maxBytes / KIB / KIB} MiB; split it or remove unused atoms`,
-});
+const MIB = 1024 * 1024;
 
 function viewerOf(req: Request): LibraryViewer {
   const user = currentUser(req);
@@ -48,8 +40,15 @@ function detailsOf(problems: AtomCsvProblem[]): Record<string, string> {
 }
 
 /** `/api/projects/:projectId/atom-libraries`: the demo library and uploaded CSV libraries. */
-export function atomLibraryRoutes() {
+export function atomLibraryRoutes(config: AppConfig, inputs: InputPool) {
   const router = Router({ mergeParams: true });
+  const receiveFile = fileReceiver({
+    maxBytes: Math.floor(config.ATOM_CSV_MAX_MIB * MIB),
+    fields: 8,
+    fieldBytes: config.FORM_FIELD_MAX_BYTES,
+    what: 'CSV file',
+    tooLarge: `The library file is larger than ${config.ATOM_CSV_MAX_MIB} MiB; split it or remove unused atoms`,
+  });
 
   router.get('/', requireProject('read'), async (req, res) => {
     res.json({ atomLibraries: await listAtomLibraries(projectAccess(req).project.id, viewerOf(req)) });
@@ -59,13 +58,14 @@ export function atomLibraryRoutes() {
     await receiveFile(req, res);
     const input = parseInput(createAtomLibrarySchema, req.body);
     if (!req.file) throw new AppError(400, 'Choose a CSV file: send it in the form field "file"', { file: 'missing' });
-    const reading = readAtomLibraryCsv(req.file.buffer, input);
-    if (reading.problems.length > 0) {
-      const shown = reading.problems.slice(0, MAX_PROBLEMS);
+    const reading = await inputs.readAtomLibraryCsv(req.file.buffer, input);
+    if (reading.problemCount > 0 || !reading.library) {
+      const shown = reading.problems;
       const first = shown[0];
-      const count = reading.problems.length;
+      const count = reading.problemCount;
+      const listed = shown.length < count ? ` The first ${shown.length} are listed.` : '';
       res.status(400).json({
-        error: `The atom library has ${count} problem${count === 1 ? '' : 's'}; fix ${count === 1 ? 'it' : 'them'} in the CSV and upload again. ${first.row === null ? '' : `Row ${first.row}, `}${first.column}: ${first.message}`,
+        error: `The atom library has ${count} problem${count === 1 ? '' : 's'}; fix ${count === 1 ? 'it' : 'them'} in the CSV and upload again.${listed} ${first.row === null ? '' : `Row ${first.row}, `}${first.column}: ${first.message}`,
         details: detailsOf(shown),
         problems: shown,
         problemCount: count,

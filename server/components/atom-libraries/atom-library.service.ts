@@ -1,20 +1,18 @@
 import { literal, Op, type WhereOptions } from 'sequelize';
-import { atomLibraryToCsv, parseAtomLibraryCsv, type AtomLibrary, type AtomLibraryMeta, type MetaAtom } from '../../../shared/optics/atoms';
+import { atomLibraryToCsv, type AtomLibrary, type MetaAtom } from '../../../shared/optics/atoms';
 import { demoAtomLibrary } from '../../../shared/optics/demo-library';
 import { projectRoleAllows, type ProjectRole } from '../../../shared/roles';
 import {
-  ATOM_LIBRARY_LIMITS,
-  type AtomCsvProblem,
   type AtomLibraryDetail,
   type AtomLibraryScope,
   type AtomLibrarySummary,
   type AtomRow,
-  type CreateAtomLibraryInput,
 } from '../../../shared/schemas/atom-libraries';
 import { AppError } from '../../lib/app-error';
 import { RevisionModel } from '../revisions/revision.model';
 import { UserModel } from '../users/user.model';
 import { AtomLibraryShareModel } from './atom-library-share.model';
+import type { StorableLibrary } from './atom-library-csv';
 import { AtomLibraryModel } from './atom-library.model';
 
 /** Who asks, and with which role in the project of the request. */
@@ -212,80 +210,11 @@ export async function deleteAtomLibrary(projectId: number, id: number, viewer: L
   await library.destroy();
 }
 
-export interface CsvReading {
-  library: AtomLibrary;
-  problems: AtomCsvProblem[];
-  warnings: string[];
-}
-
-function problemOf(issue: { line?: number; column?: string; field: string; atomId?: string; message: string }): AtomCsvProblem {
-  return { row: issue.line ?? null, column: issue.column ?? issue.field, atomId: issue.atomId || null, message: issue.message };
-}
-
-/**
- * Reads an uploaded library CSV: form fields override the `# key: value` lines; without a period or height
- * line the first atom's period and the first pillar's height are taken. Every problem names the line of
- * the file and the column.
- */
-export function readAtomLibraryCsv(bytes: Buffer, input: CreateAtomLibraryInput): CsvReading {
-  const fileProblem = (column: string, message: string): CsvReading => ({
-    library: { name: '', lambda: NaN, period: NaN, height: NaN, material: '', approximate: true, atoms: [] },
-    problems: [{ row: null, column, atomId: null, message }],
-    warnings: [],
-  });
-  if (bytes.length === 0) return fileProblem('file', 'the file is empty');
-  if (bytes.includes(0)) return fileProblem('file', 'the file is not text (it holds NUL bytes); save the table as CSV');
-  const text = bytes.toString('utf8').replace(/^\uFEFF/, '');
-  if (text.includes('\uFFFD')) return fileProblem('file', 'the file is not UTF-8 text; save the table as CSV in UTF-8');
-
-  const meta: Partial<AtomLibraryMeta> = {};
-  if (input.name) meta.name = input.name;
-  if (input.material) meta.material = input.material;
-  if (input.wavelengthNm !== undefined) meta.lambda = input.wavelengthNm * 1e-9;
-  if (input.periodNm !== undefined) meta.period = input.periodNm * 1e-9;
-  if (input.heightNm !== undefined) meta.height = input.heightNm * 1e-9;
-  let parsed = parseAtomLibraryCsv(text, meta);
-  const atoms = parsed.library.atoms;
-  if (atoms.length > ATOM_LIBRARY_LIMITS.maxAtoms) {
-    return fileProblem('atoms', `the file holds ${atoms.length} atoms; at most ${ATOM_LIBRARY_LIMITS.maxAtoms} are accepted`);
-  }
-  const fallback: Partial<AtomLibraryMeta> = {};
-  if (!Number.isFinite(parsed.library.period)) {
-    const period = atoms.find((a) => Number.isFinite(a.period) && a.period > 0)?.period;
-    if (period !== undefined) fallback.period = period;
-  }
-  if (!Number.isFinite(parsed.library.height)) {
-    const height = atoms.find((a) => a.shape === 'rect' && Number.isFinite(a.height) && a.height > 0)?.height;
-    if (height !== undefined) fallback.height = height;
-  }
-  if (Object.keys(fallback).length > 0) parsed = parseAtomLibraryCsv(text, { ...meta, ...fallback });
-
-  const { library } = parsed;
-  const problems: AtomCsvProblem[] = [];
-  if (library.name.trim() === '') problems.push({ row: null, column: 'name', atomId: null, message: 'the library has no name: fill in the name field or add a line "# name: …"' });
-  if (!Number.isFinite(library.lambda)) {
-    problems.push({
-      row: null,
-      column: 'design_wavelength_nm',
-      atomId: null,
-      message: 'the design wavelength is missing or not a number: fill in the wavelength field or add a line "# design_wavelength_nm: 633"',
-    });
-  }
-  const handled = new Set(['name', 'lambda']);
-  for (const issue of parsed.issues) {
-    if (issue.severity !== 'error' || (issue.row === 0 && handled.has(issue.field))) continue;
-    problems.push(problemOf(issue));
-  }
-  if (library.name.length > 120) problems.push({ row: null, column: 'name', atomId: null, message: 'the name is longer than 120 characters' });
-  const warnings = parsed.issues.filter((i) => i.severity === 'warning').map((i) => i.message);
-  return { library, problems, warnings };
-}
-
 /** Stores a library that `readAtomLibraryCsv` accepted. */
 export async function createAtomLibrary(
   projectId: number,
   viewer: LibraryViewer,
-  library: AtomLibrary,
+  library: StorableLibrary,
   scope: AtomLibraryScope,
 ): Promise<AtomLibraryDetail> {
   const created = await AtomLibraryModel.create({
@@ -296,8 +225,8 @@ export async function createAtomLibrary(
     periodNm: nm(library.period),
     heightNm: nm(library.height),
     approximate: library.approximate,
-    atomCount: library.atoms.length,
-    atoms: JSON.stringify(library.atoms),
+    atomCount: library.atomCount,
+    atoms: library.atomsJson,
     scope,
     ownerId: viewer.userId,
     projectId: scope === 'project' ? projectId : null,

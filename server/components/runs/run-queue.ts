@@ -44,6 +44,17 @@ export interface RunQueue {
   onUpdate(listener: (runId: number) => void): () => void;
   /** Queues a tolerance study (row in status 'queued') on the same worker pool. */
   enqueueTolerance(studyId: number): void;
+  /** What the queue is doing now, for the health check; answers at once (no database). */
+  state(): RunQueueState;
+}
+
+export interface RunQueueState {
+  accepting: boolean;
+  threads: number;
+  /** Runs on a worker thread now. */
+  running: number;
+  /** Tasks (runs and tolerance studies) waiting for a thread. */
+  waiting: number;
 }
 
 export interface EmbeddedRunQueueOptions {
@@ -312,6 +323,10 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
 
     enqueueTolerance(studyId) {
       tolerance.enqueue(studyId);
+    },
+
+    state() {
+      return { accepting, threads, running: active.size, waiting: pool?.queueSize ?? 0 };
     },
 
     onUpdate(listener) {

@@ -1,6 +1,7 @@
 import { Router } from 'express';
-import { createUploadSchema, UPLOAD_LIMITS } from '../../../shared/schemas/uploads';
+import { createUploadSchema } from '../../../shared/schemas/uploads';
 import type { AppContext } from '../../context';
+import type { InputPool } from '../../lib/input-pool';
 import { AppError } from '../../lib/app-error';
 import { fileReceiver } from '../../lib/receive-file';
 import { contentDisposition } from '../../lib/content-disposition';
@@ -11,16 +12,17 @@ import { createUpload, deleteUpload, listUploads, uploadContent } from './upload
 
 const MIB = 1024 * 1024;
 
-const receiveFile = fileReceiver({
-  maxBytes: UPLOAD_LIMITS.maxBytes,
-  fields: 5,
-  what: 'file',
-  tooLarge: `The file is larger than ${UPLOAD_LIMITS.maxBytes / MIB} MiB; make it smaller and upload again`,
-});
-
-/** `/api/projects/:projectId/uploads`: pictures and phase maps a design refers to. */
-export function uploadRoutes(ctx: AppContext) {
+/** `/api/projects/:projectId/uploads`: pictures and phase maps a design refers to; files are checked on the input pool. */
+export function uploadRoutes(ctx: AppContext, inputs: InputPool) {
+  const { config } = ctx;
   const router = Router({ mergeParams: true });
+  const receiveFile = fileReceiver({
+    maxBytes: Math.floor(config.UPLOAD_MAX_MIB * MIB),
+    fields: 5,
+    fieldBytes: config.FORM_FIELD_MAX_BYTES,
+    what: 'file',
+    tooLarge: `The file is larger than ${config.UPLOAD_MAX_MIB} MiB; make it smaller and upload again`,
+  });
 
   router.get('/', requireProject('read'), async (req, res) => {
     res.json({ uploads: await listUploads(projectAccess(req).project.id) });
@@ -30,7 +32,7 @@ export function uploadRoutes(ctx: AppContext) {
     await receiveFile(req, res);
     const { kind } = parseInput(createUploadSchema, req.body);
     if (!req.file) throw new AppError(400, 'Choose a file: send it in the form field "file"', { file: 'missing' });
-    const upload = await createUpload(ctx, projectAccess(req).project.id, currentUser(req).id, {
+    const upload = await createUpload(ctx, inputs, projectAccess(req).project.id, currentUser(req).id, {
       kind,
       name: req.file.originalname,
       bytes: req.file.buffer,

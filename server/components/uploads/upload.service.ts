@@ -1,12 +1,10 @@
-import { createHash } from 'node:crypto';
-import { Jimp } from 'jimp';
-import { decodeNpy } from '../../../shared/optics/npy-decode';
 import type { Upload, UploadKind } from '../../../shared/schemas/uploads';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
 import { formatBytes, withStorage } from '../quotas/quota.service';
 import { UserModel } from '../users/user.model';
-import { EXTENSIONS, inspectUpload, type InspectedUpload } from './upload-inspect';
+import type { InputPool } from '../../lib/input-pool';
+import { EXTENSIONS, type InspectedUpload } from './upload-inspect';
 import { UploadModel } from './upload.model';
 
 function toUploadDto(upload: UploadModel): Upload {
@@ -34,35 +32,17 @@ export function cleanFileName(original: string, mime: InspectedUpload['mime']): 
   const stem = base
     .replace(/\.[^.]*$/, '')
     .replace(/[\u0000-\u001f\u007f"]/g, '')
-    .trim()
-    .slice(0, 180);
-  return `${stem || 'upload'}.${EXTENSIONS[mime]}`;
+    .trim();
+  const short = Array.from(stem).slice(0, 180).join('');
+  return `${short || 'upload'}.${EXTENSIONS[mime]}`;
 }
 
-/** Decodes the whole file once the header checks have passed: only a file that really decodes is kept. */
-async function confirmDecodes(bytes: Buffer, inspected: InspectedUpload) {
-  try {
-    if (inspected.mime === 'application/x-npy') {
-      const decoded = decodeNpy(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength));
-      if (decoded.data.some((v) => !Number.isFinite(v))) {
-        throw new AppError(400, 'The phase map holds values that are not finite numbers (NaN or infinity)', { file: 'non-finite values' });
-      }
-      return;
-    }
-    const picture = await Jimp.fromBuffer(bytes);
-    if (picture.bitmap.width !== inspected.width || picture.bitmap.height !== inspected.height) {
-      throw new Error('decoded size differs from the header');
-    }
-  } catch (error) {
-    if (error instanceof AppError) throw error;
-    throw new AppError(400, 'The file is damaged or incomplete: it could not be decoded. Export it again and upload the new file.', { file: 'cannot be decoded' });
-  }
-}
-
-/** Checks (type, size, pixels) before decoding, confirms it decodes, and stores the bytes. */
-export async function createUpload(ctx: AppContext, projectId: number, userId: number, input: { kind: UploadKind; name: string; bytes: Buffer }): Promise<Upload> {
-  const inspected = inspectUpload(input.bytes, input.kind);
-  await confirmDecodes(input.bytes, inspected);
+/**
+ * Checks the file (type, size, pixels, decode budget), decodes it once and hashes it on the input pool — only a
+ * file that really decodes is kept — then stores the bytes within the project's storage quota.
+ */
+export async function createUpload(ctx: AppContext, inputs: InputPool, projectId: number, userId: number, input: { kind: UploadKind; name: string; bytes: Buffer }): Promise<Upload> {
+  const inspected = await inputs.checkUpload(input.bytes, input.kind);
   const created = await withStorage(ctx, projectId, input.bytes.length, `the file (${formatBytes(input.bytes.length)})`, (transaction) => UploadModel.create({
     projectId,
     kind: input.kind,
@@ -71,7 +51,7 @@ export async function createUpload(ctx: AppContext, projectId: number, userId: n
     width: inspected.width,
     height: inspected.height,
     size: input.bytes.length,
-    sha256: createHash('sha256').update(input.bytes).digest('hex'),
+    sha256: inspected.sha256,
     bytes: input.bytes,
     createdById: userId,
   }, { transaction }));
