@@ -156,8 +156,25 @@ describe('a valid library', () => {
     expect(res.body.details['design.atomLibrary.id']).toMatch(/wavelength of 700 nm, the library was made for 633 nm/);
   });
 
-  it('a run with it succeeds and its atoms.csv equals the upload; the library cannot be deleted while used', async () => {
-    const design = { ...deflectorDesign(), atomLibrary: { source: 'library', id: libraryId } };
+  it('a run with an uploaded library uses that library: its atoms.csv and metrics are the upload\'s; the library cannot be deleted while used', async () => {
+    // A library unlike the demo one in name, label and every transmission, so a run that fell back to the
+    // demo library (or to any other) shows up in its atoms.csv and metrics.json.
+    const demo = demoAtomLibrary();
+    const changed = {
+      ...demo,
+      name: 'Lab pillars, measured batch 7',
+      approximate: false,
+      source: 'measured on the lab bench',
+      atoms: demo.atoms.map((atom) => ({ ...atom, tx: atom.tx * 0.9, ty: atom.ty * 0.85, alphaX: atom.alphaX + 0.25, alphaY: atom.alphaY + 0.25 })),
+    };
+    const changedCsv = atomLibraryToCsv(changed);
+    expect(changedCsv).not.toBe(demoCsv);
+    const uploaded = await uploadAtomLibrary(designer, projectId, changedCsv, { scope: 'project' });
+    expect(uploaded.status, JSON.stringify(uploaded.body)).toBe(201);
+    const changedId = uploaded.body.atomLibrary.id as number;
+    expect(uploaded.body.atomLibrary).toMatchObject({ name: 'Lab pillars, measured batch 7', approximate: false });
+
+    const design = { ...deflectorDesign(), atomLibrary: { source: 'library', id: changedId } };
     const saved = await designer.post(`/api/projects/${projectId}/revisions`, { design, message: 'lab library' });
     expect(saved.status, JSON.stringify(saved.body)).toBe(201);
     const number = saved.body.revision.number;
@@ -167,11 +184,13 @@ describe('a valid library', () => {
     expect(run.status, run.error ?? '').toBe('succeeded');
     const atoms = await download(designer, `/api/projects/${projectId}/runs/${run.id}/artifacts/atoms.csv`);
     expect(atoms.status).toBe(200);
-    expect(atoms.body.toString('utf8')).toBe(demoCsv);
+    expect(atoms.body.toString('utf8')).toBe(changedCsv);
+    const metrics = JSON.parse((await download(designer, `/api/projects/${projectId}/runs/${run.id}/artifacts/metrics.json`)).body.toString('utf8'));
+    expect(metrics.library).toMatchObject({ name: 'Lab pillars, measured batch 7', atoms: 498, approximate: false, source: 'measured on the lab bench' });
 
-    const detail = (await designer.get(`/api/projects/${projectId}/atom-libraries/${libraryId}`)).body.atomLibrary as AtomLibraryDetail;
+    const detail = (await designer.get(`/api/projects/${projectId}/atom-libraries/${changedId}`)).body.atomLibrary as AtomLibraryDetail;
     expect(detail.usedBy).toEqual([number]);
-    const refused = await designer.delete(`/api/projects/${projectId}/atom-libraries/${libraryId}`);
+    const refused = await designer.delete(`/api/projects/${projectId}/atom-libraries/${changedId}`);
     expect(refused.status).toBe(409);
     expect(refused.body.error).toMatch(new RegExp(`revision ${number} of this project`));
   });

@@ -12,6 +12,7 @@ import { ReviewCommentModel, ReviewThreadModel } from '../../server/components/r
 import { RunModel } from '../../server/components/runs/run.model';
 import { encodeNpy } from '../../shared/optics/npy';
 import { eightAtomCsv, uploadAtomLibrary } from '../support/atom-libraries';
+import { apiRoutes } from '../support/app-routes';
 import { deflectorDesign } from '../support/designs';
 import { storeSyntheticLayout } from '../support/fab-fixture';
 import { ApiClient, createTestApp, makeUser, signedInClient, type TestApp } from '../support/test-app';
@@ -378,7 +379,24 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs', 'libr
   return fixture;
 }
 
+/** `METHOD /path` of a matrix case's name, its notes in brackets left out. */
+const caseRoute = (name: string) => name.replace(/\s*\(.*\)$/, '');
+/** Whether a case's path (e.g. '/projects/:id/atom-libraries/demo') is an instance of a declared route. */
+function coversRoute(casePath: string, declared: string): boolean {
+  const [caseMethod, ...caseParts] = casePath.split(/[ /]/);
+  const [method, ...parts] = declared.split(/[ /]/);
+  return caseMethod === method && caseParts.length === parts.length && parts.every((part, i) => part.startsWith(':') || part === caseParts[i]);
+}
+
 describe('authorization matrix', () => {
+  it('covers every project route the app has, and only routes it has (read from its router)', () => {
+    const declared = apiRoutes(t.app).filter((r) => /^[A-Z]+ \/projects(\/|$)/.test(r));
+    expect(declared.length).toBeGreaterThan(40);
+    const cases = ROUTES.map((r) => caseRoute(r.name));
+    expect(declared.filter((route) => !cases.some((c) => coversRoute(c, route)))).toEqual([]);
+    expect(cases.filter((c) => !declared.some((route) => coversRoute(c, route)))).toEqual([]);
+  });
+
   for (const route of ROUTES) {
     for (const who of WHO) {
       it(`${route.name} as ${who} → ${route.expected[who]}`, async () => {

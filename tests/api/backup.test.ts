@@ -6,7 +6,7 @@
  */
 import { spawn } from 'node:child_process';
 import { createHash, randomBytes } from 'node:crypto';
-import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { chmodSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { gunzipSync, gzipSync } from 'node:zlib';
@@ -32,6 +32,9 @@ let restoredSequelize: ReturnType<typeof createSequelize> | null = null;
 beforeAll(async () => {
   t = await createTestApp();
   work = mkdtempSync(path.join(tmpdir(), 'pw-backup-test-'));
+  // Reachable by the database's own system user, as a real installation folder is (the data folder inside
+  // is closed to others by the start code itself).
+  chmodSync(work, 0o755);
 });
 afterAll(async () => {
   await restoredSequelize?.close();
@@ -150,7 +153,7 @@ describe('npm run backup / npm run restore', () => {
     expect(usage.stderr).toMatch(/^Usage: npm run restore -- FILE/);
 
     // The restore stopped the server it started; bring the restored data folder up and read it through the API.
-    restoredDb = await startMariaDb({ dataDir, port: target.DB_PORT, user: target.DB_USER, password: target.DB_PASSWORD, databases: [] });
+    restoredDb = await startMariaDb({ dataDir, port: target.DB_PORT, user: target.DB_USER, password: target.DB_PASSWORD, databases: [], grants: [target.DB_NAME, 'phasewright_broken'] });
     expect(restoredDb.started).toBe(true);
     const refused = await npmRun('restore', [file], targetEnv);
     expect(refused.code).toBe(1);

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { RunModel } from '../../server/components/runs/run.model';
 import type { ToleranceStudy } from '../../shared/schemas/tolerance';
 import { twinImageDesign, waitForRun } from '../support/designs';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
@@ -115,13 +116,18 @@ describe('tolerance studies', () => {
     expect((await designer.get(url(999999))).status).toBe(404);
     expect((await designer.post(`/api/projects/${projectId}/runs/abc/tolerance`, {})).status).toBe(400);
 
-    // The run may still be queued or running, or have finished already: only a succeeded run accepts a study.
-    const now = await designer.get(`/api/projects/${projectId}/runs/${runId}`);
-    if (now.body.run.status !== 'succeeded') {
-      const early = await designer.post(url(runId), {});
-      expect([202, 409]).toContain(early.status);
-    }
     await waitForRun(designer, projectId, runId);
+
+    // Only a succeeded run accepts a study: a queued and a running run (rows held in those states, so the
+    // answer cannot depend on how fast the worker is) are refused with exactly 409, saying why.
+    const revisionId = revision.body.revision.id as number;
+    for (const status of ['queued', 'running'] as const) {
+      const held = await RunModel.create({ projectId, revisionId, startedById: null, queuedAt: new Date(), status, progress: status === 'running' ? 0.4 : 0, stage: status === 'running' ? 'phase retrieval' : 'queued', startedAt: status === 'running' ? new Date() : null });
+      const early = await designer.post(url(held.id), {});
+      expect(early.status, `${status} run`).toBe(409);
+      expect(early.body.error).toMatch(new RegExp(`${status}; a tolerance study needs a run that has succeeded`));
+      await held.update({ status: 'cancelled', finishedAt: new Date() });
+    }
   });
 
   it('refuses a study of a run that failed or was cancelled (409)', async () => {

@@ -84,6 +84,11 @@ function requireRoom(config: AppConfig, used: number, adding: number, what: stri
  * Runs `insert` (which stores `bytes` more in the project) inside a transaction that holds the project's
  * lock, after checking the storage quota; 413 naming the quota when they do not fit.
  */
+/** The quota checked without a lock, before a file is decoded: a full project refuses at once (413), cheaply. */
+export async function requireStorageRoom(config: AppConfig, projectId: number, bytes: number, what: string): Promise<void> {
+  requireRoom(config, await storedBytes(projectId), bytes, what);
+}
+
 export async function withStorage<T>(ctx: AppContext, projectId: number, bytes: number, what: string, insert: (transaction: Transaction) => Promise<T>): Promise<T> {
   return ctx.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
     await lockOwners(null, projectId, transaction);

@@ -1,7 +1,7 @@
 import type { Upload, UploadKind } from '../../../shared/schemas/uploads';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
-import { formatBytes, withStorage } from '../quotas/quota.service';
+import { formatBytes, requireStorageRoom, withStorage } from '../quotas/quota.service';
 import { UserModel } from '../users/user.model';
 import type { InputPool } from '../../lib/input-pool';
 import { EXTENSIONS, type InspectedUpload } from './upload-inspect';
@@ -42,8 +42,10 @@ export function cleanFileName(original: string, mime: InspectedUpload['mime']): 
  * file that really decodes is kept — then stores the bytes within the project's storage quota.
  */
 export async function createUpload(ctx: AppContext, inputs: InputPool, projectId: number, userId: number, input: { kind: UploadKind; name: string; bytes: Buffer }): Promise<Upload> {
+  const what = `the file (${formatBytes(input.bytes.length)})`;
+  await requireStorageRoom(ctx.config, projectId, input.bytes.length, what);
   const inspected = await inputs.checkUpload(input.bytes, input.kind);
-  const created = await withStorage(ctx, projectId, input.bytes.length, `the file (${formatBytes(input.bytes.length)})`, (transaction) => UploadModel.create({
+  const created = await withStorage(ctx, projectId, input.bytes.length, what, (transaction) => UploadModel.create({
     projectId,
     kind: input.kind,
     name: cleanFileName(input.name, inspected.mime),
