@@ -14,7 +14,8 @@
  * per request of the server's event-loop thread and of MariaDB (from /proc) varies much less with the
  * machine's other load than the latencies do.
  *
- * Options: `--duration S` (30), `--connections N` (50), `--only runs|mix`, `--no-idle`, `--no-busy`.
+ * Options: `--duration S` (30), `--connections N` (50), `--only runs|mix`, `--no-idle`, `--no-busy`,
+ * `--cpu-prof DIR` (the server writes a V8 CPU profile into DIR when it stops; open it in Chrome's DevTools).
  * The server's environment passes through (e.g. `RUN_WORKERS=1 npm run bench:load`).
  * Target (issue 10): p99 under 100 ms and no errors at 50 connections while a run computes.
  */
@@ -44,6 +45,7 @@ const CONNECTIONS = Number(option('connections', '50'));
 const ONLY = option('only', '');
 const WITH_IDLE = !process.argv.includes('--no-idle');
 const WITH_BUSY = !process.argv.includes('--no-busy');
+const CPU_PROFILE_DIR = option('cpu-prof', '');
 if (!(DURATION_S > 0 && DURATION_S <= 600) || !(CONNECTIONS >= 1 && CONNECTIONS <= 1000)) {
   throw new RangeError('--duration must be in (0, 600] s and --connections in [1, 1000]');
 }
@@ -244,7 +246,8 @@ async function main() {
 
   const serverLog = path.join(dataDir, 'server.log');
   const logStream = createWriteStream(serverLog);
-  const server = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
+  const profiling = CPU_PROFILE_DIR ? ['--cpu-prof', `--cpu-prof-dir=${path.resolve(CPU_PROFILE_DIR)}`] : [];
+  const server = spawn(process.execPath, [...profiling, '--import', 'tsx', 'server/index.ts'], {
     cwd: ROOT,
     env: { ...process.env, ...env },
     stdio: ['ignore', 'pipe', 'pipe'],

@@ -1,6 +1,5 @@
 import { existsSync } from 'node:fs';
 import path from 'node:path';
-import connectSessionSequelize from 'connect-session-sequelize';
 import { csrfSync } from 'csrf-sync';
 import express from 'express';
 import session from 'express-session';
@@ -11,6 +10,7 @@ import { adminRoutes } from './components/admin/admin.routes';
 import { atomLibraryRoutes } from './components/atom-libraries/atom-library.routes';
 import { authRoutes } from './components/auth/auth.routes';
 import { createPassport } from './components/auth/passport';
+import { createSessionStore } from './components/auth/session-store';
 import { fabRoutes } from './components/fab/fab.routes';
 import { notificationRoutes } from './components/notifications/notification.routes';
 import { notifyRunFinished } from './components/notifications/notification.service';
@@ -24,8 +24,6 @@ import { uploadRoutes } from './components/uploads/upload.routes';
 import type { AppContext } from './context';
 import { apiNotFound, errorHandler } from './lib/error-handler';
 import { openApiDocument } from './openapi';
-
-const SessionStore = connectSessionSequelize(session.Store);
 
 /** Builds the Express app (API + built client) around its context; supertest imports this directly. */
 export function createApp(ctx: AppContext) {
@@ -58,7 +56,7 @@ export function createApp(ctx: AppContext) {
     next();
   });
 
-  const store = new SessionStore({ db: ctx.sequelize, table: 'Session', checkExpirationInterval: 15 * 60_000 });
+  const store = createSessionStore(ctx.sequelize, config.SESSION_TOUCH_SECONDS * 1000);
   app.use(
     session({
       name: 'pw.sid',

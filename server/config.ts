@@ -19,6 +19,8 @@ const envSchema = z.object({
   SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(1025),
   MAIL_FROM: z.string().default('Phasewright <no-reply@phasewright.local>'),
   ALLOW_SIGNUP: flag.default(false),
+  /** Least time between two writes of a session's sliding expiry, s (0: on every request). */
+  SESSION_TOUCH_SECONDS: z.coerce.number().int().min(0).max(3600).default(60),
   SIGNIN_LIMIT: z.coerce.number().int().min(1).default(10),
   SIGNIN_WINDOW_MINUTES: z.coerce.number().min(0.01).default(15),
   BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(12),

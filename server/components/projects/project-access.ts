@@ -24,6 +24,20 @@ export async function effectiveRole(user: UserModel, projectId: number): Promise
   return membership?.role ?? null;
 }
 
+/** The project and the user's effective role on it, in one query; null when either is missing. */
+async function findAccess(user: UserModel, projectId: number): Promise<ProjectAccess | null> {
+  if (user.siteRole === 'admin') {
+    const project = await ProjectModel.findByPk(projectId);
+    return project && { project, role: 'owner' };
+  }
+  const membership = await MembershipModel.findOne({
+    where: { projectId, userId: user.id },
+    attributes: ['role'],
+    include: [{ association: 'project', required: true }],
+  });
+  return membership?.project ? { project: membership.project, role: membership.role } : null;
+}
+
 /**
  * Route guard for `/projects/:projectId/…`: 401 when signed out, 404 when the project does not exist or the
  * user is not a member (so project names never leak), 403 when the role lacks `ability`.
@@ -32,13 +46,12 @@ export function requireProject(ability: ProjectAbility) {
   return async (req: Request, _res: Response, next: NextFunction) => {
     if (!req.user) throw new AppError(401, 'Sign in to continue');
     const projectId = parseId(req.params.projectId, 'projectId');
-    const project = await ProjectModel.findByPk(projectId);
-    const role = project ? await effectiveRole(req.user, project.id) : null;
-    if (!project || !role) throw new AppError(404, 'Project not found');
-    if (!projectRoleAllows(role, ability)) {
-      throw new AppError(403, `Your role on this project (${role}) does not allow this`);
+    const access = await findAccess(req.user, projectId);
+    if (!access) throw new AppError(404, 'Project not found');
+    if (!projectRoleAllows(access.role, ability)) {
+      throw new AppError(403, `Your role on this project (${access.role}) does not allow this`);
     }
-    req.projectAccess = { project, role };
+    req.projectAccess = access;
     next();
   };
 }
