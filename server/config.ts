@@ -28,6 +28,11 @@ const envSchema = z.object({
   CLIENT_DIST: z.string().default('dist'),
   /** Worker threads of the run queue; omitted: one per core (os.availableParallelism()). */
   RUN_WORKERS: z.coerce.number().int().min(1, 'use at least 1').max(256).optional(),
+  /**
+   * Nice value of the run queue's threads (0–19; 0: as the server). Above 0 a computing run yields the cores
+   * to requests and the database and takes what they leave idle.
+   */
+  RUN_WORKER_NICE: z.coerce.number().int().min(0).max(19).default(10),
   /** Helper threads inside each run (both channels retrieved at once); omitted: on when 2·RUN_WORKERS ≤ cores. */
   RUN_HELPER_THREADS: flag.optional(),
 });

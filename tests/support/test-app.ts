@@ -55,7 +55,12 @@ export async function createTestApp(env: Record<string, string> = {}): Promise<T
   const sequelize = createSequelize(config);
   await migrateUp(sequelize);
   const mailer = createMailer(config, logger);
-  const runQueue = createEmbeddedRunQueue({ logger, threads: config.RUN_WORKERS ?? 1, parallelWithinRuns: config.RUN_HELPER_THREADS });
+  const runQueue = createEmbeddedRunQueue({
+    logger,
+    threads: config.RUN_WORKERS ?? 1,
+    parallelWithinRuns: config.RUN_HELPER_THREADS,
+    nice: config.RUN_WORKER_NICE,
+  });
   const ctx: AppContext = { config, sequelize, mailer, logger, runQueue };
   const { app } = createApp(ctx);
   await runQueue.start();

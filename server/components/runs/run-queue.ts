@@ -50,6 +50,8 @@ export interface EmbeddedRunQueueOptions {
   parallelWithinRuns?: boolean;
   /** Least time between two progress writes of one run, ms (default 500: at most 2 writes/s). */
   progressIntervalMs?: number;
+  /** Nice value of the pool's threads (0–19, default 0): see `createRunPool`. */
+  nice?: number;
 }
 
 const WORKER_FILE = new URL(`./run-worker${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`, import.meta.url);
@@ -71,14 +73,25 @@ export function parallelWithinRuns(threads: number, cores = availableParallelism
   return 2 * threads <= cores;
 }
 
-/** The pool that executes run tasks (also used by bench/server-run.ts). */
-export function createRunPool(threads: number): Piscina<RunTask, RunTaskResult> {
+/** What every pool thread gets as piscina's `workerData`. */
+export interface RunPoolThreadData {
+  nice: number;
+}
+
+/**
+ * The pool that executes run tasks (also used by bench/server-run.ts). With `nice` > 0 each of its threads
+ * lowers its own scheduling priority when it takes its first task (`lowerPoolThreadPriority`), so a computing
+ * run takes the cores only while requests and the database leave them idle.
+ */
+export function createRunPool(threads: number, nice = 0): Piscina<RunTask, RunTaskResult> {
+  const workerData: RunPoolThreadData = { nice };
   return new Piscina<RunTask, RunTaskResult>({
     filename: WORKER_FILE.href,
     maxThreads: threads,
     minThreads: 0,
     idleTimeout: 60_000,
     execArgv: workerExecArgv(),
+    workerData,
   });
 }
 
@@ -95,6 +108,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
   const threads = Math.max(1, options.threads ?? availableParallelism());
   const parallel = options.parallelWithinRuns ?? parallelWithinRuns(threads);
   const progressInterval = options.progressIntervalMs ?? 500;
+  const nice = options.nice ?? 0;
   const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval });
   const updates = new EventEmitter();
   updates.setMaxListeners(0);
@@ -236,7 +250,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
   const queue: RunQueue = {
     async start() {
       if (accepting) return;
-      pool = createRunPool(threads);
+      pool = createRunPool(threads, nice);
       accepting = true;
       const { requeued, failed } = await queue.recover();
       await tolerance.recover();
