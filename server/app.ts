@@ -8,6 +8,7 @@ import { accessTokenRoutes } from './components/access-tokens/access-token.route
 import { bearerAuth, unlessBearer } from './components/access-tokens/bearer-auth';
 import { adminRoutes } from './components/admin/admin.routes';
 import { atomLibraryRoutes } from './components/atom-libraries/atom-library.routes';
+import { configureAccessCaches } from './components/auth/access-cache';
 import { authRoutes } from './components/auth/auth.routes';
 import { createPassport } from './components/auth/passport';
 import { createSessionStore } from './components/auth/session-store';
@@ -56,6 +57,7 @@ export function createApp(ctx: AppContext) {
     next();
   });
 
+  configureAccessCaches(config);
   const store = createSessionStore(ctx.sequelize, config.SESSION_TOUCH_SECONDS * 1000);
   app.use(
     session({

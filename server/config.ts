@@ -21,6 +21,14 @@ const envSchema = z.object({
   ALLOW_SIGNUP: flag.default(false),
   /** Least time between two writes of a session's sliding expiry, s (0: on every request). */
   SESSION_TOUCH_SECONDS: z.coerce.number().int().min(0).max(3600).default(60),
+  /**
+   * How long the signed-in account and project roles read for one request are reused by the next ones, s
+   * (0: read on every request). Every change made through the server drops them at once; this only bounds
+   * how long a change made by hand in the database goes unseen.
+   */
+  ACCESS_CACHE_SECONDS: z.coerce.number().min(0).max(300).default(5),
+  /** Accounts and project roles kept in that cache at most. */
+  ACCESS_CACHE_ENTRIES: z.coerce.number().int().min(0).max(1_000_000).default(10_000),
   SIGNIN_LIMIT: z.coerce.number().int().min(1).default(10),
   SIGNIN_WINDOW_MINUTES: z.coerce.number().min(0.01).default(15),
   BCRYPT_COST: z.coerce.number().int().min(4).max(15).default(12),

@@ -4,6 +4,7 @@ import { SequelizeStorage, Umzug } from 'umzug';
 import type { AppConfig } from '../config';
 import { AccessTokenModel } from '../components/access-tokens/access-token.model';
 import { AtomLibraryModel } from '../components/atom-libraries/atom-library.model';
+import { watchAccessWrites } from '../components/auth/access-cache';
 import { AuthTokenModel } from '../components/auth/auth-token.model';
 import { SessionModel } from '../components/auth/session.model';
 import { ExportOverrideModel, FabExportModel, ProjectDesignRulesModel } from '../components/fab/fab.model';
@@ -79,6 +80,7 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
   ProjectActivityModel.belongsTo(UserModel, { as: 'actor', foreignKey: 'actorId' });
   NotificationModel.belongsTo(UserModel, { as: 'actor', foreignKey: 'actorId' });
   NotificationModel.belongsTo(ProjectModel, { as: 'project', foreignKey: 'projectId' });
+  watchAccessWrites();
   return sequelize;
 }
 

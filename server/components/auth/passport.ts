@@ -1,7 +1,7 @@
 import { Passport } from 'passport';
 import { Strategy as LocalStrategy } from 'passport-local';
 import { signInSchema } from '../../../shared/schemas/auth';
-import { findActiveUser, verifyCredentials } from '../users/user.service';
+import { findSignedInUser, verifyCredentials } from '../users/user.service';
 
 /** A passport instance of this app alone (tests build several apps in one process). */
 export function createPassport() {
@@ -19,7 +19,7 @@ export function createPassport() {
   passport.serializeUser((user, done) => done(null, (user as Express.User).id));
   passport.deserializeUser((id: number, done) => {
     // A disabled or deleted account simply stops being signed in.
-    findActiveUser(id).then((user) => done(null, user ?? false), done);
+    findSignedInUser(id).then((user) => done(null, user ?? false), done);
   });
   return passport;
 }

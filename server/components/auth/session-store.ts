@@ -27,8 +27,8 @@ export function createSessionStore(sequelize: Sequelize, touchIntervalMs: number
   };
 
   store.get = (sid, callback) => {
-    SessionModel.findOne({ where: { sid, expires: { [Op.gt]: new Date() } }, attributes: ['data'] }).then(
-      (row) => callback(null, row ? JSON.parse(row.get('data') as string) : null),
+    SessionModel.findOne({ where: { sid, expires: { [Op.gt]: new Date() } }, attributes: ['data'], raw: true }).then(
+      (row) => callback(null, row ? JSON.parse((row as unknown as { data: string }).data) : null),
       (err: unknown) => callback(err),
     );
   };

@@ -2,6 +2,7 @@ import type { NextFunction, Request, Response } from 'express';
 import { projectRoleAllows, type ProjectAbility, type ProjectRole } from '../../../shared/roles';
 import { AppError } from '../../lib/app-error';
 import { parseId } from '../../lib/validate';
+import { projectRoles } from '../auth/access-cache';
 import type { UserModel } from '../users/user.model';
 import { MembershipModel } from './membership.model';
 import { ProjectModel } from './project.model';
@@ -25,7 +26,7 @@ export async function effectiveRole(user: UserModel, projectId: number): Promise
 }
 
 /** The project and the user's effective role on it, in one query; null when either is missing. */
-async function findAccess(user: UserModel, projectId: number): Promise<ProjectAccess | null> {
+async function loadAccess(user: UserModel, projectId: number): Promise<ProjectAccess | null> {
   if (user.siteRole === 'admin') {
     const project = await ProjectModel.findByPk(projectId);
     return project && { project, role: 'owner' };
@@ -36,6 +37,15 @@ async function findAccess(user: UserModel, projectId: number): Promise<ProjectAc
     include: [{ association: 'project', required: true }],
   });
   return membership?.project ? { project: membership.project, role: membership.role } : null;
+}
+
+/** `loadAccess` through the access cache, with a fresh project instance for every request. */
+async function findAccess(user: UserModel, projectId: number): Promise<ProjectAccess | null> {
+  const cached = await projectRoles.get(`${user.id}:${user.siteRole}:${projectId}`, async () => {
+    const access = await loadAccess(user, projectId);
+    return access && { role: access.role, project: access.project.get({ plain: true }) };
+  });
+  return cached && { role: cached.role, project: ProjectModel.build(cached.project, { isNewRecord: false, raw: true }) };
 }
 
 /**
