@@ -21,7 +21,7 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { createWriteStream, mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { availableParallelism, tmpdir } from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import autocannon from 'autocannon';
@@ -133,7 +133,9 @@ async function unfinishedRuns(session: Session, projectIds: number[]): Promise<R
  */
 async function keepRunComputing(session: Session) {
   const start = async () => (await session.call('POST', '/api/projects/1/revisions/1/runs')).run.id as number;
-  const statusOf = async (id: number) => (await session.call('GET', `/api/projects/1/runs/${id}`)).run.status as RunStatus;
+  const detailOf = async (id: number) => (await session.call('GET', `/api/projects/1/runs/${id}`)).run as { status: RunStatus; durationMs: number | null };
+  const statusOf = async (id: number) => (await detailOf(id)).status;
+  const durations: number[] = [];
   let current = await start();
   let started = 1;
   const deadline = Date.now() + 120_000;
@@ -147,12 +149,13 @@ async function keepRunComputing(session: Session) {
     let last = Date.now();
     while (!stopped) {
       await sleep(500);
-      const status = await statusOf(current);
+      const { status, durationMs } = await detailOf(current);
       const now = Date.now();
       if (status === 'running') runningMs += now - last;
       last = now;
       if (FINISHED_STATUSES.includes(status) && !stopped && started < MAX_RUNS_PER_PHASE) {
         if (status !== 'succeeded') throw new Error(`Run ${current} ended ${status}`);
+        if (durationMs !== null) durations.push(durationMs);
         current = await start();
         started += 1;
       }
@@ -165,7 +168,7 @@ async function keepRunComputing(session: Session) {
       await watching;
       const status = await statusOf(current);
       if (!FINISHED_STATUSES.includes(status)) await session.call('POST', `/api/projects/1/runs/${current}/cancel`);
-      return { started, runningShare: runningMs / (Date.now() - since) };
+      return { started, runningShare: runningMs / (Date.now() - since), durations };
     },
   };
 }
@@ -186,7 +189,7 @@ interface PhaseResult {
   result: autocannon.Result;
   /** CPU ms per answered request: the server's event-loop thread, and MariaDB. */
   cpuPerRequest: { server: number; db: number };
-  runs?: { started: number; runningShare: number };
+  runs?: { started: number; runningShare: number; durations: number[] };
 }
 
 async function drive(base: string, cookie: string, paths: string[]): Promise<autocannon.Result> {
@@ -201,7 +204,8 @@ async function drive(base: string, cookie: string, paths: string[]): Promise<aut
 
 function printRow(r: PhaseResult) {
   const { result } = r;
-  const runs = r.runs ? ` runs started ${r.runs.started}, one computing ${Math.round(r.runs.runningShare * 100)}% of the time` : '';
+  const finished = r.runs?.durations.length ? `; finished in ${r.runs.durations.map((ms) => `${(ms / 1000).toFixed(1)} s`).join(', ')}` : '';
+  const runs = r.runs ? ` Runs started ${r.runs.started}, one computing ${Math.round(r.runs.runningShare * 100)}% of the time${finished}.` : '';
   console.log(
     [
       `${MIXES[r.mix].label} | ${r.phase}`,
@@ -284,6 +288,8 @@ async function main() {
   }
   const detail = await fetch(`${base}/api/projects/1/runs/1`, { headers: { cookie: session.cookie } });
   console.log(`Run detail of run 1: ${(await detail.arrayBuffer()).byteLength} bytes`);
+  const settings = ['RUN_WORKERS', 'RUN_WORKER_NICE', 'SESSION_TOUCH_SECONDS', 'ACCESS_CACHE_SECONDS'] as const;
+  console.log(`Server settings: ${settings.map((key) => `${key}=${config[key] ?? '(default)'}`).join(', ')}; ${availableParallelism()} cores`);
   console.log(`Driving ${CONNECTIONS} connections for ${DURATION_S} s per phase (autocannon)\n`);
 
   const results: PhaseResult[] = [];
