@@ -11,8 +11,9 @@
  * whenever the last one finishes, at most 20 per phase, and the run still computing at the end is cancelled).
  * Prints requests per second, p50 and p99 latency, errors, timeouts and non-2xx answers, with the load
  * average before and after each phase: the machine may be shared, so read the figures beside it. The CPU time
- * per request of the server's event-loop thread and of MariaDB (from /proc) varies much less with the
- * machine's other load than the latencies do.
+ * per request of the server's event-loop thread and of MariaDB (from /proc) varies less with the machine's
+ * other load than the latencies do (≈ ±20 % rather than several times). autocannon itself runs in this
+ * process, on the same cores as the server.
  *
  * Options: `--duration S` (30), `--connections N` (50), `--only runs|mix`, `--no-idle`, `--no-busy`,
  * `--cpu-prof DIR` (the server writes a V8 CPU profile into DIR when it stops; open it in Chrome's DevTools).
@@ -20,7 +21,7 @@
  * Target (issue 10): p99 under 100 ms and no errors at 50 connections while a run computes.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { createWriteStream, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { createWriteStream, existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { availableParallelism, tmpdir } from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -64,6 +65,12 @@ function cpuMs(pid: number, tid?: number): number {
   return (Number(fields[11]) + Number(fields[12])) * TICK_MS;
 }
 
+/** The server's output, shown when something fails (its folder is deleted on the way out). */
+let serverLog = '';
+function printServerLogTail() {
+  if (serverLog && existsSync(serverLog)) console.error(`The server's last lines:\n${readFileSync(serverLog, 'utf8').split('\n').slice(-20).join('\n')}`);
+}
+
 const cleanups: (() => Promise<void>)[] = [];
 let cleaning: Promise<void> | null = null;
 function cleanUp(): Promise<void> {
@@ -74,6 +81,14 @@ function cleanUp(): Promise<void> {
 }
 for (const signal of ['SIGINT', 'SIGTERM'] as const) {
   process.on(signal, () => void cleanUp().then(() => process.exit(130)));
+}
+// Whatever goes wrong, stop what was started: MariaDB, the mail fake and the server would otherwise outlive us.
+for (const event of ['uncaughtException', 'unhandledRejection'] as const) {
+  process.on(event, (err: unknown) => {
+    console.error(err instanceof Error ? err.stack : err);
+    printServerLogTail();
+    void cleanUp().then(() => process.exit(1));
+  });
 }
 
 /** A signed-in session of the real server: its cookie and CSRF token. */
@@ -133,7 +148,7 @@ async function unfinishedRuns(session: Session, projectIds: number[]): Promise<R
  */
 async function keepRunComputing(session: Session) {
   const start = async () => (await session.call('POST', '/api/projects/1/revisions/1/runs')).run.id as number;
-  const detailOf = async (id: number) => (await session.call('GET', `/api/projects/1/runs/${id}`)).run as { status: RunStatus; durationMs: number | null };
+  const detailOf = async (id: number) => (await session.call('GET', `/api/projects/1/runs/${id}`)).run as { status: RunStatus; durationMs: number | null; error: string | null };
   const statusOf = async (id: number) => (await detailOf(id)).status;
   const durations: number[] = [];
   let current = await start();
@@ -145,27 +160,34 @@ async function keepRunComputing(session: Session) {
   }
   let stopped = false;
   let runningMs = 0;
+  // Rejects when a run fails; noticed at the latest by stop().
   const watching = (async () => {
     let last = Date.now();
     while (!stopped) {
       await sleep(500);
-      const { status, durationMs } = await detailOf(current);
+      const { status, durationMs, error } = await detailOf(current);
       const now = Date.now();
       if (status === 'running') runningMs += now - last;
       last = now;
       if (FINISHED_STATUSES.includes(status) && !stopped && started < MAX_RUNS_PER_PHASE) {
-        if (status !== 'succeeded') throw new Error(`Run ${current} ended ${status}`);
+        if (status !== 'succeeded') throw new Error(`Run ${current} ended ${status}: ${error ?? ''}`);
         if (durationMs !== null) durations.push(durationMs);
         current = await start();
         started += 1;
       }
     }
   })();
+  let failure: unknown = null;
+  watching.catch((err: unknown) => {
+    failure = err;
+    stopped = true;
+  });
   const since = Date.now();
   return {
     async stop() {
       stopped = true;
-      await watching;
+      await watching.catch(() => undefined);
+      if (failure) throw failure;
       const status = await statusOf(current);
       if (!FINISHED_STATUSES.includes(status)) await session.call('POST', `/api/projects/1/runs/${current}/cancel`);
       return { started, runningShare: runningMs / (Date.now() - since), durations };
@@ -248,7 +270,7 @@ async function main() {
   await seedDemo(sequelize, config.BCRYPT_COST);
   await sequelize.close();
 
-  const serverLog = path.join(dataDir, 'server.log');
+  serverLog = path.join(dataDir, 'server.log');
   const logStream = createWriteStream(serverLog);
   const profiling = CPU_PROFILE_DIR ? ['--cpu-prof', `--cpu-prof-dir=${path.resolve(CPU_PROFILE_DIR)}`] : [];
   const server = spawn(process.execPath, [...profiling, '--import', 'tsx', 'server/index.ts'], {
@@ -268,12 +290,7 @@ async function main() {
     }
   });
   const base = config.publicUrl;
-  try {
-    await waitForHealth(`${base}/api/health`, server);
-  } catch (err) {
-    console.error(readFileSync(serverLog, 'utf8').split('\n').slice(-20).join('\n'));
-    throw err;
-  }
+  await waitForHealth(`${base}/api/health`, server);
 
   const dbPid = Number(readFileSync(path.join(dataDir, 'mariadb', 'run', 'mariadbd.pid'), 'utf8'));
   const owner = DEMO_PEOPLE.find((p) => p.key === 'tomas')!;
@@ -334,6 +351,7 @@ main()
   .then(() => process.exit(0))
   .catch(async (err: unknown) => {
     console.error(err instanceof Error ? err.stack : err);
+    printServerLogTail();
     await cleanUp();
     process.exit(1);
   });
