@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { RunModel } from '../../server/components/runs/run.model';
+import { RunArtifactModel, RunEventModel, RunModel } from '../../server/components/runs/run.model';
 import { getRunSummary } from '../../server/components/runs/run.service';
 import { deflectorDesign, waitForRun } from '../support/designs';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
@@ -14,7 +14,7 @@ afterAll(async () => {
   await t?.close();
 });
 
-describe('runs list', () => {
+describe('runs list and run detail', () => {
   it('lists every run exactly as its own summary reads it: finished, queued, and started by nobody', async () => {
     const projectId = (await designer.post('/api/projects', { name: 'Run list' })).body.project.id as number;
     const revision = await designer.post(`/api/projects/${projectId}/revisions`, { design: deflectorDesign() });
@@ -34,5 +34,18 @@ describe('runs list', () => {
       expect(run).toEqual(JSON.parse(JSON.stringify(await getRunSummary(projectId, run.id))));
     }
     expect(listed.filter((r) => r.startedBy === null)).toHaveLength(2);
+  });
+
+  it("gives a run's events and files in the detail as their rows hold them", async () => {
+    const projectId = (await designer.post('/api/projects', { name: 'Run detail' })).body.project.id as number;
+    const number = (await designer.post(`/api/projects/${projectId}/revisions`, { design: deflectorDesign() })).body.revision.number as number;
+    const run = await waitForRun(designer, projectId, (await designer.post(`/api/projects/${projectId}/revisions/${number}/runs`)).body.run.id);
+    expect(run.status, run.error ?? '').toBe('succeeded');
+    const files = await RunArtifactModel.findAll({ where: { runId: run.id }, order: [['id', 'ASC']] });
+    expect(files.length).toBeGreaterThan(10);
+    expect(run.artifacts).toEqual(files.map((a) => ({ name: a.name, mime: a.mime, size: a.size, label: a.label })));
+    expect(run.artifacts.every((a) => typeof a.size === 'number' && a.size > 0)).toBe(true);
+    const events = await RunEventModel.findAll({ where: { runId: run.id }, order: [['at', 'ASC'], ['id', 'ASC']] });
+    expect(run.events).toEqual(events.map((e) => ({ at: e.at.toISOString(), status: e.status, stage: e.stage, message: e.message })));
   });
 });

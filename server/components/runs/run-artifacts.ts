@@ -65,8 +65,9 @@ export async function deleteArtifacts(runId: number): Promise<void> {
   await RunArtifactModel.destroy({ where: { runId } });
 }
 
+/** The files of a run, in the order they were stored (plain rows: a run has dozens, read on every detail view). */
 export async function listArtifacts(runId: number): Promise<RunArtifact[]> {
-  const artifacts = await RunArtifactModel.findAll({ where: { runId }, order: [['id', 'ASC']] });
+  const artifacts = await RunArtifactModel.findAll({ where: { runId }, attributes: ['name', 'mime', 'size', 'label'], order: [['id', 'ASC']], raw: true });
   return artifacts.map((a) => ({ name: a.name, mime: a.mime, size: a.size, label: a.label }));
 }
 

@@ -57,7 +57,7 @@ export async function findRun(projectId: number, runId: number): Promise<RunMode
 
 export async function getRun(projectId: number, runId: number): Promise<RunDetail> {
   const run = await findRun(projectId, runId);
-  const events = await RunEventModel.findAll({ where: { runId }, order: [['at', 'ASC'], ['id', 'ASC']] });
+  const events = await RunEventModel.findAll({ where: { runId }, attributes: ['at', 'status', 'stage', 'message'], order: [['at', 'ASC'], ['id', 'ASC']], raw: true });
   return {
     ...toSummary(run),
     convergence: run.convergence ?? { a: [], b: [] },
