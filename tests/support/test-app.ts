@@ -39,6 +39,8 @@ export async function createTestDatabase(env: Record<string, string> = {}): Prom
       DB_PASSWORD: TEST_DB_PASSWORD,
       SMTP_PORT: String(inject('smtpPort')),
       BCRYPT_COST: '4',
+      // Test files run side by side: their runs keep the priority of the rest of the suite.
+      RUN_WORKER_NICE: '0',
       LOG_LEVEL: 'silent',
       CLIENT_DIST: '/nonexistent-client-dist',
       PUBLIC_URL: 'http://127.0.0.1:5999',
