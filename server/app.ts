@@ -1,6 +1,5 @@
 import { existsSync } from 'node:fs';
 import path from 'node:path';
-import connectSessionSequelize from 'connect-session-sequelize';
 import { csrfSync } from 'csrf-sync';
 import express from 'express';
 import session from 'express-session';
@@ -10,9 +9,11 @@ import { bearerAuth, unlessBearer } from './components/access-tokens/bearer-auth
 import { adminRoutes } from './components/admin/admin.routes';
 import { withAuditScope } from './components/audit/audit-scope';
 import { atomLibraryRoutes } from './components/atom-libraries/atom-library.routes';
+import { configureAccessCaches } from './components/auth/access-cache';
 import { authRoutes } from './components/auth/auth.routes';
 import { csrfState } from './components/auth/csrf-state';
 import { createPassport } from './components/auth/passport';
+import { createSessionStore } from './components/auth/session-store';
 import { fabRoutes } from './components/fab/fab.routes';
 import { healthRoutes } from './components/health/health.routes';
 import { notificationRoutes } from './components/notifications/notification.routes';
@@ -29,8 +30,6 @@ import { apiNotFound, errorHandler } from './lib/error-handler';
 import { createInputPool } from './lib/input-pool';
 import { limitJsonDepth } from './lib/json-depth';
 import { openApiDocument } from './openapi';
-
-const SessionStore = connectSessionSequelize(session.Store);
 
 /** Builds the Express app (API + built client) around its context; supertest imports this directly. */
 export function createApp(ctx: AppContext) {
@@ -67,7 +66,8 @@ export function createApp(ctx: AppContext) {
   // Before the session: a health check never touches the session store.
   app.use('/api', healthRoutes(ctx, inputs));
 
-  const store = new SessionStore({ db: ctx.sequelize, table: 'Session', checkExpirationInterval: 15 * 60_000 });
+  configureAccessCaches(config);
+  const store = createSessionStore(ctx.sequelize, config.SESSION_TOUCH_SECONDS * 1000);
   app.use(
     session({
       name: 'pw.sid',

@@ -30,6 +30,16 @@ const envSchema = z.object({
   SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(1025),
   MAIL_FROM: z.string().default('Phasewright <no-reply@phasewright.local>'),
   ALLOW_SIGNUP: flag.default(false),
+  /** Least time between two writes of a session's sliding expiry, s (0: on every request). */
+  SESSION_TOUCH_SECONDS: z.coerce.number().int().min(0).max(3600).default(60),
+  /**
+   * How long the signed-in account and project roles read for one request are reused by the next ones, s
+   * (0: read on every request). Every change made through the server drops them at once; this only bounds
+   * how long a change made by hand in the database goes unseen.
+   */
+  ACCESS_CACHE_SECONDS: z.coerce.number().min(0).max(300).default(5),
+  /** Accounts and project roles kept in that cache at most. */
+  ACCESS_CACHE_ENTRIES: z.coerce.number().int().min(0).max(1_000_000).default(10_000),
   SIGNIN_LIMIT: z.coerce.number().int().min(1).default(10),
   SIGNIN_WINDOW_MINUTES: z.coerce.number().min(0.01).default(15),
   /** Failed sign-ins allowed from one client address, whatever the e-mails, per SIGNIN_WINDOW_MINUTES. */
@@ -41,6 +51,11 @@ const envSchema = z.object({
   CLIENT_DIST: z.string().default('dist'),
   /** Worker threads of the run queue; omitted: one per core (os.availableParallelism()). */
   RUN_WORKERS: z.coerce.number().int().min(1, 'use at least 1').max(256).optional(),
+  /**
+   * Nice value of the run queue's threads (0–19; 0: as the server). Above 0 a computing run yields the cores
+   * to requests and the database and takes what they leave idle.
+   */
+  RUN_WORKER_NICE: z.coerce.number().int().min(0).max(19).default(10),
   /** Helper threads inside each run (both channels retrieved at once); omitted: on when 2·RUN_WORKERS ≤ cores. */
   RUN_HELPER_THREADS: flag.optional(),
   /** Queued + running runs (tolerance studies included) one person may have at once, over all projects. */

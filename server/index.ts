@@ -20,7 +20,13 @@ async function main() {
   const applied = await migrateUp(sequelize);
   if (applied.length) logger.info({ applied }, 'migrations applied');
   const mailer = createMailer(config, logger);
-  const runQueue = createEmbeddedRunQueue({ logger, threads: config.RUN_WORKERS, parallelWithinRuns: config.RUN_HELPER_THREADS, limits: config });
+  const runQueue = createEmbeddedRunQueue({
+    logger,
+    threads: config.RUN_WORKERS,
+    parallelWithinRuns: config.RUN_HELPER_THREADS,
+    limits: config,
+    nice: config.RUN_WORKER_NICE,
+  });
   const { app, inputs } = createApp({ config, sequelize, mailer, logger, runQueue });
   await runQueue.start();
   const server: Server = app.listen(config.PORT, config.HOST, () => {

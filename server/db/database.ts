@@ -6,6 +6,7 @@ import { AccessTokenModel } from '../components/access-tokens/access-token.model
 import { AuditEventModel } from '../components/audit/audit.model';
 import { AtomLibraryShareModel } from '../components/atom-libraries/atom-library-share.model';
 import { AtomLibraryModel } from '../components/atom-libraries/atom-library.model';
+import { watchAccessWrites } from '../components/auth/access-cache';
 import { AuthTokenModel } from '../components/auth/auth-token.model';
 import { SessionModel } from '../components/auth/session.model';
 import { ExportOverrideModel, FabExportModel, ProjectDesignRulesModel } from '../components/fab/fab.model';
@@ -83,6 +84,7 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
   ProjectActivityModel.belongsTo(UserModel, { as: 'actor', foreignKey: 'actorId' });
   NotificationModel.belongsTo(UserModel, { as: 'actor', foreignKey: 'actorId' });
   NotificationModel.belongsTo(ProjectModel, { as: 'project', foreignKey: 'projectId' });
+  watchAccessWrites();
   return sequelize;
 }
 

@@ -40,6 +40,8 @@ export async function createTestDatabase(env: Record<string, string> = {}): Prom
       DB_PASSWORD: TEST_DB_PASSWORD,
       SMTP_PORT: String(inject('smtpPort')),
       BCRYPT_COST: '4',
+      // Test files run side by side: their runs keep the priority of the rest of the suite.
+      RUN_WORKER_NICE: '0',
       LOG_LEVEL: 'silent',
       CLIENT_DIST: '/nonexistent-client-dist',
       PUBLIC_URL: 'http://127.0.0.1:5999',
@@ -56,7 +58,13 @@ export async function createTestApp(env: Record<string, string> = {}): Promise<T
   const sequelize = createSequelize(config);
   await migrateUp(sequelize);
   const mailer = createMailer(config, logger);
-  const runQueue = createEmbeddedRunQueue({ logger, threads: config.RUN_WORKERS ?? 1, parallelWithinRuns: config.RUN_HELPER_THREADS, limits: config });
+  const runQueue = createEmbeddedRunQueue({
+    logger,
+    threads: config.RUN_WORKERS ?? 1,
+    parallelWithinRuns: config.RUN_HELPER_THREADS,
+    limits: config,
+    nice: config.RUN_WORKER_NICE,
+  });
   const ctx: AppContext = { config, sequelize, mailer, logger, runQueue };
   const { app, inputs } = createApp(ctx);
   await runQueue.start();

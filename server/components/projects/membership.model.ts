@@ -1,6 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
 import type { ProjectRole } from '../../../shared/roles';
 import type { UserModel } from '../users/user.model';
+import type { ProjectModel } from './project.model';
 
 export class MembershipModel extends Model<InferAttributes<MembershipModel>, InferCreationAttributes<MembershipModel>> {
   declare id: CreationOptional<number>;
@@ -10,6 +11,7 @@ export class MembershipModel extends Model<InferAttributes<MembershipModel>, Inf
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
   declare user?: NonAttribute<UserModel>;
+  declare project?: NonAttribute<ProjectModel>;
 
   static initModel(sequelize: Sequelize) {
     MembershipModel.init(

@@ -13,6 +13,29 @@ import { RunArtifactChunkModel, RunArtifactModel } from './run.model';
 
 export const ARTIFACT_CHUNK_BYTES = 8 * 1024 * 1024;
 
+interface PreparedStatements {
+  execute(sql: string, values: unknown[]): Promise<unknown>;
+}
+
+/**
+ * Inserts one chunk as a prepared statement, whose binary protocol sends the bytes as they are. An ordinary
+ * query (Sequelize's `create`) has the driver escape them into the SQL text byte by byte on the event loop:
+ * ≈ 14 ms per MiB on these machines, so every 8 MiB chunk of a finishing run stalled all requests for
+ * about 0.1 s.
+ */
+async function insertChunk(artifactId: number, seq: number, bytes: Buffer): Promise<void> {
+  const { connectionManager } = RunArtifactChunkModel.sequelize!;
+  const connection = await connectionManager.getConnection({ type: 'write' });
+  try {
+    await (connection as unknown as PreparedStatements).execute(
+      'INSERT INTO run_artifact_chunks (artifact_id, seq, bytes) VALUES (?, ?, ?)',
+      [artifactId, seq, bytes],
+    );
+  } finally {
+    await connectionManager.releaseConnection(connection);
+  }
+}
+
 /** Stores the files of `dir` as the artifacts of run `runId`, replacing any it had. */
 export async function storeArtifacts(runId: number, dir: string, files: RunOutputFile[], chunkBytes = ARTIFACT_CHUNK_BYTES): Promise<void> {
   await deleteArtifacts(runId);
@@ -26,7 +49,7 @@ export async function storeArtifacts(runId: number, dir: string, files: RunOutpu
       for (let seq = 0; ; seq++) {
         const { bytesRead } = await handle.read(buffer, 0, chunkBytes, null);
         if (bytesRead === 0 && seq > 0) break;
-        await RunArtifactChunkModel.create({ artifactId: artifact.id, seq, bytes: Buffer.from(buffer.subarray(0, bytesRead)) });
+        await insertChunk(artifact.id, seq, buffer.subarray(0, bytesRead));
         size += bytesRead;
         if (bytesRead < chunkBytes) break;
       }
@@ -42,8 +65,9 @@ export async function deleteArtifacts(runId: number): Promise<void> {
   await RunArtifactModel.destroy({ where: { runId } });
 }
 
+/** The files of a run, in the order they were stored (plain rows: a run has dozens, read on every detail view). */
 export async function listArtifacts(runId: number): Promise<RunArtifact[]> {
-  const artifacts = await RunArtifactModel.findAll({ where: { runId }, order: [['id', 'ASC']] });
+  const artifacts = await RunArtifactModel.findAll({ where: { runId }, attributes: ['name', 'mime', 'size', 'label'], order: [['id', 'ASC']], raw: true });
   return artifacts.map((a) => ({ name: a.name, mime: a.mime, size: a.size, label: a.label }));
 }
 

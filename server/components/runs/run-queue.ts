@@ -67,6 +67,8 @@ export interface EmbeddedRunQueueOptions {
   progressIntervalMs?: number;
   /** The run time limit and the projects' storage quota (default: none). */
   limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'>;
+  /** Nice value of the pool's threads (0–19, default 0): see `createRunPool`. */
+  nice?: number;
 }
 
 const WORKER_FILE = workerFile('run-worker', import.meta.url);
@@ -80,14 +82,25 @@ export function parallelWithinRuns(threads: number, cores = availableParallelism
   return 2 * threads <= cores;
 }
 
-/** The pool that executes run tasks (also used by bench/server-run.ts). */
-export function createRunPool(threads: number): Piscina<RunTask, RunTaskResult> {
+/** What every pool thread gets as piscina's `workerData`. */
+export interface RunPoolThreadData {
+  nice: number;
+}
+
+/**
+ * The pool that executes run tasks (also used by bench/server-run.ts). With `nice` > 0 each of its threads
+ * lowers its own scheduling priority when it takes its first task (`lowerPoolThreadPriority`), so a computing
+ * run takes the cores only while requests and the database leave them idle.
+ */
+export function createRunPool(threads: number, nice = 0): Piscina<RunTask, RunTaskResult> {
+  const workerData: RunPoolThreadData = { nice };
   return new Piscina<RunTask, RunTaskResult>({
     filename: WORKER_FILE.href,
     maxThreads: threads,
     minThreads: 0,
     idleTimeout: 60_000,
     execArgv: workerExecArgv(WORKER_FILE),
+    workerData,
   });
 }
 
@@ -108,6 +121,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
   const progressInterval = options.progressIntervalMs ?? 500;
   const limits = options.limits;
   const timeLimitMs = limits ? limits.RUN_TIME_LIMIT_MINUTES * 60_000 : null;
+  const nice = options.nice ?? 0;
   const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval, timeLimitMs });
   const updates = new EventEmitter();
   updates.setMaxListeners(0);
@@ -278,7 +292,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
   const queue: RunQueue = {
     async start() {
       if (accepting) return;
-      pool = createRunPool(threads);
+      pool = createRunPool(threads, nice);
       accepting = true;
       const { requeued, failed } = await queue.recover();
       await tolerance.recover();

@@ -10,14 +10,17 @@
  */
 import { mkdir, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
+import { Piscina } from 'piscina';
 import { atomLibraryToCsv } from '../../../shared/optics/atoms';
 import { runDesign, type DesignResources } from '../../../shared/optics/pipeline';
 import type { AssetRef, Design } from '../../../shared/schemas/design';
 import { loadDesignResources } from '../../cli/design-files';
 import { runThreads } from '../../cli/run-threads';
 import { initFftInNode } from '../../lib/fft-node';
+import { lowerThreadPriority } from '../../lib/thread-priority';
 import { EXTENSIONS, type UploadMime } from '../uploads/upload-inspect';
 import { convergenceOf, designErrorMessage, headlineOf, metricSections, plotsOf } from './run-outcome';
+import type { RunPoolThreadData } from './run-queue';
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
 
 const PROGRESS_INTERVAL_MS = 150;
@@ -65,7 +68,17 @@ export async function designWithUploadFiles(task: Pick<RunTask, 'design' | 'uplo
   return { design, replacements, resolve: (ref: AssetRef) => toFile.get(refKey(ref)) ?? ref };
 }
 
+let priorityLowered = false;
+/** Once per pool thread, before its first task: the nice value its pool asked for (run-queue.ts). */
+export function lowerPoolThreadPriority() {
+  if (priorityLowered) return;
+  priorityLowered = true;
+  const data = Piscina.workerData as RunPoolThreadData | undefined;
+  if (data?.nice) lowerThreadPriority(data.nice);
+}
+
 export default async function runTask(task: RunTask): Promise<RunTaskResult> {
+  lowerPoolThreadPriority();
   const { port } = task;
   const post = (message: RunProgressMessage) => port.postMessage(message);
   post({ type: 'started' });

@@ -20,7 +20,20 @@ const includes = [
 
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
 
-function toSummary(run: RunModel): RunSummary {
+type SummaryColumns = 'id' | 'status' | 'progress' | 'stage' | 'attempts' | 'error' | 'queuedAt' | 'startedAt' | 'finishedAt' | 'durationMs' | 'headline' | 'filesDeletedAt';
+
+/**
+ * A run as `listRuns` reads it: the row's plain values with the included columns nested (`raw`, `nest`), no
+ * model instances — building those costs about as much CPU as the rest of the request. A run nobody
+ * started has `startedBy` all null.
+ */
+type RunListRow = Pick<RunModel, SummaryColumns> & {
+  revision: { number: number };
+  startedBy: { id: number; name: string } | { id: null; name: null };
+};
+
+function toSummary(run: RunModel | RunListRow): RunSummary {
+  const startedBy = run.startedBy;
   return {
     id: run.id,
     revisionNumber: run.revision!.number,
@@ -29,7 +42,7 @@ function toSummary(run: RunModel): RunSummary {
     stage: run.stage,
     attempts: run.attempts,
     error: run.error ?? null,
-    startedBy: run.startedBy ? { id: run.startedBy.id, name: run.startedBy.name } : null,
+    startedBy: startedBy && startedBy.id !== null ? { id: startedBy.id, name: startedBy.name } : null,
     queuedAt: run.queuedAt.toISOString(),
     startedAt: iso(run.startedAt),
     finishedAt: iso(run.finishedAt),
@@ -48,7 +61,7 @@ export async function findRun(projectId: number, runId: number): Promise<RunMode
 
 export async function getRun(projectId: number, runId: number): Promise<RunDetail> {
   const run = await findRun(projectId, runId);
-  const events = await RunEventModel.findAll({ where: { runId }, order: [['at', 'ASC'], ['id', 'ASC']] });
+  const events = await RunEventModel.findAll({ where: { runId }, attributes: ['at', 'status', 'stage', 'message'], order: [['at', 'ASC'], ['id', 'ASC']], raw: true });
   return {
     ...toSummary(run),
     convergence: run.convergence ?? { a: [], b: [] },
@@ -84,8 +97,10 @@ export async function listRuns(projectId: number, query: ListRunsQuery): Promise
     include: includes,
     order: [[SORT_COLUMNS[query.sort], dir] as OrderItem, ['id', dir]],
     limit: 500,
+    raw: true,
+    nest: true,
   });
-  return runs.map(toSummary);
+  return (runs as unknown as RunListRow[]).map(toSummary);
 }
 
 /**

@@ -17,7 +17,7 @@ import type { ToleranceRequestBody } from '../../../shared/schemas/tolerance';
 import { loadDesignResources } from '../../cli/design-files';
 import { designErrorMessage } from '../runs/run-outcome';
 import type { RunTaskUpload } from '../runs/run-task';
-import { designWithUploadFiles } from '../runs/run-worker';
+import { designWithUploadFiles, lowerPoolThreadPriority } from '../runs/run-worker';
 
 /** The stored arrays a study reads, by artifact name. */
 export const TOLERANCE_ARRAYS = ['atom_index.npy', 'delta_x.npy', 'delta_y.npy', 'theta.npy', 'phase_a.npy', 'phase_b.npy'] as const;
@@ -50,6 +50,7 @@ function array<T extends Float64Array | Int32Array>(task: ToleranceTask, name: T
 }
 
 export default async function toleranceTask(task: ToleranceTask): Promise<ToleranceTaskResult> {
+  lowerPoolThreadPriority();
   const { port } = task;
   const post = (message: ToleranceMessage) => port.postMessage(message);
   post({ type: 'started' });

@@ -1,6 +1,7 @@
 import bcrypt from 'bcryptjs';
 import type { User } from '../../../shared/schemas/auth';
 import { AppError } from '../../lib/app-error';
+import { signedInUsers } from '../auth/access-cache';
 import { UserModel } from './user.model';
 
 export function toUserDto(user: UserModel): User {
@@ -47,7 +48,7 @@ export async function verifyCredentials(email: string, password: string, cost: n
  */
 export async function findSessionUser(id: number, signedInAt: number, maxAgeMs: number): Promise<UserModel | null> {
   if (!(Date.now() - signedInAt <= maxAgeMs)) return null;
-  const user = await findActiveUser(id);
+  const user = await findSignedInUser(id);
   if (!user) return null;
   if (user.credentialsChangedAt && signedInAt < user.credentialsChangedAt.getTime()) return null;
   return user;
@@ -63,6 +64,12 @@ export async function checkCurrentPassword(user: UserModel, password: string) {
 export async function findActiveUser(id: number): Promise<UserModel | null> {
   const user = await UserModel.findByPk(id);
   return user && !user.disabledAt ? user : null;
+}
+
+/** `findActiveUser` for a session's user, through the access cache: a fresh instance for every request. */
+export async function findSignedInUser(id: number): Promise<UserModel | null> {
+  const plain = await signedInUsers.get(String(id), async () => (await findActiveUser(id))?.get({ plain: true }) ?? null);
+  return plain && UserModel.build(plain, { isNewRecord: false, raw: true });
 }
 
 export async function updateProfile(user: UserModel, name: string) {

@@ -1,0 +1,357 @@
+/**
+ * `npm run bench:load`: the server under 50 concurrent readers, with and without a design run computing.
+ *
+ * Starts everything it needs on loopback and stops it again: a throw-away MariaDB (temp data folder, free
+ * port), the mail fake, and the real server entry point (`server/index.ts`) in a child process, on the demo
+ * data. Waits until the seeded demo runs have finished, signs in as the demo project owner, then drives
+ * `--connections` connections for `--duration` seconds with autocannon over
+ * - `runs`: `GET /api/projects/1/runs` alone (the figure the issue measured), and
+ * - `mix`: projects list, runs list, run detail and notifications in turn on every connection,
+ * each once with no run and once while a 1024² demo run computes on the worker pool (a new run is started
+ * whenever the last one finishes, at most 20 per phase, and the run still computing at the end is cancelled).
+ * Prints requests per second, p50 and p99 latency, errors, timeouts and non-2xx answers, with the load
+ * average before and after each phase: the machine may be shared, so read the figures beside it. The CPU time
+ * per request of the server's event-loop thread and of MariaDB (from /proc) varies less with the machine's
+ * other load than the latencies do (≈ ±20 % rather than several times). autocannon itself runs in this
+ * process, on the same cores as the server.
+ *
+ * Options: `--duration S` (30), `--connections N` (50), `--only runs|mix`, `--no-idle`, `--no-busy`,
+ * `--cpu-prof DIR` (the server writes a V8 CPU profile into DIR when it stops; open it in Chrome's DevTools).
+ * The server's environment passes through (e.g. `RUN_WORKERS=1 npm run bench:load`).
+ * Target (issue 10): p99 under 100 ms and no errors at 50 connections while a run computes.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { createWriteStream, existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { availableParallelism, tmpdir } from 'node:os';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import autocannon from 'autocannon';
+import { loadConfig } from '../server/config';
+import { createSequelize, migrateUp } from '../server/db/database';
+import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemo } from '../server/db/seed-demo';
+import { freePort } from '../scripts/lib/free-port';
+import { startMailFake } from '../scripts/lib/mail-fake';
+import { startMariaDb } from '../scripts/lib/mariadb';
+import { FINISHED_STATUSES, type RunStatus } from '../shared/schemas/runs';
+
+const ROOT = fileURLToPath(new URL('../', import.meta.url));
+const MAX_RUNS_PER_PHASE = 20;
+
+function option(name: string, fallback: string): string {
+  const i = process.argv.indexOf(`--${name}`);
+  return i >= 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
+}
+const DURATION_S = Number(option('duration', '30'));
+const CONNECTIONS = Number(option('connections', '50'));
+const ONLY = option('only', '');
+const WITH_IDLE = !process.argv.includes('--no-idle');
+const WITH_BUSY = !process.argv.includes('--no-busy');
+const CPU_PROFILE_DIR = option('cpu-prof', '');
+if (!(DURATION_S > 0 && DURATION_S <= 600) || !(CONNECTIONS >= 1 && CONNECTIONS <= 1000)) {
+  throw new RangeError('--duration must be in (0, 600] s and --connections in [1, 1000]');
+}
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+const loadAverage = () => readFileSync('/proc/loadavg', 'utf8').split(' ').slice(0, 3).join(' ');
+const TICK_MS = 10; // USER_HZ is 100 on Linux
+
+/**
+ * CPU time (user + system, ms) of a process, or of one of its threads with `tid`, from /proc: a figure per
+ * request that depends far less on what else the machine runs than latency does.
+ */
+function cpuMs(pid: number, tid?: number): number {
+  const stat = readFileSync(tid === undefined ? `/proc/${pid}/stat` : `/proc/${pid}/task/${tid}/stat`, 'utf8');
+  const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+  return (Number(fields[11]) + Number(fields[12])) * TICK_MS;
+}
+
+/** The server's output, shown when something fails (its folder is deleted on the way out). */
+let serverLog = '';
+function printServerLogTail() {
+  if (serverLog && existsSync(serverLog)) console.error(`The server's last lines:\n${readFileSync(serverLog, 'utf8').split('\n').slice(-20).join('\n')}`);
+}
+
+const cleanups: (() => Promise<void>)[] = [];
+let cleaning: Promise<void> | null = null;
+function cleanUp(): Promise<void> {
+  cleaning ??= (async () => {
+    for (const step of cleanups.reverse()) await step().catch((err: unknown) => console.error(err));
+  })();
+  return cleaning;
+}
+for (const signal of ['SIGINT', 'SIGTERM'] as const) {
+  process.on(signal, () => void cleanUp().then(() => process.exit(130)));
+}
+// Whatever goes wrong, stop what was started: MariaDB, the mail fake and the server would otherwise outlive us.
+for (const event of ['uncaughtException', 'unhandledRejection'] as const) {
+  process.on(event, (err: unknown) => {
+    console.error(err instanceof Error ? err.stack : err);
+    printServerLogTail();
+    void cleanUp().then(() => process.exit(1));
+  });
+}
+
+/** A signed-in session of the real server: its cookie and CSRF token. */
+class Session {
+  cookie = '';
+  csrfToken = '';
+  constructor(readonly base: string) {}
+
+  async call(method: string, url: string, body?: object) {
+    const res = await fetch(this.base + url, {
+      method,
+      headers: { cookie: this.cookie, 'content-type': 'application/json', 'x-csrf-token': this.csrfToken },
+      body: body ? JSON.stringify(body) : undefined,
+    });
+    const setCookie = res.headers.getSetCookie().find((c) => c.startsWith('pw.sid='));
+    if (setCookie) this.cookie = setCookie.split(';')[0];
+    const json = (await res.json()) as Record<string, any>;
+    if (!res.ok) throw new Error(`${method} ${url}: ${res.status} ${JSON.stringify(json)}`);
+    if (typeof json.csrfToken === 'string') this.csrfToken = json.csrfToken;
+    return json;
+  }
+
+  async signIn(email: string, password: string) {
+    await this.call('GET', '/api/auth/csrf');
+    await this.call('POST', '/api/auth/sign-in', { email, password });
+  }
+}
+
+async function waitForHealth(url: string, server: ChildProcess) {
+  const deadline = Date.now() + 60_000;
+  for (;;) {
+    if (server.exitCode !== null) throw new Error(`The server exited (code ${server.exitCode}) before answering`);
+    try {
+      if ((await fetch(url)).ok) return;
+    } catch {
+      // not listening yet
+    }
+    if (Date.now() > deadline) throw new Error(`The server did not answer at ${url}`);
+    await sleep(250);
+  }
+}
+
+interface RunRow {
+  id: number;
+  status: RunStatus;
+}
+
+async function unfinishedRuns(session: Session, projectIds: number[]): Promise<RunRow[]> {
+  const lists = await Promise.all(projectIds.map((id) => session.call('GET', `/api/projects/${id}/runs`)));
+  return lists.flatMap((l) => (l.runs as RunRow[]).filter((r) => !FINISHED_STATUSES.includes(r.status)));
+}
+
+/**
+ * Keeps one run of revision 1 of project 1 (the 1024² twin-image demo) computing until `stop()`: starts one,
+ * waits until it runs, and starts the next whenever it finishes. `stop()` cancels the one still computing
+ * and tells how many were started and for what share of the time one was running.
+ */
+async function keepRunComputing(session: Session) {
+  const start = async () => (await session.call('POST', '/api/projects/1/revisions/1/runs')).run.id as number;
+  const detailOf = async (id: number) => (await session.call('GET', `/api/projects/1/runs/${id}`)).run as { status: RunStatus; durationMs: number | null; error: string | null };
+  const statusOf = async (id: number) => (await detailOf(id)).status;
+  const durations: number[] = [];
+  let current = await start();
+  let started = 1;
+  const deadline = Date.now() + 120_000;
+  while ((await statusOf(current)) !== 'running') {
+    if (Date.now() > deadline) throw new Error(`Run ${current} did not start within 2 minutes`);
+    await sleep(200);
+  }
+  let stopped = false;
+  let runningMs = 0;
+  // Rejects when a run fails; noticed at the latest by stop().
+  const watching = (async () => {
+    let last = Date.now();
+    while (!stopped) {
+      await sleep(500);
+      const { status, durationMs, error } = await detailOf(current);
+      const now = Date.now();
+      if (status === 'running') runningMs += now - last;
+      last = now;
+      if (FINISHED_STATUSES.includes(status) && !stopped && started < MAX_RUNS_PER_PHASE) {
+        if (status !== 'succeeded') throw new Error(`Run ${current} ended ${status}: ${error ?? ''}`);
+        if (durationMs !== null) durations.push(durationMs);
+        current = await start();
+        started += 1;
+      }
+    }
+  })();
+  let failure: unknown = null;
+  watching.catch((err: unknown) => {
+    failure = err;
+    stopped = true;
+  });
+  const since = Date.now();
+  return {
+    async stop() {
+      stopped = true;
+      await watching.catch(() => undefined);
+      if (failure) throw failure;
+      const status = await statusOf(current);
+      if (!FINISHED_STATUSES.includes(status)) await session.call('POST', `/api/projects/1/runs/${current}/cancel`);
+      return { started, runningShare: runningMs / (Date.now() - since), durations };
+    },
+  };
+}
+
+const MIXES: Record<string, { label: string; paths: string[] }> = {
+  runs: { label: 'GET /api/projects/1/runs', paths: ['/api/projects/1/runs'] },
+  mix: {
+    label: 'projects, runs, run 1, notifications',
+    paths: ['/api/projects', '/api/projects/1/runs', '/api/projects/1/runs/1', '/api/notifications'],
+  },
+};
+
+interface PhaseResult {
+  mix: string;
+  phase: string;
+  loadBefore: string;
+  loadAfter: string;
+  result: autocannon.Result;
+  /** CPU ms per answered request: the server's event-loop thread, and MariaDB. */
+  cpuPerRequest: { server: number; db: number };
+  runs?: { started: number; runningShare: number; durations: number[] };
+}
+
+async function drive(base: string, cookie: string, paths: string[]): Promise<autocannon.Result> {
+  return autocannon({
+    url: base,
+    connections: CONNECTIONS,
+    duration: DURATION_S,
+    headers: { cookie },
+    requests: paths.map((p) => ({ method: 'GET', path: p })),
+  });
+}
+
+function printRow(r: PhaseResult) {
+  const { result } = r;
+  const finished = r.runs?.durations.length ? `; finished in ${r.runs.durations.map((ms) => `${(ms / 1000).toFixed(1)} s`).join(', ')}` : '';
+  const runs = r.runs ? ` Runs started ${r.runs.started}, one computing ${Math.round(r.runs.runningShare * 100)}% of the time${finished}.` : '';
+  console.log(
+    [
+      `${MIXES[r.mix].label} | ${r.phase}`,
+      `  ${result.requests.average.toFixed(0)} req/s, p50 ${result.latency.p50} ms, p99 ${result.latency.p99} ms, max ${result.latency.max} ms`,
+      `  ${result.requests.total} requests; errors ${result.errors}, timeouts ${result.timeouts}, non-2xx ${result.non2xx}`,
+      `  CPU per request: server event loop ${r.cpuPerRequest.server.toFixed(2)} ms, MariaDB ${r.cpuPerRequest.db.toFixed(2)} ms`,
+      `  load average before ${r.loadBefore}, after ${r.loadAfter}.${runs}`,
+    ].join('\n'),
+  );
+}
+
+async function main() {
+  const dataDir = mkdtempSync(path.join(tmpdir(), 'pw-load-'));
+  cleanups.push(async () => rmSync(dataDir, { recursive: true, force: true }));
+  const [dbPort, smtpPort, mailWebPort, appPort] = [await freePort(), await freePort(), await freePort(), await freePort()];
+  const env = {
+    NODE_ENV: 'production',
+    HOST: '127.0.0.1',
+    PORT: String(appPort),
+    PUBLIC_URL: `http://127.0.0.1:${appPort}`,
+    DB_PORT: String(dbPort),
+    DB_NAME: 'phasewright_load',
+    DB_USER: 'phasewright_load',
+    DB_PASSWORD: 'phasewright-load-password',
+    SMTP_PORT: String(smtpPort),
+    BCRYPT_COST: '4',
+    LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn',
+    CLIENT_DIST: path.join(dataDir, 'no-client'),
+  };
+  const config = loadConfig({ ...process.env, ...env });
+
+  console.log(`Starting MariaDB on 127.0.0.1:${dbPort} and the mail fake (data in ${dataDir})`);
+  const db = await startMariaDb({ dataDir: path.join(dataDir, 'mariadb'), port: dbPort, user: config.DB_USER, password: config.DB_PASSWORD, databases: [config.DB_NAME] });
+  cleanups.push(() => db.stop());
+  const mail = await startMailFake(smtpPort, mailWebPort, ROOT);
+  cleanups.push(() => mail.stop());
+
+  const sequelize = createSequelize(config);
+  await migrateUp(sequelize);
+  await seedDemo(sequelize, config.BCRYPT_COST);
+  await sequelize.close();
+
+  serverLog = path.join(dataDir, 'server.log');
+  const logStream = createWriteStream(serverLog);
+  const profiling = CPU_PROFILE_DIR ? ['--cpu-prof', `--cpu-prof-dir=${path.resolve(CPU_PROFILE_DIR)}`] : [];
+  const server = spawn(process.execPath, [...profiling, '--import', 'tsx', 'server/index.ts'], {
+    cwd: ROOT,
+    env: { ...process.env, ...env },
+    stdio: ['ignore', 'pipe', 'pipe'],
+    detached: true,
+  });
+  server.stdout.pipe(logStream);
+  server.stderr.pipe(logStream);
+  cleanups.push(async () => {
+    if (server.exitCode === null && server.signalCode === null) {
+      const exited = new Promise((r) => server.once('exit', r));
+      server.kill('SIGTERM');
+      await Promise.race([exited, sleep(15_000)]);
+      if (server.exitCode === null && server.signalCode === null) server.kill('SIGKILL');
+    }
+  });
+  const base = config.publicUrl;
+  await waitForHealth(`${base}/api/health`, server);
+
+  const dbPid = Number(readFileSync(path.join(dataDir, 'mariadb', 'run', 'mariadbd.pid'), 'utf8'));
+  const owner = DEMO_PEOPLE.find((p) => p.key === 'tomas')!;
+  const session = new Session(base);
+  await session.signIn(owner.email, DEMO_PASSWORD);
+
+  console.log(`Server on ${base}; waiting for the seeded demo runs to finish`);
+  const waitUntil = Date.now() + 10 * 60_000;
+  while ((await unfinishedRuns(session, [1, 2])).length) {
+    if (Date.now() > waitUntil) throw new Error('The seeded demo runs did not finish within 10 minutes');
+    await sleep(1000);
+  }
+  const detail = await fetch(`${base}/api/projects/1/runs/1`, { headers: { cookie: session.cookie } });
+  console.log(`Run detail of run 1: ${(await detail.arrayBuffer()).byteLength} bytes`);
+  const settings = ['RUN_WORKERS', 'RUN_WORKER_NICE', 'SESSION_TOUCH_SECONDS', 'ACCESS_CACHE_SECONDS'] as const;
+  console.log(`Server settings: ${settings.map((key) => `${key}=${config[key] ?? '(default)'}`).join(', ')}; ${availableParallelism()} cores`);
+  console.log(`Driving ${CONNECTIONS} connections for ${DURATION_S} s per phase (autocannon)\n`);
+
+  const results: PhaseResult[] = [];
+  for (const mix of Object.keys(MIXES)) {
+    if (ONLY && ONLY !== mix) continue;
+    const phases = [...(WITH_IDLE ? ['no run'] : []), ...(WITH_BUSY ? ['while a run computes'] : [])];
+    for (const phase of phases) {
+      await sleep(2000);
+      const computing = phase === 'no run' ? null : await keepRunComputing(session);
+      const loadBefore = loadAverage();
+      const cpuBefore = { server: cpuMs(server.pid!, server.pid!), db: cpuMs(dbPid) };
+      const result = await drive(base, session.cookie, MIXES[mix].paths);
+      const answered = result['1xx'] + result['2xx'] + result['3xx'] + result['4xx'] + result['5xx'];
+      const cpuPerRequest = {
+        server: (cpuMs(server.pid!, server.pid!) - cpuBefore.server) / answered,
+        db: (cpuMs(dbPid) - cpuBefore.db) / answered,
+      };
+      const loadAfter = loadAverage();
+      const runs = computing ? await computing.stop() : undefined;
+      const row = { mix, phase, loadBefore, loadAfter, result, cpuPerRequest, runs };
+      results.push(row);
+      printRow(row);
+      // Let a cancelled run wind down before the next phase.
+      const settle = Date.now() + 60_000;
+      while ((await unfinishedRuns(session, [1])).length && Date.now() < settle) await sleep(500);
+    }
+  }
+
+  console.log('\n| requests | phase | req/s | p50 ms | p99 ms | errors | non-2xx | CPU ms/request server, MariaDB | load average (1, 5, 15 min) before → after |');
+  console.log('|---|---|---|---|---|---|---|---|---|');
+  for (const r of results) {
+    const { result } = r;
+    console.log(
+      `| ${MIXES[r.mix].label} | ${r.phase} | ${result.requests.average.toFixed(0)} | ${result.latency.p50} | ${result.latency.p99} | ` +
+        `${result.errors} | ${result.non2xx} | ${r.cpuPerRequest.server.toFixed(2)}, ${r.cpuPerRequest.db.toFixed(2)} | ${r.loadBefore} → ${r.loadAfter} |`,
+    );
+  }
+}
+
+main()
+  .then(() => cleanUp())
+  .then(() => process.exit(0))
+  .catch(async (err: unknown) => {
+    console.error(err instanceof Error ? err.stack : err);
+    printServerLogTail();
+    await cleanUp();
+    process.exit(1);
+  });

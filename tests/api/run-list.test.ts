@@ -1,0 +1,51 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { RunArtifactModel, RunEventModel, RunModel } from '../../server/components/runs/run.model';
+import { getRunSummary } from '../../server/components/runs/run.service';
+import { deflectorDesign, waitForRun } from '../support/designs';
+import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
+
+let t: TestApp;
+let designer: ApiClient;
+beforeAll(async () => {
+  t = await createTestApp();
+  designer = await signedInClient(t.app, await makeUser({ name: 'List Reader' }));
+});
+afterAll(async () => {
+  await t?.close();
+});
+
+describe('runs list and run detail', () => {
+  it('lists every run exactly as its own summary reads it: finished, queued, and started by nobody', async () => {
+    const projectId = (await designer.post('/api/projects', { name: 'Run list' })).body.project.id as number;
+    const revision = await designer.post(`/api/projects/${projectId}/revisions`, { design: deflectorDesign() });
+    expect(revision.status).toBe(201);
+    const number = revision.body.revision.number as number;
+    const finished = await waitForRun(designer, projectId, (await designer.post(`/api/projects/${projectId}/revisions/${number}/runs`)).body.run.id);
+    expect(finished.status, finished.error ?? '').toBe('succeeded');
+    expect(finished.headline.efficiencyA).not.toBeNull();
+    const revisionId = (await RunModel.findByPk(finished.id))!.revisionId;
+    // Rows the queue does not pick up in this process: one queued by nobody, one failed with a message.
+    await RunModel.create({ projectId, revisionId, startedById: null, queuedAt: new Date(), stage: 'queued' });
+    await RunModel.create({ projectId, revisionId, startedById: null, queuedAt: new Date(Date.now() - 60_000), status: 'failed', error: 'it broke', stage: 'simulation', progress: 0.5, attempts: 3 });
+
+    const listed = (await designer.get(`/api/projects/${projectId}/runs`)).body.runs as { id: number; startedBy: unknown }[];
+    expect(listed).toHaveLength(3);
+    for (const run of listed) {
+      expect(run).toEqual(JSON.parse(JSON.stringify(await getRunSummary(projectId, run.id))));
+    }
+    expect(listed.filter((r) => r.startedBy === null)).toHaveLength(2);
+  });
+
+  it("gives a run's events and files in the detail as their rows hold them", async () => {
+    const projectId = (await designer.post('/api/projects', { name: 'Run detail' })).body.project.id as number;
+    const number = (await designer.post(`/api/projects/${projectId}/revisions`, { design: deflectorDesign() })).body.revision.number as number;
+    const run = await waitForRun(designer, projectId, (await designer.post(`/api/projects/${projectId}/revisions/${number}/runs`)).body.run.id);
+    expect(run.status, run.error ?? '').toBe('succeeded');
+    const files = await RunArtifactModel.findAll({ where: { runId: run.id }, order: [['id', 'ASC']] });
+    expect(files.length).toBeGreaterThan(10);
+    expect(run.artifacts).toEqual(files.map((a) => ({ name: a.name, mime: a.mime, size: a.size, label: a.label })));
+    expect(run.artifacts.every((a) => typeof a.size === 'number' && a.size > 0)).toBe(true);
+    const events = await RunEventModel.findAll({ where: { runId: run.id }, order: [['at', 'ASC'], ['id', 'ASC']] });
+    expect(run.events).toEqual(events.map((e) => ({ at: e.at.toISOString(), status: e.status, stage: e.stage, message: e.message })));
+  });
+});

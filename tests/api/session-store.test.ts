@@ -1,0 +1,73 @@
+import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
+import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
+
+let t: TestApp;
+beforeAll(async () => {
+  t = await createTestApp({ SESSION_TOUCH_SECONDS: '60' });
+});
+afterAll(async () => {
+  await t?.close();
+});
+afterEach(() => {
+  vi.useRealTimers();
+});
+
+const DAY_MS = 24 * 60 * 60 * 1000;
+
+async function sessionOf(userId: number): Promise<{ sid: string; expires: Date }> {
+  const [rows] = await t.ctx.sequelize.query('SELECT sid, expires, data FROM sessions');
+  const row = (rows as { sid: string; expires: Date; data: string }[]).find((r) => JSON.parse(r.data).passport?.user === userId);
+  if (!row) throw new Error(`no session of user ${userId}`);
+  return { sid: row.sid, expires: new Date(row.expires) };
+}
+
+async function setExpiry(sid: string, expires: Date) {
+  await t.ctx.sequelize.query('UPDATE sessions SET expires = ? WHERE sid = ?', { replacements: [expires, sid] });
+}
+
+async function signedInUser(): Promise<{ id: number; client: ApiClient }> {
+  const user = await makeUser();
+  return { id: user.id, client: await signedInClient(t.app, user) };
+}
+
+describe('session store', () => {
+  it('writes the sliding expiry at most once per SESSION_TOUCH_SECONDS, then on the next request after it', async () => {
+    const { id, client } = await signedInUser();
+    const { sid } = await sessionOf(id);
+    // A stored expiry far from what a touch would write (now + 14 days), so any write shows.
+    const marker = new Date(Math.floor(Date.now() / 1000) * 1000 + DAY_MS);
+    await setExpiry(sid, marker);
+    for (let i = 0; i < 3; i++) expect((await client.get('/api/projects')).status).toBe(200);
+    expect((await sessionOf(id)).expires.getTime()).toBe(marker.getTime());
+
+    vi.useFakeTimers({ toFake: ['Date'], now: Date.now() + 61_000 });
+    expect((await client.get('/api/projects')).status).toBe(200);
+    const extended = (await sessionOf(id)).expires.getTime();
+    expect(extended).toBeGreaterThan(Date.now() + 13 * DAY_MS);
+    // And again not before the next interval has passed.
+    await setExpiry(sid, marker);
+    expect((await client.get('/api/projects')).status).toBe(200);
+    expect((await sessionOf(id)).expires.getTime()).toBe(marker.getTime());
+  });
+
+  it('refuses a session whose stored expiry has passed at once, without waiting for the sweep of expired rows', async () => {
+    const { id, client } = await signedInUser();
+    expect((await client.get('/api/auth/me')).body.user.id).toBe(id);
+    const { sid } = await sessionOf(id);
+    await setExpiry(sid, new Date(Date.now() - 1000));
+    expect((await client.get('/api/auth/me')).body.user).toBeNull();
+    expect((await client.get('/api/projects')).status).toBe(401);
+  });
+
+  it('forgets a session at sign-out, so signing in again writes the new one', async () => {
+    const user = await makeUser();
+    const client = await signedInClient(t.app, user);
+    const out = await client.post('/api/auth/sign-out');
+    expect(out.status).toBe(200);
+    client.csrfToken = out.body.csrfToken;
+    expect((await client.get('/api/projects')).status).toBe(401);
+    await client.signIn(user.email, user.password);
+    expect((await client.get('/api/projects')).status).toBe(200);
+    expect((await sessionOf(user.id)).expires.getTime()).toBeGreaterThan(Date.now() + 13 * DAY_MS);
+  });
+});
