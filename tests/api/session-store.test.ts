@@ -16,7 +16,8 @@ const DAY_MS = 24 * 60 * 60 * 1000;
 
 async function sessionOf(userId: number): Promise<{ sid: string; expires: Date }> {
   const [rows] = await t.ctx.sequelize.query('SELECT sid, expires, data FROM sessions');
-  const row = (rows as { sid: string; expires: Date; data: string }[]).find((r) => JSON.parse(r.data).passport?.user === userId);
+  // The session keeps { id, at }: the account and when it signed in.
+  const row = (rows as { sid: string; expires: Date; data: string }[]).find((r) => JSON.parse(r.data).passport?.user?.id === userId);
   if (!row) throw new Error(`no session of user ${userId}`);
   return { sid: row.sid, expires: new Date(row.expires) };
 }
