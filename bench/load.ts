@@ -21,7 +21,7 @@
  * Target (issue 10): p99 under 100 ms and no errors at 50 connections while a run computes.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { createWriteStream, existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { chmodSync, createWriteStream, existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { availableParallelism, tmpdir } from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -91,11 +91,15 @@ for (const event of ['uncaughtException', 'unhandledRejection'] as const) {
   });
 }
 
-/** A signed-in session of the real server: its cookie and CSRF token. */
+/** A signed-in session of the real server: its cookies (session, and the anonymous CSRF cookie) and CSRF token. */
 class Session {
-  cookie = '';
+  readonly cookies = new Map<string, string>();
   csrfToken = '';
   constructor(readonly base: string) {}
+
+  get cookie(): string {
+    return [...this.cookies].map(([name, value]) => `${name}=${value}`).join('; ');
+  }
 
   async call(method: string, url: string, body?: object) {
     const res = await fetch(this.base + url, {
@@ -103,8 +107,11 @@ class Session {
       headers: { cookie: this.cookie, 'content-type': 'application/json', 'x-csrf-token': this.csrfToken },
       body: body ? JSON.stringify(body) : undefined,
     });
-    const setCookie = res.headers.getSetCookie().find((c) => c.startsWith('pw.sid='));
-    if (setCookie) this.cookie = setCookie.split(';')[0];
+    for (const setCookie of res.headers.getSetCookie()) {
+      const [pair] = setCookie.split(';');
+      const at = pair.indexOf('=');
+      this.cookies.set(pair.slice(0, at), pair.slice(at + 1));
+    }
     const json = (await res.json()) as Record<string, any>;
     if (!res.ok) throw new Error(`${method} ${url}: ${res.status} ${JSON.stringify(json)}`);
     if (typeof json.csrfToken === 'string') this.csrfToken = json.csrfToken;
@@ -241,6 +248,8 @@ function printRow(r: PhaseResult) {
 
 async function main() {
   const dataDir = mkdtempSync(path.join(tmpdir(), 'pw-load-'));
+  // Reachable by the database's own system user (the data folder inside is closed to others by the start code).
+  chmodSync(dataDir, 0o755);
   cleanups.push(async () => rmSync(dataDir, { recursive: true, force: true }));
   const [dbPort, smtpPort, mailWebPort, appPort] = [await freePort(), await freePort(), await freePort(), await freePort()];
   const env = {
