@@ -3,14 +3,14 @@
  * a run killed mid-way (SIGKILL, no chance to clean up) is picked up by the next start and finishes on its
  * second attempt; a graceful stop (SIGTERM) exits promptly and leaves its running run for the next start.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { freePort } from '../../scripts/lib/free-port';
 import { RunModel } from '../../server/components/runs/run.model';
 import { loadConfig } from '../../server/config';
 import { createSequelize, migrateUp } from '../../server/db/database';
 import { twinImageDesign, waitForRun } from '../support/designs';
 import { ApiClient, createTestDatabase, makeUser, signedInClient } from '../support/test-app';
+import { startWatchedServer } from '../support/watched-server';
 
 let env: Record<string, string>;
 let sequelize: ReturnType<typeof createSequelize>;
@@ -18,26 +18,9 @@ let server: ChildProcess | null = null;
 let url = '';
 
 async function startServer(): Promise<ChildProcess> {
-  const port = await freePort();
-  url = `http://127.0.0.1:${port}`;
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/index.ts'], {
-    env: { ...process.env, ...env, PORT: String(port), HOST: '127.0.0.1', PUBLIC_URL: url, LOG_LEVEL: 'warn' },
-    stdio: ['ignore', 'pipe', 'pipe'],
-  });
-  let output = '';
-  child.stdout!.on('data', (d: Buffer) => (output += d.toString()));
-  child.stderr!.on('data', (d: Buffer) => (output += d.toString()));
-  const deadline = Date.now() + 30_000;
-  for (;;) {
-    if (child.exitCode !== null) throw new Error(`the server exited (${child.exitCode}):\n${output}`);
-    try {
-      if ((await fetch(`${url}/api/health`)).ok) return child;
-    } catch {
-      // not listening yet
-    }
-    if (Date.now() > deadline) throw new Error(`the server did not answer within 30 s:\n${output}`);
-    await new Promise((r) => setTimeout(r, 100));
-  }
+  const started = await startWatchedServer(env);
+  url = started.url;
+  return started.child;
 }
 
 function exited(child: ChildProcess): Promise<number | null> {
