@@ -36,7 +36,7 @@ function AuditPage() {
   const events = useAuditEvents(filters);
   const people = useUsers();
   const apply = (next: Partial<AuditFilters>) => setSearchParams(auditFiltersToSearch({ ...filters, ...next }), { replace: true });
-  const filtered = filters.userId !== null || filters.kind !== null;
+  const narrowed = filters.userId !== null || filters.kind !== null || filters.page > 1;
 
   return (
     <>
@@ -63,16 +63,16 @@ function AuditPage() {
           </>
         ) : (
           <EmptyState
-            title={filtered || filters.page > 1 ? 'Nothing matches' : 'No security events yet'}
+            title={narrowed ? 'Nothing matches' : 'No security events yet'}
             action={
-              filtered || filters.page > 1 ? (
+              narrowed ? (
                 <Button variant="secondary" onClick={() => apply({ userId: null, kind: null, page: 1 })}>
                   Show every event
                 </Button>
               ) : null
             }
           >
-            {filtered || filters.page > 1
+            {narrowed
               ? 'No event of this kind or for this person on this page. Clear the filters to see the whole log.'
               : 'Events appear here as people sign in, change passwords, manage tokens, roles and invitations.'}
           </EmptyState>
