@@ -25,6 +25,7 @@ import {
   VERBATIM_TEXTS,
   zeroZlib,
 } from '../support/hostile-corpus';
+import { uploadAtomLibrary } from '../support/atom-libraries';
 import { deflectorDesign, waitForRun } from '../support/designs';
 import { ApiClient, createTestDatabase, makeUser, signedInClient } from '../support/test-app';
 import { healthy, observe, startWatchedServer, type Observation, type WatchedServer } from '../support/watched-server';
@@ -86,11 +87,7 @@ function upload(kind: 'image' | 'phase-map', bytes: Buffer, filename: string, pr
 }
 
 function library(bytes: Buffer, fields: Record<string, string> = {}, project = projectId): () => Promise<Answer> {
-  return async () => {
-    const req = client.agent.post(`/api/projects/${project}/atom-libraries`).set('x-csrf-token', client.csrfToken).field('scope', 'project');
-    for (const [k, v] of Object.entries(fields)) req.field(k, v);
-    return req.attach('file', bytes, { filename: 'library.csv', contentType: 'text/csv' }).then((r) => ({ status: r.status, body: r.body }));
-  };
+  return async () => uploadAtomLibrary(client, project, bytes, fields).then((r) => ({ status: r.status, body: r.body }));
 }
 
 function json(method: 'post' | 'patch', url: string, body: object): () => Promise<Answer> {
