@@ -40,7 +40,7 @@ export interface InputPool {
 }
 
 /** The limits of uploads and library files, from the configuration. */
-export function inputLimits(config: AppConfig): { upload: UploadLimits; csv: CsvUploadLimits } {
+function inputLimits(config: AppConfig): { upload: UploadLimits; csv: CsvUploadLimits } {
   return {
     upload: {
       maxSide: config.UPLOAD_MAX_SIDE,
