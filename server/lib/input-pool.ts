@@ -15,16 +15,10 @@ import type { UploadLimits } from '../components/uploads/upload-inspect';
 import type { AppConfig } from '../config';
 import { AppError } from './app-error';
 import type { InputResult, InputTask } from './input-task';
+import { workerExecArgv, workerFile } from './worker-pool';
 
 const MIB = 1024 * 1024;
-const WORKER_FILE = new URL(`./input-worker${import.meta.url.endsWith('.ts') ? '.ts' : '.js'}`, import.meta.url);
-
-/** A TypeScript worker needs the tsx loader in its thread (the compiled .js worker does not). */
-function execArgv(): string[] {
-  const argv = process.execArgv;
-  if (!WORKER_FILE.pathname.endsWith('.ts') || argv.some((arg, i) => (arg === '--import' || arg === '--loader') && /tsx/.test(argv[i + 1] ?? ''))) return argv;
-  return [...argv, '--import', 'tsx'];
-}
+const WORKER_FILE = workerFile('input-worker', import.meta.url);
 
 export interface InputPoolState {
   threads: number;
@@ -46,7 +40,7 @@ export interface InputPool {
 }
 
 /** The limits of uploads and library files, from the configuration. */
-export function inputLimits(config: AppConfig): { upload: UploadLimits; csv: CsvUploadLimits } {
+function inputLimits(config: AppConfig): { upload: UploadLimits; csv: CsvUploadLimits } {
   return {
     upload: {
       maxSide: config.UPLOAD_MAX_SIDE,
@@ -74,7 +68,7 @@ export function createInputPool(config: AppConfig): InputPool {
     maxThreads,
     maxQueue: config.UPLOAD_DECODE_QUEUE,
     idleTimeout: 60_000,
-    execArgv: execArgv(),
+    execArgv: workerExecArgv(WORKER_FILE),
     resourceLimits: { maxOldGenerationSizeMb: config.UPLOAD_DECODE_HEAP_MIB, maxYoungGenerationSizeMb: 16 },
   });
   let running = 0;

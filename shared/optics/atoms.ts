@@ -646,6 +646,7 @@ const NUMBER_COLUMNS = [
 
 /** The MetaAtom fields of NUMBER_COLUMNS, in the same order. */
 const NUMBER_FIELDS = ['width', 'length', 'height', 'period', 'tx', 'alphaX', 'ty', 'alphaY'] as const;
+type NumberField = (typeof NUMBER_FIELDS)[number];
 
 /** Limits of reading a library CSV, checked while reading: the first excess stops the reader. */
 export interface CsvLimits {
@@ -830,8 +831,6 @@ export function parseAtomLibraryCsv(
     add({ severity: 'error', row: 0, field: 'header', column: missing.join(', '), message: `missing columns: ${missing.join(', ')}` });
     return done();
   }
-  /** The numeric cells that had a CSV problem (row-major, NUMBER_COLUMNS order): the validator does not report them again. */
-  const reported = new Uint8Array(rows.length * NUMBER_COLUMNS.length);
   const at = NUMBER_COLUMNS.map(([column]) => columnIndex.get(column)!);
   const idAt = columnIndex.get('atom_id')!;
   const shapeAt = columnIndex.get('shape');
@@ -846,7 +845,6 @@ export function parseAtomLibraryCsv(
       const v = rawValue === undefined || rawValue === '' ? NaN : Number(rawValue);
       values[c] = v * scale;
       if (Number.isFinite(v)) continue;
-      reported[index * NUMBER_COLUMNS.length + c] = 1;
       if (keep('error')) {
         issues.push({ severity: 'error', row, atomId: id, field: column, line, column, message: `line ${line}, atom ${id || '?'}: ${column} is not a number (${rawValue ?? 'missing'})` });
       }
@@ -859,10 +857,8 @@ export function parseAtomLibraryCsv(
   const checked = checkAtomLibrary(library, {
     ...options,
     maxIssues: Math.max(0, limits.maxIssues - issues.length),
-    skip: (row, field) => {
-      const c = NUMBER_FIELDS.indexOf(field as (typeof NUMBER_FIELDS)[number]);
-      return c >= 0 && reported[(row - 1) * NUMBER_COLUMNS.length + c] === 1;
-    },
+    // A numeric cell is not finite exactly when it was reported above as not a number: the validator does not report it again.
+    skip: (row, field) => NUMBER_FIELDS.includes(field as NumberField) && !Number.isFinite(library.atoms[row - 1][field as NumberField]),
   });
   issueCount += checked.count;
   errorCount += checked.errorCount;

@@ -9,7 +9,7 @@ import { inflateSync } from 'node:zlib';
 import { decodeNpy } from '../../../shared/optics/npy-decode';
 import type { UploadKind } from '../../../shared/schemas/uploads';
 import { AppError } from '../../lib/app-error';
-import { broken, inspectUpload, JPEG_MEMORY_FACTOR, pngPasses, pngStructure, type InspectedUpload, type UploadLimits } from './upload-inspect';
+import { broken, inspectUploadStructure, JPEG_MEMORY_FACTOR, pngPasses, type InspectedUpload, type PngStructure, type UploadLimits } from './upload-inspect';
 
 const MIB = 1024 * 1024;
 
@@ -19,8 +19,7 @@ const MIB = 1024 * 1024;
  * scanline's filter type checked (0…4, PNG spec §9.2) in every pass. Undoing the filters cannot fail, so a PNG
  * that passes decodes; nothing larger than the inflated data is ever allocated.
  */
-function decodePng(bytes: Buffer, limits: UploadLimits): void {
-  const png = pngStructure(bytes, limits);
+function decodePng(png: PngStructure): void {
   let inflated: Buffer;
   try {
     inflated = inflateSync(Buffer.concat(png.idat), { maxOutputLength: png.rawBytes });
@@ -44,10 +43,10 @@ function decodePng(bytes: Buffer, limits: UploadLimits): void {
   }
 }
 
-async function decodePicture(bytes: Buffer, inspected: InspectedUpload, limits: UploadLimits): Promise<{ width: number; height: number }> {
-  if (inspected.mime === 'image/png') {
-    decodePng(bytes, limits);
-    return inspected;
+async function decodePicture(bytes: Buffer, png: PngStructure | null, limits: UploadLimits): Promise<{ width: number; height: number }> {
+  if (png) {
+    decodePng(png);
+    return png;
   }
   const { Jimp } = await import('jimp');
   const picture = await Jimp.fromBuffer(bytes, {
@@ -66,7 +65,7 @@ export interface CheckedUpload extends InspectedUpload {
  * problem. Example: checkUpload(a 64×32 PNG, 'image', limits) → { mime: 'image/png', width: 64, height: 32, sha256: '…' }.
  */
 export async function checkUpload(bytes: Buffer, kind: UploadKind, limits: UploadLimits): Promise<CheckedUpload> {
-  const inspected = inspectUpload(bytes, kind, limits);
+  const { png, ...inspected } = inspectUploadStructure(bytes, kind, limits);
   try {
     if (inspected.mime === 'application/x-npy') {
       const decoded = decodeNpy(new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength), { maxHeaderBytes: limits.npyMaxHeaderBytes });
@@ -75,7 +74,7 @@ export async function checkUpload(bytes: Buffer, kind: UploadKind, limits: Uploa
       }
       return { ...inspected, sha256: sha256(bytes) };
     }
-    const picture = await decodePicture(bytes, inspected, limits);
+    const picture = await decodePicture(bytes, png, limits);
     if (picture.width !== inspected.width || picture.height !== inspected.height) throw new Error('decoded size differs from the header');
   } catch (error) {
     if (error instanceof AppError) throw error;

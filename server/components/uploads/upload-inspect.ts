@@ -280,6 +280,12 @@ function checkSide(width: number, height: number, limits: UploadLimits) {
  * accepts). Example: a 64×32 PNG uploaded as 'image' → { mime: 'image/png', width: 64, height: 32 }.
  */
 export function inspectUpload(bytes: Buffer, kind: UploadKind, limits: UploadLimits): InspectedUpload {
+  const { mime, width, height } = inspectUploadStructure(bytes, kind, limits);
+  return { mime, width, height };
+}
+
+/** inspectUpload, with the chunk structure of a PNG (null for other types) so that its decode does not walk the chunks again. */
+export function inspectUploadStructure(bytes: Buffer, kind: UploadKind, limits: UploadLimits): InspectedUpload & { png: PngStructure | null } {
   if (bytes.length === 0) throw new AppError(400, 'The file is empty', { file: 'empty' });
   const mime = sniff(bytes);
   const accepted = ACCEPTED[kind];
@@ -287,7 +293,8 @@ export function inspectUpload(bytes: Buffer, kind: UploadKind, limits: UploadLim
     const found = mime ? `a ${mime === 'application/x-npy' ? 'NumPy .npy file' : mime.slice(6).toUpperCase() + ' picture'}` : 'of a type we do not read';
     throw new AppError(415, `This file is ${found}; ${kind === 'image' ? 'an image' : 'a phase map'} must be ${accepted.text}`, { file: `must be ${accepted.text}` });
   }
-  const size = mime === 'image/png' ? pngStructure(bytes, limits) : mime === 'image/jpeg' ? jpegSize(bytes, limits) : npySize(bytes, limits);
+  const png = mime === 'image/png' ? pngStructure(bytes, limits) : null;
+  const size = png ?? (mime === 'image/jpeg' ? jpegSize(bytes, limits) : npySize(bytes, limits));
   checkSide(size.width, size.height, limits);
-  return { mime, width: size.width, height: size.height };
+  return { mime, width: size.width, height: size.height, png };
 }
