@@ -20,7 +20,7 @@
  * The server's environment passes through (e.g. `RUN_WORKERS=1 npm run bench:load`).
  * Target (issue 10): p99 under 100 ms and no errors at 50 connections while a run computes.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { chmodSync, createWriteStream, existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { availableParallelism, tmpdir } from 'node:os';
 import path from 'node:path';
@@ -32,6 +32,7 @@ import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemo } from '../server/db/seed-demo';
 import { freePort } from '../scripts/lib/free-port';
 import { startMailFake } from '../scripts/lib/mail-fake';
 import { startMariaDb } from '../scripts/lib/mariadb';
+import { waitForHealth } from '../scripts/lib/wait-for-health';
 import { FINISHED_STATUSES, type RunStatus } from '../shared/schemas/runs';
 
 const ROOT = fileURLToPath(new URL('../', import.meta.url));
@@ -121,20 +122,6 @@ class Session {
   async signIn(email: string, password: string) {
     await this.call('GET', '/api/auth/csrf');
     await this.call('POST', '/api/auth/sign-in', { email, password });
-  }
-}
-
-async function waitForHealth(url: string, server: ChildProcess) {
-  const deadline = Date.now() + 60_000;
-  for (;;) {
-    if (server.exitCode !== null) throw new Error(`The server exited (code ${server.exitCode}) before answering`);
-    try {
-      if ((await fetch(url)).ok) return;
-    } catch {
-      // not listening yet
-    }
-    if (Date.now() > deadline) throw new Error(`The server did not answer at ${url}`);
-    await sleep(250);
   }
 }
 

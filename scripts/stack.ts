@@ -10,6 +10,7 @@ import { createSequelize, migrateUp } from '../server/db/database';
 import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemo } from '../server/db/seed-demo';
 import { startMailFake } from './lib/mail-fake';
 import { startMariaDb } from './lib/mariadb';
+import { waitForHealth } from './lib/wait-for-health';
 
 const dev = process.argv.includes('--dev');
 const say = (line: string) => console.log(`› ${line}`);
@@ -102,19 +103,6 @@ async function main() {
       '',
     ].join('\n'),
   );
-}
-
-async function waitForHealth(url: string) {
-  const deadline = Date.now() + 60_000;
-  for (;;) {
-    try {
-      if ((await fetch(url)).ok) return;
-    } catch {
-      // not up yet
-    }
-    if (Date.now() > deadline) throw new Error(`The server did not answer at ${url}`);
-    await new Promise((r) => setTimeout(r, 250));
-  }
 }
 
 main().catch((err) => {

@@ -12,6 +12,7 @@ import { atomLibraryRoutes } from './components/atom-libraries/atom-library.rout
 import { configureAccessCaches } from './components/auth/access-cache';
 import { authRoutes } from './components/auth/auth.routes';
 import { csrfState } from './components/auth/csrf-state';
+import { currentPasswordLimiter } from './components/auth/current-password-limit';
 import { createPassport } from './components/auth/passport';
 import { createSessionStore } from './components/auth/session-store';
 import { fabRoutes } from './components/fab/fab.routes';
@@ -102,8 +103,10 @@ export function createApp(ctx: AppContext) {
     res.json(openApiDocument(config.publicUrl));
   });
   api.use('/shared', sharedRoutes());
-  api.use('/access-tokens', accessTokenRoutes(config));
-  api.use('/auth', authRoutes(ctx, passport as never, generateToken));
+  // One count of wrong current passwords, whichever route checked.
+  const passwordChecks = currentPasswordLimiter(config);
+  api.use('/access-tokens', accessTokenRoutes(passwordChecks));
+  api.use('/auth', authRoutes(ctx, passport as never, generateToken, passwordChecks));
   api.use('/projects/:projectId/revisions', revisionRoutes());
   api.use('/projects/:projectId/uploads', uploadRoutes(ctx, inputs));
   api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes(config, inputs));

@@ -174,7 +174,7 @@ export async function backupDatabase(config: BackupConfig, file: string, say: (l
  * Reads the whole backup once before anything is restored: gzip intact (its checksum is checked at the end),
  * a MariaDB dump of a Phasewright database, and complete (ends with mariadb-dump's completion line).
  */
-export async function checkBackupFile(file: string): Promise<void> {
+async function checkBackupFile(file: string): Promise<void> {
   const info = await stat(file).catch(() => null);
   if (!info?.isFile()) throw new BackupError(`${file} does not exist or is not a file`);
   const handle = await open(file, 'r');

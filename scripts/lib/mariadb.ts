@@ -27,7 +27,7 @@ export interface MariaDbOptions {
 }
 
 /** The system account mariadbd runs as when started by root (created on first use). */
-export const MARIADB_SYSTEM_USER = 'phasewright-db';
+const MARIADB_SYSTEM_USER = 'phasewright-db';
 
 export interface RunningMariaDb {
   port: number;

@@ -1,17 +1,17 @@
-import { Router } from 'express';
-import type { AppConfig } from '../../config';
+import { Router, type RequestHandler } from 'express';
 import { createAccessTokenSchema } from '../../../shared/schemas/access';
 import { parseId, parseInput } from '../../lib/validate';
 import { currentUser } from '../auth/auth.middleware';
-import { currentPasswordLimiter } from '../auth/current-password-limit';
 import { createAccessToken, listAccessTokens, revokeAccessToken } from './access-token.service';
 import { requireSession } from './bearer-auth';
 
-/** The signed-in user's personal access tokens, under `/api/access-tokens`. */
-export function accessTokenRoutes(config: AppConfig) {
+/**
+ * The signed-in user's personal access tokens, under `/api/access-tokens`; `passwordChecks` limits wrong current
+ * passwords (shared with the password change).
+ */
+export function accessTokenRoutes(passwordChecks: RequestHandler) {
   const router = Router();
   router.use(requireSession);
-  const passwordChecks = currentPasswordLimiter(config);
 
   router.get('/', async (req, res) => {
     res.json({ accessTokens: await listAccessTokens(currentUser(req).id) });

@@ -16,7 +16,7 @@ export interface AuditScope {
 export const auditScope = new AsyncLocalStorage<AuditScope>();
 
 /** `::ffff:127.0.0.1` → `127.0.0.1`; other addresses as they are. */
-export function clientAddress(ip: string | undefined): string | null {
+function clientAddress(ip: string | undefined): string | null {
   if (!ip) return null;
   return ip.startsWith('::ffff:') && ip.includes('.') ? ip.slice(7) : ip;
 }

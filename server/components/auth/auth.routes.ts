@@ -1,4 +1,4 @@
-import { Router, type Request } from 'express';
+import { Router, type Request, type RequestHandler } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import type { PassportStatic } from 'passport';
 import {
@@ -19,7 +19,6 @@ import type { UserModel } from '../users/user.model';
 import { currentUser, requireUser } from './auth.middleware';
 import { acceptInvitation, requestPasswordReset, resetPassword, signUp } from './auth.service';
 import { changePassword } from './credentials.service';
-import { currentPasswordLimiter } from './current-password-limit';
 
 type CsrfTokenFn = (req: Request, overwrite?: boolean) => string;
 
@@ -41,7 +40,8 @@ function tooMany(message: string) {
   };
 }
 
-export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken: CsrfTokenFn) {
+/** `passwordChecks` limits wrong current passwords (shared with access-token creation). */
+export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken: CsrfTokenFn, passwordChecks: RequestHandler) {
   const router = Router();
   const windowMs = ctx.config.SIGNIN_WINDOW_MINUTES * 60_000;
   const signInLimiter = rateLimit({
@@ -133,7 +133,7 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken:
     res.json(await signedIn(req, user));
   });
 
-  router.post('/password', requireUser, currentPasswordLimiter(ctx.config), async (req, res) => {
+  router.post('/password', requireUser, passwordChecks, async (req, res) => {
     const { currentPassword, newPassword } = parseInput(changePasswordSchema, req.body);
     const user = currentUser(req);
     const { revokedTokens } = await changePassword(user, currentPassword, newPassword, ctx.config.BCRYPT_COST);

@@ -1,26 +1,14 @@
-import type { Request } from 'express';
+import type { Request, RequestHandler } from 'express';
 import { ipKeyGenerator, rateLimit } from 'express-rate-limit';
 import type { AppConfig } from '../../config';
 import { AppError } from '../../lib/app-error';
 
-type LimitConfig = Pick<AppConfig, 'SIGNIN_LIMIT' | 'SIGNIN_WINDOW_MINUTES'>;
-const limiters = new WeakMap<LimitConfig, ReturnType<typeof rateLimit>>();
-
 /**
  * Wrong current passwords (password change, access-token creation) per account, SIGNIN_LIMIT per
  * SIGNIN_WINDOW_MINUTES like sign-in: someone at an unattended signed-in browser must not be able to guess
- * the password there. One count per app (its config), whichever route checked.
+ * the password there. The app builds one and hands it to every route that checks, so they share one count.
  */
-export function currentPasswordLimiter(config: LimitConfig) {
-  let limiter = limiters.get(config);
-  if (!limiter) {
-    limiter = createLimiter(config);
-    limiters.set(config, limiter);
-  }
-  return limiter;
-}
-
-function createLimiter(config: LimitConfig) {
+export function currentPasswordLimiter(config: Pick<AppConfig, 'SIGNIN_LIMIT' | 'SIGNIN_WINDOW_MINUTES'>): RequestHandler {
   return rateLimit({
     windowMs: config.SIGNIN_WINDOW_MINUTES * 60_000,
     limit: config.SIGNIN_LIMIT,

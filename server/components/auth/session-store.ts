@@ -5,7 +5,7 @@ import { SessionModel } from './session.model';
 
 const SequelizeStore = connectSessionSequelize(session.Store);
 
-/** Sessions whose last expiry write is remembered; older entries are dropped past this many. */
+/** Sessions whose last expiry write is remembered; past this many, the oldest entries are dropped. */
 const REMEMBERED_WRITES = 10_000;
 
 /**
@@ -19,11 +19,16 @@ const REMEMBERED_WRITES = 10_000;
  */
 export function createSessionStore(sequelize: Sequelize, touchIntervalMs: number) {
   const store = new SequelizeStore({ db: sequelize, table: 'Session', checkExpirationInterval: 15 * 60_000 });
+  // Kept in write order (oldest first), so trimming stops at the first entry it must keep.
   const writtenAt = new Map<string, number>();
   const remember = (sid: string, now: number) => {
+    writtenAt.delete(sid);
     writtenAt.set(sid, now);
     if (writtenAt.size <= REMEMBERED_WRITES) return;
-    for (const [key, at] of writtenAt) if (now - at >= touchIntervalMs) writtenAt.delete(key);
+    for (const [key, at] of writtenAt) {
+      if (writtenAt.size <= REMEMBERED_WRITES && now - at < touchIntervalMs) break;
+      writtenAt.delete(key);
+    }
   };
 
   store.get = (sid, callback) => {

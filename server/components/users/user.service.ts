@@ -67,7 +67,7 @@ export async function findActiveUser(id: number): Promise<UserModel | null> {
 }
 
 /** `findActiveUser` for a session's user, through the access cache: a fresh instance for every request. */
-export async function findSignedInUser(id: number): Promise<UserModel | null> {
+async function findSignedInUser(id: number): Promise<UserModel | null> {
   const plain = await signedInUsers.get(String(id), async () => (await findActiveUser(id))?.get({ plain: true }) ?? null);
   return plain && UserModel.build(plain, { isNewRecord: false, raw: true });
 }
