@@ -41,10 +41,23 @@ export async function recordAudit(kind: AuditKind, facts: AuditFacts = {}): Prom
   }
 }
 
+/**
+ * The id of the account an e-mail belongs to, or null — also when the database cannot be asked (logged): like
+ * storing the event, naming its subject never fails the request that caused it.
+ */
+async function accountIdOf(email: string): Promise<number | null> {
+  if (!email) return null;
+  try {
+    return (await UserModel.findOne({ where: { email }, attributes: ['id'] }))?.id ?? null;
+  } catch (err) {
+    (auditScope.getStore()?.logger ?? (fallbackLogger ??= pino())).error({ err }, 'account of a security event could not be looked up');
+    return null;
+  }
+}
+
 /** A refused sign-in: the account the e-mail belongs to, if any, is the subject. */
 export async function recordSignInFailure(email: string): Promise<void> {
-  const account = await UserModel.findOne({ where: { email }, attributes: ['id'] });
-  await recordAudit('sign-in-failed', { actorId: null, subjectUserId: account?.id ?? null, detail: { email: email.slice(0, 254) } });
+  await recordAudit('sign-in-failed', { actorId: null, subjectUserId: await accountIdOf(email), detail: { email: email.slice(0, 254) } });
 }
 
 /**
@@ -53,8 +66,7 @@ export async function recordSignInFailure(email: string): Promise<void> {
  */
 export async function recordLockout(limiter: string, email: string, usage: { used: number; limit: number } | undefined): Promise<void> {
   if (!usage || usage.used !== usage.limit + 1) return;
-  const account = email ? await UserModel.findOne({ where: { email }, attributes: ['id'] }) : null;
-  await recordAudit('lockout', { subjectUserId: account?.id ?? null, detail: { limiter, email: email.slice(0, 254), limit: usage.limit } });
+  await recordAudit('lockout', { subjectUserId: await accountIdOf(email), detail: { limiter, email: email.slice(0, 254), limit: usage.limit } });
 }
 
 /** A site admin changed an account: one event for a new site role, one for disabling or enabling it. */
