@@ -37,12 +37,6 @@ export async function readArtifact(runId: number, name: string): Promise<Buffer 
   return Buffer.concat(parts);
 }
 
-async function requiredArtifact(run: RunModel, name: string): Promise<Buffer> {
-  const bytes = await readArtifact(run.id, name);
-  if (!bytes) throw new AppError(409, `Run ${run.id} has no ${name}; start the run again to produce it`);
-  return bytes;
-}
-
 export function requireSucceeded(run: RunModel): void {
   if (run.status !== 'succeeded') {
     throw new AppError(409, `Run ${run.id} is ${run.status}; only a run that succeeded has a layout to show or export`);
