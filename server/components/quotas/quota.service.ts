@@ -67,14 +67,21 @@ function storageUse(config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, used: number)
   return `This project stores ${formatBytes(used)} of its ${formatBytes(storageQuotaBytes(config))} quota (PROJECT_STORAGE_MB = ${config.PROJECT_STORAGE_MB})`;
 }
 
-/** The message of a run whose files would not fit the project's storage quota (the run then fails). */
-export function runFilesTooLarge(config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, used: number, adding: number): string {
+const fits = (config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, used: number, adding: number) => used + adding <= storageQuotaBytes(config);
+
+/**
+ * Null when a finished run's files (`adding` bytes) fit the project's storage quota; otherwise the message
+ * the run fails with (its files are then not kept).
+ */
+export async function runFilesRefusal(config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, projectId: number, adding: number): Promise<string | null> {
+  const used = await storedBytes(projectId);
+  if (fits(config, used, adding)) return null;
   return `${storageUse(config, used)}; this run's files (${formatBytes(adding)}) do not fit, so they were not kept. Delete uploads or the files of old runs, then start the run again.`;
 }
 
 /** 413 unless `adding` more bytes fit the project's storage quota. */
 function requireRoom(config: AppConfig, used: number, adding: number, what: string) {
-  if (used + adding <= storageQuotaBytes(config)) return;
+  if (fits(config, used, adding)) return;
   throw new AppError(413, `${storageUse(config, used)}; ${what} does not fit. Delete uploads or the files of old runs (on the run's page), then try again.`, {
     storage: `${formatBytes(used)} of ${formatBytes(storageQuotaBytes(config))} used`,
   });

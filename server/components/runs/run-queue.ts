@@ -19,7 +19,7 @@ import type { AppConfig } from '../../config';
 import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { rulesForRun } from '../fab/design-rules.service';
 import { libraryForRun } from '../atom-libraries/atom-library.service';
-import { runFilesTooLarge, storageQuotaBytes, storedBytes, timeLimitMessage } from '../quotas/quota.service';
+import { runFilesRefusal, timeLimitMessage } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { UploadModel } from '../uploads/upload.model';
 import { createToleranceExecutor } from '../tolerance/tolerance-executor';
@@ -255,10 +255,9 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
             const row = await RunModel.findByPk(runId, { attributes: ['status', 'projectId'] });
             if (row?.status !== 'running') return;
             if (limits) {
-              const adding = result.files.reduce((sum, file) => sum + file.bytes, 0);
-              const used = await storedBytes(row.projectId);
-              if (used + adding > storageQuotaBytes(limits)) {
-                await markFailed(runId, runFilesTooLarge(limits, used, adding), ['running']);
+              const refusal = await runFilesRefusal(limits, row.projectId, result.files.reduce((sum, file) => sum + file.bytes, 0));
+              if (refusal) {
+                await markFailed(runId, refusal, ['running']);
                 return;
               }
             }
