@@ -40,7 +40,7 @@ async function lockOwners(userId: number | null, projectId: number, transaction:
 const ACTIVE = `('queued', 'running')`;
 
 /** Queued + running runs and tolerance studies of a person (over all projects) and of a project. */
-export async function activeWork(userId: number, projectId: number, transaction?: Transaction): Promise<{ user: number; project: number }> {
+async function activeWork(userId: number, projectId: number, transaction?: Transaction): Promise<{ user: number; project: number }> {
   const [row] = await ProjectModel.sequelize!.query<{ user: number | string; project: number | string }>(
     `SELECT
        (SELECT COUNT(*) FROM runs WHERE started_by_id = :userId AND status IN ${ACTIVE})
@@ -53,7 +53,7 @@ export async function activeWork(userId: number, projectId: number, transaction?
 }
 
 /** Bytes the project stores: its uploads and the files of its runs. */
-export async function storedBytes(projectId: number, transaction?: Transaction): Promise<number> {
+async function storedBytes(projectId: number, transaction?: Transaction): Promise<number> {
   const [row] = await ProjectModel.sequelize!.query<{ uploads: number | string | null; runs: number | string | null }>(
     `SELECT
        (SELECT SUM(size) FROM uploads WHERE project_id = :projectId) AS uploads,
@@ -87,15 +87,15 @@ function requireRoom(config: AppConfig, used: number, adding: number, what: stri
   });
 }
 
-/**
- * Runs `insert` (which stores `bytes` more in the project) inside a transaction that holds the project's
- * lock, after checking the storage quota; 413 naming the quota when they do not fit.
- */
 /** The quota checked without a lock, before a file is decoded: a full project refuses at once (413), cheaply. */
 export async function requireStorageRoom(config: AppConfig, projectId: number, bytes: number, what: string): Promise<void> {
   requireRoom(config, await storedBytes(projectId), bytes, what);
 }
 
+/**
+ * Runs `insert` (which stores `bytes` more in the project) inside a transaction that holds the project's
+ * lock, after checking the storage quota; 413 naming the quota when they do not fit.
+ */
 export async function withStorage<T>(ctx: AppContext, projectId: number, bytes: number, what: string, insert: (transaction: Transaction) => Promise<T>): Promise<T> {
   return ctx.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
     await lockOwners(null, projectId, transaction);
