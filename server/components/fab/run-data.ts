@@ -28,13 +28,17 @@ export function artifactStream(artifactId: number): Readable {
   return Readable.from(artifactChunks(artifactId), { objectMode: false });
 }
 
+/** The whole artifact `artifactId` in one buffer (arrays and small records only); empty when it is gone. */
+export async function readArtifactById(artifactId: number): Promise<Buffer> {
+  const parts: Buffer[] = [];
+  for await (const chunk of artifactChunks(artifactId)) parts.push(chunk);
+  return Buffer.concat(parts);
+}
+
 /** The whole artifact in one buffer (arrays and small records only), or null when the run lacks it. */
 export async function readArtifact(runId: number, name: string): Promise<Buffer | null> {
   const artifact = await findArtifact(runId, name);
-  if (!artifact) return null;
-  const parts: Buffer[] = [];
-  for await (const chunk of artifactChunks(artifact.id)) parts.push(chunk);
-  return Buffer.concat(parts);
+  return artifact ? readArtifactById(artifact.id) : null;
 }
 
 export function requireSucceeded(run: RunModel): void {
