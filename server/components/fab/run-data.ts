@@ -66,11 +66,17 @@ export async function listOverrides(runId: number) {
   return rows;
 }
 
+type CheckWithOverrides = RunDesignCheck & { latestOverrideId: number | null };
+
 /** The run's design-rule result with the owners' overrides; export is allowed when clean or overridden. */
-export async function designCheckOf(config: AppConfig, run: RunModel): Promise<RunDesignCheck & { latestOverrideId: number | null }> {
+export async function designCheckOf(config: AppConfig, run: RunModel): Promise<CheckWithOverrides> {
   requireSucceeded(run);
-  const drc = await storedDrc(config, run);
-  const overrides = await listOverrides(run.id);
+  return withOverrides(run.id, await storedDrc(config, run));
+}
+
+/** A design-rule result already read, with the run's overrides as they stand now. */
+export async function withOverrides(runId: number, drc: StoredDrc): Promise<CheckWithOverrides> {
+  const overrides = await listOverrides(runId);
   const latest = overrides.at(-1) ?? null;
   return {
     rules: drc.rules,
