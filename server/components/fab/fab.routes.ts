@@ -13,7 +13,7 @@ import { getProjectDesignRules, saveProjectDesignRules } from './design-rules.se
 import { prepareFabPackage, reportInputOf } from './fab-package';
 import { ExportOverrideModel } from './fab.model';
 import { layoutRegion } from './layout-jobs';
-import { designCheckOf } from './run-data';
+import { designCheckOf, withOverrides } from './run-data';
 
 /**
  * Design rules of a project, and the layout preview, design check, export override and fab package of its
@@ -79,7 +79,8 @@ export function fabRoutes(ctx: AppContext) {
     if (check.total === 0) throw new AppError(409, `Run ${run.id} has no design-rule violations; it can be exported without an override`);
     const row = await ExportOverrideModel.create({ runId: run.id, userId: currentUser(req).id, reason, counts: check.counts, at: new Date() });
     await recordAudit('export-override', { projectId: run.projectId, detail: { runId: run.id, overrideId: row.id, violations: check.total, reason } });
-    const { latestOverrideId: _latest, ...after } = await designCheckOf(ctx.config, run);
+    // The design-rule result is the same as a moment ago; only the overrides changed.
+    const { latestOverrideId: _latest, ...after } = await withOverrides(run.id, check);
     res.status(201).json({ override: { id: row.id, reason: row.reason, at: row.at.toISOString() }, check: after });
   });
 

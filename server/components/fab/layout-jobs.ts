@@ -10,7 +10,7 @@ import { AppError } from '../../lib/app-error';
 import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { RunArtifactModel, type RunModel } from '../runs/run.model';
 import type { GdsOptions, LayoutData, LayoutJob, LayoutJobResult, StoredDrc } from './layout-task';
-import { readArtifact, requireSucceeded } from './run-data';
+import { readArtifactById, requireSucceeded } from './run-data';
 import type { LayoutRegion } from '../../../shared/schemas/fab';
 
 const TASK_FILE = workerFile('layout-task', import.meta.url);
@@ -31,20 +31,21 @@ export async function stopLayoutJobs(): Promise<void> {
   if (closing) await closing.destroy();
 }
 
-/** The ids of the run's layout files, which name exactly these bytes; 409 when one is missing. */
-async function layoutKey(run: RunModel): Promise<string> {
+/** The ids of the run's layout files (in LAYOUT_FILES order), which name exactly these bytes; 409 when one is missing. */
+async function layoutFileIds(run: RunModel): Promise<number[]> {
   const rows = await RunArtifactModel.findAll({ where: { runId: run.id, name: [...LAYOUT_FILES] }, attributes: ['id', 'name'] });
   const missing = LAYOUT_FILES.filter((name) => !rows.some((row) => row.name === name));
   if (missing.length) throw new AppError(409, `Run ${run.id} has no ${missing.join(', ')}; start the run again to produce it`);
-  return `${run.id}:${LAYOUT_FILES.map((name) => rows.find((row) => row.name === name)!.id).join(',')}`;
+  return LAYOUT_FILES.map((name) => rows.find((row) => row.name === name)!.id);
 }
 
 /** A copy in a buffer of its own, so handing it to the worker detaches nothing else. */
 const own = (bytes: Buffer) => new Uint8Array(bytes);
 
-async function layoutData(run: RunModel): Promise<LayoutData> {
-  const [design, atoms, index, theta] = await Promise.all(LAYOUT_FILES.map((name) => readArtifact(run.id, name)));
-  if (!design || !atoms || !index || !theta) throw new AppError(409, `Run ${run.id}'s layout files changed while being read; try again`);
+/** The bytes of the very files `ids` names (the ones the job's key names). */
+async function layoutData(run: RunModel, ids: number[]): Promise<LayoutData> {
+  const [design, atoms, index, theta] = await Promise.all(ids.map((id) => readArtifactById(id)));
+  if (!design.length || !atoms.length || !index.length || !theta.length) throw new AppError(409, `Run ${run.id}'s layout files changed while being read; try again`);
   return { designJson: design.toString('utf8'), atomsCsv: atoms.toString('utf8'), atomIndexNpy: own(index), thetaNpy: own(theta) };
 }
 
@@ -54,7 +55,8 @@ async function runJob(config: AppConfig, run: RunModel, job: JobOf<'region'> | J
   requireSucceeded(run);
   const limitMs = config.FAB_JOB_TIME_LIMIT_SECONDS * 1000;
   const signal = AbortSignal.timeout(limitMs);
-  const key = await layoutKey(run);
+  const ids = await layoutFileIds(run);
+  const key = `${run.id}:${ids.join(',')}`;
   const submit = (data?: LayoutData) =>
     layoutPool().run({ ...job, runId: run.id, key, data } as LayoutJob, {
       signal,
@@ -62,7 +64,7 @@ async function runJob(config: AppConfig, run: RunModel, job: JobOf<'region'> | J
     });
   try {
     let result = await submit();
-    if (result.ok === 'need-data') result = await submit(await layoutData(run));
+    if (result.ok === 'need-data') result = await submit(await layoutData(run, ids));
     if (result.ok === 'need-data') throw new Error('the layout worker asked twice for the same data');
     if (result.ok === false) throw new AppError(result.status, result.message, result.details);
     return result;

@@ -28,19 +28,17 @@ export function artifactStream(artifactId: number): Readable {
   return Readable.from(artifactChunks(artifactId), { objectMode: false });
 }
 
-/** The whole artifact in one buffer (arrays and small records only), or null when the run lacks it. */
-export async function readArtifact(runId: number, name: string): Promise<Buffer | null> {
-  const artifact = await findArtifact(runId, name);
-  if (!artifact) return null;
+/** The whole artifact `artifactId` in one buffer (arrays and small records only); empty when it is gone. */
+export async function readArtifactById(artifactId: number): Promise<Buffer> {
   const parts: Buffer[] = [];
-  for await (const chunk of artifactChunks(artifact.id)) parts.push(chunk);
+  for await (const chunk of artifactChunks(artifactId)) parts.push(chunk);
   return Buffer.concat(parts);
 }
 
-async function requiredArtifact(run: RunModel, name: string): Promise<Buffer> {
-  const bytes = await readArtifact(run.id, name);
-  if (!bytes) throw new AppError(409, `Run ${run.id} has no ${name}; start the run again to produce it`);
-  return bytes;
+/** The whole artifact in one buffer (arrays and small records only), or null when the run lacks it. */
+export async function readArtifact(runId: number, name: string): Promise<Buffer | null> {
+  const artifact = await findArtifact(runId, name);
+  return artifact ? readArtifactById(artifact.id) : null;
 }
 
 export function requireSucceeded(run: RunModel): void {
@@ -68,11 +66,17 @@ export async function listOverrides(runId: number) {
   return rows;
 }
 
+type CheckWithOverrides = RunDesignCheck & { latestOverrideId: number | null };
+
 /** The run's design-rule result with the owners' overrides; export is allowed when clean or overridden. */
-export async function designCheckOf(config: AppConfig, run: RunModel): Promise<RunDesignCheck & { latestOverrideId: number | null }> {
+export async function designCheckOf(config: AppConfig, run: RunModel): Promise<CheckWithOverrides> {
   requireSucceeded(run);
-  const drc = await storedDrc(config, run);
-  const overrides = await listOverrides(run.id);
+  return withOverrides(run.id, await storedDrc(config, run));
+}
+
+/** A design-rule result already read, with the run's overrides as they stand now. */
+export async function withOverrides(runId: number, drc: StoredDrc): Promise<CheckWithOverrides> {
+  const overrides = await listOverrides(runId);
   const latest = overrides.at(-1) ?? null;
   return {
     rules: drc.rules,

@@ -40,7 +40,7 @@ async function lockOwners(userId: number | null, projectId: number, transaction:
 const ACTIVE = `('queued', 'running')`;
 
 /** Queued + running runs and tolerance studies of a person (over all projects) and of a project. */
-export async function activeWork(userId: number, projectId: number, transaction?: Transaction): Promise<{ user: number; project: number }> {
+async function activeWork(userId: number, projectId: number, transaction?: Transaction): Promise<{ user: number; project: number }> {
   const [row] = await ProjectModel.sequelize!.query<{ user: number | string; project: number | string }>(
     `SELECT
        (SELECT COUNT(*) FROM runs WHERE started_by_id = :userId AND status IN ${ACTIVE})
@@ -53,7 +53,7 @@ export async function activeWork(userId: number, projectId: number, transaction?
 }
 
 /** Bytes the project stores: its uploads and the files of its runs. */
-export async function storedBytes(projectId: number, transaction?: Transaction): Promise<number> {
+async function storedBytes(projectId: number, transaction?: Transaction): Promise<number> {
   const [row] = await ProjectModel.sequelize!.query<{ uploads: number | string | null; runs: number | string | null }>(
     `SELECT
        (SELECT SUM(size) FROM uploads WHERE project_id = :projectId) AS uploads,
@@ -67,28 +67,35 @@ function storageUse(config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, used: number)
   return `This project stores ${formatBytes(used)} of its ${formatBytes(storageQuotaBytes(config))} quota (PROJECT_STORAGE_MB = ${config.PROJECT_STORAGE_MB})`;
 }
 
-/** The message of a run whose files would not fit the project's storage quota (the run then fails). */
-export function runFilesTooLarge(config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, used: number, adding: number): string {
+const fits = (config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, used: number, adding: number) => used + adding <= storageQuotaBytes(config);
+
+/**
+ * Null when a finished run's files (`adding` bytes) fit the project's storage quota; otherwise the message
+ * the run fails with (its files are then not kept).
+ */
+export async function runFilesRefusal(config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, projectId: number, adding: number): Promise<string | null> {
+  const used = await storedBytes(projectId);
+  if (fits(config, used, adding)) return null;
   return `${storageUse(config, used)}; this run's files (${formatBytes(adding)}) do not fit, so they were not kept. Delete uploads or the files of old runs, then start the run again.`;
 }
 
 /** 413 unless `adding` more bytes fit the project's storage quota. */
 function requireRoom(config: AppConfig, used: number, adding: number, what: string) {
-  if (used + adding <= storageQuotaBytes(config)) return;
+  if (fits(config, used, adding)) return;
   throw new AppError(413, `${storageUse(config, used)}; ${what} does not fit. Delete uploads or the files of old runs (on the run's page), then try again.`, {
     storage: `${formatBytes(used)} of ${formatBytes(storageQuotaBytes(config))} used`,
   });
+}
+
+/** The quota checked without a lock, before a file is decoded: a full project refuses at once (413), cheaply. */
+export async function requireStorageRoom(config: AppConfig, projectId: number, bytes: number, what: string): Promise<void> {
+  requireRoom(config, await storedBytes(projectId), bytes, what);
 }
 
 /**
  * Runs `insert` (which stores `bytes` more in the project) inside a transaction that holds the project's
  * lock, after checking the storage quota; 413 naming the quota when they do not fit.
  */
-/** The quota checked without a lock, before a file is decoded: a full project refuses at once (413), cheaply. */
-export async function requireStorageRoom(config: AppConfig, projectId: number, bytes: number, what: string): Promise<void> {
-  requireRoom(config, await storedBytes(projectId), bytes, what);
-}
-
 export async function withStorage<T>(ctx: AppContext, projectId: number, bytes: number, what: string, insert: (transaction: Transaction) => Promise<T>): Promise<T> {
   return ctx.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
     await lockOwners(null, projectId, transaction);

@@ -19,7 +19,7 @@ import type { AppConfig } from '../../config';
 import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { rulesForRun } from '../fab/design-rules.service';
 import { libraryForRun } from '../atom-libraries/atom-library.service';
-import { runFilesTooLarge, storageQuotaBytes, storedBytes, timeLimitMessage } from '../quotas/quota.service';
+import { runFilesRefusal, timeLimitMessage } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { UploadModel } from '../uploads/upload.model';
 import { createToleranceExecutor } from '../tolerance/tolerance-executor';
@@ -27,7 +27,7 @@ import { deleteArtifacts, storeArtifacts } from './run-artifacts';
 import { addEvent, markCancelled, markFailed, markStarted, markSucceeded, recordProgress, recoverInterrupted } from './run-state';
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
 import { RunModel } from './run.model';
-import { deletedUploadsOf } from './run.service';
+import { deletedUploadsMessage } from './run.service';
 
 export interface RunQueue {
   /** Recovers interrupted runs, then accepts work. */
@@ -206,17 +206,17 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
     const run = await RunModel.findByPk(runId, { include: [{ association: 'revision', attributes: ['design', 'projectId'] }] });
     if (!run || run.status !== 'queued' || !run.revision) return null;
     const design = JSON.parse(run.revision.design) as Design;
-    const deleted = await deletedUploadsOf(run.projectId, design);
+    const ids = uploadIdsOf(design);
+    const uploads = ids.length
+      ? await UploadModel.findAll({ where: { id: { [Op.in]: ids }, projectId: run.projectId }, attributes: ['id', 'name', 'mime', 'bytes'] })
+      : [];
+    const deleted = deletedUploadsMessage(ids, uploads.map((u) => u.id));
     if (deleted) {
       if (await markFailed(runId, `The design ${deleted}.`, ['queued'])) changed(runId);
       return null;
     }
     // The project's design rules at run time (not the revision's): design.json and drc.json then record them.
     design.designRules = await rulesForRun(run.projectId);
-    const ids = uploadIdsOf(design);
-    const uploads = ids.length
-      ? await UploadModel.findAll({ where: { id: { [Op.in]: ids }, projectId: run.projectId }, attributes: ['id', 'name', 'mime', 'bytes'] })
-      : [];
     const libraryRef = design.atomLibrary;
     const atomLibrary = libraryRef.source === 'library' ? await libraryForRun(libraryRef.id) : null;
     return {
@@ -255,10 +255,9 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
             const row = await RunModel.findByPk(runId, { attributes: ['status', 'projectId'] });
             if (row?.status !== 'running') return;
             if (limits) {
-              const adding = result.files.reduce((sum, file) => sum + file.bytes, 0);
-              const used = await storedBytes(row.projectId);
-              if (used + adding > storageQuotaBytes(limits)) {
-                await markFailed(runId, runFilesTooLarge(limits, used, adding), ['running']);
+              const refusal = await runFilesRefusal(limits, row.projectId, result.files.reduce((sum, file) => sum + file.bytes, 0));
+              if (refusal) {
+                await markFailed(runId, refusal, ['running']);
                 return;
               }
             }

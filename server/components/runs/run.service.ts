@@ -123,7 +123,12 @@ export async function startRun(ctx: AppContext, projectId: number, number: numbe
 export async function deletedUploadsOf(projectId: number, design: Design): Promise<string | null> {
   const ids = uploadIdsOf(design);
   if (!ids.length) return null;
-  const present = new Set((await UploadModel.findAll({ where: { id: ids, projectId }, attributes: ['id'] })).map((u) => u.id));
+  return deletedUploadsMessage(ids, (await UploadModel.findAll({ where: { id: ids, projectId }, attributes: ['id'] })).map((u) => u.id));
+}
+
+/** `deletedUploadsOf` for uploads already read: `ids` the design names, `presentIds` those the project still has. */
+export function deletedUploadsMessage(ids: number[], presentIds: number[]): string | null {
+  const present = new Set(presentIds);
   const gone = ids.filter((id) => !present.has(id));
   if (!gone.length) return null;
   const which = gone.length === 1 ? `upload ${gone[0]}, which was` : `uploads ${gone.join(', ')}, which were`;
