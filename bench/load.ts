@@ -15,7 +15,7 @@
  * other load than the latencies do (≈ ±20 % rather than several times). autocannon itself runs in this
  * process, on the same cores as the server.
  *
- * Options: `--duration S` (30), `--connections N` (50), `--only runs|mix`, `--no-idle`, `--no-busy`,
+ * Options: `--duration S` (30), `--connections N` (50), `--only me|runs|mix`, `--no-idle`, `--no-busy`,
  * `--cpu-prof DIR` (the server writes a V8 CPU profile into DIR when it stops; open it in Chrome's DevTools).
  * The server's environment passes through (e.g. `RUN_WORKERS=1 npm run bench:load`).
  * Target (issue 10): p99 under 100 ms and no errors at 50 connections while a run computes.
@@ -190,6 +190,8 @@ async function keepRunComputing(session: Session) {
 }
 
 const MIXES: Record<string, { label: string; paths: string[] }> = {
+  // What every signed-in request pays before its own work (session, account): the floor of the others.
+  me: { label: 'GET /api/auth/me', paths: ['/api/auth/me'] },
   runs: { label: 'GET /api/projects/1/runs', paths: ['/api/projects/1/runs'] },
   mix: {
     label: 'projects, runs, run 1, notifications',

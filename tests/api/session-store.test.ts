@@ -1,4 +1,6 @@
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
+import request from 'supertest';
+import { sessionRows } from '../../server/components/auth/access-cache';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
 
 let t: TestApp;
@@ -56,8 +58,36 @@ describe('session store', () => {
     expect((await client.get('/api/auth/me')).body.user.id).toBe(id);
     const { sid } = await sessionOf(id);
     await setExpiry(sid, new Date(Date.now() - 1000));
+    // A write by hand in the database: the session cache (ACCESS_CACHE_SECONDS) would not see it at once.
+    sessionRows.clear();
     expect((await client.get('/api/auth/me')).body.user).toBeNull();
     expect((await client.get('/api/projects')).status).toBe(401);
+  });
+
+  it('refuses a session at its stored expiry even while the session cache still holds its row', async () => {
+    const { id, client } = await signedInUser();
+    const { sid } = await sessionOf(id);
+    const expires = new Date(Math.floor(Date.now() / 1000) * 1000 + 5000);
+    await setExpiry(sid, expires);
+    sessionRows.clear();
+    // Read once (the row, with that expiry, is now cached), then once more just past the expiry.
+    expect((await client.get('/api/auth/me')).body.user.id).toBe(id);
+    vi.useFakeTimers({ toFake: ['Date'], now: expires.getTime() + 1 });
+    expect((await client.get('/api/auth/me')).body.user).toBeNull();
+    expect((await client.get('/api/projects')).status).toBe(401);
+  });
+
+  it('ends a session at sign-out at once: its cookie, replayed, is no longer signed in', async () => {
+    const { id, client } = await signedInUser();
+    expect((await client.get('/api/auth/me')).body.user.id).toBe(id);
+    // The session cookie as the browser holds it, replayed after the sign-out has deleted its row.
+    const cookie = (client.agent as unknown as { jar: { getCookies(a: unknown): { name: string; value: string }[] } }).jar
+      .getCookies({ domain: '127.0.0.1', path: '/', secure: false, script: false })
+      .map((c) => `${c.name}=${c.value}`)
+      .join('; ');
+    expect(cookie).toContain('=');
+    expect((await client.post('/api/auth/sign-out')).status).toBeLessThan(300);
+    expect((await request(t.app).get('/api/auth/me').set('cookie', cookie)).body.user).toBeNull();
   });
 
   it('forgets a session at sign-out, so signing in again writes the new one', async () => {

@@ -1,6 +1,7 @@
 import connectSessionSequelize from 'connect-session-sequelize';
 import session from 'express-session';
 import { Op, type Sequelize } from 'sequelize';
+import { sessionRows } from './access-cache';
 import { SessionModel } from './session.model';
 
 const SequelizeStore = connectSessionSequelize(session.Store);
@@ -15,7 +16,9 @@ const REMEMBERED_WRITES = 10_000;
  * - the sliding expiry is written at most once per `touchIntervalMs` for each session instead of on every
  *   request (express-session touches the store on each one): the idle lifetime then ends up to
  *   `touchIntervalMs` earlier than it would, and a signed-in reader costs no database write per request.
- *   0 writes it on every request.
+ *   0 writes it on every request;
+ * - a session's row is read through the access cache (`sessionRows`, ACCESS_CACHE_SECONDS), which every write
+ *   of a session row in this process empties, so a signed-in reader costs no database read for it either.
  */
 export function createSessionStore(sequelize: Sequelize, touchIntervalMs: number) {
   const store = new SequelizeStore({ db: sequelize, table: 'Session', checkExpirationInterval: 15 * 60_000 });
@@ -31,9 +34,16 @@ export function createSessionStore(sequelize: Sequelize, touchIntervalMs: number
     }
   };
 
+  const load = async (sid: string) => {
+    const row = (await SessionModel.findOne({ where: { sid, expires: { [Op.gt]: new Date() } }, attributes: ['data', 'expires'], raw: true })) as unknown as {
+      data: string;
+      expires: Date;
+    } | null;
+    return row ? { data: row.data, expires: row.expires.getTime() } : null;
+  };
   store.get = (sid, callback) => {
-    SessionModel.findOne({ where: { sid, expires: { [Op.gt]: new Date() } }, attributes: ['data'], raw: true }).then(
-      (row) => callback(null, row ? JSON.parse((row as unknown as { data: string }).data) : null),
+    sessionRows.get(sid, () => load(sid)).then(
+      (row) => callback(null, row && row.expires > Date.now() ? JSON.parse(row.data) : null),
       (err: unknown) => callback(err),
     );
   };
