@@ -87,8 +87,8 @@ class RequestRefused(PhasewrightError):
         self.method = method
         self.path = path
         text = f"{message} ({status} on {method} {path})"
-        if self.details:
-            text += "".join(f"\n  {field}: {why}" for field, why in self.details.items())
+        # Fields the message does not name already, one per line.
+        text += "".join(f"\n  {field}: {why}" for field, why in self.details.items() if f"{field}: {why}" not in message)
         super().__init__(text)
 
 
