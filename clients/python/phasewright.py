@@ -25,6 +25,7 @@ import io
 import json
 import mimetypes
 import os
+import socket
 import sys
 import time
 import urllib.error
@@ -199,7 +200,7 @@ class Workbench:
             raise _refusal(error, method, full_path) from None
         except urllib.error.URLError as error:
             raise ServerUnreachable(f"No answer from {self.url} ({error.reason}); is the server running at that address?") from None
-        except (TimeoutError, ConnectionError) as error:
+        except (socket.timeout, TimeoutError, ConnectionError) as error:
             raise ServerUnreachable(f"No answer from {self.url} within {self.timeout:g} s ({error})") from None
 
     def _json(self, method: str, path: str, payload: Any = None, query: Optional[Mapping[str, Any]] = None) -> Any:
