@@ -68,7 +68,7 @@ export function createApp(ctx: AppContext) {
   app.use('/api', healthRoutes(ctx, inputs));
 
   configureAccessCaches(config);
-  const store = createSessionStore(ctx.sequelize, config.SESSION_TOUCH_SECONDS * 1000);
+  const store = createSessionStore(ctx.sequelize, { idleMs: Math.min(config.SESSION_IDLE_HOURS * 3600_000, config.SESSION_MAX_DAYS * 24 * 3600_000), touchIntervalMs: config.SESSION_TOUCH_SECONDS * 1000 });
   app.use(
     session({
       name: 'pw.sid',
@@ -76,12 +76,14 @@ export function createApp(ctx: AppContext) {
       store,
       resave: false,
       saveUninitialized: false,
-      rolling: true,
+      // The cookie lives until the session's absolute end and is sent once, at sign-in; the idle lifetime is
+      // the stored row's (session-store.ts), so answers carry no Set-Cookie of their own.
+      rolling: false,
       cookie: {
         httpOnly: true,
         sameSite: 'lax',
         secure: config.publicUrl.startsWith('https://'),
-        maxAge: 14 * 24 * 60 * 60 * 1000,
+        maxAge: config.SESSION_MAX_DAYS * 24 * 3600_000,
       },
     }),
   );

@@ -26,6 +26,8 @@ const envSchema = z.object({
   SESSION_SECRET: z.string().min(16, 'use at least 16 characters').default(DEFAULT_SESSION_SECRET),
   /** Absolute lifetime of a signed-in session, days, however active it is. */
   SESSION_MAX_DAYS: z.coerce.number().positive('use a positive number of days').max(365).default(7),
+  /** A session unused this long ends, hours; the absolute lifetime ends it earlier when shorter. */
+  SESSION_IDLE_HOURS: z.coerce.number().positive('use a positive number of hours').max(365 * 24).default(72),
   SMTP_HOST: z.string().default('127.0.0.1'),
   SMTP_PORT: z.coerce.number().int().min(1).max(65535).default(1025),
   MAIL_FROM: z.string().default('Phasewright <no-reply@phasewright.local>'),

@@ -21,6 +21,7 @@ import { ToleranceStudyModel } from '../components/tolerance/tolerance.model';
 import { UploadModel } from '../components/uploads/upload.model';
 import { UserModel } from '../components/users/user.model';
 import { migrations } from './migrations/index';
+import { bindSelect } from './select';
 
 export type DbConfig = Pick<AppConfig, 'DB_HOST' | 'DB_PORT' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD'>;
 
@@ -85,6 +86,7 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
   NotificationModel.belongsTo(UserModel, { as: 'actor', foreignKey: 'actorId' });
   NotificationModel.belongsTo(ProjectModel, { as: 'project', foreignKey: 'projectId' });
   watchAccessWrites();
+  bindSelect(sequelize);
   return sequelize;
 }
 

@@ -30,6 +30,32 @@ describe('runs list and run detail', () => {
 
     const listed = (await designer.get(`/api/projects/${projectId}/runs`)).body.runs as { id: number; startedBy: unknown }[];
     expect(listed).toHaveLength(3);
+    // The list and the summary read with SQL of their own; the ORM's models, with their associations, are the
+    // independent reading they must agree with.
+    const rows = await RunModel.findAll({
+      where: { projectId },
+      include: [{ association: 'revision' }, { association: 'startedBy' }],
+      order: [['queuedAt', 'DESC'], ['id', 'DESC']],
+    });
+    const iso = (d: Date | null) => (d ? d.toISOString() : null);
+    expect(listed).toEqual(
+      rows.map((r) => ({
+        id: r.id,
+        revisionNumber: r.revision!.number,
+        status: r.status,
+        progress: r.progress,
+        stage: r.stage,
+        attempts: r.attempts,
+        error: r.error,
+        startedBy: r.startedBy ? { id: r.startedBy.id, name: r.startedBy.name } : null,
+        queuedAt: r.queuedAt.toISOString(),
+        startedAt: iso(r.startedAt),
+        finishedAt: iso(r.finishedAt),
+        durationMs: r.durationMs,
+        headline: r.headline ?? { efficiencyA: null, efficiencyB: null, crosstalkDb: null, zeroOrder: null },
+        filesDeletedAt: iso(r.filesDeletedAt),
+      })),
+    );
     for (const run of listed) {
       expect(run).toEqual(JSON.parse(JSON.stringify(await getRunSummary(projectId, run.id))));
     }

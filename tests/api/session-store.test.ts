@@ -1,7 +1,7 @@
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
 import request from 'supertest';
 import { sessionRows } from '../../server/components/auth/access-cache';
-import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
+import { ApiClient, createTestApp, makeUser, signedInClient, type TestApp } from '../support/test-app';
 
 let t: TestApp;
 beforeAll(async () => {
@@ -14,7 +14,8 @@ afterEach(() => {
   vi.useRealTimers();
 });
 
-const DAY_MS = 24 * 60 * 60 * 1000;
+const HOUR_MS = 60 * 60 * 1000;
+const DAY_MS = 24 * HOUR_MS;
 
 async function sessionOf(userId: number): Promise<{ sid: string; expires: Date }> {
   const [rows] = await t.ctx.sequelize.query('SELECT sid, expires, data FROM sessions');
@@ -37,7 +38,7 @@ describe('session store', () => {
   it('writes the sliding expiry at most once per SESSION_TOUCH_SECONDS, then on the next request after it', async () => {
     const { id, client } = await signedInUser();
     const { sid } = await sessionOf(id);
-    // A stored expiry far from what a touch would write (now + 14 days), so any write shows.
+    // A stored expiry far from what a touch would write (now + SESSION_IDLE_HOURS, 72 h), so any write shows.
     const marker = new Date(Math.floor(Date.now() / 1000) * 1000 + DAY_MS);
     await setExpiry(sid, marker);
     for (let i = 0; i < 3; i++) expect((await client.get('/api/projects')).status).toBe(200);
@@ -46,7 +47,7 @@ describe('session store', () => {
     vi.useFakeTimers({ toFake: ['Date'], now: Date.now() + 61_000 });
     expect((await client.get('/api/projects')).status).toBe(200);
     const extended = (await sessionOf(id)).expires.getTime();
-    expect(extended).toBeGreaterThan(Date.now() + 13 * DAY_MS);
+    expect(Math.abs(extended - (Date.now() + 72 * HOUR_MS))).toBeLessThan(5000);
     // And again not before the next interval has passed.
     await setExpiry(sid, marker);
     expect((await client.get('/api/projects')).status).toBe(200);
@@ -77,6 +78,23 @@ describe('session store', () => {
     expect((await client.get('/api/projects')).status).toBe(401);
   });
 
+  it('ends a session unused for SESSION_IDLE_HOURS, while the cookie lasts until SESSION_MAX_DAYS after sign-in', async () => {
+    const user = await makeUser();
+    const client = await new ApiClient(t.app).start();
+    const signIn = await client.signIn(user.email, user.password);
+    // The cookie the sign-in sets lives until the absolute end (SESSION_MAX_DAYS, 7 days) …
+    const cookie = (signIn.headers['set-cookie'] as unknown as string[]).find((c) => c.startsWith('pw.sid='))!;
+    const expires = Date.parse(/Expires=([^;]+)/.exec(cookie)![1]);
+    expect(Math.abs(expires - (Date.now() + 7 * DAY_MS))).toBeLessThan(5000);
+    // … and reads answer without a Set-Cookie: the idle lifetime lives in the row, now + 72 h.
+    expect((await client.get('/api/projects')).headers['set-cookie']).toBeUndefined();
+    const stored = (await sessionOf(user.id)).expires.getTime();
+    expect(Math.abs(stored - (Date.now() + 72 * HOUR_MS))).toBeLessThan(5000);
+    // Unused past the idle lifetime: signed out, although the cookie has days left.
+    vi.useFakeTimers({ toFake: ['Date'], now: stored + 1000 });
+    expect((await client.get('/api/projects')).status).toBe(401);
+  });
+
   it('ends a session at sign-out at once: its cookie, replayed, is no longer signed in', async () => {
     const { id, client } = await signedInUser();
     expect((await client.get('/api/auth/me')).body.user.id).toBe(id);
@@ -99,6 +117,6 @@ describe('session store', () => {
     expect((await client.get('/api/projects')).status).toBe(401);
     await client.signIn(user.email, user.password);
     expect((await client.get('/api/projects')).status).toBe(200);
-    expect((await sessionOf(user.id)).expires.getTime()).toBeGreaterThan(Date.now() + 13 * DAY_MS);
+    expect(Math.abs((await sessionOf(user.id)).expires.getTime() - (Date.now() + 72 * HOUR_MS))).toBeLessThan(5000);
   });
 });

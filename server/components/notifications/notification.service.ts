@@ -1,6 +1,7 @@
 import { Op } from 'sequelize';
 import type { Notification, NotificationKind, NotificationPreferences } from '../../../shared/schemas/review';
 import type { AppContext } from '../../context';
+import { select } from '../../db/select';
 import { AppError } from '../../lib/app-error';
 import { MembershipModel } from '../projects/membership.model';
 import { ProjectModel } from '../projects/project.model';
@@ -82,34 +83,46 @@ export async function notifyRunFinished(ctx: AppContext, runId: number, status: 
   ]);
 }
 
-function toNotification(row: NotificationModel): Notification {
-  return {
+/**
+ * The newest 50 notifications of a user (only unread ones when asked), and how many are unread: two SELECTs
+ * (`select`), as the bell in the header reads them on every page.
+ */
+export async function listNotifications(userId: number, unreadOnly: boolean) {
+  const [rows, [count]] = await Promise.all([
+    select<{
+      id: number;
+      kind: NotificationKind;
+      projectId: number;
+      projectName: string | null;
+      runId: number | null;
+      threadId: number | null;
+      actorId: number | null;
+      actorName: string | null;
+      text: string;
+      createdAt: Date;
+      readAt: Date | null;
+    }>(
+      `SELECT n.id, n.kind, n.project_id AS projectId, p.name AS projectName, n.run_id AS runId, n.thread_id AS threadId,
+         a.id AS actorId, a.name AS actorName, n.text, n.created_at AS createdAt, n.read_at AS readAt
+       FROM notifications n LEFT JOIN users a ON a.id = n.actor_id LEFT JOIN projects p ON p.id = n.project_id
+       WHERE n.user_id = ? ${unreadOnly ? 'AND n.read_at IS NULL' : ''} ORDER BY n.id DESC LIMIT 50`,
+      [userId],
+    ),
+    select<{ unread: number | bigint }>('SELECT COUNT(*) AS unread FROM notifications WHERE user_id = ? AND read_at IS NULL', [userId]),
+  ]);
+  const notifications: Notification[] = rows.map((row) => ({
     id: row.id,
     kind: row.kind,
     projectId: row.projectId,
-    projectName: row.project?.name ?? '',
+    projectName: row.projectName ?? '',
     runId: row.runId,
     threadId: row.threadId,
-    actor: row.actor ? { id: row.actor.id, name: row.actor.name } : null,
+    actor: row.actorId !== null ? { id: row.actorId, name: row.actorName ?? '' } : null,
     text: row.text,
     createdAt: row.createdAt.toISOString(),
     readAt: row.readAt ? row.readAt.toISOString() : null,
-  };
-}
-
-/** The newest 50 notifications of a user (only unread ones when asked), and how many are unread. */
-export async function listNotifications(userId: number, unreadOnly: boolean) {
-  const rows = await NotificationModel.findAll({
-    where: { userId, ...(unreadOnly ? { readAt: null } : {}) },
-    include: [
-      { model: UserModel, as: 'actor', attributes: ['id', 'name'] },
-      { model: ProjectModel, as: 'project', attributes: ['id', 'name'] },
-    ],
-    order: [['id', 'DESC']],
-    limit: 50,
-  });
-  const unread = await NotificationModel.count({ where: { userId, readAt: null } });
-  return { notifications: rows.map(toNotification), unread };
+  }));
+  return { notifications, unread: Number(count.unread) };
 }
 
 export async function markRead(userId: number, notificationId: number) {

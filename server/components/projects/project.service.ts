@@ -1,7 +1,8 @@
-import { Op, literal, type Order, type WhereOptions } from 'sequelize';
+import { Op, literal } from 'sequelize';
 import type { ProjectRole } from '../../../shared/roles';
 import type { ListProjectsQuery, Member, Project } from '../../../shared/schemas/projects';
 import type { AppContext } from '../../context';
+import { select } from '../../db/select';
 import { AppError } from '../../lib/app-error';
 import { recordAudit } from '../audit/audit.service';
 import { inviteUser } from '../auth/auth.service';
@@ -30,30 +31,62 @@ function toMemberDto(m: MembershipModel): Member {
   return { userId: m.userId, name: m.user!.name, email: m.user!.email, role: m.role, addedAt: m.createdAt.toISOString() };
 }
 
-/** Projects the user belongs to (every project for a site admin), filtered and sorted. */
+const PROJECT_SORT_COLUMNS: Record<ListProjectsQuery['sort'], string> = {
+  name: 'p.name',
+  updatedAt: 'p.updated_at',
+  createdAt: 'p.created_at',
+  memberCount: 'memberCount',
+};
+
+/**
+ * Projects the user belongs to (every project for a site admin), filtered and sorted: one SELECT (`select`),
+ * as the projects page and the dashboard read it on every view.
+ */
 export async function listProjects(user: UserModel, query: ListProjectsQuery): Promise<Project[]> {
   const isAdmin = user.siteRole === 'admin';
-  const memberships = await MembershipModel.findAll({ where: { userId: user.id } });
-  const roles = new Map(memberships.map((m) => [m.projectId, m.role]));
-  const where: WhereOptions[] = [];
-  if (!isAdmin) where.push({ id: { [Op.in]: [...roles.keys()] } });
-  if (query.status === 'active') where.push({ archivedAt: { [Op.is]: null } });
-  if (query.status === 'archived') where.push({ archivedAt: { [Op.not]: null } });
+  const where: string[] = [];
+  const params: unknown[] = [user.id];
+  if (!isAdmin) where.push('m.role IS NOT NULL');
+  if (query.status === 'active') where.push('p.archived_at IS NULL');
+  if (query.status === 'archived') where.push('p.archived_at IS NOT NULL');
   if (query.q) {
     const like = `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    where.push({ [Op.or]: [{ name: { [Op.like]: like } }, { description: { [Op.like]: like } }] });
+    where.push('(p.name LIKE ? OR p.description LIKE ?)');
+    params.push(like, like);
   }
-  const dir = query.dir.toUpperCase();
-  const order: Order =
-    query.sort === 'memberCount' ? [[memberCount, dir], ['id', 'ASC']] : [[query.sort, dir], ['id', 'ASC']];
-  const projects = await ProjectModel.findAll({
-    where: { [Op.and]: where },
-    attributes: { include: [[memberCount, 'memberCount']] },
-    include: [{ model: UserModel, as: 'createdBy', attributes: ['id', 'name'] }],
-    order,
-    limit: 500,
-  });
-  return projects.map((p) => toProjectDto(p, isAdmin ? 'owner' : (roles.get(p.id) ?? null)));
+  // Column and direction come from closed lists (the query schema), never from the request's text.
+  const dir = query.dir === 'asc' ? 'ASC' : 'DESC';
+  const rows = await select<{
+    id: number;
+    name: string;
+    description: string;
+    archivedAt: Date | null;
+    createdAt: Date;
+    updatedAt: Date;
+    memberCount: number | bigint;
+    myRole: ProjectRole | null;
+    createdById: number | null;
+    createdByName: string | null;
+  }>(
+    `SELECT p.id, p.name, p.description, p.archived_at AS archivedAt, p.created_at AS createdAt, p.updated_at AS updatedAt,
+       (SELECT COUNT(*) FROM project_members pm WHERE pm.project_id = p.id) AS memberCount, m.role AS myRole,
+       u.id AS createdById, u.name AS createdByName
+     FROM projects p LEFT JOIN project_members m ON m.project_id = p.id AND m.user_id = ? LEFT JOIN users u ON u.id = p.created_by_id
+     ${where.length ? `WHERE ${where.join(' AND ')}` : ''}
+     ORDER BY ${PROJECT_SORT_COLUMNS[query.sort]} ${dir}, p.id ASC LIMIT 500`,
+    params,
+  );
+  return rows.map((p) => ({
+    id: p.id,
+    name: p.name,
+    description: p.description,
+    archived: p.archivedAt !== null,
+    createdAt: p.createdAt.toISOString(),
+    updatedAt: p.updatedAt.toISOString(),
+    memberCount: Number(p.memberCount),
+    myRole: isAdmin ? 'owner' : p.myRole,
+    createdBy: p.createdById !== null ? { id: p.createdById, name: p.createdByName ?? '' } : null,
+  }));
 }
 
 export async function getProject(projectId: number, role: ProjectRole): Promise<Project> {
