@@ -60,7 +60,7 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'get', path: '/auth/me', summary: 'The signed-in user, if any', role: 'public', ok: [200, '`{ user | null, signupOpen }`'] },
   { method: 'post', path: '/auth/sign-in', summary: 'Sign in with e-mail and password (starts a session)', role: 'public', body: signInSchema, ok: [200, '`{ user, csrfToken }`'] },
   { method: 'post', path: '/auth/sign-out', summary: 'End the session', role: 'public', ok: [200, '`{ ok, csrfToken }`'] },
-  { method: 'post', path: '/auth/sign-up', summary: 'Create an account (when open sign-up is on)', role: 'public', body: signUpSchema, ok: [201, '`{ user, csrfToken }`'] },
+  { method: 'post', path: '/auth/sign-up', summary: 'Ask for an account (when open sign-up is on); the link to choose a password arrives by e-mail', role: 'public', body: signUpSchema, ok: [202, '`{ message }`, the same for every address'] },
   { method: 'post', path: '/auth/password-reset/request', summary: 'Mail a password reset link', role: 'public', body: resetRequestSchema, ok: [202, '`{ message }`'] },
   { method: 'post', path: '/auth/password-reset/complete', summary: 'Set a new password with a reset link token; ends the account\'s other sessions and revokes its access tokens', role: 'public', body: resetPasswordSchema, ok: [200, '`{ user, csrfToken, revokedTokens }`'] },
   { method: 'post', path: '/auth/invitation/accept', summary: 'Accept an invitation: choose name and password, get signed in', role: 'public', body: acceptInvitationSchema, ok: [200, '`{ user, csrfToken }`'] },

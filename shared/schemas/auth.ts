@@ -12,7 +12,8 @@ export const signInSchema = z.object({
   email: emailSchema,
   password: z.string().min(1, 'Enter your password').max(200),
 });
-export const signUpSchema = z.object({ email: emailSchema, name: displayNameSchema, password: passwordSchema });
+/** Open sign-up: the password is chosen through the link mailed to the address (auth.service signUp). */
+export const signUpSchema = z.object({ email: emailSchema, name: displayNameSchema });
 export const changePasswordSchema = z.object({
   currentPassword: z.string().min(1, 'Enter your current password').max(200),
   newPassword: passwordSchema,

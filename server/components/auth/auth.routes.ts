@@ -69,7 +69,7 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken:
     standardHeaders: 'draft-8',
     legacyHeaders: false,
     keyGenerator: perAccount,
-    handler: tooMany('Too many requests for reset links — wait a while and try again'),
+    handler: tooMany('Too many requests for links by e-mail (sign-up or password reset) — wait a while and try again'),
   });
 
   const signInAs = (req: Request, user: UserModel) =>
@@ -109,10 +109,10 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken:
     });
   });
 
-  router.post('/sign-up', async (req, res) => {
+  router.post('/sign-up', resetMailLimiter, async (req, res) => {
     const input = parseInput(signUpSchema, req.body);
-    const user = await signUp(ctx, input);
-    res.status(201).json(await signedIn(req, user));
+    await signUp(ctx, input);
+    res.status(202).json({ message: `A link to finish creating the account is on its way to ${input.email}; it works for seven days` });
   });
 
   router.post('/password-reset/request', resetMailLimiter, async (req, res) => {

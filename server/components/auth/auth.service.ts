@@ -160,14 +160,47 @@ export async function acceptInvitation(ctx: AppContext, token: string, name: str
   return user;
 }
 
-export async function signUp(ctx: AppContext, input: { email: string; name: string; password: string }) {
+/**
+ * Open sign-up. Every address gets the same answer (the route's 202) and only its owner learns more, by
+ * e-mail, so the form never tells whether an address has an account:
+ * - a new address: an account without a password and a link to choose one (the invitation page), valid
+ *   seven days;
+ * - an account that never chose a password (invited, or signed up without finishing): a fresh link;
+ * - an account in use: a note that it exists, with the sign-in and reset pages;
+ * - a disabled account: nothing.
+ */
+export async function signUp(ctx: AppContext, input: { email: string; name: string }) {
   if (!ctx.config.ALLOW_SIGNUP) throw new AppError(403, 'Open sign-up is turned off here — ask an admin for an invitation');
-  if (await UserModel.findOne({ where: { email: input.email } })) {
-    throw new AppError(409, 'An account with this e-mail already exists', { email: 'Already registered' });
+  const existing = await UserModel.findOne({ where: { email: input.email } });
+  if (existing?.disabledAt) return;
+  if (existing?.passwordHash) {
+    ctx.mailer.enqueue({
+      to: existing.email,
+      subject: 'Phasewright: you already have an account',
+      text: [
+        `Hello ${existing.name},`,
+        '',
+        'Someone (hopefully you) asked to create a Phasewright account with this e-mail, which already has one.',
+        `Sign in: ${ctx.config.publicUrl}/sign-in`,
+        `Forgot the password? Choose a new one: ${ctx.config.publicUrl}/forgot-password`,
+        '',
+        'If it was not you, ignore this message; nothing has changed.',
+      ].join('\n'),
+    });
+    return;
   }
-  return UserModel.create({
-    email: input.email,
-    name: input.name,
-    passwordHash: await hashPassword(input.password, ctx.config.BCRYPT_COST),
+  const user = existing ?? (await UserModel.create({ email: input.email, name: input.name, passwordHash: null, invitedById: null }));
+  const token = await issueToken(user.id, 'invite', INVITE_LIFETIME_MS, null);
+  ctx.mailer.enqueue({
+    to: user.email,
+    subject: 'Phasewright: finish creating your account',
+    text: [
+      `Hello ${user.name},`,
+      '',
+      'Open this link within seven days to choose your password and sign in:',
+      `${ctx.config.publicUrl}/welcome?token=${token}`,
+      '',
+      'If you did not ask for an account, ignore this message; none is used without this link.',
+    ].join('\n'),
   });
 }

@@ -1,5 +1,5 @@
 import type { QueryClient } from '@tanstack/react-query';
-import { Link, redirect, useNavigate } from 'react-router-dom';
+import { Link, redirect } from 'react-router-dom';
 import { AuthLayout } from '@/components/layouts/auth-layout';
 import { Banner } from '@/components/ui/banner';
 import { paths } from '@/config/paths';
@@ -13,7 +13,6 @@ export const clientLoader = (queryClient: QueryClient) => async () => {
 };
 
 export default function SignUpRoute() {
-  const navigate = useNavigate();
   const { data } = useMe();
   const footer = (
     <>
@@ -39,7 +38,7 @@ export default function SignUpRoute() {
   return (
     <AuthLayout title="Create an account" intro="Start a project and invite your team once you are in." footer={footer}>
       <title>Create an account · Phasewright</title>
-      <SignUpForm onSuccess={() => navigate(paths.home.getHref(), { replace: true })} />
+      <SignUpForm />
     </AuthLayout>
   );
 }

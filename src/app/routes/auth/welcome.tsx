@@ -17,7 +17,7 @@ export default function WelcomeRoute() {
   return (
     <AuthLayout
       title="Welcome to Phasewright"
-      intro={tokenOk ? 'You were invited to join. Tell us your name and pick a password to finish.' : undefined}
+      intro={tokenOk ? 'Tell us your name and pick a password to finish setting up your account.' : undefined}
       footer={
         <>
           Already set up?{' '}

@@ -1,27 +1,31 @@
 import { signUpSchema } from '@shared/schemas/auth';
-import { FormErrorBanner } from '@/components/ui/banner';
+import { Banner, FormErrorBanner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
 import { TextField } from '@/components/ui/field';
 import { useSchemaForm } from '@/hooks/use-schema-form';
 import { useSignUp } from '@/features/auth/api/sign-up';
-import { NewPasswordFields } from '@/features/auth/components/new-password-fields';
-import { withConfirmation } from '@/features/auth/components/password-pair';
 
-const signUpFormSchema = withConfirmation(signUpSchema, 'password');
-
-export function SignUpForm({ onSuccess }: { onSuccess: () => void }) {
+/** Name and e-mail; the password is chosen through the link the server mails to the address. */
+export function SignUpForm() {
   const signUp = useSignUp();
-  const form = useSchemaForm(signUpFormSchema, { email: '', name: '', password: '', confirmPassword: '' });
+  const form = useSchemaForm(signUpSchema, { email: '', name: '' });
 
+  if (signUp.data) {
+    return (
+      <Banner tone="info" title="Check your e-mail">
+        {signUp.data.message}. Open it to choose your password. Nothing arrived? Check the address and your spam folder, or
+        ask a site admin.
+      </Banner>
+    );
+  }
   return (
     <form
       ref={form.formRef}
       noValidate
       aria-label="Create an account"
       className="flex flex-col gap-5"
-      onSubmit={form.handleSubmit(async ({ email, name, password }) => {
-        await signUp.mutateAsync({ email, name, password });
-        onSuccess();
+      onSubmit={form.handleSubmit(async ({ email, name }) => {
+        await signUp.mutateAsync({ email, name });
       })}
     >
       <FormErrorBanner message={form.formError} />
@@ -41,17 +45,9 @@ export function SignUpForm({ onSuccess }: { onSuccess: () => void }) {
         onValueChange={(value) => form.setValue('email', value)}
         error={form.fieldError('email')}
       />
-      <NewPasswordFields
-        label="Password"
-        password={form.values.password}
-        confirmation={form.values.confirmPassword}
-        onPasswordChange={(value) => form.setValue('password', value)}
-        onConfirmationChange={(value) => form.setValue('confirmPassword', value)}
-        passwordError={form.fieldError('password')}
-        confirmationError={form.fieldError('confirmPassword')}
-      />
+      <p className="text-sm text-ink-soft">We e-mail you a link to choose your password; it works for seven days.</p>
       <Button type="submit" pending={signUp.isPending} className="w-full">
-        Create account
+        Send the link
       </Button>
     </form>
   );
