@@ -86,7 +86,9 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken:
   });
 
   router.get('/me', (req, res) => {
-    res.json({ user: req.user ? toUserDto(req.user) : null, signupOpen: ctx.config.ALLOW_SIGNUP });
+    // The server's own upload limits (UPLOAD_MAX_MIB, UPLOAD_MAX_SIDE), so the client checks and shows these, not defaults.
+    const limits = { uploadMaxBytes: Math.floor(ctx.config.UPLOAD_MAX_MIB * 1024 * 1024), uploadMaxSide: ctx.config.UPLOAD_MAX_SIDE };
+    res.json({ user: req.user ? toUserDto(req.user) : null, signupOpen: ctx.config.ALLOW_SIGNUP, limits });
   });
 
   router.post('/sign-in', signInAddressLimiter, signInLimiter, async (req, res) => {

@@ -6,6 +6,8 @@ import { authKeys } from '@/features/auth/api/query-keys';
 export interface MeResponse {
   user: User | null;
   signupOpen: boolean;
+  /** This server's upload limits (its UPLOAD_MAX_MIB and UPLOAD_MAX_SIDE). */
+  limits?: { uploadMaxBytes: number; uploadMaxSide: number };
 }
 
 export function getMe({ signal }: { signal?: AbortSignal } = {}): Promise<MeResponse> {
@@ -38,5 +40,6 @@ export function useCurrentUser(): User {
 export function replaceSession(queryClient: QueryClient, user: User | null) {
   const previous = queryClient.getQueryData<MeResponse>(authKeys.me());
   queryClient.clear();
-  queryClient.setQueryData<MeResponse>(authKeys.me(), { user, signupOpen: previous?.signupOpen ?? false });
+  if (previous) queryClient.setQueryData<MeResponse>(authKeys.me(), { ...previous, user });
+  else void queryClient.invalidateQueries({ queryKey: authKeys.me() });
 }

@@ -1,6 +1,7 @@
 import { useId, useRef, useState } from 'react';
 import type { AssetRef } from '@shared/schemas/design';
 import { UPLOAD_LIMITS, type Upload, type UploadKind } from '@shared/schemas/uploads';
+import { useMe } from '@/features/auth/api/get-me';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
 import { ConfirmDialog } from '@/components/ui/confirm-dialog';
@@ -65,6 +66,8 @@ export function AssetPicker({ projectId, kind, legend, value, onChange, canUploa
   const [deleting, setDeleting] = useState<Upload | null>(null);
   const inputRef = useRef<HTMLInputElement>(null);
   const [uploadError, setUploadError] = useState<string | null>(null);
+  // The server's own limits; the defaults until they have loaded.
+  const limits = useMe().data?.limits ?? { uploadMaxBytes: UPLOAD_LIMITS.maxBytes, uploadMaxSide: UPLOAD_LIMITS.maxSide };
   const name = useId();
 
   const ownUploads = (uploads.data ?? []).filter((upload) => upload.kind === kind);
@@ -90,8 +93,8 @@ export function AssetPicker({ projectId, kind, legend, value, onChange, canUploa
 
   async function upload(file: File) {
     setUploadError(null);
-    if (file.size > UPLOAD_LIMITS.maxBytes) {
-      setUploadError(`The file is ${(file.size / 1048576).toFixed(1)} MB; the limit is ${UPLOAD_LIMITS.maxBytes / 1048576} MB.`);
+    if (file.size > limits.uploadMaxBytes) {
+      setUploadError(`The file is ${(file.size / 1048576).toFixed(1)} MB; this server's limit is ${+(limits.uploadMaxBytes / 1048576).toFixed(3)} MB.`);
       return;
     }
     try {
@@ -186,7 +189,7 @@ export function AssetPicker({ projectId, kind, legend, value, onChange, canUploa
           </Button>
           <span className="text-xs text-ink-soft">
             {kind === 'image'
-              ? `Grayscale or colour (read as gray), up to ${UPLOAD_LIMITS.maxSide} px a side.`
+              ? `Grayscale or colour (read as gray), up to ${limits.uploadMaxSide} px a side.`
               : 'N × N float .npy in radians, or a grayscale PNG (0…255 → 0…2π).'}
           </span>
         </div>
