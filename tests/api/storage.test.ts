@@ -8,6 +8,7 @@ import { mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { reserveRunFiles } from '../../server/components/quotas/quota.service';
 import { storeArtifacts } from '../../server/components/runs/run-artifacts';
 import { RunArtifactModel, RunModel } from '../../server/components/runs/run.model';
 import { encodeNpy } from '../../shared/optics/npy';
@@ -175,5 +176,36 @@ describe('storage quota', () => {
     expect(run.status).toBe('failed');
     expect(run.error).toMatch(/^This project stores .* quota \(PROJECT_STORAGE_MB = 0\.1\); this run's files \(.*\) do not fit/);
     expect(run.artifacts).toEqual([]);
+  });
+
+  it('two runs finishing at once with room for one: exactly one keeps its files (the room is taken under the project lock)', async () => {
+    const p = await project();
+    const runs = await Promise.all([0, 1].map(() => RunModel.create({ projectId: p.projectId, revisionId: p.revisionId, startedById: null, queuedAt: new Date(), status: 'running' })));
+    const dir = await mkdtemp(join(tmpdir(), 'pw-storage-'));
+    const bytes = Math.floor(QUOTA_BYTES * 0.6);
+    await writeFile(join(dir, 'farfield_a.png'), randomBytes(bytes));
+    const files = [{ name: 'farfield_a.png', bytes }];
+    const refusals: string[] = [];
+    const kept = await Promise.all(
+      runs.map((run) =>
+        storeArtifacts(run.id, dir, files, undefined, async (createRows) => {
+          const reserved = await reserveRunFiles({ PROJECT_STORAGE_MB: 0.1 }, p.projectId, bytes, async (transaction) => {
+            // Slow enough that, without the lock, both checks would see the room still free.
+            await new Promise((r) => setTimeout(r, 200));
+            return createRows(transaction);
+          });
+          if ('rows' in reserved) return reserved.rows;
+          refusals.push(reserved.refusal);
+          return null;
+        }),
+      ),
+    );
+    await rm(dir, { recursive: true });
+    expect(kept.filter(Boolean)).toHaveLength(1);
+    expect(refusals).toHaveLength(1);
+    expect(refusals[0]).toMatch(/PROJECT_STORAGE_MB = 0\.1\); this run's files .* do not fit/);
+    const stored = await RunArtifactModel.findAll({ where: { runId: runs.map((r) => r.id) } });
+    expect(stored).toHaveLength(1);
+    expect(stored[0].size).toBe(bytes);
   });
 });

@@ -70,13 +70,25 @@ function storageUse(config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, used: number)
 const fits = (config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, used: number, adding: number) => used + adding <= storageQuotaBytes(config);
 
 /**
- * Null when a finished run's files (`adding` bytes) fit the project's storage quota; otherwise the message
- * the run fails with (its files are then not kept).
+ * Keeps a finished run's files (`adding` bytes) in the project's storage only when they fit its quota: under
+ * the project's lock (as uploads and run starts take it), checks the room and runs `createRows`, which
+ * creates the files' rows with their sizes, so two runs finishing at once, or a run and an upload, cannot
+ * both take the same room. The message the run fails with when they do not fit (nothing created), else the rows.
  */
-export async function runFilesRefusal(config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>, projectId: number, adding: number): Promise<string | null> {
-  const used = await storedBytes(projectId);
-  if (fits(config, used, adding)) return null;
-  return `${storageUse(config, used)}; this run's files (${formatBytes(adding)}) do not fit, so they were not kept. Delete uploads or the files of old runs, then start the run again.`;
+export async function reserveRunFiles<T>(
+  config: Pick<AppConfig, 'PROJECT_STORAGE_MB'>,
+  projectId: number,
+  adding: number,
+  createRows: (transaction: Transaction) => Promise<T>,
+): Promise<{ refusal: string } | { rows: T }> {
+  return ProjectModel.sequelize!.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
+    //BREAKawait lockOwners(null, projectId, transaction);
+    const used = await storedBytes(projectId, transaction);
+    if (!fits(config, used, adding)) {
+      return { refusal: `${storageUse(config, used)}; this run's files (${formatBytes(adding)}) do not fit, so they were not kept. Delete uploads or the files of old runs, then start the run again.` };
+    }
+    return { rows: await createRows(transaction) };
+  });
 }
 
 /** 413 unless `adding` more bytes fit the project's storage quota. */

@@ -6,6 +6,7 @@
 import { open } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { Writable } from 'node:stream';
+import type { Transaction } from 'sequelize';
 import type { RunArtifact } from '../../../shared/schemas/runs';
 import { describeArtifact } from './run-outcome';
 import type { RunOutputFile } from './run-task';
@@ -36,14 +37,30 @@ async function insertChunk(artifactId: number, seq: number, bytes: Buffer): Prom
   }
 }
 
-/** Stores the files of `dir` as the artifacts of run `runId`, replacing any it had. */
-export async function storeArtifacts(runId: number, dir: string, files: RunOutputFile[], chunkBytes = ARTIFACT_CHUNK_BYTES): Promise<void> {
-  await deleteArtifacts(runId);
+/**
+ * Stores the files of `dir` as the artifacts of run `runId`, replacing any it had. With `reserve`, the rows
+ * are created through it (which may refuse: false, nothing stored).
+ */
+export async function storeArtifacts(
+  runId: number,
+  dir: string,
+  files: RunOutputFile[],
+  chunkBytes = ARTIFACT_CHUNK_BYTES,
+  reserve?: (createRows: (transaction: Transaction) => Promise<RunArtifactModel[]>) => Promise<RunArtifactModel[] | null>,
+): Promise<boolean> {
+  // The rows first, with the sizes the worker reported: they are what the project's storage quota counts, so
+  // `reserve` can check and create them under the project's lock before the bytes are written.
+  const createRows = async (transaction?: Transaction) => {
+    await RunArtifactModel.destroy({ where: { runId }, transaction });
+    const rows: RunArtifactModel[] = [];
+    for (const file of files) rows.push(await RunArtifactModel.create({ runId, name: file.name, ...describeArtifact(file.name), size: file.bytes }, { transaction }));
+    return rows;
+  };
+  const rows = reserve ? await reserve(createRows) : await createRows();
+  if (!rows) return false;
   const buffer = Buffer.alloc(chunkBytes);
-  for (const file of files) {
-    const { mime, label } = describeArtifact(file.name);
-    const artifact = await RunArtifactModel.create({ runId, name: file.name, mime, size: 0, label });
-    const handle = await open(join(dir, file.name), 'r');
+  for (const artifact of rows) {
+    const handle = await open(join(dir, artifact.name), 'r');
     let size = 0;
     try {
       for (let seq = 0; ; seq++) {
@@ -56,9 +73,12 @@ export async function storeArtifacts(runId: number, dir: string, files: RunOutpu
     } finally {
       await handle.close();
     }
-    artifact.size = size;
-    await artifact.save();
+    if (artifact.size !== size) {
+      artifact.size = size;
+      await artifact.save();
+    }
   }
+  return true;
 }
 
 export async function deleteArtifacts(runId: number): Promise<void> {

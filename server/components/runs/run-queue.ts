@@ -11,7 +11,7 @@ import { mkdtemp, rm } from 'node:fs/promises';
 import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { MessageChannel } from 'node:worker_threads';
-import { Op } from 'sequelize';
+import { Op, type Transaction } from 'sequelize';
 import { Piscina } from 'piscina';
 import type { Logger } from 'pino';
 import type { Design } from '../../../shared/schemas/design';
@@ -19,14 +19,14 @@ import type { AppConfig } from '../../config';
 import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { rulesForRun } from '../fab/design-rules.service';
 import { libraryForRun } from '../atom-libraries/atom-library.service';
-import { runFilesRefusal, timeLimitMessage } from '../quotas/quota.service';
+import { reserveRunFiles, timeLimitMessage } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { UploadModel } from '../uploads/upload.model';
 import { createToleranceExecutor } from '../tolerance/tolerance-executor';
 import { deleteArtifacts, storeArtifacts } from './run-artifacts';
 import { addEvent, markCancelled, markFailed, markStarted, markSucceeded, recordProgress, recoverInterrupted } from './run-state';
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
-import { RunModel } from './run.model';
+import { RunArtifactModel, RunModel } from './run.model';
 import { deletedUploadsMessage } from './run.service';
 
 export interface RunQueue {
@@ -254,14 +254,20 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
             // Cancelled or timed out while finishing: keep nothing.
             const row = await RunModel.findByPk(runId, { attributes: ['status', 'projectId'] });
             if (row?.status !== 'running') return;
-            if (limits) {
-              const refusal = await runFilesRefusal(limits, row.projectId, result.files.reduce((sum, file) => sum + file.bytes, 0));
-              if (refusal) {
-                await markFailed(runId, refusal, ['running']);
-                return;
-              }
+            let refusal: string | null = null;
+            const reserve = limits
+              ? async (createRows: (transaction: Transaction) => Promise<RunArtifactModel[]>) => {
+                  const reserved = await reserveRunFiles(limits, row.projectId, result.files.reduce((sum, file) => sum + file.bytes, 0), createRows);
+                  if ('rows' in reserved) return reserved.rows;
+                  refusal = reserved.refusal;
+                  return null;
+                }
+              : undefined;
+            const kept = await track.later(() => storeArtifacts(runId, result.outDir, result.files, undefined, reserve));
+            if (!kept) {
+              await markFailed(runId, refusal ?? 'The run\'s files could not be kept', ['running']);
+              return;
             }
-            await track.later(() => storeArtifacts(runId, result.outDir, result.files));
             const stored = await markSucceeded(runId, { metrics: result.metrics, plots: result.plots, headline: result.headline, convergence: result.convergence });
             if (!stored) await deleteArtifacts(runId);
           } else {
