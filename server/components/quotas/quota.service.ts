@@ -82,7 +82,7 @@ export async function reserveRunFiles<T>(
   createRows: (transaction: Transaction) => Promise<T>,
 ): Promise<{ refusal: string } | { rows: T }> {
   return ProjectModel.sequelize!.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
-    //BREAKawait lockOwners(null, projectId, transaction);
+    await lockOwners(null, projectId, transaction);
     const used = await storedBytes(projectId, transaction);
     if (!fits(config, used, adding)) {
       return { refusal: `${storageUse(config, used)}; this run's files (${formatBytes(adding)}) do not fit, so they were not kept. Delete uploads or the files of old runs, then start the run again.` };
