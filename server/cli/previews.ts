@@ -24,10 +24,8 @@ import { outlineRect, paintIndex, paintIntensity, paintPhase, poolMap, subsample
 import { CHANNEL_IDS, INPUT_IDS, type ChannelId, type DesignRun, type FarFieldSet, type InputId, type RunFarFields } from '../../shared/optics/pipeline';
 import type { JonesVector } from '../../shared/optics/types';
 import type { PixelWindow, ScreenView } from '../../shared/optics/target';
+import { PICTURE_CONVENTION, type PictureAxis, type PictureFrame, type PictureFrames, type PictureKey } from '../../shared/schemas/pictures';
 import { writePng } from './png';
-
-/** Version of the picture convention the previews are painted in; runs without it were painted with y down. */
-export const PICTURE_CONVENTION = 2;
 
 /**
  * The picture turned so that the map's last row is at the top: array rows run from the smallest y (or v) up,
@@ -286,38 +284,6 @@ export async function writePainted(dir: string, painters: Painter[]): Promise<Wr
   const files: WrittenFile[] = [];
   for (const [name, paint] of painters) files.push({ name, bytes: await writePng(join(dir, name), paint()) });
   return files;
-}
-
-/** One axis of a preview: what it shows, its unit ('' for direction cosines) and its values at the picture's edges. */
-export interface PictureAxis {
-  label: string;
-  unit: string;
-  /** Value at the left edge (x axis) or the bottom edge (y axis) of the picture. */
-  from: number;
-  /** Value at the right edge (x axis) or the top edge (y axis). */
-  to: number;
-}
-
-/** What a preview's colours mean: the quantity, its colour map, and the values at both ends of the key. */
-export interface PictureKey {
-  colours: 'sequential' | 'cyclic' | 'index';
-  quantity: string;
-  from: string;
-  to: string;
-}
-
-/** The physical frame of one preview file, as metrics.json and the run page read it. */
-export interface PictureFrame {
-  x: PictureAxis;
-  y: PictureAxis;
-  key: PictureKey;
-}
-
-/** The pictures' convention and the frame of each preview of a run, by file name (metrics.json `pictures`). */
-export interface PictureFrames {
-  convention: number;
-  meaning: string;
-  frames: Record<string, PictureFrame>;
 }
 
 const MICRO = 1e6;

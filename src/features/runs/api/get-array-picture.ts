@@ -10,8 +10,9 @@ const MAX_SIDE = 1024;
 /**
  * Fetches an N×N phase array (.npy, radians) of a run and paints it in the cyclic colours as a PNG, for
  * maps the run stores only as arrays (δx, δy). Large arrays are sampled down to at most 1024 per side.
+ * `upright`: the last array row (the largest y) at the top, as README "Picture convention" paints previews.
  */
-export async function getArrayPicture(href: string, name: string, signal?: AbortSignal): Promise<Blob> {
+export async function getArrayPicture(href: string, name: string, signal?: AbortSignal, upright = true): Promise<Blob> {
   const response = await fetch(href, { credentials: 'same-origin', signal });
   if (!response.ok) throw new ApiError(response.status, `The file ${name} did not load (the server answered ${response.status})`);
   const array = decodeNpy(new Uint8Array(await response.arrayBuffer()));
@@ -24,6 +25,11 @@ export async function getArrayPicture(href: string, name: string, signal?: Abort
   const side = rows / factor;
   const values = factor > 1 ? subsampleMap(array.data, rows, factor) : array.data;
   const image = paintPhase(values, side, side);
+  if (upright) {
+    const stride = side * 4;
+    const rows = image.data.slice();
+    for (let row = 0; row < side; row++) image.data.set(rows.subarray(row * stride, (row + 1) * stride), (side - 1 - row) * stride);
+  }
   const canvas = document.createElement('canvas');
   canvas.width = side;
   canvas.height = side;
@@ -33,16 +39,16 @@ export async function getArrayPicture(href: string, name: string, signal?: Abort
   );
 }
 
-export function arrayPictureQueryOptions(projectId: number, runId: number, name: string, href: string) {
+export function arrayPictureQueryOptions(projectId: number, runId: number, name: string, href: string, upright = true) {
   return queryOptions({
-    queryKey: [...runKeys.artifact(projectId, runId, name), 'picture', href] as const,
-    queryFn: ({ signal }) => getArrayPicture(href, name, signal),
+    queryKey: [...runKeys.artifact(projectId, runId, name), 'picture', href, upright] as const,
+    queryFn: ({ signal }) => getArrayPicture(href, name, signal, upright),
     staleTime: Infinity,
     gcTime: 5 * 60_000,
   });
 }
 
-export function useArrayPicture(projectId: number, runId: number, name: string, enabled: boolean) {
+export function useArrayPicture(projectId: number, runId: number, name: string, enabled: boolean, upright = true) {
   const href = useArtifactAddress(projectId, runId).href(name);
-  return useQuery({ ...arrayPictureQueryOptions(projectId, runId, name, href), enabled });
+  return useQuery({ ...arrayPictureQueryOptions(projectId, runId, name, href, upright), enabled });
 }
