@@ -110,7 +110,7 @@ export function PictureAxes({ spec, mirrored, visible, children }: PictureAxesPr
           </div>
         </div>
         {children}
-        <div aria-hidden="true" className="flex items-start justify-center pt-1">
+        <div className="flex items-start justify-center pt-1">
           <OrientationMark x={shortName(x)} y={shortName(y)} mirrored={mirrored} />
         </div>
         <div aria-hidden="true">
@@ -145,17 +145,17 @@ function OrientationMark({ x, y, mirrored }: { x: string; y: string; mirrored: b
   const ax = mirrored ? 34 : 8;
   const bx = mirrored ? 8 : 34;
   return (
-    <svg viewBox="0 0 44 40" className="h-10 w-11 text-ink-soft" role="img" aria-label={`${x} grows ${mirrored ? 'to the left' : 'to the right'}, ${y} grows upwards`}>
+    <svg viewBox="0 0 44 40" className="h-12 w-13 text-ink-soft" role="img" aria-label={`${x} grows ${mirrored ? 'to the left' : 'to the right'}, ${y} grows upwards`}>
       <g stroke="currentColor" strokeWidth="1.6" fill="none" strokeLinecap="round">
         <path d={`M${ax} 30 H${bx}`} />
         <path d={mirrored ? `M${bx + 4} 26 L${bx} 30 L${bx + 4} 34` : `M${bx - 4} 26 L${bx} 30 L${bx - 4} 34`} />
         <path d={`M${ax} 30 V6`} />
         <path d={`M${ax - 4} 10 L${ax} 6 L${ax + 4} 10`} />
       </g>
-      <text x={mirrored ? bx - 2 : bx + 2} y="33" fontSize="9" fill="currentColor" textAnchor={mirrored ? 'end' : 'start'}>
+      <text x={mirrored ? bx - 2 : bx + 2} y="33" fontSize="10" fill="currentColor" textAnchor={mirrored ? 'end' : 'start'}>
         {x}
       </text>
-      <text x={mirrored ? ax - 6 : ax + 6} y="9" fontSize="9" fill="currentColor" textAnchor={mirrored ? 'end' : 'start'}>
+      <text x={mirrored ? ax - 6 : ax + 6} y="9" fontSize="10" fill="currentColor" textAnchor={mirrored ? 'end' : 'start'}>
         {y}
       </text>
     </svg>
