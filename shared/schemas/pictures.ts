@@ -37,3 +37,20 @@ export type PictureAxis = z.infer<typeof pictureAxisSchema>;
 export type PictureKey = z.infer<typeof pictureKeySchema>;
 export type PictureFrame = z.infer<typeof pictureFrameSchema>;
 export type PictureFrames = z.infer<typeof pictureFramesSchema>;
+
+const axisText = (axis: PictureAxis, towards: string) => {
+  const number = (v: number) => (Math.abs(v) >= 100 ? v.toFixed(0) : v.toPrecision(3)).replace('-', '−');
+  return `${axis.label} from ${number(axis.from)} to ${number(axis.to)}${axis.unit ? ` ${axis.unit}` : ''} ${towards}`;
+};
+
+/**
+ * A preview's frame in words, for captions outside the app (the fab package's report): its axes and their
+ * directions, or a note that the run predates the convention. Example: "u = sin θx from −1.00 to 0.996 to the
+ * right, v = sin θy from −1.00 to 0.996 upwards".
+ */
+export function pictureFrameText(plotsPictures: unknown, name: string): string | null {
+  const parsed = pictureFramesSchema.safeParse(plotsPictures);
+  if (!parsed.success) return name.endsWith('.png') ? 'painted before the picture convention: y (v) grows downwards' : null;
+  const frame = parsed.data.frames[name];
+  return frame ? `${axisText(frame.x, 'to the right')}, ${axisText(frame.y, 'upwards')}` : null;
+}

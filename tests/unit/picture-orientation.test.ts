@@ -64,6 +64,13 @@ const markDesign = {
   },
 };
 
+/** The same picture meant for a flat screen (pre-distorted target, screen_a.png shows the screen). */
+const screenDesign = {
+  ...markDesign,
+  name: 'Mark on a flat screen',
+  channels: { ...markDesign.channels, a: { terms: [{ ...markDesign.channels.a.terms[0], seenOn: 'flat-screen' }] } },
+};
+
 /** A 32×32 grayscale picture, black, with a white 10×10 square in its top-left corner (rows 2…11, columns 2…11). */
 function markPicture(): Buffer {
   const png = new PNG({ width: 32, height: 32 });
@@ -78,6 +85,7 @@ function markPicture(): Buffer {
 
 let tiltOut = '';
 let markOut = '';
+let screenOut = '';
 beforeAll(() => {
   writeFileSync(join(dir, 'tilt.json'), JSON.stringify(tiltDesign));
   writeFileSync(join(dir, 'mark.json'), JSON.stringify(markDesign));
@@ -86,6 +94,10 @@ beforeAll(() => {
   expect(tilt.status, tilt.stderr).toBe(0);
   const mark = cli(['run', 'mark.json', '--out', 'mark']);
   expect(mark.status, mark.stderr).toBe(0);
+  writeFileSync(join(dir, 'screen.json'), JSON.stringify(screenDesign));
+  const screen = cli(['run', 'screen.json', '--out', 'screen']);
+  expect(screen.status, screen.stderr).toBe(0);
+  screenOut = join(dir, 'screen');
   tiltOut = join(dir, 'tilt');
   markOut = join(dir, 'mark');
 }, 480_000);
@@ -148,6 +160,24 @@ describe('far-field previews follow the published sign convention (Goodman: exp(
     }
     expect(checked).toBeGreaterThanOrEqual(6);
   });
+
+  it('metrics.json gives every far-field PNG the frame that reads the peak back at (sin 10°, sin 5°)', () => {
+    const { pictures } = JSON.parse(readFileSync(join(tiltOut, 'metrics.json'), 'utf8')) as {
+      pictures: { convention: number; frames: Record<string, { x: { from: number; to: number; label: string }; y: { from: number; to: number; label: string } }> };
+    };
+    expect(pictures.convention).toBe(2);
+    for (const name of ['farfield_a.png', 'farfield_b.png', 'farfield_extra.png']) {
+      const { x, y } = pictures.frames[name];
+      expect(x.label).toBe('u = sin θx');
+      expect(y.label).toBe('v = sin θy');
+      const spot = brightestSpot(join(tiltOut, name));
+      // Picture fractions → values: x from the left edge, y from the top edge (the top edge is y.to).
+      const u = x.from + ((spot.x + 0.5) / spot.width) * (x.to - x.from);
+      const v = y.to - ((spot.y + 0.5) / spot.height) * (y.to - y.from);
+      expect(Math.abs(u - sinDeg(10)), name).toBeLessThan(1.5 * DELTA_U);
+      expect(Math.abs(v - sinDeg(5)), name).toBeLessThan(1.5 * DELTA_U);
+    }
+  });
 });
 
 describe('a target picture is upright: its top-left mark appears top-left', () => {
@@ -181,6 +211,14 @@ describe('a target picture is upright: its top-left mark appears top-left', () =
     }
     return { dx: (sx / sum - (x0 + x1) / 2) / (x1 - x0), dy: (sy / sum - (y0 + y1) / 2) / (y1 - y0), windowTop: y0, height };
   }
+
+  it('on the flat screen (screen_a.png) of a picture meant for one, and in that run’s far field', () => {
+    for (const path of [join(screenOut, 'screen_a.png'), join(screenOut, 'farfield_a.png')]) {
+      const mark = markInPng(path);
+      expect(mark.dx, path).toBeLessThan(-0.15);
+      expect(mark.dy, path).toBeLessThan(-0.15);
+    }
+  });
 
   it('in the far-field PNG previews of the channel (total and its own output component)', () => {
     for (const name of ['farfield_a.png', 'farfield_a_out-a.png']) {
