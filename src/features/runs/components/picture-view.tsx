@@ -56,14 +56,23 @@ export function usePictureFrame(runId: number, name: string): { frame: PictureFr
 }
 
 /**
+ * Registers the frames of a run's previews, so that every ArtifactFigure of that run draws its axes (any page
+ * that shows a run's pictures calls it, or renders RunPictureView). Returns the record, null for older runs.
+ */
+export function useRunPictureFrames(run: Pick<RunDetail, 'id' | 'plots'>): PictureFrames | null {
+  const record = readPictureFrames(run.plots);
+  // Registered while rendering (an idempotent cache write) so the figures rendered after it see the frames at once.
+  if (JSON.stringify(frames.get(run.id) ?? null) !== JSON.stringify(record)) frames.set(run.id, record);
+  useEffect(() => emit(), [run.id, record?.convention]);
+  return record;
+}
+
+/**
  * The run's picture settings: registers the frames of its previews for the figures below, offers the
  * mirror switch, and says when the run was made before the current picture convention.
  */
 export function RunPictureView({ run }: { run: RunDetail }) {
-  const record = readPictureFrames(run.plots);
-  // Registered while rendering (an idempotent cache write) so the figures rendered after it see the frames at once.
-  if (frames.get(run.id) !== record && JSON.stringify(frames.get(run.id) ?? null) !== JSON.stringify(record)) frames.set(run.id, record);
-  useEffect(() => emit(), [run.id, record?.convention]);
+  const record = useRunPictureFrames(run);
   const flipped = useSyncExternalStore(subscribe, () => mirrored);
   const id = useId();
   const hasPreviews = run.artifacts.some((artifact) => artifact.name.endsWith('.png'));
