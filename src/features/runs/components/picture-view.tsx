@@ -81,10 +81,11 @@ export function RunPictureView({ run }: { run: RunDetail }) {
   if (!record || record.convention < PICTURE_CONVENTION) {
     return (
       <Banner tone="warning" title="Previews in the earlier picture frame">
-        This run was made before the picture convention of README “Picture convention”. Its previews show v = sin θy
-        (and y) growing downwards, and its target pictures were placed with their top row at the most negative v: the
-        device of this run projects its pictures upside down as seen facing it, although the previews here show them
-        upright. Run the revision again to place them upright and get previews with labelled axes.
+        This run was made before pictures followed one frame (x to the right, y up, seen facing the device from the
+        side the light goes to). Its previews show v = sin θy, and y, growing downwards, and its target pictures were
+        placed with their top row at the most negative v: the device of this run projects its pictures upside down in
+        that frame, although the previews here show them upright. Run the revision again to place them upright and get
+        previews with labelled axes.
       </Banner>
     );
   }
