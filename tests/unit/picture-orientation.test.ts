@@ -86,6 +86,32 @@ function markPicture(): Buffer {
 let tiltOut = '';
 let markOut = '';
 let screenOut = '';
+let mapOut = '';
+
+/**
+ * A phase map given as a picture (grey g → phase 2πg/256): grey rises by 16 per row from the bottom row to the
+ * top row of a 128×128 picture, i.e. φ = 2π·8·(row from the bottom)/128 — a ramp exp(+i 2π·8 y/(N·P)) when the
+ * top row is the largest y, which sends the light to v = +8·λ/(N·P) (Goodman): 8 far-field pixels above the zero order.
+ */
+const MAP_N = 128;
+function rampPicture(): Buffer {
+  const png = new PNG({ width: MAP_N, height: MAP_N });
+  for (let row = 0; row < MAP_N; row++) {
+    const grey = (16 * (MAP_N - 1 - row)) % 256;
+    for (let x = 0; x < MAP_N; x++) png.data.set([grey, grey, grey, 255], 4 * (row * MAP_N + x));
+  }
+  return PNG.sync.write(png);
+}
+const mapDesign = {
+  format: 'phasewright-design/1',
+  name: 'Phase map given as a picture',
+  setup: { wavelengthNm: LAMBDA_NM, periodNm: PERIOD_NM, cells: MAP_N },
+  polarization: { kind: 'linear', angleDeg: 0 },
+  channels: {
+    a: { terms: [{ kind: 'custom', phaseMap: { source: 'file', path: 'ramp.png' } }] },
+    b: { terms: [{ kind: 'custom', phaseMap: { source: 'file', path: 'ramp.png' } }] },
+  },
+};
 beforeAll(() => {
   writeFileSync(join(dir, 'tilt.json'), JSON.stringify(tiltDesign));
   writeFileSync(join(dir, 'mark.json'), JSON.stringify(markDesign));
@@ -98,6 +124,11 @@ beforeAll(() => {
   const screen = cli(['run', 'screen.json', '--out', 'screen']);
   expect(screen.status, screen.stderr).toBe(0);
   screenOut = join(dir, 'screen');
+  writeFileSync(join(dir, 'ramp.png'), rampPicture());
+  writeFileSync(join(dir, 'map.json'), JSON.stringify(mapDesign));
+  const map = cli(['run', 'map.json', '--out', 'map']);
+  expect(map.status, map.stderr).toBe(0);
+  mapOut = join(dir, 'map');
   tiltOut = join(dir, 'tilt');
   markOut = join(dir, 'mark');
 }, 480_000);
@@ -177,6 +208,15 @@ describe('far-field previews follow the published sign convention (Goodman: exp(
       expect(Math.abs(u - sinDeg(10)), name).toBeLessThan(1.5 * DELTA_U);
       expect(Math.abs(v - sinDeg(5)), name).toBeLessThan(1.5 * DELTA_U);
     }
+  });
+});
+
+describe('a phase map given as a picture is read with its top row at the largest y', () => {
+  it('a grey ramp rising towards the picture’s top sends the light up: 8 pixels above the zero order', () => {
+    const spot = brightestSpot(join(mapOut, 'farfield_a.png'), 2);
+    expect(spot.x).toBeCloseTo(MAP_N / 2, 0);
+    // PNG row of far-field row N/2 + 8 (v = +8Δu): (N − 1) − (N/2 + 8).
+    expect(Math.abs(spot.y - (MAP_N - 1 - (MAP_N / 2 + 8)))).toBeLessThanOrEqual(1);
   });
 });
 
