@@ -20,23 +20,12 @@
  * slices put z to the right and x up. `pictureFrames` says, per file, what its edges are in physical units.
  */
 import { join } from 'node:path';
-import { outlineRect, paintIndex, paintIntensity, paintPhase, poolMap, subsampleMap, type Rgb, type RgbaImage } from '../../shared/optics/colormap';
+import { outlineRect, paintIndex, paintIntensity, paintPhase, poolMap, subsampleMap, upright, type Rgb, type RgbaImage } from '../../shared/optics/colormap';
 import { CHANNEL_IDS, INPUT_IDS, type ChannelId, type DesignRun, type FarFieldSet, type InputId, type RunFarFields } from '../../shared/optics/pipeline';
 import type { JonesVector } from '../../shared/optics/types';
 import type { PixelWindow, ScreenView } from '../../shared/optics/target';
 import { PICTURE_CONVENTION, type PictureAxis, type PictureFrame, type PictureFrames, type PictureKey } from '../../shared/schemas/pictures';
 import { writePng } from './png';
-
-/**
- * The picture turned so that the map's last row is at the top: array rows run from the smallest y (or v) up,
- * PNG rows from the top down. Example: a 1×2 picture with rows [red, blue] becomes [blue, red].
- */
-export function upright(image: RgbaImage): RgbaImage {
-  const stride = image.width * 4;
-  const data = new Uint8ClampedArray(image.data.length);
-  for (let row = 0; row < image.height; row++) data.set(image.data.subarray(row * stride, (row + 1) * stride), (image.height - 1 - row) * stride);
-  return { width: image.width, height: image.height, data };
-}
 
 /** Largest preview side in pixels; larger designs are pooled (intensities) or subsampled (phases, indices). */
 export const PREVIEW_MAX_SIDE = 1024;

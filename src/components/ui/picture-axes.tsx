@@ -34,6 +34,9 @@ export interface VisibleRange {
   bottom: number;
 }
 
+/** The whole picture in view. */
+export const FULL_VIEW: VisibleRange = { left: 0, right: 1, top: 0, bottom: 1 };
+
 /**
  * About `count` round tick values between a and b (steps 1, 2 or 5 × 10ᵏ), with the decimals their step
  * needs. Example: niceTicks(−1.004, 0.996) → −1, −0.5, 0, 0.5 (step 0.5).

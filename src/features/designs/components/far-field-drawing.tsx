@@ -1,8 +1,7 @@
-import { PictureAxes } from '@/components/ui/picture-axes';
+import { FULL_VIEW, PictureAxes } from '@/components/ui/picture-axes';
 import type { SetupFigures, WindowPlacement } from '@/features/designs/utils/far-field';
 
 const VIEW = 240;
-const FULL_VIEW = { left: 0, right: 1, top: 0, bottom: 1 };
 
 const fixed = (value: number, digits = 3) => value.toLocaleString(undefined, { maximumFractionDigits: digits, minimumFractionDigits: digits });
 

@@ -1,6 +1,6 @@
 import { useDeferredValue, useEffect, useMemo, useRef } from 'react';
-import { PictureAxes } from '@/components/ui/picture-axes';
-import { cyclicColor, paintPhase } from '@shared/optics/colormap';
+import { FULL_VIEW, PictureAxes } from '@/components/ui/picture-axes';
+import { cyclicColor, paintPhase, upright } from '@shared/optics/colormap';
 import { analyticTermOf } from '@shared/optics/design-units';
 import { sumPhaseTerms, type PhaseTerm } from '@shared/optics/phase-terms';
 import { termKindLabel, type DraftTerm } from '@/features/designs/utils/design-draft';
@@ -59,7 +59,6 @@ const legendGradient = `linear-gradient(to right, ${Array.from({ length: 13 }, (
   return `rgb(${r} ${g} ${b})`;
 }).join(', ')})`;
 
-const FULL_VIEW = { left: 0, right: 1, top: 0, bottom: 1 };
 
 function PhaseLegend() {
   return (
@@ -91,11 +90,8 @@ export function PhasePreview({ setup, terms, channelName }: { setup: { wavelengt
     canvas.height = result.n;
     const context = canvas.getContext('2d');
     if (!context) return;
-    // Row 0 is the smallest y; flip so +y points up as in the far-field drawing.
-    const flipped = new Uint8ClampedArray(image.data.length);
-    const stride = result.n * 4;
-    for (let row = 0; row < result.n; row++) flipped.set(image.data.subarray(row * stride, (row + 1) * stride), (result.n - 1 - row) * stride);
-    context.putImageData(new ImageData(flipped, result.n, result.n), 0, 0);
+    // Row 0 is the smallest y; drawn y up as in the far-field drawing (README "Picture convention").
+    context.putImageData(new ImageData(upright(image).data as Uint8ClampedArray<ArrayBuffer>, result.n, result.n), 0, 0);
   }, [result]);
 
   return (

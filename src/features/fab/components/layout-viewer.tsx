@@ -2,12 +2,11 @@ import { useRef, useState, type PointerEvent } from 'react';
 import type { DesignRuleViolationView, LayoutRegion } from '@shared/schemas/fab';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
-import { PictureAxes } from '@/components/ui/picture-axes';
+import { FULL_VIEW, PictureAxes } from '@/components/ui/picture-axes';
 import { Spinner } from '@/components/ui/spinner';
 import { useRunLayout } from '@/features/fab/api/get-run-layout';
 
 const SIZES = [16, 32, 64, 128] as const;
-const FULL_VIEW = { left: 0, right: 1, top: 0, bottom: 1 };
 
 export interface LayoutView {
   x0: number;

@@ -1,5 +1,5 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { paintPhase, subsampleMap } from '@shared/optics/colormap';
+import { paintPhase, subsampleMap, upright as uprightPicture } from '@shared/optics/colormap';
 import { decodeNpy } from '@shared/optics/npy-decode';
 import { ApiError } from '@/lib/api-client';
 import { useArtifactAddress } from '@/features/runs/api/artifact-url-context';
@@ -24,12 +24,8 @@ export async function getArrayPicture(href: string, name: string, signal?: Abort
   while (rows / factor > MAX_SIDE && rows % (factor * 2) === 0) factor *= 2;
   const side = rows / factor;
   const values = factor > 1 ? subsampleMap(array.data, rows, factor) : array.data;
-  const image = paintPhase(values, side, side);
-  if (upright) {
-    const stride = side * 4;
-    const rows = image.data.slice();
-    for (let row = 0; row < side; row++) image.data.set(rows.subarray(row * stride, (row + 1) * stride), (side - 1 - row) * stride);
-  }
+  const painted = paintPhase(values, side, side);
+  const image = upright ? uprightPicture(painted) : painted;
   const canvas = document.createElement('canvas');
   canvas.width = side;
   canvas.height = side;
