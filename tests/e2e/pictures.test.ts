@@ -80,6 +80,15 @@ describe('pictures on the run page', () => {
     await screenshot(page, 'pictures-02-mirrored');
     await page.getByLabel('Mirror previews left–right').uncheck();
     await first.getByRole('img', { name: 'u grows to the right, v grows upwards' }).waitFor();
+
+    // The composer's far-field sketch uses the same frame: u to the right, v up, labelled.
+    await page.goto(`${demo.server.url}${runPath.replace(/\/runs\/\d+$/, '/design')}`);
+    const sketch = page.locator('[data-picture-axes]', { hasText: 'v = sin θy' }).first();
+    await sketch.waitFor();
+    expect(await sketch.innerText()).toContain('u = sin θx');
+    await sketch.getByRole('img', { name: 'u grows to the right, v grows upwards' }).waitFor();
+    await sketch.scrollIntoViewIfNeeded();
+    await screenshot(page, 'pictures-04-composer-sketch');
     await page.close();
   });
 
