@@ -81,6 +81,13 @@ describe('pictures on the run page', () => {
     await page.getByLabel('Mirror previews left–right').uncheck();
     await first.getByRole('img', { name: 'u grows to the right, v grows upwards' }).waitFor();
 
+    // The printable design report draws the previews with the same axes.
+    await page.goto(`${demo.server.url}${runPath}/report`);
+    const printed = page.locator('#report-previews ~ div [data-picture-axes]', { hasText: 'u = sin θx' }).first();
+    await printed.waitFor();
+    expect(await printed.innerText()).toContain('v = sin θy');
+    await screenshot(page, 'pictures-05-report');
+
     // The composer's far-field sketch uses the same frame: u to the right, v up, labelled.
     await page.goto(`${demo.server.url}${runPath.replace(/\/runs\/\d+$/, '/design')}`);
     const sketch = page.locator('[data-picture-axes]', { hasText: 'v = sin θy' }).first();
