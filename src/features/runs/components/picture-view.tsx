@@ -2,6 +2,7 @@ import { useEffect, useId, useSyncExternalStore } from 'react';
 import { PICTURE_CONVENTION, pictureFramesSchema, type PictureFrame, type PictureFrames } from '@shared/schemas/pictures';
 import type { RunDetail } from '@shared/schemas/runs';
 import { Banner } from '@/components/ui/banner';
+import { isRunActive } from '@/features/runs/api/run-status';
 
 /**
  * How the run's pictures are shown (README "Picture convention"): each preview's frame, from the run's
@@ -75,8 +76,9 @@ export function RunPictureView({ run }: { run: RunDetail }) {
   const record = useRunPictureFrames(run);
   const flipped = useSyncExternalStore(subscribe, () => mirrored);
   const id = useId();
+  // Files and plots are stored together when a run succeeds: while it is still running, nothing to say yet.
   const hasPreviews = run.artifacts.some((artifact) => artifact.name.endsWith('.png'));
-  if (!hasPreviews) return null;
+  if (!hasPreviews || isRunActive(run.status)) return null;
 
   if (!record || record.convention < PICTURE_CONVENTION) {
     return (
