@@ -100,7 +100,12 @@ async function readPhaseMapRef(ref: AssetRef, folder: string, field: string, n: 
   }
   const image = await readImageRef(ref, folder, field);
   if (image.width !== n || image.height !== n) throw new InputError(`${field}: ${file} is ${image.width}×${image.height} pixels, the design needs ${n}×${n}`);
-  return Float64Array.from(image.pixels as Uint8Array, (g) => (2 * Math.PI * g) / 256);
+  // A picture's top row is the largest y (README "Picture convention"); the .npy above is [iy, ix] as it is.
+  const phase = new Float64Array(n * n);
+  for (let row = 0; row < n; row++) {
+    for (let ix = 0; ix < n; ix++) phase[(n - 1 - row) * n + ix] = (2 * Math.PI * (image.pixels[row * n + ix] as number)) / 256;
+  }
+  return phase;
 }
 
 /** The atom library of the design: the demo library made for the design's wavelength and period, or a CSV file. */

@@ -21,7 +21,7 @@ import { gdsiiChunks } from '../../shared/optics/gdsii';
 import { npyChunks, type NpyArray } from '../../shared/optics/npy';
 import { CHANNEL_IDS, type ChannelId, type DesignRun, type RunFarFields, type RunLayout } from '../../shared/optics/pipeline';
 import { drcRecord } from './drc-record';
-import { beamPreviewDataOf, farFieldPreviewDataOf, mapPreviewPainters, resultPreviewPainters, writePainted, type WrittenFile } from './previews';
+import { beamPreviewDataOf, farFieldPreviewDataOf, mapPreviewPainters, resultPreviewPainters, pictureFramesOf, writePainted, type WrittenFile } from './previews';
 
 export type { WrittenFile } from './previews';
 
@@ -78,6 +78,7 @@ export function metricsRecord(run: DesignRun): Record<string, unknown> {
   const notes = [
     'Handedness: optics convention of Born & Wolf, time dependence exp(−iωt): right-circular = [1, −i]/√2 turns clockwise seen by the receiver.',
     'Far fields: fftshifted (zero order at pixel (N/2, N/2)), unitary (sum = power), direction-cosine step λ/(N·P), evanescent pixels zero.',
+    'Pictures: x (u) to the right, y (v) up, seen facing the device from the side the light goes to; arrays are [iy, ix] with iy growing with y, so numpy shows them this way with imshow(origin="lower").',
   ];
   if (run.library.approximate) notes.push(`The atom library "${run.library.name}" is APPROXIMATE: ${run.library.source ?? 'not from full-wave data'}.`);
   if (beamLike) {
@@ -101,6 +102,7 @@ export function metricsRecord(run: DesignRun): Record<string, unknown> {
     designRuleViolations: run.drc.violations.slice(0, 50),
     designRuleViolationsTruncated: run.drc.violations.length > 50 || run.drc.truncated,
     timingsMs: run.timings,
+    pictures: pictureFramesOf(run),
     notes,
   };
 }

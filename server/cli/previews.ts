@@ -13,12 +13,18 @@
  * Far-field file names: farfield_<a|b|extra>.png (total), farfield_<input>_out-a.png and _out-b.png (along
  * λA*, λB*), farfield_<input>_x.png and _y.png — the last two only when the output states are not x and y
  * themselves (then they would repeat _out-a and _out-b).
+ *
+ * Every picture is painted in the picture convention (README "Picture convention"): x (or u = sin θx) to the
+ * right and y (or v = sin θy) up, seen facing the device from the side the light goes to — so the N×N arrays,
+ * row-major [iy, ix] with iy growing with y, are painted with their last row at the top (`upright`). The x–z
+ * slices put z to the right and x up. `pictureFrames` says, per file, what its edges are in physical units.
  */
 import { join } from 'node:path';
-import { outlineRect, paintIndex, paintIntensity, paintPhase, poolMap, subsampleMap, type Rgb, type RgbaImage } from '../../shared/optics/colormap';
+import { outlineRect, paintIndex, paintIntensity, paintPhase, poolMap, subsampleMap, upright, type Rgb, type RgbaImage } from '../../shared/optics/colormap';
 import { CHANNEL_IDS, INPUT_IDS, type ChannelId, type DesignRun, type FarFieldSet, type InputId, type RunFarFields } from '../../shared/optics/pipeline';
 import type { JonesVector } from '../../shared/optics/types';
 import type { PixelWindow, ScreenView } from '../../shared/optics/target';
+import { PICTURE_CONVENTION, type PictureAxis, type PictureFrame, type PictureFrames, type PictureKey } from '../../shared/schemas/pictures';
 import { writePng } from './png';
 
 /** Largest preview side in pixels; larger designs are pooled (intensities) or subsampled (phases, indices). */
@@ -143,7 +149,7 @@ export function farFieldFullScale(map: Float32Array, m: number): number | undefi
 
 /**
  * Paints an m×m far-field map pooled by `factor` from the N×N grid: gamma 0.5 up to `max` (brighter pixels
- * saturate), windows (N×N pixel coordinates) outlined just outside.
+ * saturate), windows (N×N pixel coordinates) outlined just outside, +v up (`upright`).
  */
 export function paintFarField(map: Float32Array, m: number, factor: number, windows: OutlinedWindow[], max: number | undefined): RgbaImage {
   const image = paintIntensity(map, m, m, { kind: 'gamma', gamma: 0.5, max });
@@ -159,7 +165,7 @@ export function paintFarField(map: Float32Array, m: number, factor: number, wind
       color,
     );
   }
-  return image;
+  return upright(image);
 }
 
 /** Far-field preview of an N×N intensity map on its own scale (paintFarField after pooling). */
@@ -170,7 +176,7 @@ export function farFieldPreview(intensity: Float32Array, n: number, windows: Out
   return paintFarField(map, m, factor, windows, farFieldFullScale(map, m));
 }
 
-/** x–z slice preview: z to the right (768 columns, nearest plane), x downwards (pooled to ≤ 1024 rows), gamma 0.5. */
+/** x–z slice preview: z to the right (768 columns, nearest plane), x up (pooled to ≤ 1024 rows), gamma 0.5. */
 export function slicePreview(slice: Float32Array, planes: number, n: number): RgbaImage {
   const factor = previewFactor(n);
   const rows = n / factor;
@@ -184,7 +190,7 @@ export function slicePreview(slice: Float32Array, planes: number, n: number): Rg
       values[r * width + col] = sum / factor;
     }
   }
-  return paintIntensity(values, width, rows, { kind: 'gamma', gamma: 0.5 });
+  return upright(paintIntensity(values, width, rows, { kind: 'gamma', gamma: 0.5 }));
 }
 
 /**
@@ -194,10 +200,11 @@ export function slicePreview(slice: Float32Array, planes: number, n: number): Rg
 export function screenPreview(view: ScreenView, color: Rgb): RgbaImage {
   const image = paintIntensity(view.irradiance, view.width, view.height, { kind: 'gamma', gamma: 0.5 });
   const column = (x: number) => ((x - view.shown.x0) / (view.shown.x1 - view.shown.x0)) * view.width;
-  const row = (y: number) => ((y - view.shown.y0) / (view.shown.y1 - view.shown.y0)) * view.height;
+  // Row 0 is the top of the shown area (Y = shown.y1), as in `screenView`.
+  const row = (y: number) => ((view.shown.y1 - y) / (view.shown.y1 - view.shown.y0)) * view.height;
   const x0 = Math.floor(column(view.picture.x0)) - 1;
-  const y0 = Math.floor(row(view.picture.y0)) - 1;
-  outlineRect(image, { x0, y0, width: Math.ceil(column(view.picture.x1)) + 1 - x0, height: Math.ceil(row(view.picture.y1)) + 1 - y0 }, color);
+  const y0 = Math.floor(row(view.picture.y1)) - 1;
+  outlineRect(image, { x0, y0, width: Math.ceil(column(view.picture.x1)) + 1 - x0, height: Math.ceil(row(view.picture.y0)) + 1 - y0 }, color);
   return image;
 }
 
@@ -215,11 +222,11 @@ function mapPreviewSize(n: number) {
 export function mapPreviewPainters(data: MapPreviewData): Painter[] {
   const { m, small } = mapPreviewSize(data.n);
   return [
-    ['phase_a.png', () => paintPhase(small(data.phases.a), m, m)],
-    ['phase_b.png', () => paintPhase(small(data.phases.b), m, m)],
-    ['atom_index.png', () => paintIndex(small(data.atomIndex), m, m, data.atomCount)],
+    ['phase_a.png', () => upright(paintPhase(small(data.phases.a), m, m))],
+    ['phase_b.png', () => upright(paintPhase(small(data.phases.b), m, m))],
+    ['atom_index.png', () => upright(paintIndex(small(data.atomIndex), m, m, data.atomCount))],
     // θ is defined mod π: 2θ is painted in the cyclic colours so the picture has no seams.
-    ['rotation.png', () => paintPhase(small(data.theta).map((t) => 2 * t), m, m)],
+    ['rotation.png', () => upright(paintPhase(small(data.theta).map((t) => 2 * t), m, m))],
   ];
 }
 
@@ -266,4 +273,77 @@ export async function writePainted(dir: string, painters: Painter[]): Promise<Wr
   const files: WrittenFile[] = [];
   for (const [name, paint] of painters) files.push({ name, bytes: await writePng(join(dir, name), paint()) });
   return files;
+}
+
+const MICRO = 1e6;
+const FAR_FIELD_KEY: PictureKey = {
+  colours: 'sequential',
+  quantity: '√(I / I₀), I₀ = the brightest pixel more than 2 preview pixels from the zero order; brighter pixels (often the zero order) clipped at 1',
+  from: '0',
+  to: '1 (clipped above)',
+};
+const COMPONENT_KEY: PictureKey = { ...FAR_FIELD_KEY, quantity: `${FAR_FIELD_KEY.quantity}; I₀ taken from the total far field of the same input` };
+const PHASE_KEY: PictureKey = { colours: 'cyclic', quantity: 'phase φ, rad (cyclic: −π and π share a colour)', from: '−π', to: 'π' };
+
+/**
+ * The frame of every preview a run writes, from the run's grid: far fields in direction cosines u = sin θx,
+ * v = sin θy (edges of the centred grid, pixel i at (i − N/2)·λ/(N·P)); maps in µm (cell centres at
+ * (i − (N−1)/2)·P, so the edges are ±N·P/2); x–z slices with z in mm (µm below 1 mm) to the right and x up;
+ * Fresnel image planes in µm; flat-screen views in units of the screen distance L.
+ * Example: N = 512, P = λ/2 → far-field u from −1.0039 to 0.9961.
+ */
+export function pictureFramesOf(run: DesignRun): PictureFrames {
+  const { n, period, lambda } = run.grid;
+  const deltaU = lambda / (n * period);
+  const uAxis = (label: string): PictureAxis => ({ label, unit: '', from: (-n / 2 - 0.5) * deltaU, to: (n / 2 - 0.5) * deltaU });
+  const half = (n * period * MICRO) / 2;
+  const cellAxis = (label: string): PictureAxis => ({ label, unit: 'µm', from: -half, to: half });
+  const frames: Record<string, PictureFrame> = {};
+  const withXY = !analyserIsXY(run.analyser);
+  for (const input of INPUT_IDS) {
+    frames[`farfield_${input}.png`] = { x: uAxis('u = sin θx'), y: uAxis('v = sin θy'), key: FAR_FIELD_KEY };
+    for (const component of FAR_FIELD_COMPONENTS) {
+      if (component === 'x' || component === 'y' ? withXY : true) frames[`farfield_${input}_${component}.png`] = { x: uAxis('u = sin θx'), y: uAxis('v = sin θy'), key: COMPONENT_KEY };
+    }
+  }
+  const map = (key: PictureKey): PictureFrame => ({ x: cellAxis('x'), y: cellAxis('y'), key });
+  frames['phase_a.png'] = map(PHASE_KEY);
+  frames['phase_b.png'] = map(PHASE_KEY);
+  frames['delta_x.npy'] = map({ ...PHASE_KEY, quantity: 'propagation phase δx, rad (cyclic)' });
+  frames['delta_y.npy'] = map({ ...PHASE_KEY, quantity: 'propagation phase δy, rad (cyclic)' });
+  frames['atom_index.png'] = map({ colours: 'index', quantity: 'row of atoms.csv', from: '0', to: String(Math.max(0, run.library.atoms.length - 1)) });
+  frames['rotation.png'] = map({ colours: 'cyclic', quantity: 'rotation θ, painted as 2θ (θ and θ + π are the same atom)', from: '0', to: 'π' });
+  for (const c of CHANNEL_IDS) {
+    const channel = run.channels[c];
+    const z = channel.beam?.z;
+    if (z && z.length > 0) {
+      const columns = 768;
+      const step = z.length > 1 ? (z[z.length - 1] - z[0]) / (columns - 1) : 0;
+      const inMm = z[z.length - 1] >= 1e-3;
+      const scale = inMm ? 1e3 : MICRO;
+      frames[`xz_${c}.png`] = {
+        x: { label: 'z', unit: inMm ? 'mm' : 'µm', from: (z[0] - step / 2) * scale, to: (z[z.length - 1] + step / 2) * scale },
+        y: cellAxis('x'),
+        key: { colours: 'sequential', quantity: '√(I / I_max) in the slice through the beam axis', from: '0', to: '1' },
+      };
+    }
+    if (channel.fresnelImage) {
+      const edge = (label: string): PictureAxis => ({ label, unit: 'µm', from: (-n / 2 - 0.5) * period * MICRO, to: (n / 2 - 0.5) * period * MICRO });
+      frames[`image_plane_${c}.png`] = { x: edge('x'), y: edge('y'), key: { ...FAR_FIELD_KEY, quantity: '√(I / I₀) in the image plane, I₀ = the brightest pixel more than 2 preview pixels from the axis; brighter pixels clipped at 1' } };
+    }
+    const screen = channel.screenView;
+    if (screen) {
+      frames[`screen_${c}.png`] = {
+        x: { label: 'X / L = tan θx', unit: '', from: screen.shown.x0, to: screen.shown.x1 },
+        y: { label: 'Y / L = tan θy', unit: '', from: screen.shown.y0, to: screen.shown.y1 },
+        key: { colours: 'sequential', quantity: '√(E / E_max), irradiance on the flat screen at distance L', from: '0', to: '1' },
+      };
+    }
+  }
+  return {
+    convention: PICTURE_CONVENTION,
+    meaning:
+      'x (u = sin θx) to the right, y (v = sin θy) up, seen facing the device from the side the light goes to (light travelling towards the viewer); a target picture appears upright in this view',
+    frames,
+  };
 }

@@ -42,6 +42,18 @@ export interface RgbaImage {
   data: Uint8ClampedArray;
 }
 
+/**
+ * The picture turned so that the map's last row is at the top (README "Picture convention"): maps are
+ * row-major [iy, ix] with iy growing with y (or v), pictures are drawn from the top row down, y up.
+ * Example: a 1×2 picture with rows [red, blue] becomes [blue, red].
+ */
+export function upright(image: RgbaImage): RgbaImage {
+  const stride = image.width * 4;
+  const data = new Uint8ClampedArray(image.data.length);
+  for (let row = 0; row < image.height; row++) data.set(image.data.subarray(row * stride, (row + 1) * stride), (image.height - 1 - row) * stride);
+  return { width: image.width, height: image.height, data };
+}
+
 function newImage(width: number, height: number): RgbaImage {
   return { width, height, data: new Uint8ClampedArray(width * height * 4) };
 }

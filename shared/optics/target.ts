@@ -10,7 +10,9 @@
  *   of the image plane, sampled like the device.
  * Window size and centre are given either in direction cosines (Fourier geometry only) or in cells
  * (= image-plane pixels: steps of Δu in the far field, steps of P in the Fresnel plane).
- * Image rows run top to bottom; image row 0 is placed at the smallest y of the window.
+ * Picture convention (README "Picture convention"): x to the right and y up, seen facing the device from the
+ * side the light goes to. Image rows run top to bottom, so image row 0 (the picture's top) is placed at the
+ * largest y of the window (the largest v in the far field): the device projects the picture upright in that view.
  */
 import { float64Array, type ArrayMemory } from './arrays';
 import type { CellGrid } from './types';
@@ -157,7 +159,8 @@ export function buildTargetPlane(grid: CellGrid, image: GrayImage, spec: TargetW
   const amplitude = float64Array(n * n, options.memory);
   for (let b = 0; b < window.height; b++) {
     for (let a = 0; a < window.width; a++) {
-      amplitude[(window.y0 + b) * n + window.x0 + a] = Math.sqrt(intensity[b * window.width + a]);
+      // Picture row b (from the top) goes to grid row y0 + height − 1 − b: the top at the largest y.
+      amplitude[(window.y0 + window.height - 1 - b) * n + window.x0 + a] = Math.sqrt(intensity[b * window.width + a]);
     }
   }
   return { n, amplitude, window, geometry };
@@ -302,7 +305,8 @@ export function buildScreenTarget(grid: CellGrid, image: GrayImage, spec: Screen
       const [x, y] = screenPoint(u, v);
       if (x < rect.x0 || x > rect.x1 || y < rect.y0 || y > rect.y1) continue;
       const sx = ((x - rect.x0) / (rect.x1 - rect.x0)) * image.width - 0.5;
-      const sy = ((y - rect.y0) / (rect.y1 - rect.y0)) * image.height - 0.5;
+      // The picture's top row sits at the rectangle's top edge, the largest screen Y.
+      const sy = ((rect.y1 - y) / (rect.y1 - rect.y0)) * image.height - 0.5;
       const value = Math.sqrt(sample(sx, sy)) / w2;
       amplitude[iy * n + ix] = value;
       peak = Math.max(peak, value);
@@ -312,7 +316,7 @@ export function buildScreenTarget(grid: CellGrid, image: GrayImage, spec: Screen
   return { n, amplitude, window, geometry: 'fourier' };
 }
 
-/** A far field as seen on the flat screen: irradiance on a grid of screen pixels, y downwards from y0. */
+/** A far field as seen on the flat screen: irradiance on a grid of screen pixels, row 0 at the top (Y = shown.y1), Y decreasing downwards. */
 export interface ScreenView {
   width: number;
   height: number;
@@ -346,7 +350,7 @@ export function screenView(farField: Float32Array, grid: CellGrid, picture: Scre
   const deltaU = grid.lambda / (n * grid.period);
   const irradiance = new Float32Array(width * height);
   for (let row = 0; row < height; row++) {
-    const y = shown.y0 + ((row + 0.5) / height) * (shown.y1 - shown.y0);
+    const y = shown.y1 - ((row + 0.5) / height) * (shown.y1 - shown.y0);
     for (let col = 0; col < width; col++) {
       const x = shown.x0 + ((col + 0.5) / width) * (shown.x1 - shown.x0);
       const [u, v] = screenDirection(x, y);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { cyclicColor, outlineRect, paintIntensity, paintPhase, poolMap, sequentialColor, subsampleMap } from '../../shared/optics/colormap';
+import { cyclicColor, outlineRect, paintIntensity, paintPhase, poolMap, sequentialColor, subsampleMap, upright } from '../../shared/optics/colormap';
 
 /** Relative luminance weights of ITU-R BT.709 (sRGB primaries). */
 const luma = ([r, g, b]: number[]) => 0.2126 * r + 0.7152 * g + 0.0722 * b;
@@ -44,5 +44,12 @@ describe('preview colour maps', () => {
     let marked = 0;
     for (let i = 0; i < 25; i++) if (img.data[4 * i] === 1 && img.data[4 * i + 1] === 2) marked++;
     expect(marked).toBe(8);
+  });
+});
+
+describe('upright (README "Picture convention": y up)', () => {
+  it('puts the last map row at the top of the picture', () => {
+    const image = { width: 1, height: 2, data: new Uint8ClampedArray([255, 0, 0, 255, 0, 0, 255, 255]) };
+    expect(Array.from(upright(image).data)).toEqual([0, 0, 255, 255, 255, 0, 0, 255]);
   });
 });

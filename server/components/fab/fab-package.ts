@@ -8,6 +8,7 @@
  * - report.html — the design report, standalone; export.json — who exported when, with which options.
  * Refused (409) while design-rule violations stand and no owner has overridden them.
  */
+import { pictureFrameText } from '../../../shared/schemas/pictures';
 import { createReadStream } from 'node:fs';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
@@ -117,7 +118,11 @@ export async function prepareFabPackage(config: AppConfig, run: RunModel, projec
       const ids = await findArtifact(run.id, a.name);
       if (!ids) continue;
       const place = a.name.endsWith('.npy') ? `arrays/${a.name}` : a.name.endsWith('.png') ? `previews/${a.name}` : a.name;
-      if (a.name.endsWith('.png')) previews.push({ file: place, caption: a.label });
+      if (a.name.endsWith('.png')) {
+        // README "Picture convention": each preview's axes in words (the report shows the PNG as it is).
+        const frame = pictureFrameText((run.plots as Record<string, unknown> | null)?.pictures, a.name);
+        previews.push({ file: place, caption: frame ? `${a.label} — ${frame}` : a.label });
+      }
       zip.append(artifactStream(ids.id), { ...name(place), store: a.name.endsWith('.png') });
     }
     const overrideNote = check.total > 0 && check.overrides.length ? ` Exported under the owner’s override of ${check.total} design-rule violations.` : '';

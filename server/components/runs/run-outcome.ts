@@ -55,6 +55,7 @@ export function plotsOf(run: DesignRun): Record<string, unknown> {
     notes: record.notes,
     timingsMs: record.timingsMs,
     mappingReport: run.mappingReport,
+    pictures: record.pictures,
   };
 }
 

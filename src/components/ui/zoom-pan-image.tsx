@@ -1,4 +1,5 @@
 import { useCallback, useEffect, useId, useRef, useState, type KeyboardEvent, type PointerEvent, type ReactNode } from 'react';
+import { PictureAxes, type PictureAxesSpec } from '@/components/ui/picture-axes';
 
 interface View {
   scale: number;
@@ -32,6 +33,10 @@ interface ZoomPanImageProps {
   aspect?: number;
   maxScale?: number;
   className?: string;
+  /** Labelled axes drawn around the picture, following zoom and pan (README "Picture convention"). */
+  axes?: PictureAxesSpec;
+  /** Shows the picture mirrored left to right (display only); marks and picks keep the picture's own coordinates. */
+  mirrored?: boolean;
 }
 
 const START: View = { scale: 1, x: 0, y: 0 };
@@ -42,7 +47,7 @@ const STEP = 1.5;
  * click to zoom in, buttons for +, − and fit. Keyboard: + and − zoom, arrows pan, 0 fits. Once a picture
  * pixel covers more than a screen pixel it is drawn as crisp squares, so single cells stay visible.
  */
-export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = '', overlay, onPick }: ZoomPanImageProps) {
+export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = '', overlay, onPick, axes, mirrored = false }: ZoomPanImageProps) {
   const frameRef = useRef<HTMLDivElement>(null);
   const pointers = useRef(new Map<number, { x: number; y: number }>());
   const pressedAt = useRef<{ x: number; y: number } | null>(null);
@@ -147,8 +152,9 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
     if (!onPick || !pressed || event.type !== 'pointerup' || Math.hypot(event.clientX - pressed.x, event.clientY - pressed.y) > 4) return;
     const { width, height, left, top } = frameSize();
     const clamp = (v: number) => Math.min(1, Math.max(0, v));
+    const across = clamp((event.clientX - left - view.x) / (width * view.scale));
     onPick({
-      x: clamp((event.clientX - left - view.x) / (width * view.scale)),
+      x: mirrored ? 1 - across : across,
       y: clamp((event.clientY - top - view.y) / (height * view.scale)),
     });
   };
@@ -176,9 +182,15 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
   const ratio = natural ? natural.height / natural.width : aspect;
   const magnification = natural && frameWidth > 0 ? (frameWidth * view.scale) / natural.width : 0;
   const zoomed = view.scale > 1;
-
-  return (
-    <div className={`flex flex-col gap-2 ${className}`}>
+  const frameHeight = frameWidth * ratio;
+  // The part of the picture in view, as fractions of its width and height.
+  const visible = {
+    left: frameWidth > 0 ? -view.x / (frameWidth * view.scale) : 0,
+    right: frameWidth > 0 ? (frameWidth - view.x) / (frameWidth * view.scale) : 1,
+    top: frameHeight > 0 ? -view.y / (frameHeight * view.scale) : 0,
+    bottom: frameHeight > 0 ? (frameHeight - view.y) / (frameHeight * view.scale) : 1,
+  };
+  const frame = (
       <div
         ref={frameRef}
         tabIndex={0}
@@ -215,7 +227,7 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
             onError={() => setFailed(true)}
             className="absolute top-0 left-0 h-full w-full origin-top-left"
             style={{
-              transform: `translate(${view.x}px, ${view.y}px) scale(${view.scale})`,
+              transform: `translate(${view.x}px, ${view.y}px) scale(${view.scale})${mirrored ? ' translateX(100%) scaleX(-1)' : ''}`,
               imageRendering: magnification > 1 ? 'pixelated' : 'auto',
             }}
           />
@@ -224,11 +236,22 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
           <div className="pointer-events-none absolute inset-0">
             {overlay({
               scale: view.scale,
-              place: (fx, fy) => ({ left: view.x + fx * frameWidth * view.scale, top: view.y + fy * frameWidth * ratio * view.scale }),
+              place: (fx, fy) => ({ left: view.x + (mirrored ? 1 - fx : fx) * frameWidth * view.scale, top: view.y + fy * frameWidth * ratio * view.scale }),
             })}
           </div>
         ) : null}
       </div>
+  );
+
+  return (
+    <div className={`flex flex-col gap-2 ${className}`}>
+      {axes ? (
+        <PictureAxes spec={axes} mirrored={mirrored} visible={visible}>
+          {frame}
+        </PictureAxes>
+      ) : (
+        frame
+      )}
       <div className="flex flex-wrap items-center gap-2">
         <div className="inline-flex overflow-hidden rounded-full ring-1 ring-line-strong ring-inset">
           <button

@@ -1,4 +1,5 @@
 import { useMemo } from 'react';
+import { readPictureFrames } from '@/features/runs/components/picture-view';
 import { Link, useParams } from 'react-router-dom';
 import { buildReportModel } from '@shared/report/design-report';
 import { Banner } from '@/components/ui/banner';
@@ -21,7 +22,8 @@ export default function RunReportRoute() {
   const report = useRunReport(projectId, runId);
   const run = useRun(projectId, runId);
   const model = useMemo(() => (report.data ? buildReportModel(report.data) : null), [report.data]);
-  const previews = (run.data?.artifacts ?? []).filter((a) => PREVIEW_PATTERN.test(a.name));
+  const frames = readPictureFrames(run.data?.plots ?? null)?.frames;
+  const previews = (run.data?.artifacts ?? []).filter((a) => PREVIEW_PATTERN.test(a.name)).map((a) => ({ ...a, frame: frames?.[a.name] }));
 
   if (report.isPending) return <PageLoader label="Preparing the design report" />;
   if (report.isError) {

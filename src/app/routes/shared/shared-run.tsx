@@ -15,6 +15,7 @@ import { RunFigures } from '@/features/runs/components/run-figures';
 import { channelLayout, inputNames } from '@/features/runs/components/run-facts';
 import { readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusBadge } from '@/features/runs/components/run-status-badge';
+import { RunPictureView } from '@/features/runs/components/picture-view';
 import { sharedArtifactHref, useSharedRun } from '@/features/sharing/api/share-links';
 
 /** Share links never reveal the project id; the run components only use it for addresses, which the context replaces. */
@@ -75,6 +76,7 @@ function SharedRunResults({ run }: { run: RunDetail }) {
   return (
     <>
       <ConvergenceCard run={run} channelNames={channelNames} />
+      <RunPictureView run={run} />
       <FarFieldPreviews projectId={NO_PROJECT} runId={run.id} groups={groups} inputs={inputNames(design)} channelNames={channelNames} />
       <RunFigures projectId={NO_PROJECT} runId={run.id} groups={groups} layout={layout} plots={plots} mapping={mapping} />
       {run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} /> : null}

@@ -1,5 +1,6 @@
 import { useDeferredValue, useEffect, useMemo, useRef } from 'react';
-import { cyclicColor, paintPhase } from '@shared/optics/colormap';
+import { FULL_VIEW, PictureAxes } from '@/components/ui/picture-axes';
+import { cyclicColor, paintPhase, upright } from '@shared/optics/colormap';
 import { analyticTermOf } from '@shared/optics/design-units';
 import { sumPhaseTerms, type PhaseTerm } from '@shared/optics/phase-terms';
 import { termKindLabel, type DraftTerm } from '@/features/designs/utils/design-draft';
@@ -58,6 +59,7 @@ const legendGradient = `linear-gradient(to right, ${Array.from({ length: 13 }, (
   return `rgb(${r} ${g} ${b})`;
 }).join(', ')})`;
 
+
 function PhaseLegend() {
   return (
     <div className="flex max-w-64 items-center gap-2 text-xs text-ink-soft" aria-hidden="true">
@@ -78,6 +80,7 @@ export function PhasePreview({ setup, terms, channelName }: { setup: { wavelengt
   );
   const result = useMemo(() => computePreview(input), [input]);
   const canvasRef = useRef<HTMLCanvasElement>(null);
+  const halfWidthUm = (setup.cells * setup.periodNm) / 2000;
 
   useEffect(() => {
     const canvas = canvasRef.current;
@@ -87,22 +90,28 @@ export function PhasePreview({ setup, terms, channelName }: { setup: { wavelengt
     canvas.height = result.n;
     const context = canvas.getContext('2d');
     if (!context) return;
-    // Row 0 is the smallest y; flip so +y points up as in the far-field drawing.
-    const flipped = new Uint8ClampedArray(image.data.length);
-    const stride = result.n * 4;
-    for (let row = 0; row < result.n; row++) flipped.set(image.data.subarray(row * stride, (row + 1) * stride), (result.n - 1 - row) * stride);
-    context.putImageData(new ImageData(flipped, result.n, result.n), 0, 0);
+    // Row 0 is the smallest y; drawn y up as in the far-field drawing (README "Picture convention").
+    context.putImageData(new ImageData(upright(image).data as Uint8ClampedArray<ArrayBuffer>, result.n, result.n), 0, 0);
   }, [result]);
 
   return (
     <figure className="flex flex-col gap-2">
       {result.phase ? (
-        <canvas
-          ref={canvasRef}
-          role="img"
-          aria-label={`${channelName} phase of ${result.shown.join(', ')}, previewed on ${result.n} × ${result.n} samples`}
-          className="aspect-square w-full max-w-64 rounded-xl ring-1 ring-line [image-rendering:pixelated]"
-        />
+        // README "Picture convention": x to the right, y up, cell centres across ±N·P/2.
+        <div className="w-full max-w-[19.75rem]">
+          <PictureAxes
+            spec={{ x: { label: 'x', unit: 'µm', from: -halfWidthUm, to: halfWidthUm }, y: { label: 'y', unit: 'µm', from: -halfWidthUm, to: halfWidthUm } }}
+            mirrored={false}
+            visible={FULL_VIEW}
+          >
+            <canvas
+              ref={canvasRef}
+              role="img"
+              aria-label={`${channelName} phase of ${result.shown.join(', ')}, previewed on ${result.n} × ${result.n} samples`}
+              className="aspect-square w-full rounded-xl ring-1 ring-line [image-rendering:pixelated]"
+            />
+          </PictureAxes>
+        </div>
       ) : (
         <div className="lattice-ink flex aspect-square w-full max-w-64 items-center justify-center rounded-xl p-4 text-center text-sm text-ink-soft ring-1 ring-line">
           {result.later.length ? 'No analytic term to draw yet.' : 'Add an axicon, vortex, lens or tilt to see its phase here.'}

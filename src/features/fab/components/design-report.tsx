@@ -1,8 +1,9 @@
 import type { ReportModel } from '@shared/report/design-report';
+import { FULL_VIEW, PictureAxes, type PictureAxesSpec } from '@/components/ui/picture-axes';
 import { apiUrl } from '@/lib/api-client';
 
 /** The design report on screen and on paper: the same model as report.html in the fab package. */
-export function DesignReport({ model, projectId, runId, previews }: { model: ReportModel; projectId: number; runId: number; previews: { name: string; label: string }[] }) {
+export function DesignReport({ model, projectId, runId, previews }: { model: ReportModel; projectId: number; runId: number; previews: { name: string; label: string; frame?: PictureAxesSpec }[] }) {
   return (
     <article className="design-report mx-auto max-w-4xl bg-card p-8 text-ink print:max-w-none print:p-0">
       <h1 className="text-2xl font-extrabold">{model.title}</h1>
@@ -64,12 +65,22 @@ export function DesignReport({ model, projectId, runId, previews }: { model: Rep
             Previews
           </h2>
           <div className="mt-2 grid grid-cols-3 gap-3">
-            {previews.map((p) => (
-              <figure key={p.name} className="break-inside-avoid">
-                <img src={apiUrl(`/projects/${projectId}/runs/${runId}/artifacts/${p.name}`)} alt={p.label} className="w-full ring-1 ring-line [image-rendering:pixelated]" />
-                <figcaption className="mt-1 text-xs text-ink-soft">{p.label}</figcaption>
-              </figure>
-            ))}
+            {previews.map((p) => {
+              const picture = <img src={apiUrl(`/projects/${projectId}/runs/${runId}/artifacts/${p.name}`)} alt={p.label} className="w-full ring-1 ring-line [image-rendering:pixelated]" />;
+              return (
+                <figure key={p.name} className="break-inside-avoid">
+                  {/* README "Picture convention": labelled axes, x (u) to the right, y (v) up. */}
+                  {p.frame ? (
+                    <PictureAxes spec={p.frame} mirrored={false} visible={FULL_VIEW}>
+                      {picture}
+                    </PictureAxes>
+                  ) : (
+                    picture
+                  )}
+                  <figcaption className="mt-1 text-xs text-ink-soft">{p.label}</figcaption>
+                </figure>
+              );
+            })}
           </div>
         </section>
       ) : null}

@@ -2,6 +2,7 @@ import { useRef, useState, type PointerEvent } from 'react';
 import type { DesignRuleViolationView, LayoutRegion } from '@shared/schemas/fab';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
+import { FULL_VIEW, PictureAxes } from '@/components/ui/picture-axes';
 import { Spinner } from '@/components/ui/spinner';
 import { useRunLayout } from '@/features/fab/api/get-run-layout';
 
@@ -40,65 +41,72 @@ function RegionSvg({ region, view, showViolations, focus }: { region: LayoutRegi
   }
   const cx = (ix: number) => (ix - centre) * p;
   const cy = (iy: number) => (iy - centre) * p;
+  // README "Picture convention": x to the right, y up, seen from above the pillars (the side the light goes to).
+  const axes = {
+    x: { label: 'x', unit: 'µm', from: left / 1000, to: (left + span) / 1000 },
+    y: { label: 'y', unit: 'µm', from: bottom / 1000, to: (bottom + span) / 1000 },
+  };
   return (
-    <svg
-      viewBox={`${left} ${-(bottom + span)} ${span} ${span}`}
-      className="aspect-square w-full rounded-xl bg-paper-deep ring-1 ring-line"
-      role="img"
-      aria-label={`Pillars of cells ${view.x0}–${view.x0 + view.size - 1} × ${view.y0}–${view.y0 + view.size - 1}, seen from above`}
-      data-testid="layout-svg"
-    >
-      {/* y up: the layout's frame, as in the GDSII */}
-      <g transform="scale(1,-1)">
-        {view.size <= 64 ? (
-          <g stroke="currentColor" className="text-line" strokeWidth={p * 0.01}>
-            {Array.from({ length: view.size + 1 }, (_, k) => (
-              <line key={`v${k}`} x1={left + k * p} y1={bottom} x2={left + k * p} y2={bottom + span} />
-            ))}
-            {Array.from({ length: view.size + 1 }, (_, k) => (
-              <line key={`h${k}`} x1={left} y1={bottom + k * p} x2={left + span} y2={bottom + k * p} />
-            ))}
-          </g>
-        ) : null}
-        {region.pillars.map((pillar) => {
-          const offending = bad.has(`${pillar.ix},${pillar.iy}`);
-          const focused = focus !== null && involves(focus, pillar.ix, pillar.iy);
-          return (
-            <rect
-              key={`${pillar.ix},${pillar.iy}`}
-              x={pillar.xNm - pillar.widthNm / 2}
-              y={pillar.yNm - pillar.lengthNm / 2}
-              width={pillar.widthNm}
-              height={pillar.lengthNm}
-              transform={pillar.angleDeg ? `rotate(${pillar.angleDeg} ${pillar.xNm} ${pillar.yNm})` : undefined}
-              className={focused ? 'fill-danger' : offending ? 'fill-danger/60' : 'fill-teal'}
-              data-cell={`${pillar.ix},${pillar.iy}`}
-            >
-              <title>{`cell (${pillar.ix}, ${pillar.iy}) · ${pillar.widthNm.toFixed(0)} × ${pillar.lengthNm.toFixed(0)} nm · ${pillar.angleDeg.toFixed(1)}°`}</title>
-            </rect>
-          );
-        })}
-        {showViolations
-          ? region.violations.map((v, k) =>
-              v.neighbour ? (
-                <line
-                  key={k}
-                  x1={cx(v.ix)}
-                  y1={cy(v.iy)}
-                  x2={cx(v.neighbour.ix)}
-                  y2={cy(v.neighbour.iy)}
-                  stroke="currentColor"
-                  className="text-danger"
-                  strokeWidth={p * (focus && involves(focus, v.ix, v.iy) ? 0.08 : 0.04)}
-                  data-violation={v.kind}
-                />
-              ) : (
-                <circle key={k} cx={cx(v.ix)} cy={cy(v.iy)} r={p * 0.48} fill="none" stroke="currentColor" className="text-danger" strokeWidth={p * 0.04} data-violation={v.kind} />
-              ),
-            )
-          : null}
-      </g>
-    </svg>
+    <PictureAxes spec={axes} mirrored={false} visible={FULL_VIEW}>
+      <svg
+        viewBox={`${left} ${-(bottom + span)} ${span} ${span}`}
+        className="aspect-square w-full rounded-xl bg-paper-deep ring-1 ring-line"
+        role="img"
+        aria-label={`Pillars of cells ${view.x0}–${view.x0 + view.size - 1} × ${view.y0}–${view.y0 + view.size - 1}, seen from above`}
+        data-testid="layout-svg"
+      >
+        {/* y up: the layout's frame, as in the GDSII */}
+        <g transform="scale(1,-1)">
+          {view.size <= 64 ? (
+            <g stroke="currentColor" className="text-line" strokeWidth={p * 0.01}>
+              {Array.from({ length: view.size + 1 }, (_, k) => (
+                <line key={`v${k}`} x1={left + k * p} y1={bottom} x2={left + k * p} y2={bottom + span} />
+              ))}
+              {Array.from({ length: view.size + 1 }, (_, k) => (
+                <line key={`h${k}`} x1={left} y1={bottom + k * p} x2={left + span} y2={bottom + k * p} />
+              ))}
+            </g>
+          ) : null}
+          {region.pillars.map((pillar) => {
+            const offending = bad.has(`${pillar.ix},${pillar.iy}`);
+            const focused = focus !== null && involves(focus, pillar.ix, pillar.iy);
+            return (
+              <rect
+                key={`${pillar.ix},${pillar.iy}`}
+                x={pillar.xNm - pillar.widthNm / 2}
+                y={pillar.yNm - pillar.lengthNm / 2}
+                width={pillar.widthNm}
+                height={pillar.lengthNm}
+                transform={pillar.angleDeg ? `rotate(${pillar.angleDeg} ${pillar.xNm} ${pillar.yNm})` : undefined}
+                className={focused ? 'fill-danger' : offending ? 'fill-danger/60' : 'fill-teal'}
+                data-cell={`${pillar.ix},${pillar.iy}`}
+              >
+                <title>{`cell (${pillar.ix}, ${pillar.iy}) · ${pillar.widthNm.toFixed(0)} × ${pillar.lengthNm.toFixed(0)} nm · ${pillar.angleDeg.toFixed(1)}°`}</title>
+              </rect>
+            );
+          })}
+          {showViolations
+            ? region.violations.map((v, k) =>
+                v.neighbour ? (
+                  <line
+                    key={k}
+                    x1={cx(v.ix)}
+                    y1={cy(v.iy)}
+                    x2={cx(v.neighbour.ix)}
+                    y2={cy(v.neighbour.iy)}
+                    stroke="currentColor"
+                    className="text-danger"
+                    strokeWidth={p * (focus && involves(focus, v.ix, v.iy) ? 0.08 : 0.04)}
+                    data-violation={v.kind}
+                  />
+                ) : (
+                  <circle key={k} cx={cx(v.ix)} cy={cy(v.iy)} r={p * 0.48} fill="none" stroke="currentColor" className="text-danger" strokeWidth={p * 0.04} data-violation={v.kind} />
+                ),
+              )
+            : null}
+        </g>
+      </svg>
+    </PictureAxes>
   );
 }
 
@@ -193,7 +201,7 @@ export function LayoutViewer({ projectId, runId, n, view, onViewChange, focus }:
           </label>
         </div>
         <p className="text-sm text-ink-soft tabular-nums" aria-live="polite">
-          Cells {view.x0}–{view.x0 + view.size - 1} (x) × {view.y0}–{view.y0 + view.size - 1} (y) of {n} × {n}; seen from above, y up.
+          Cells {view.x0}–{view.x0 + view.size - 1} (x) × {view.y0}–{view.y0 + view.size - 1} (y) of {n} × {n}; seen from above the pillars (facing the device from the side the light goes to): x right, y up.
           {region.isFetching ? <Spinner className="ml-2 inline size-3" /> : null}
         </p>
         <div onPointerDown={onPointerDown} onPointerUp={onPointerUp} className="cursor-grab touch-none select-none active:cursor-grabbing">

@@ -11,7 +11,8 @@ export function ViolationsList({ violations, total, onShow }: { violations: Desi
     <div className="flex flex-col gap-2">
       <p className="text-sm text-ink-soft">
         {total} violation{total === 1 ? '' : 's'}
-        {violations.length < total ? `; the first ${violations.length} are listed` : ''}. Choose one to show it.
+        {violations.length < total ? `; the first ${violations.length} are listed` : ''}. Choose one to show it. Cells
+        (ix, iy) count to the right and upwards from the bottom-left corner.
       </p>
       <ul className="max-h-96 overflow-y-auto rounded-xl ring-1 ring-line" aria-label="Design-rule violations">
         {violations.map((v, k) => (

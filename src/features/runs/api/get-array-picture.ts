@@ -1,5 +1,5 @@
 import { queryOptions, useQuery } from '@tanstack/react-query';
-import { paintPhase, subsampleMap } from '@shared/optics/colormap';
+import { paintPhase, subsampleMap, upright as uprightPicture } from '@shared/optics/colormap';
 import { decodeNpy } from '@shared/optics/npy-decode';
 import { ApiError } from '@/lib/api-client';
 import { useArtifactAddress } from '@/features/runs/api/artifact-url-context';
@@ -10,8 +10,9 @@ const MAX_SIDE = 1024;
 /**
  * Fetches an N×N phase array (.npy, radians) of a run and paints it in the cyclic colours as a PNG, for
  * maps the run stores only as arrays (δx, δy). Large arrays are sampled down to at most 1024 per side.
+ * `upright`: the last array row (the largest y) at the top, as README "Picture convention" paints previews.
  */
-export async function getArrayPicture(href: string, name: string, signal?: AbortSignal): Promise<Blob> {
+export async function getArrayPicture(href: string, name: string, signal?: AbortSignal, upright = true): Promise<Blob> {
   const response = await fetch(href, { credentials: 'same-origin', signal });
   if (!response.ok) throw new ApiError(response.status, `The file ${name} did not load (the server answered ${response.status})`);
   const array = decodeNpy(new Uint8Array(await response.arrayBuffer()));
@@ -23,7 +24,8 @@ export async function getArrayPicture(href: string, name: string, signal?: Abort
   while (rows / factor > MAX_SIDE && rows % (factor * 2) === 0) factor *= 2;
   const side = rows / factor;
   const values = factor > 1 ? subsampleMap(array.data, rows, factor) : array.data;
-  const image = paintPhase(values, side, side);
+  const painted = paintPhase(values, side, side);
+  const image = upright ? uprightPicture(painted) : painted;
   const canvas = document.createElement('canvas');
   canvas.width = side;
   canvas.height = side;
@@ -33,16 +35,16 @@ export async function getArrayPicture(href: string, name: string, signal?: Abort
   );
 }
 
-export function arrayPictureQueryOptions(projectId: number, runId: number, name: string, href: string) {
+export function arrayPictureQueryOptions(projectId: number, runId: number, name: string, href: string, upright = true) {
   return queryOptions({
-    queryKey: [...runKeys.artifact(projectId, runId, name), 'picture', href] as const,
-    queryFn: ({ signal }) => getArrayPicture(href, name, signal),
+    queryKey: [...runKeys.artifact(projectId, runId, name), 'picture', href, upright] as const,
+    queryFn: ({ signal }) => getArrayPicture(href, name, signal, upright),
     staleTime: Infinity,
     gcTime: 5 * 60_000,
   });
 }
 
-export function useArrayPicture(projectId: number, runId: number, name: string, enabled: boolean) {
+export function useArrayPicture(projectId: number, runId: number, name: string, enabled: boolean, upright = true) {
   const href = useArtifactAddress(projectId, runId).href(name);
-  return useQuery({ ...arrayPictureQueryOptions(projectId, runId, name, href), enabled });
+  return useQuery({ ...arrayPictureQueryOptions(projectId, runId, name, href, upright), enabled });
 }

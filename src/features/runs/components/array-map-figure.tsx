@@ -7,6 +7,7 @@ import { ZoomPanImage } from '@/components/ui/zoom-pan-image';
 import { useArrayPicture } from '@/features/runs/api/get-array-picture';
 import { DownloadLink } from '@/features/runs/components/artifact-figure';
 import { formatBytes } from '@/features/runs/components/artifact-groups';
+import { usePictureFrame } from '@/features/runs/components/picture-view';
 
 /** Arrays up to this size are drawn at once; larger ones wait for a click. */
 const AUTO_BYTES = 2 * 1024 * 1024;
@@ -22,7 +23,9 @@ interface ArrayMapFigureProps {
 /** A map the run keeps only as a .npy array, drawn here in the cyclic phase colours. */
 export function ArrayMapFigure({ projectId, runId, artifact, title, children }: ArrayMapFigureProps) {
   const [wanted, setWanted] = useState(artifact.size <= AUTO_BYTES);
-  const picture = useArrayPicture(projectId, runId, artifact.name, wanted);
+  const view = usePictureFrame(runId, artifact.name);
+  // Runs with a picture frame are drawn y up like their PNG previews; older runs as their previews were (row 0 on top).
+  const picture = useArrayPicture(projectId, runId, artifact.name, wanted, view.frame !== undefined);
   const [url, setUrl] = useState<string | null>(null);
 
   useEffect(() => {
@@ -49,7 +52,7 @@ export function ArrayMapFigure({ projectId, runId, artifact, title, children }: 
       ) : picture.isError ? (
         <Banner>{picture.error.message}</Banner>
       ) : url ? (
-        <ZoomPanImage src={url} alt={title} />
+        <ZoomPanImage src={url} alt={title} axes={view.frame} mirrored={view.mirrored} />
       ) : (
         <div role="status" className="flex aspect-square w-full items-center justify-center gap-2 rounded-xl bg-paper-deep text-sm text-ink-soft ring-1 ring-line">
           <Spinner className="size-5 text-ember" />

@@ -3,6 +3,7 @@ import type { RunArtifact } from '@shared/schemas/runs';
 import { ZoomPanImage, type PictureAnnotation } from '@/components/ui/zoom-pan-image';
 import { useArtifactAddress } from '@/features/runs/api/artifact-url-context';
 import { formatBytes } from '@/features/runs/components/artifact-groups';
+import { usePictureFrame } from '@/features/runs/components/picture-view';
 
 interface ArtifactFigureProps {
   projectId: number;
@@ -17,6 +18,7 @@ interface ArtifactFigureProps {
 /** One stored picture of a run, large, zoomable, with its caption and a download link. */
 export function ArtifactFigure({ projectId, runId, artifact, title, children, aspect, annotation }: ArtifactFigureProps) {
   const href = useArtifactAddress(projectId, runId).href(artifact.name);
+  const view = usePictureFrame(runId, artifact.name);
   return (
     <figure className="flex min-w-0 flex-col gap-2">
       <figcaption className="flex flex-wrap items-baseline justify-between gap-x-3 gap-y-1">
@@ -30,6 +32,8 @@ export function ArtifactFigure({ projectId, runId, artifact, title, children, as
       <ZoomPanImage src={href} alt={`${title}${artifact.label && artifact.label !== title ? ` — ${artifact.label}` : ''}`} aspect={aspect}
         overlay={annotation?.overlay}
         onPick={annotation?.onPick}
+        axes={view.frame}
+        mirrored={view.mirrored}
       />
       {annotation?.panel}
       {children}

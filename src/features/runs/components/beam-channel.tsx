@@ -7,6 +7,7 @@ import { LaserSafetyNote } from '@/features/runs/components/laser-safety-note';
 import { AxialChart, ProfileChart } from '@/features/runs/components/run-charts';
 import type { ChannelFacts } from '@/features/runs/components/run-facts';
 import type { AxialLine, RadialProfile } from '@/features/runs/components/run-plots';
+import { usePictureFrame } from '@/features/runs/components/picture-view';
 
 interface BeamChannelProps {
   projectId: number;
@@ -78,7 +79,7 @@ export function BeamChannel({ projectId, runId, channel, slice, profiles, lines,
             aspect={0.66}
             annotation={annotate?.(slice.name)}
           >
-            <p className="text-xs text-ink-soft">Propagation distance z runs to the right, x downwards through the beam axis.</p>
+            <SliceDirections runId={runId} name={slice.name} />
           </ArtifactFigure>
         ) : null}
         {figures.length > 0 ? (
@@ -129,4 +130,10 @@ export function BeamChannel({ projectId, runId, channel, slice, profiles, lines,
       </div>
     </Card>
   );
+}
+
+/** Which way the slice runs: x up in the picture convention, x downwards in runs made before it. */
+function SliceDirections({ runId, name }: { runId: number; name: string }) {
+  const { frame } = usePictureFrame(runId, name);
+  return <p className="text-xs text-ink-soft">Propagation distance z runs to the right, x {frame ? 'upwards' : 'downwards'} through the beam axis.</p>;
 }

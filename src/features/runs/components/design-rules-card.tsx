@@ -37,8 +37,9 @@ export function DesignRulesCard({ findings, truncated, counts }: DesignRulesCard
           <p className="mb-3 text-sm">
             <span className="font-bold text-danger">{total || findings.length} findings.</span>{' '}
             <span className="text-ink-soft">
-              {truncated ? `The first ${findings.length}, row by row:` : 'All of them, row by row:'} cell column ix and row iy
-              count from the top-left corner of the array.
+              {truncated ? `The first ${findings.length}, row by row:` : 'All of them, row by row:'} cell column ix counts
+              to the right and row iy upwards from the bottom-left corner of the layout (x right, y up, as in the GDSII and
+              the previews).
             </span>
           </p>
           <div className="max-h-96 overflow-auto rounded-2xl ring-1 ring-line/70 ring-inset">

@@ -29,6 +29,7 @@ import { RunEvents } from '@/features/runs/components/run-events';
 import { channelLayout, inputNames, usesApproximateLibrary } from '@/features/runs/components/run-facts';
 import { readDesignRules, readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusPanel } from '@/features/runs/components/run-status-panel';
+import { RunPictureView } from '@/features/runs/components/picture-view';
 import { ExportPanel } from '@/features/fab/components/export-panel';
 import { ShareLinksCard } from '@/features/sharing/components/share-links-card';
 import { ToleranceCard } from '@/features/runs/components/tolerance-card';
@@ -199,6 +200,8 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
           Previews, maps, metrics and files appear here when the run finishes. This page follows the run by itself.
         </Banner>
       ) : null}
+
+      <RunPictureView run={run} />
 
       <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_22rem]">
         <div className="min-w-0">
