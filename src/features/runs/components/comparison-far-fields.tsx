@@ -64,7 +64,7 @@ export function ComparisonFarFields({ projectId, runA, runB, farFields, note }: 
           const figures = [
             { show: 'a' as const, title: `Run ${runA}`, caption: extentText(extent.a) },
             { show: 'b' as const, title: `Run ${runB}`, caption: extentText(extent.b) },
-            ...(scale.differenceScale !== null ? [{ show: 'difference' as const, title: `Difference: run ${runB} − run ${runA}`, caption: 'Same directions, pixel by pixel' }] : []),
+            ...(scale.differenceScale !== null ? [{ show: 'difference' as const, title: `Run ${runB} − run ${runA}`, caption: 'difference, pixel by pixel' }] : []),
           ];
           return (
             <section key={scale.channel} aria-label={CHANNEL_TITLES[scale.channel]} data-compare-channel={scale.channel}>
@@ -78,7 +78,7 @@ export function ComparisonFarFields({ projectId, runA, runB, farFields, note }: 
                     </figcaption>
                     <ZoomPanImage
                       src={comparisonPictureHref(projectId, runA, runB, scale.channel, show)}
-                      alt={`${CHANNEL_TITLES[scale.channel]}: ${title}${show === 'difference' ? '' : ' far field on the common scale'}`}
+                      alt={`${CHANNEL_TITLES[scale.channel]}: ${show === 'difference' ? `difference ${title}` : `${title} far field on the common scale`}`}
                     />
                   </figure>
                 ))}

@@ -9,8 +9,9 @@ export function formatMetricDelta(unit: string, delta: number | null): string {
   if (delta === 0) return '0';
   const sign = delta > 0 ? '+' : '−';
   const size = Math.abs(delta);
-  if (unit === 'fraction') return `${sign}${(100 * size).toFixed(2)} pp`;
-  if (unit === 'fraction of target peak') return `${sign}${(100 * size).toFixed(2)} pp of target peak`;
+  const points = 100 * size >= 0.01 ? (100 * size).toFixed(2) : (100 * size).toPrecision(2);
+  if (unit === 'fraction') return `${sign}${points} pp`;
+  if (unit === 'fraction of target peak') return `${sign}${points} pp of target peak`;
   if (unit === 'm') return `${sign}${formatLength(size)}`;
   return `${sign}${formatMetricValue({ value: size, unit, meaning: '' })}`;
 }
@@ -19,8 +20,9 @@ export function formatMetricDelta(unit: string, delta: number | null): string {
 export function formatPercentChange(percent: number | null): string {
   if (percent === null || !Number.isFinite(percent)) return '—';
   if (percent === 0) return '0 %';
-  const digits = Math.abs(percent) >= 100 ? 0 : 1;
-  return `${percent > 0 ? '+' : '−'}${Math.abs(percent).toFixed(digits)} %`;
+  const size = Math.abs(percent);
+  const text = size >= 100 ? size.toFixed(0) : size >= 0.1 ? size.toFixed(1) : size.toPrecision(2);
+  return `${percent > 0 ? '+' : '−'}${text} %`;
 }
 
 const valueOf = (row: MetricChange, side: 'a' | 'b') => formatMetricValue({ value: row[side], unit: row.unit, meaning: row.meaning });

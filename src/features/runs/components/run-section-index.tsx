@@ -73,14 +73,19 @@ export function RunSectionIndex({ compareHref }: { compareHref: string }) {
     return () => window.clearTimeout(timer);
   }, [shown]);
 
-  // The section being read: the last one whose top has passed the upper third of the window.
+  // The section being read: of those whose top has passed the upper third of the window, the lowest one
+  // (by position, not index order: the review column sits beside the far fields).
   useEffect(() => {
     const onScroll = () => {
       const line = window.innerHeight / 3;
       let active: RunSectionId | null = null;
+      let best = -Infinity;
       for (const id of shown) {
         const top = document.getElementById(id)?.getBoundingClientRect().top ?? Infinity;
-        if (top <= line) active = id;
+        if (top <= line && top > best + 4) {
+          best = top;
+          active = id;
+        }
       }
       setCurrent(active ?? shown[0] ?? null);
     };
@@ -103,14 +108,14 @@ export function RunSectionIndex({ compareHref }: { compareHref: string }) {
       aria-label="Sections of this run"
       className="sticky top-0 z-20 -mx-2 -mb-2 flex items-center gap-3 rounded-2xl bg-paper/95 px-2 py-2.5 backdrop-blur"
     >
-      <ul className="flex min-w-0 flex-1 gap-1 overflow-x-auto">
+      <ul className="flex min-w-0 flex-1 gap-0.5 overflow-x-auto">
         {RUN_SECTIONS.filter(({ id }) => shown.includes(id)).map(({ id, label }) => (
           <li key={id} className="shrink-0">
             <a
               href={`#${id}`}
               onClick={(event) => jump(event, id)}
               aria-current={current === id ? 'location' : undefined}
-              className={`block rounded-full px-3 py-1.5 text-sm font-bold whitespace-nowrap transition-colors ${
+              className={`block rounded-full px-2.5 py-1.5 text-sm font-bold whitespace-nowrap transition-colors ${
                 current === id ? 'bg-ink text-card' : 'text-ink-soft hover:bg-paper-deep hover:text-ink'
               }`}
             >
@@ -119,8 +124,13 @@ export function RunSectionIndex({ compareHref }: { compareHref: string }) {
           </li>
         ))}
       </ul>
-      <Link to={compareHref} className="shrink-0 rounded-full px-3 py-1.5 text-sm font-bold whitespace-nowrap text-teal ring-1 ring-line hover:bg-paper-deep">
-        Compare with another run
+      <Link
+        to={compareHref}
+        aria-label="Compare with another run"
+        title="Compare this run with another run of the project"
+        className="shrink-0 rounded-full px-3 py-1.5 text-sm font-bold whitespace-nowrap text-teal ring-1 ring-line hover:bg-paper-deep"
+      >
+        Compare
       </Link>
     </nav>
   );
