@@ -19,7 +19,7 @@ async function api<T>(page: Page, method: string, path: string, body?: unknown):
     async ({ method, path, body }) => {
       const headers: Record<string, string> = { Accept: 'application/json' };
       if (method !== 'GET') {
-        const csrf = await (await fetch('/api/auth/csrf')).json();
+        const csrf = (await (await fetch('/api/auth/csrf')).json()) as { csrfToken: string };
         headers['x-csrf-token'] = csrf.csrfToken;
         headers['Content-Type'] = 'application/json';
       }
@@ -37,10 +37,13 @@ async function waitForSucceeded(page: Page, projectId: number, runId: number) {
     .toBe('succeeded');
 }
 
+/** What the tests read of an <img> (the test code is compiled without the DOM's types). */
+type Picture = { complete: boolean; naturalWidth: number };
+
 /** Every picture in `scope` has loaded (a broken or pending one has naturalWidth 0). */
 async function picturesLoaded(page: Page, selector: string) {
   await expect
-    .poll(() => page.$$eval(`${selector} img`, (images) => images.length > 0 && images.every((img) => (img as HTMLImageElement).complete && (img as HTMLImageElement).naturalWidth > 0)), {
+    .poll(() => page.$$eval(`${selector} img`, (images) => images.length > 0 && images.every((img) => (img as unknown as Picture).complete && (img as unknown as Picture).naturalWidth > 0)), {
       timeout: 30_000,
     })
     .toBe(true);
@@ -85,7 +88,7 @@ describe('the design–run–compare workbench', () => {
     }
     await picturesLoaded(page, '[data-compare-channel]');
     const difference = page.getByRole('img', { name: `Under input A: difference Run ${second} − run ${first}` });
-    expect(await difference.evaluate((img) => (img as HTMLImageElement).naturalWidth)).toBe(256);
+    expect(await difference.evaluate((img) => (img as unknown as Picture).naturalWidth)).toBe(256);
     await page.getByText('Difference run ' + second + ' − run ' + first).first().waitFor();
 
     // Metrics with their change, and the design change between the revisions in words.
@@ -122,7 +125,7 @@ describe('the design–run–compare workbench', () => {
     await page.screenshot({ path: `${SCREENSHOT_DIR}/workbench-run-index-metrics.png` });
 
     await index.getByRole('link', { name: 'Far fields', exact: true }).click();
-    await expect.poll(() => page.evaluate(() => window.location.hash)).toBe('#far-fields');
+    await expect.poll(() => new URL(page.url()).hash).toBe('#far-fields');
     await expect.poll(async () => (await page.locator('#far-fields').boundingBox())!.y, { timeout: 10_000 }).toBeLessThan(120);
     await expect.poll(() => index.getByRole('link', { name: 'Far fields', exact: true }).getAttribute('aria-current')).toBe('location');
     await page.screenshot({ path: `${SCREENSHOT_DIR}/workbench-run-index-far-fields.png` });

@@ -120,9 +120,8 @@ export function ChannelsFarFieldSketch({ setup, channels, uploads }: { setup: Se
         <ul className="flex flex-col gap-0.5">
           {marks.map((mark, i) => (
             <li key={i}>
-              <span className="font-bold" style={{ color: mark.channel === 'a' ? 'var(--color-teal)' : 'var(--color-ember)' }}>
-                {mark.channel.toUpperCase()}
-              </span>{' '}
+              <span aria-hidden="true" className="mr-1 inline-block size-2.5 rounded-sm align-baseline ring-1 ring-ink/30" style={{ background: COLORS[mark.channel] }} />
+              <span className="font-bold text-ink">{mark.channel.toUpperCase()}</span>{' '}
               {mark.text}
               {mark.problem ? <span className="text-danger"> — does not fit</span> : null}
             </li>
