@@ -75,6 +75,7 @@ describe('the design–run–compare workbench', () => {
     await page.goto(`${demo.server.url}/projects/${projectId}/runs`);
     await page.getByRole('checkbox', { name: `Compare run ${first}` }).check();
     await page.getByRole('checkbox', { name: `Compare run ${second}` }).check();
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/workbench-runs-ticked.png` });
     await page.getByRole('link', { name: `Compare run ${first} with run ${second}` }).click();
     await page.waitForURL(new RegExp(`/runs/compare\\?a=${first}&b=${second}$`));
     await page.getByRole('heading', { name: `Run ${first} beside run ${second}` }).waitFor();
@@ -129,6 +130,10 @@ describe('the design–run–compare workbench', () => {
     await expect.poll(async () => (await page.locator('#far-fields').boundingBox())!.y, { timeout: 10_000 }).toBeLessThan(120);
     await expect.poll(() => index.getByRole('link', { name: 'Far fields', exact: true }).getAttribute('aria-current')).toBe('location');
     await page.screenshot({ path: `${SCREENSHOT_DIR}/workbench-run-index-far-fields.png` });
+
+    await page.mouse.wheel(0, -50_000);
+    await expect.poll(() => index.getByRole('link', { name: 'Summary', exact: true }).getAttribute('aria-current')).toBe('location');
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/workbench-run-top.png` });
 
     await index.getByRole('link', { name: 'Compare with another run' }).click();
     await page.waitForURL(new RegExp(`/runs/compare\\?a=${second}$`));
