@@ -209,6 +209,14 @@ describe('run comparison', () => {
     expect(diff.status).toBe(409);
     expect(diff.body.error).toMatch(/different directions/);
     expect((await owner.get(pictureUrl(one.id, wide.id, 'a', 'b'))).status).toBe(200);
+
+    // Swapped sides: the same scales, the extents and the pictures change places.
+    const back = (await owner.get(compareUrl(wide.id, one.id))).body.comparison as RunComparison;
+    expect(back.farFields!.scales).toEqual(farFields.scales);
+    expect(back.farFields!.extent).toEqual({ a: farFields.extent.b, b: farFields.extent.a });
+    const forward = await download(owner, pictureUrl(one.id, wide.id, 'b', 'b'));
+    const reversed = await download(owner, pictureUrl(wide.id, one.id, 'b', 'a'));
+    expect(reversed.body.equals(forward.body)).toBe(true);
   });
 
   it('shows the metrics of a run whose files were deleted, and says why its far fields are missing', async () => {

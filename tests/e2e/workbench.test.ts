@@ -106,6 +106,7 @@ describe('the design–run–compare workbench', () => {
     await page.getByRole('button', { name: 'Swap a and b' }).click();
     await page.waitForURL(new RegExp(`/runs/compare\\?a=${second}&b=${first}$`));
     await page.getByRole('heading', { name: `Run ${second} beside run ${first}` }).waitFor();
+    await picturesLoaded(page, '[data-compare-channel]');
     await page.close();
   });
 
@@ -141,6 +142,7 @@ describe('the design–run–compare workbench', () => {
     await page.getByLabel('Run b (after)').selectOption(String(first));
     await page.waitForURL(new RegExp(`/runs/compare\\?a=${second}&b=${first}$`));
     await page.getByRole('heading', { name: `Run ${second} beside run ${first}` }).waitFor();
+    await picturesLoaded(page, '[data-compare-channel]');
     await page.close();
   });
 

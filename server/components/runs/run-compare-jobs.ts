@@ -56,9 +56,9 @@ type Pair = [{ run: RunModel; ids: number[] }, { run: RunModel; ids: number[] }]
 async function runJob(config: AppConfig, pair: Pair, job: { kind: 'summary' } | { kind: 'picture'; channel: CompareChannel; show: CompareView }) {
   const limitMs = config.FAB_JOB_TIME_LIMIT_SECONDS * 1000;
   const signal = AbortSignal.timeout(limitMs);
-  const key = pair.map(({ run, ids }) => `${run.id}:${ids.join(',')}`).join('|');
+  const keys = pair.map(({ run, ids }) => `${run.id}:${ids.join(',')}`) as [string, string];
   const submit = (data?: [CompareRunData, CompareRunData]) =>
-    comparePool().run({ ...job, key, data } as CompareJob, {
+    comparePool().run({ ...job, keys, data } as CompareJob, {
       signal,
       transferList: data ? data.flatMap((d) => [d.farFieldA.buffer as ArrayBuffer, d.farFieldB.buffer as ArrayBuffer]) : [],
     });

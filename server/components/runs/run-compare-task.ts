@@ -28,8 +28,8 @@ export interface CompareRunData {
 }
 
 export type CompareJob = {
-  /** Names both runs' stored files (their ids): a cached pair is used only for the very same files. */
-  key: string;
+  /** Name each run's stored files (their ids), run a then run b: a cached pair is used only for the very same files. */
+  keys: [string, string];
   data?: [CompareRunData, CompareRunData];
 } & ({ kind: 'summary' } | { kind: 'picture'; channel: CompareChannel; show: CompareView });
 
@@ -126,16 +126,26 @@ export function comparisonPicture(pair: PooledPair, channel: CompareChannel, sho
   return paintComparison({ kind: 'intensity', map: (show === 'a' ? ra : rb).maps[channel], side: pair.side, max: scale.fullScale });
 }
 
+/** The same pair seen from the other side: run b becomes run a (the scales do not depend on the order). */
+function swapped(pair: PooledPair): PooledPair {
+  const { summary } = pair;
+  return { side: pair.side, runs: [pair.runs[1], pair.runs[0]], summary: { ...summary, extent: { a: summary.extent.b, b: summary.extent.a } } };
+}
+
 export default async function compareTask(job: CompareJob): Promise<CompareJobResult> {
   try {
-    let pair = cache.get(job.key);
-    if (!pair) {
+    // One cache entry per pair whichever side each run is on, so swapping sides costs no new pooling.
+    const reversed = job.keys[0] > job.keys[1];
+    const key = reversed ? `${job.keys[1]}|${job.keys[0]}` : `${job.keys[0]}|${job.keys[1]}`;
+    let stored = cache.get(key);
+    if (!stored) {
       if (!job.data) return { ok: 'need-data' };
-      pair = poolPair(job.data);
+      stored = poolPair(reversed ? [job.data[1], job.data[0]] : job.data);
     }
-    cache.delete(job.key);
-    cache.set(job.key, pair);
+    cache.delete(key);
+    cache.set(key, stored);
     while (cache.size > CACHE_ENTRIES) cache.delete(cache.keys().next().value!);
+    const pair = reversed ? swapped(stored) : stored;
     if (job.kind === 'summary') return { ok: true, summary: pair.summary };
     return { ok: true, png: new Uint8Array(await encodePng(comparisonPicture(pair, job.channel, job.show))) };
   } catch (error) {
