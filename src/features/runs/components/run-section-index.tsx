@@ -73,21 +73,27 @@ export function RunSectionIndex({ compareHref }: { compareHref: string }) {
     return () => window.clearTimeout(timer);
   }, [shown]);
 
-  // The section being read: of those whose top has passed the upper third of the window, the lowest one
-  // (by position, not index order: the review column sits beside the far fields).
+  // The section being read: the first, in reading order, that spans the line just below the index (the
+  // review column sits beside the far fields, which come first); between sections, the nearest one above.
   useEffect(() => {
     const onScroll = () => {
-      const line = window.innerHeight / 3;
+      const probe = 120;
       let active: RunSectionId | null = null;
-      let best = -Infinity;
+      let nearest = -Infinity;
+      let above: RunSectionId | null = null;
       for (const id of shown) {
-        const top = document.getElementById(id)?.getBoundingClientRect().top ?? Infinity;
-        if (top <= line && top > best + 4) {
-          best = top;
+        const rect = document.getElementById(id)?.getBoundingClientRect();
+        if (!rect) continue;
+        if (rect.top <= probe && rect.bottom > probe) {
           active = id;
+          break;
+        }
+        if (rect.top <= probe && rect.top > nearest) {
+          nearest = rect.top;
+          above = id;
         }
       }
-      setCurrent(active ?? shown[0] ?? null);
+      setCurrent(active ?? above ?? shown[0] ?? null);
     };
     onScroll();
     window.addEventListener('scroll', onScroll, { passive: true });
