@@ -2,6 +2,7 @@ import type { Server } from 'node:http';
 import pino from 'pino';
 import { createApp } from './app';
 import { stopLayoutJobs } from './components/fab/layout-jobs';
+import { stopCompareJobs } from './components/runs/run-compare-jobs';
 import { createEmbeddedRunQueue } from './components/runs/run-queue';
 import { loadConfig } from './config';
 import { createSequelize, migrateUp } from './db/database';
@@ -47,7 +48,7 @@ async function main() {
       server.close(() => resolve());
       server.closeIdleConnections();
     });
-    await Promise.all([runQueue.stop(), stopLayoutJobs()]);
+    await Promise.all([runQueue.stop(), stopLayoutJobs(), stopCompareJobs()]);
     // Requests in flight get 5 s; long-lived ones (run event streams) are then cut, clients reconnect.
     await Promise.race([closing, new Promise((resolve) => setTimeout(resolve, 5_000).unref())]);
     server.closeAllConnections();

@@ -28,6 +28,7 @@ import {
   updateCommentSchema,
 } from '../shared/schemas/review';
 import { compareRevisionsQuerySchema, createRevisionSchema } from '../shared/schemas/revisions';
+import { comparePictureQuerySchema, compareRunsQuerySchema } from '../shared/schemas/run-comparison';
 import { listRunsQuerySchema } from '../shared/schemas/runs';
 import { toleranceRequestSchema } from '../shared/schemas/tolerance';
 import { createUploadSchema } from '../shared/schemas/uploads';
@@ -108,6 +109,8 @@ export const API_ROUTES: ApiRoute[] = [
 
   { method: 'post', path: `${P}/revisions/:number/runs`, summary: 'Start a run of a revision', role: 'project:design', ok: [202, '`{ run: RunDetail }`'] },
   { method: 'get', path: `${P}/runs`, summary: 'Runs of the project', role: 'project:read', query: listRunsQuerySchema, ok: [200, '`{ runs: RunSummary[] }`'] },
+  { method: 'get', path: `${P}/runs/compare`, summary: 'Two runs of the project side by side: summaries, every metric with Δ and %, the far fields’ common brightness scales', role: 'project:read', query: compareRunsQuerySchema, ok: [200, '`{ comparison: RunComparison }`'] },
+  { method: 'get', path: `${P}/runs/compare/far-field.png`, summary: 'One far-field picture of a comparison (run a, run b or the difference b − a) on the common scale', role: 'project:read', query: comparePictureQuerySchema, ok: [200, 'image/png'] },
   { method: 'get', path: `${P}/runs/:runId`, summary: 'One run with metrics, plots and file list', role: 'project:read', ok: [200, '`{ run: RunDetail }`'] },
   { method: 'post', path: `${P}/runs/:runId/cancel`, summary: 'Cancel a queued or running run', role: 'project:design', ok: [200, '`{ run }`'] },
   { method: 'delete', path: `${P}/runs/:runId/files`, summary: 'Delete a finished run’s files (the run, its metrics and events stay)', role: 'project:design', ok: [200, '`{ run }` with filesDeletedAt'] },

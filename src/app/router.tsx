@@ -38,6 +38,7 @@ export function createAppRouter(queryClient: QueryClient) {
                 { path: 'revisions', lazy: () => import('@/app/routes/app/project/revisions').then(convert) },
                 { path: 'revisions/compare', lazy: () => import('@/app/routes/app/project/compare-revisions').then(convert) },
                 { path: 'runs', lazy: () => import('@/app/routes/app/project/runs').then(convert) },
+                { path: 'runs/compare', lazy: () => import('@/app/routes/app/project/compare-runs').then(convert) },
                 { path: 'runs/:runId', lazy: () => import('@/app/routes/app/project/run').then(convert) },
                 { path: 'runs/:runId/layout', lazy: () => import('@/app/routes/app/project/run-layout').then(convert) },
                 { path: 'atom-libraries', lazy: () => import('@/app/routes/app/project/atom-libraries').then(convert) },

@@ -55,6 +55,16 @@ export const paths = {
       path: '/projects/:projectId/runs',
       getHref: (projectId: number | string) => `/projects/${projectId}/runs`,
     },
+    compareRuns: {
+      path: '/projects/:projectId/runs/compare',
+      getHref: (projectId: number | string, a?: number | null, b?: number | null) => {
+        const search = new URLSearchParams();
+        if (a) search.set('a', String(a));
+        if (b) search.set('b', String(b));
+        const query = search.toString();
+        return `/projects/${projectId}/runs/compare${query ? `?${query}` : ''}`;
+      },
+    },
     run: {
       path: '/projects/:projectId/runs/:runId',
       getHref: (projectId: number | string, runId: number | string) => `/projects/${projectId}/runs/${runId}`,

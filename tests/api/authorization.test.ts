@@ -180,6 +180,19 @@ const ROUTES: RouteCase[] = [
   },
   { name: 'GET /projects/:id/runs', send: (c, f) => c.get(`/api/projects/${f.projectId}/runs`), expected: read },
   {
+    name: 'GET /projects/:id/runs/compare',
+    needs: ['runs'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/compare?a=${f.finishedRunId}&b=${f.queuedRunId}`),
+    expected: read,
+  },
+  {
+    // The queued run has no far fields yet: every reader is let through to that answer.
+    name: 'GET /projects/:id/runs/compare/far-field.png',
+    needs: ['runs'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/compare/far-field.png?a=${f.finishedRunId}&b=${f.queuedRunId}&channel=a&show=a`),
+    expected: { anonymous: 401, outsider: 404, viewer: 409, reviewer: 409, designer: 409, owner: 409, admin: 409 },
+  },
+  {
     name: 'GET /projects/:id/runs/:runId',
     needs: ['runs'],
     send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}`),

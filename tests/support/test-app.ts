@@ -9,6 +9,7 @@ import { createApp } from '../../server/app';
 import { loadConfig } from '../../server/config';
 import type { AppContext } from '../../server/context';
 import { stopLayoutJobs } from '../../server/components/fab/layout-jobs';
+import { stopCompareJobs } from '../../server/components/runs/run-compare-jobs';
 import { createEmbeddedRunQueue } from '../../server/components/runs/run-queue';
 import { createSequelize, migrateUp } from '../../server/db/database';
 import { createMailer } from '../../server/lib/mailer';
@@ -72,7 +73,7 @@ export async function createTestApp(env: Record<string, string> = {}): Promise<T
     app,
     ctx,
     async close() {
-      await Promise.all([runQueue.stop(), stopLayoutJobs()]);
+      await Promise.all([runQueue.stop(), stopLayoutJobs(), stopCompareJobs()]);
       await inputs.close();
       await mailer.drain();
       await sequelize.query(`DROP DATABASE \`${dbName}\``);

@@ -7,6 +7,7 @@ import { currentUser } from '../auth/auth.middleware';
 import { projectAccess, requireProject } from '../projects/project-access';
 import { toleranceRoutes } from '../tolerance/tolerance.routes';
 import { streamArtifact } from './run-artifacts';
+import { runComparisonRoutes } from './run-comparison.routes';
 import { openRunEventStream } from './run-event-stream';
 import { artifactForDownload, cancelRun, deleteRunFiles, getRun, listRuns, startRun } from './run.service';
 
@@ -14,6 +15,7 @@ import { artifactForDownload, cancelRun, deleteRunFiles, getRun, listRuns, start
 export function runRoutes(ctx: AppContext) {
   const router = Router({ mergeParams: true });
   router.use(toleranceRoutes(ctx));
+  router.use(runComparisonRoutes(ctx));
 
   router.post('/revisions/:number/runs', requireProject('design'), async (req, res) => {
     const number = parseId(req.params.number, 'revision number');

@@ -192,7 +192,7 @@ export function ChannelSection({ projectId, channel, readOnly }: { projectId: nu
       <div data-field={`channels.${channel}`} className="flex flex-col gap-5">
         <DesignText path={['channels', channel, 'label']} label={`${CHANNEL_NAMES[channel]} label`} maxLength={80} hint="Optional, e.g. “Bessel beam under x-polarized light”." />
         {concentrates ? <LaserSafetyNote /> : null}
-        <div className="grid gap-5 xl:grid-cols-[minmax(0,1fr)_16rem]">
+        <div className="grid gap-5 xl:grid-cols-[minmax(0,1fr)_16rem] min-[1400px]:grid-cols-1">
           <div data-field={`channels.${channel}.terms`} className="flex min-w-0 flex-col gap-3">
             {terms.length ? (
               <ol data-channel-terms={channel} className="flex flex-col gap-3" aria-label={`${CHANNEL_NAMES[channel]} terms`}>
@@ -221,7 +221,7 @@ export function ChannelSection({ projectId, channel, readOnly }: { projectId: nu
               </div>
             )}
           </div>
-          <div className="flex flex-col gap-2 self-start xl:sticky xl:top-28">
+          <div className="flex flex-col gap-2 self-start xl:sticky xl:top-28 min-[1400px]:hidden">
             <h3 className="text-sm font-bold">Phase preview</h3>
             <PhasePreview setup={setup} terms={terms} channelName={CHANNEL_NAMES[channel]} />
           </div>

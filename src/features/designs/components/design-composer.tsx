@@ -14,6 +14,7 @@ import { useCreateRevision } from '@/features/designs/api/create-revision';
 import { AdvancedSection } from '@/features/designs/components/advanced-section';
 import { AtomLibrarySection } from '@/features/designs/components/atom-library-section';
 import { ChannelSection } from '@/features/designs/components/channel-section';
+import { DesignPreviewColumn, PREVIEW_COLUMN_GRID } from '@/features/designs/components/design-preview-column';
 import { IssueList } from '@/features/designs/components/issue-list';
 import { PolarizationSection } from '@/features/designs/components/polarization-section';
 import { SaveRevisionDialog, type SaveMode } from '@/features/designs/components/save-revision-dialog';
@@ -228,6 +229,7 @@ export function DesignComposer({ project, sourceKey, initialDraft, baseRevision,
       {serverCount > 0 ? <IssueList issues={serverErrors} design={draft} title="The server refused these values" /> : null}
       {showIssues && issueCount > 0 ? <IssueList issues={issues} design={draft} title="Fix these before saving" /> : null}
 
+      <div className={PREVIEW_COLUMN_GRID}>
       <fieldset disabled={readOnly} className="flex min-w-0 flex-col gap-6">
         <legend className="sr-only">Design</legend>
         <SetupSection />
@@ -237,6 +239,8 @@ export function DesignComposer({ project, sourceKey, initialDraft, baseRevision,
         <AtomLibrarySection projectId={project.id} />
         <AdvancedSection projectId={project.id} />
       </fieldset>
+      <DesignPreviewColumn projectId={project.id} />
+      </div>
 
       <SaveRevisionDialog
         mode={saveMode}

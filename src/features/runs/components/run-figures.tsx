@@ -4,6 +4,7 @@ import type { ArtifactGroups } from '@/features/runs/components/artifact-groups'
 import { BeamChannel } from '@/features/runs/components/beam-channel';
 import { MapPreviews } from '@/features/runs/components/map-previews';
 import { OtherPlots } from '@/features/runs/components/other-plots';
+import { RunSection } from '@/features/runs/components/run-section-index';
 import type { channelLayout } from '@/features/runs/components/run-facts';
 import type { RunPlots } from '@/features/runs/components/run-plots';
 
@@ -22,6 +23,7 @@ export function RunFigures({ projectId, runId, groups, layout, plots, mapping, a
   const { channels, channelNames, beamChannels, profilesOf, linesOf, unplacedProfiles } = layout;
   return (
     <>
+      <RunSection id="beams" className="flex flex-col gap-6">
       {beamChannels.map((c) => (
         <BeamChannel
           key={c}
@@ -34,7 +36,9 @@ export function RunFigures({ projectId, runId, groups, layout, plots, mapping, a
           annotate={annotate}
         />
       ))}
+      </RunSection>
 
+      <RunSection id="maps" className="flex flex-col gap-6">
       <MapPreviews
         projectId={projectId}
         runId={runId}
@@ -56,6 +60,7 @@ export function RunFigures({ projectId, runId, groups, layout, plots, mapping, a
         profiles={unplacedProfiles}
         annotate={annotate}
       />
+      </RunSection>
     </>
   );
 }

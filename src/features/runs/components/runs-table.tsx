@@ -16,6 +16,9 @@ interface RunsTableProps {
   filters: RunListFilters;
   onSort: (sort: SortKey) => void;
   stale?: boolean;
+  /** Runs ticked for comparison (at most two); the tick column shows only with `onToggle`. */
+  selected?: number[];
+  onToggle?: (runId: number) => void;
 }
 
 function PlainHeader({ children, align = 'left' }: { children: string; align?: 'left' | 'right' }) {
@@ -26,7 +29,7 @@ function PlainHeader({ children, align = 'left' }: { children: string; align?: '
   );
 }
 
-export function RunsTable({ projectId, runs, filters, onSort, stale = false }: RunsTableProps) {
+export function RunsTable({ projectId, runs, filters, onSort, stale = false, selected = [], onToggle }: RunsTableProps) {
   return (
     <div
       className={`relative overflow-x-auto rounded-card bg-card shadow-card ring-1 ring-line/70 transition-opacity ${stale ? 'opacity-60' : ''}`}
@@ -35,6 +38,11 @@ export function RunsTable({ projectId, runs, filters, onSort, stale = false }: R
         <caption className="sr-only">Runs of this project</caption>
         <thead className="border-b border-line text-ink-soft">
           <tr>
+            {onToggle ? (
+              <th scope="col" className="w-10 px-3 py-3 text-left font-bold">
+                <span className="sr-only">Compare</span>
+              </th>
+            ) : null}
             <SortHeader label="Run" sortKey="queuedAt" sort={filters} onSort={onSort} className="px-3" />
             <SortHeader label="Status" sortKey="status" sort={filters} onSort={onSort} className="px-3" />
             <PlainHeader>Progress</PlainHeader>
@@ -48,7 +56,19 @@ export function RunsTable({ projectId, runs, filters, onSort, stale = false }: R
         </thead>
         <tbody className="divide-y divide-line/70">
           {runs.map((run) => (
-            <tr key={run.id} className="align-middle hover:bg-paper/60">
+            <tr key={run.id} className={`align-middle ${selected.includes(run.id) ? 'bg-ember-wash/50' : 'hover:bg-paper/60'}`}>
+              {onToggle ? (
+                <td className="px-3 py-3">
+                  <input
+                    type="checkbox"
+                    className="size-4 accent-[var(--color-ember)]"
+                    checked={selected.includes(run.id)}
+                    disabled={!selected.includes(run.id) && selected.length >= 2}
+                    onChange={() => onToggle(run.id)}
+                    aria-label={`Compare run ${run.id}`}
+                  />
+                </td>
+              ) : null}
               <td className="px-3 py-3">
                 <Link
                   to={paths.projects.run.getHref(projectId, run.id)}

@@ -30,6 +30,7 @@ import { channelLayout, inputNames, usesApproximateLibrary } from '@/features/ru
 import { readDesignRules, readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusPanel } from '@/features/runs/components/run-status-panel';
 import { RunPictureView } from '@/features/runs/components/picture-view';
+import { RunSection, RunSectionIndex } from '@/features/runs/components/run-section-index';
 import { ExportPanel } from '@/features/fab/components/export-panel';
 import { ShareLinksCard } from '@/features/sharing/components/share-links-card';
 import { ToleranceCard } from '@/features/runs/components/tolerance-card';
@@ -155,6 +156,8 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
       <div className="-mb-4">
         <BackToRuns projectId={projectId} />
       </div>
+      <RunSectionIndex compareHref={paths.projects.compareRuns.getHref(projectId, run.id)} />
+      <RunSection id="summary" className="flex flex-col gap-6">
       <RunStatusPanel
         projectId={projectId}
         run={run}
@@ -186,6 +189,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
           <RunEvents events={run.events} />
         </Card>
       </div>
+      </RunSection>
 
       {run.filesDeletedAt ? (
         <Banner tone="info" title="This run’s files were deleted">
@@ -204,7 +208,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
       <RunPictureView run={run} />
 
       <div className="grid gap-6 xl:grid-cols-[minmax(0,1fr)_22rem]">
-        <div className="min-w-0">
+        <RunSection id="far-fields" className="min-w-0">
           <FarFieldPreviews
             projectId={projectId}
             runId={run.id}
@@ -214,7 +218,8 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
             annotate={review.annotate}
             reveal={review.reveal}
           />
-        </div>
+        </RunSection>
+        <RunSection id="review" className="self-start xl:sticky xl:top-20">
         {run.artifacts.length > 0 ? (
           <ReviewThreadsCard
             threads={review.threads}
@@ -227,6 +232,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
             onJump={review.jumpTo}
           />
         ) : null}
+        </RunSection>
       </div>
 
       <RunFigures
@@ -239,15 +245,21 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
         annotate={review.annotate}
       />
 
+      <RunSection id="design-rules">
       {designRules ? (
         <DesignRulesCard findings={designRules.findings} truncated={designRules.truncated} counts={sectionOf('Design rules')} />
       ) : null}
+      </RunSection>
 
-      {mappingReport ? <MappingReportCard report={mappingReport} figures={sectionOf('Atom mapping')} /> : null}
+      <RunSection id="mapping">{mappingReport ? <MappingReportCard report={mappingReport} figures={sectionOf('Atom mapping')} /> : null}</RunSection>
 
-      {run.status === 'succeeded' && !filesDeleted ? <ToleranceCard projectId={projectId} runId={run.id} canRun={canRun} channelNames={channelNames} /> : null}
+      <RunSection id="fabrication-sweep">
+        {run.status === 'succeeded' && !filesDeleted ? <ToleranceCard projectId={projectId} runId={run.id} canRun={canRun} channelNames={channelNames} /> : null}
+      </RunSection>
 
-      {run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} /> : null}
+      <RunSection id="metrics">{run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} /> : null}</RunSection>
+
+      <RunSection id="files" className="flex flex-col gap-6">
 
       {run.status === 'succeeded' && !filesDeleted ? <ExportPanel projectId={projectId} runId={run.id} canManage={canManage} /> : null}
 
@@ -263,6 +275,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
           canDelete={canRun && !active}
         />
       ) : null}
+      </RunSection>
     </div>
   );
 }

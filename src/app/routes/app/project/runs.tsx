@@ -1,4 +1,5 @@
 import type { QueryClient } from '@tanstack/react-query';
+import { useState } from 'react';
 import { useNavigate, useSearchParams, type LoaderFunctionArgs } from 'react-router-dom';
 import { projectRoleAllows } from '@shared/roles';
 import type { ListRunsQuery } from '@shared/schemas/runs';
@@ -12,6 +13,7 @@ import type { RunListFilters } from '@/features/runs/api/query-keys';
 import { RunListControls } from '@/features/runs/components/run-list-controls';
 import { RunsTable } from '@/features/runs/components/runs-table';
 import { StartRunButton } from '@/features/runs/components/start-run-dialog';
+import { CompareRunsBar } from '@/features/runs/components/compare-runs-bar';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
 
 export const clientLoader =
@@ -44,6 +46,8 @@ export default function ProjectRunsRoute() {
   const filters = runFiltersFromSearch(searchParams);
   const runs = useRuns(project.id, filters);
   const canRun = projectRoleAllows(project.myRole, 'design') && !project.archived;
+  const [compared, setCompared] = useState<number[]>([]);
+  const toggleCompared = (runId: number) => setCompared((ids) => (ids.includes(runId) ? ids.filter((id) => id !== runId) : [...ids, runId].slice(-2)));
 
   const applyFilters = (next: Partial<RunListFilters>) => setSearchParams(toSearch({ ...filters, ...next }), { replace: true });
   const sortBy = (sort: ListRunsQuery['sort']) =>
@@ -88,7 +92,8 @@ export default function ProjectRunsRoute() {
           <p className="sr-only" role="status">
             {runs.data.runs.length} {runs.data.runs.length === 1 ? 'run' : 'runs'} shown
           </p>
-          <RunsTable projectId={project.id} runs={runs.data.runs} filters={filters} onSort={sortBy} stale={runs.isPlaceholderData} />
+          <CompareRunsBar projectId={project.id} selected={compared} onClear={() => setCompared([])} />
+          <RunsTable projectId={project.id} runs={runs.data.runs} filters={filters} onSort={sortBy} stale={runs.isPlaceholderData} selected={compared} onToggle={toggleCompared} />
         </>
       ) : filtered ? (
         <EmptyState
