@@ -9,7 +9,7 @@ import { RunStatusBadge } from '@/features/runs/components/run-status-badge';
 export function RunEvents({ events }: { events: RunEvent[] }) {
   if (events.length === 0) return <p className="text-sm text-ink-soft">Nothing has happened to this run yet.</p>;
   return (
-    <div className="max-h-[30rem] overflow-y-auto pr-1">
+    <div role="region" aria-label="Status history" tabIndex={0} className="max-h-[30rem] overflow-y-auto rounded pr-1">
     <ol className="relative ml-2 flex flex-col gap-3 border-l-2 border-line pl-5">
       {events.map((event, i) => (
         <li key={`${event.at}-${i}`} className="relative">
