@@ -15,6 +15,19 @@ export const RUN_STATUS_NAMES: Readonly<Record<RunStatus, string>> = {
   cancelled: 'Cancelled',
 };
 
+/** A run's state inside a sentence: "Run 12 is still waiting". */
+export const RUN_STATUS_PHRASES: Readonly<Record<RunStatus, string>> = {
+  queued: 'still waiting',
+  running: 'still running',
+  succeeded: 'finished',
+  failed: 'failed',
+  cancelled: 'cancelled',
+};
+
+/** A state in words, for a value typed loosely (e.g. a database row). Example: runStatusPhrase('queued') → 'still waiting'. */
+export const runStatusName = (status: string): string => RUN_STATUS_NAMES[status as RunStatus] ?? status;
+export const runStatusPhrase = (status: string): string => RUN_STATUS_PHRASES[status as RunStatus] ?? status;
+
 /** The three inputs a run previews: the two states of the pair, and the third state of `simulation.extraInput`. */
 export const INPUT_NAMES = { a: 'Input A', b: 'Input B', extra: 'Third input' } as const;
 

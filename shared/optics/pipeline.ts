@@ -682,7 +682,7 @@ export async function runDesign(design: Design, resources: DesignResources, opti
 
   const extra = farFields.extra;
   const extraInput: MetricGroup = {
-    zeroOrder: metric(zeroOrderFraction(extra.total, n, power, zeroRadius), 'fraction', 'far-field power near the zero order / incident power, under the extra input'),
+    zeroOrder: metric(zeroOrderFraction(extra.total, n, power, zeroRadius), 'fraction', 'far-field power near the zero order / incident power, under the third input'),
   };
   for (const c of CHANNEL_IDS) {
     const window = channels[c].window;
@@ -690,7 +690,7 @@ export async function runDesign(design: Design, resources: DesignResources, opti
       extraInput[`efficiency${c.toUpperCase()}`] = metric(
         signalEfficiency(extra.total, n, window, power),
         'fraction',
-        `power in channel ${c.toUpperCase()}'s window / incident power, under the extra input`,
+        `power in channel ${c.toUpperCase()}'s window / incident power, under the third input`,
       );
     }
   }

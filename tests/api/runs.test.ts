@@ -94,7 +94,7 @@ describe('cancelling', () => {
 
     const again = await designer.post(`/api/projects/${projectId}/runs/${first.id}/cancel`);
     expect(again.status).toBe(409);
-    expect(again.body.error).toMatch(/already finished \(cancelled\)/);
+    expect(again.body.error).toMatch(/already ended \(Cancelled\)/);
 
     // The row as the cancel left it: a late progress or status write from the stopping worker would change it.
     const rowAtCancel = (await RunModel.findByPk(first.id, { raw: true }))!;

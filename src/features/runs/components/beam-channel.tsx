@@ -107,7 +107,7 @@ export function BeamChannel({ projectId, runId, channel, slice, profiles, lines,
               <span className="font-extrabold">Transverse radial profile</span>
               <span className="block text-sm text-ink-soft">
                 Azimuthal mean of the simulated intensity
-                {profile.z !== null ? ` at z = ${(profile.z * 1e3).toPrecision(3)} mm` : ''}
+                {profile.z !== null ? ` at z = ${(profile.z * 1e6).toPrecision(4)} µm` : ''}
                 {profile.analytic ? ', against the analytic Bessel curve scaled to it' : ''}.
               </span>
             </figcaption>

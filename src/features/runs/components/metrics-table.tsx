@@ -1,6 +1,7 @@
 import { useId } from 'react';
 import type { RunDetail } from '@shared/schemas/runs';
 import { Card } from '@/components/ui/card';
+import { MathText } from '@/components/ui/math-text';
 import { formatMetricValue, metricName, sectionName } from '@/features/runs/components/format-run';
 
 /** Every metric of the run, by section, with its value and unit and the one line that says what it measures. */
@@ -37,7 +38,9 @@ export function MetricsTable({ metrics }: { metrics: NonNullable<RunDetail['metr
                       {metricName(key)}
                     </th>
                     <td className="px-3 py-2 text-right font-bold whitespace-nowrap tabular-nums">{formatMetricValue(metric)}</td>
-                    <td className="px-3 py-2 text-ink-soft">{metric.meaning}</td>
+                    <td className="px-3 py-2 text-ink-soft">
+                      <MathText text={metric.meaning} />
+                    </td>
                   </tr>
                 ))}
               </tbody>
