@@ -32,7 +32,7 @@ describe('display names', () => {
 
   it('writes phase terms with parameter names and units', () => {
     expect(termText({ kind: 'tilt', thetaXDeg: 10, thetaYDeg: 5 })).toBe('tilt: deflection θx 10°, deflection θy 5°');
-    expect(termText({ kind: 'axicon', numericalAperture: 0.15 })).toBe('axicon: sin β (= k_r/k) 0.15');
+    expect(termText({ kind: 'axicon', numericalAperture: 0.15 })).toBe('axicon: sin β of the cone 0.15');
     expect(termText({ kind: 'lens', focalLengthUm: 300 })).toBe('lens: focal length f 300 µm');
   });
 

@@ -1,3 +1,4 @@
+import { TERM_PARAMETER_NAMES } from '@shared/display-names';
 import { getIn, termKindLabel, type TermKind } from '@/features/designs/utils/design-draft';
 
 interface FieldLabel {
@@ -63,10 +64,10 @@ const TERM_FIELDS: Record<string, FieldLabel> = {
   algorithm: { label: 'algorithm' },
   iterations: { label: 'iterations', unit: '' },
   seed: { label: 'random seed', unit: '' },
-  mixing: { label: 'MRAF mixing m', unit: '' },
+  mixing: TERM_PARAMETER_NAMES.mixing,
   fresnelDistanceUm: { label: 'image distance', unit: 'µm' },
-  coneHalfAngleDeg: { label: 'cone half-angle β', unit: '°' },
-  numericalAperture: { label: 'numerical aperture NA', unit: '' },
+  coneHalfAngleDeg: TERM_PARAMETER_NAMES.coneHalfAngleDeg,
+  numericalAperture: TERM_PARAMETER_NAMES.numericalAperture,
   charge: { label: 'topological charge ℓ', unit: '' },
   focalLengthUm: { label: 'focal length f', unit: 'µm' },
   thetaXDeg: { label: 'deflection θx', unit: '°' },
