@@ -1,5 +1,6 @@
 import type { ReportModel } from '@shared/report/design-report';
 import { apiUrl } from '@/lib/api-client';
+import { MathText } from '@/components/ui/math-text';
 
 /** The design report on screen and on paper: the same model as report.html in the fab package. */
 export function DesignReport({ model, projectId, runId, previews }: { model: ReportModel; projectId: number; runId: number; previews: { name: string; label: string }[] }) {
@@ -48,7 +49,7 @@ export function DesignReport({ model, projectId, runId, previews }: { model: Rep
                   <tr key={r} className="break-inside-avoid">
                     {row.map((cell, c) => (
                       <td key={c} className="border border-line px-2 py-1 align-top tabular-nums">
-                        {cell}
+                        <MathText text={cell} />
                       </td>
                     ))}
                   </tr>

@@ -74,7 +74,7 @@ export function ConvergenceChart({ series }: ConvergenceChartProps) {
         tickFormatter={scientific}
         tick={TICK}
         width={64}
-        label={{ value: 'error', angle: -90, position: 'insideLeft', fill: '#5e4d6e', fontSize: 12 }}
+        label={{ value: 'whole-plane error', angle: -90, position: 'insideLeft', fill: '#5e4d6e', fontSize: 12 }}
       />
       <Tooltip formatter={(value) => (typeof value === 'number' ? value.toExponential(3) : String(value))} labelFormatter={(label) => `Iteration ${label}`} />
       <Legend verticalAlign="top" height={28} />
