@@ -4,6 +4,7 @@
  * then sees the run but no run or cancel controls.
  */
 import { describe, expect, it } from 'vitest';
+import { expectAccessible } from '../support/axe';
 import { screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
 
@@ -24,6 +25,7 @@ describe('design → run → preview in the browser', () => {
     expect(await charge.inputValue()).toBe('2');
     await charge.fill('3');
     await screenshot(page, 'design-run-01-composer');
+    await expectAccessible(page, 'design-run-01-composer');
 
     await page.getByRole('button', { name: 'Save and run' }).click();
     await page.getByLabel('Message').fill('Charge 3 for the wider ring');
@@ -47,6 +49,7 @@ describe('design → run → preview in the browser', () => {
     expect(metricsText).toMatch(/µm/);
     await page.getByText('Laser safety').first().waitFor();
     await screenshot(page, 'design-run-02-run-finished');
+    await expectAccessible(page, 'design-run-02-run-finished');
 
     // The saved revision carries the new charge.
     const revision = await page.evaluate(async (url) => {
@@ -98,6 +101,7 @@ describe('design → run → preview in the browser', () => {
     await page.getByRole('table').first().waitFor();
     expect(await page.getByRole('button', { name: /Start (a|the first) run/ }).count()).toBe(0);
     await screenshot(page, 'design-run-03-viewer-runs');
+    await expectAccessible(page, 'design-run-03-viewer-runs');
     await page.close();
   });
 });

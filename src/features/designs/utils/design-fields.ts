@@ -66,6 +66,7 @@ const TERM_FIELDS: Record<string, FieldLabel> = {
   seed: { label: 'random seed', unit: '' },
   mixing: TERM_PARAMETER_NAMES.mixing,
   fresnelDistanceUm: { label: 'image distance', unit: 'µm' },
+  seenOn: { label: 'picture seen on' },
   coneHalfAngleDeg: TERM_PARAMETER_NAMES.coneHalfAngleDeg,
   numericalAperture: TERM_PARAMETER_NAMES.numericalAperture,
   charge: { label: 'topological charge ℓ', unit: '' },
