@@ -91,7 +91,7 @@ const METRIC_NAMES: Record<string, string> = {
   ringRadiusRelativeError: 'Ring radius, deviation',
   nonDiffractingLengthMeasured: 'Non-diffracting length, simulated',
   nonDiffractingLengthFormula: 'Non-diffracting length, formula',
-  profileCorrelation: 'Profile match to J_ℓ²',
+  profileCorrelation: 'Profile match to the Bessel curve',
   focalLength: 'Focal length f',
   numericalAperture: 'Numerical aperture NA of the lens',
   focalSpotZeroMeasured: 'Focal spot first zero, simulated',

@@ -22,7 +22,9 @@ export function toTex(formula: string): string {
 export type MathPart = { math: boolean; text: string };
 
 /** A whitespace-separated word that is a formula: it has a TeX sub- or superscript (e^{iαx}, j'_{ℓ,1}, J_ℓ²). */
-const FORMULA_WORD = /[\^_](?:\{[^}\s]*\}|[ℓLnmxyk0-9])/;
+const FORMULA_WORD = /[\^_](?:\{[^}\s]*\}|[A-Za-zℓ0-9](?![A-Za-z_]))/;
+/** Words that look like formulas but are names: files (phase_a.npy) and design keys (snake_case). */
+const NOT_FORMULA = /\.(?:npy|png|json|csv|gds|zip)\b|^[a-z]+(?:_[a-z]+){2,}$/;
 
 /**
  * Splits text into prose and formulas: `$…$` marks a formula explicitly; otherwise words written in TeX
@@ -53,7 +55,7 @@ export function splitMath(text: string): MathPart[] {
       if (/^\s+$/.test(word) || /^[−+=/·]$/.test(word)) {
         if (formula) pending += word;
         else push(false, word);
-      } else if (FORMULA_WORD.test(word)) {
+      } else if (FORMULA_WORD.test(word) && !NOT_FORMULA.test(word)) {
         const [, body, trailing] = /^(.*?)([,;:.]?)$/.exec(word)!;
         formula = formula ? `${formula}${pending}${body}` : body;
         pending = '';

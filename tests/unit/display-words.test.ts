@@ -73,6 +73,8 @@ describe('formulas in running text', () => {
       { math: true, text: 'e^{iφ}' },
       { math: false, text: ' here' },
     ]);
+    expect(splitMath('sin β = k_r/k of the axicon').filter((p) => p.math).map((p) => p.text)).toEqual(['k_r/k']);
+    expect(splitMath('see phase_a.npy and farfield_a_out-b.png').every((p) => !p.math)).toBe(true);
     expect(splitMath('plain words, 0.5 and 2')).toEqual([{ math: false, text: 'plain words, 0.5 and 2' }]);
   });
 

@@ -53,7 +53,7 @@ export function RunStatusPanel({ projectId, run, canRun, onRestarted }: RunStatu
   const cancel = useCancelRun(projectId, run.id);
   const restart = useStartRun(projectId);
   const active = isRunActive(run.status);
-  const stage = run.status === 'queued' ? 'Waiting for a free worker' : run.stage ? run.stage.charAt(0).toUpperCase() + run.stage.slice(1) : '';
+  const stage = run.status === 'queued' ? 'Waiting for a free worker' : active && run.stage ? run.stage.charAt(0).toUpperCase() + run.stage.slice(1) : '';
 
   return (
     <section aria-labelledby="run-status-heading" className="rounded-card bg-card p-6 shadow-card ring-1 ring-line/70">
