@@ -6,8 +6,9 @@ import katex from 'katex';
 import { describe, expect, it } from 'vitest';
 import { formatMetricValue, metricName, RUN_STATUS_NAMES, sectionName, termText } from '../../shared/display-names';
 import { buildReportModel } from '../../shared/report/design-report';
+import { reportHtml } from '../../server/components/fab/report-html';
 import { designSchema } from '../../shared/schemas/design';
-import { splitMath, toTex } from '../../src/lib/split-math';
+import { splitMath, toTex } from '../../shared/split-math';
 
 describe('display names', () => {
   it('names metrics and sections, never by their keys', () => {
@@ -49,7 +50,7 @@ describe('display names', () => {
       revisionNumber: 1,
       finishedAt: null,
       design,
-      metrics: { 'channel B': { strehlVsDesign: { value: 0.93, unit: 'ratio', meaning: 'peak ratio' } }, 'extra input': { zeroOrder: { value: 0.01, unit: 'fraction', meaning: 'z' } } },
+      metrics: { 'channel B': { strehlVsDesign: { value: 0.93, unit: 'ratio', meaning: 'peak ratio' }, meanError: { value: 0.03, unit: '|t|²', meaning: 'mean of |tx e^{iαx} − e^{iδx}|²' } }, 'extra input': { zeroOrder: { value: 0.01, unit: 'fraction', meaning: 'z' } } },
       inputs: null,
       library: { name: 'demo', approximate: true, source: null, material: null, atoms: 10 },
       check: { rules: { minGapNm: 50, minFeatureNm: 100, maxAspectRatio: 10 }, total: 0, counts: { gap: 0, feature: 0, 'aspect-ratio': 0 }, closestGapNm: null, violations: [], overrides: [] } as never,
@@ -59,6 +60,12 @@ describe('display names', () => {
     expect(text).toContain('Strehl ratio against the design');
     expect(text).toContain('deflection θx 10°');
     expect(text).toContain('Third input');
+    // report.html: the same words, and the formula as MathML (drawn by the browser without scripts).
+    const html = reportHtml(model, [], 'exported');
+    const shown = html.replace(/<annotation[^]*?<\/annotation>/g, '');
+    for (const key of ['strehlVsDesign', 'thetaXDeg', 'meanError', 'e^{']) expect(shown).not.toContain(key);
+    expect(html).toMatch(/<math[^>]*>[^]*<\/math>/);
+    expect(html).toContain('Mean mapping error');
   });
 });
 

@@ -1,7 +1,7 @@
 import katex from 'katex';
 import 'katex/dist/katex.min.css';
 import { Fragment, useMemo } from 'react';
-import { splitMath, toTex } from '@/lib/split-math';
+import { splitMath, toTex } from '@shared/split-math';
 
 /** Text whose formulas (see splitMath) are typeset with KaTeX; anything KaTeX cannot read stays as written. */
 export function MathText({ text }: { text: string }) {

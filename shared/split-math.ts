@@ -1,3 +1,7 @@
+/**
+ * Formulas inside running text: where they are (explicit `$…$`, or words in the engine's TeX-like notation
+ * such as e^{iαx}) and their TeX for KaTeX. Used by the client's MathText and by report.html. Pure strings.
+ */
 /** Unicode the engine writes in its formulas → TeX KaTeX reads. */
 const TEX: [RegExp, string][] = [
   [/²/g, '^2'],
