@@ -47,6 +47,13 @@ describe('design → run → preview in the browser', () => {
     const metricsText = await metrics.innerText();
     expect(metricsText).toMatch(/Channel B/);
     expect(metricsText).toMatch(/µm/);
+    // Words a designer reads without guessing: the axicon by sin β (no "NA" pseudo-unit), the third input by
+    // that one name, the headline efficiencies by their kind and the worst-of-two figures saying so.
+    expect(metricsText).toMatch(/Axicon sin β\s+0\.15\b/);
+    expect(metricsText).not.toMatch(/\bNA \d|\d ratio\b|Extra input|cell·\|E\|²/);
+    expect(metricsText).toMatch(/Third input/);
+    const headline = await page.locator('[aria-label="Headline figures"]').innerText();
+    expect(headline).toMatch(/Wavefront efficiency A[^]*Wavefront efficiency B[^]*Crosstalk, worse channel[^]*Zero order, worse channel/);
     await page.getByText('Laser safety').first().waitFor();
     await screenshot(page, 'design-run-02-run-finished');
     await expectAccessible(page, 'design-run-02-run-finished');

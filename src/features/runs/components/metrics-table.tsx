@@ -11,7 +11,7 @@ export function MetricsTable({ metrics }: { metrics: NonNullable<RunDetail['metr
   return (
     <Card
       title={<span id={headingId}>Metrics</span>}
-      description="Computed on the realized device. Fractions are shown in %, lengths in nm, µm or mm, ratios of powers in dB."
+      description="Computed on the realized device. Fractions are shown in %, lengths in nm, µm or mm, ratios of powers in dB; pure numbers (correlations, sin β, Strehl ratio) have no unit."
     >
       <div role="region" aria-labelledby={headingId} className="flex flex-col gap-6">
         {sections.map(([section, group]) => (
