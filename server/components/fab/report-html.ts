@@ -12,7 +12,7 @@ const escape = (text: string) =>
   text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 
 /**
- * Text with its formulas (shared/split-math.ts) as MathML, which browsers draw without scripts, fonts or CSS;
+ * Text with its formulas (shared/split-math.ts) as MathML — for the tables of metrics, never for what people wrote, which browsers draw without scripts, fonts or CSS;
  * a formula KaTeX cannot read stays as written.
  */
 function withMath(text: string): string {
@@ -50,7 +50,7 @@ export function reportHtml(model: ReportModel, previews: { file: string; caption
   for (const s of model.sections) {
     out.push(`<section id="${escape(s.id)}"><h2>${escape(s.title)}</h2>`);
     if (s.rows.length) out.push(`<dl>${s.rows.map(([k, v]) => `<dt>${escape(k)}</dt><dd>${escape(v)}</dd>`).join('')}</dl>`);
-    for (const p of s.paragraphs) out.push(`<p>${withMath(p)}</p>`);
+    for (const p of s.paragraphs) out.push(`<p>${escape(p)}</p>`);
     if (s.table) {
       out.push(`<table><thead><tr>${s.table.head.map((h) => `<th>${escape(h)}</th>`).join('')}</tr></thead><tbody>`);
       for (const row of s.table.rows) out.push(`<tr>${row.map((cell) => `<td>${withMath(cell)}</td>`).join('')}</tr>`);
