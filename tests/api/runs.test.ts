@@ -49,7 +49,7 @@ describe('runs', () => {
     const label = (name: string) => run.artifacts.find((a) => a.name === name)?.label;
     expect(label('farfield_a.png')).toMatch(/^Far field under input A: all the light, both output polarizations together/);
     expect(label('farfield_a_out-b.png')).toMatch(/^Far field under input A: only the light in channel B's output polarization \(λB\*/);
-    expect(label('farfield_extra_y.png')).toBe('Far field under the extra input: only the y-polarized light, on the same brightness scale as the total');
+    expect(label('farfield_extra_y.png')).toBe('Far field under the third input: only the y-polarized light, on the same brightness scale as the total');
 
     const png = await download(designer, `/api/projects/${projectId}/runs/${run.id}/artifacts/farfield_a.png`);
     expect(png.status).toBe(200);
