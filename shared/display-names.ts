@@ -215,6 +215,11 @@ export const TERM_PARAMETER_NAMES: Readonly<Record<string, ParameterName>> = {
   thetaXDeg: { label: 'deflection θx', unit: '°' },
   thetaYDeg: { label: 'deflection θy', unit: '°' },
   phaseMap: { label: 'phase map' },
+  'window.units': { label: 'window units' },
+  'window.width': { label: 'window width' },
+  'window.height': { label: 'window height' },
+  'window.centerX': { label: 'window centre x' },
+  'window.centerY': { label: 'window centre y' },
 };
 
 const number = (v: number) => minus(trim(v.toPrecision(4)));

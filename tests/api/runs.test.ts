@@ -126,7 +126,7 @@ describe('failures', () => {
     const started = await designer.post(`/api/projects/${projectId}/revisions/${number}/runs`);
     const run = await waitForRun(designer, projectId, started.body.run.id);
     expect(run.status).toBe('failed');
-    expect(run.error).toMatch(/^channel A, term 1 \(image hologram\), window: /);
+    expect(run.error).toMatch(/^channel A, term 1 \(image hologram\), far-field window: /);
     expect(run.error).toMatch(/propagating region.*make the window smaller or move it towards the zero order/);
     expect(run.error).not.toMatch(/\n\s+at /);
     expect(run.events.at(-1)).toMatchObject({ status: 'failed', message: run.error });

@@ -7,6 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { formatMetricValue, metricName, RUN_STATUS_NAMES, sectionName, termText } from '../../shared/display-names';
 import { buildReportModel } from '../../shared/report/design-report';
 import { reportHtml } from '../../server/components/fab/report-html';
+import { describeDesignPath } from '../../server/components/runs/run-outcome';
 import { designSchema } from '../../shared/schemas/design';
 import { splitMath, toTex } from '../../shared/split-math';
 
@@ -66,6 +67,9 @@ describe('display names', () => {
     for (const key of ['strehlVsDesign', 'thetaXDeg', 'meanError', 'e^{']) expect(shown).not.toContain(key);
     expect(html).toMatch(/<math[^>]*>[^]*<\/math>/);
     expect(html).toContain('Mean mapping error');
+    // A failed run's message names the field in words too.
+    expect(describeDesignPath(design, 'channels.a.terms.0.thetaXDeg')).toBe('channel A, term 1 (tilt), deflection θx');
+    expect(describeDesignPath(design, 'channels.b.terms.0.focalLengthUm')).toBe('channel B, term 1 (lens), focal length f');
   });
 });
 

@@ -5,7 +5,7 @@
  */
 import { DesignUnitsError } from '../../../shared/optics/design-units';
 import type { DesignRun } from '../../../shared/optics/pipeline';
-import { THIRD_INPUT } from '../../../shared/display-names';
+import { TERM_PARAMETER_NAMES, THIRD_INPUT } from '../../../shared/display-names';
 import { PHASE_TERM_LABELS, type Design } from '../../../shared/schemas/design';
 import type { RunHeadline, RunMetric } from '../../../shared/schemas/runs';
 import { InputError } from '../../cli/design-files';
@@ -120,7 +120,7 @@ export function describeDesignPath(design: Design, path: string): string {
     const term = design.channels[channel as 'a' | 'b'].terms[Number(index)];
     parts.push(`term ${Number(index) + 1}${term ? ` (${PHASE_TERM_LABELS[term.kind]})` : ''}`);
   }
-  if (rest) parts.push(rest);
+  if (rest) parts.push(TERM_PARAMETER_NAMES[rest]?.label ?? rest);
   return parts.join(', ');
 }
 
