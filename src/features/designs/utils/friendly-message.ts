@@ -1,7 +1,7 @@
 const IDENTIFIERS: Record<string, string> = {
   wavelengthNm: 'the wavelength',
   periodNm: 'the period',
-  coneHalfAngleDeg: 'a cone half-angle',
+  coneHalfAngleDeg: 'the cone half-angle β',
   numericalAperture: 'sin β',
 };
 
