@@ -9,6 +9,7 @@
  */
 import { resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { formatMetricValue, INPUT_NAMES } from '../../shared/display-names';
 import { DesignUnitsError } from '../../shared/optics/design-units';
 import { CHANNEL_IDS } from '../../shared/optics/pipeline';
 import type { Metric, MetricGroup } from '../../shared/optics/run-metrics';
@@ -67,27 +68,9 @@ function parseArgs(argv: string[]): { help: true } | { help: false; run: RunArgs
 }
 
 /** Formats a metric for the summary. Example: { value: 0.4123, unit: 'fraction' } → "41.23 %". */
+/** A metric's value with its unit, as the web app shows it (shared/display-names.ts). */
 export function formatMetric(m: Metric): string {
-  if (m.value === null) return 'n/a';
-  const v = m.value;
-  switch (m.unit) {
-    case 'fraction':
-      return `${(100 * v).toFixed(2)} %`;
-    case 'dB':
-      return `${v.toFixed(1)} dB`;
-    case 'm':
-      return Math.abs(v) >= 1e-3 ? `${(v * 1e3).toPrecision(4)} mm` : `${(v * 1e6).toPrecision(4)} µm`;
-    case 'count':
-      return Number.isInteger(v) ? String(v) : v.toFixed(1);
-    case 'rad':
-      return `${v.toFixed(4)} rad`;
-    case 'ratio':
-      return v.toFixed(4);
-    case 'NA':
-      return `NA ${v.toFixed(3)}`;
-    default:
-      return `${Number(v.toPrecision(4))} ${m.unit}`;
-  }
+  return m.value === null ? 'n/a' : formatMetricValue(m);
 }
 
 function formatGroup(title: string, group: MetricGroup): string[] {
@@ -114,7 +97,7 @@ export function summary(result: RunFileResult, outDir: string): string {
   for (const c of CHANNEL_IDS) {
     lines.push(...formatGroup(`Channel ${c.toUpperCase()} — ${run.channels[c].plan.label}`, run.metrics.channels[c]), '');
   }
-  lines.push(...formatGroup('Extra input', run.metrics.extraInput), '');
+  lines.push(...formatGroup(INPUT_NAMES.extra, run.metrics.extraInput), '');
   lines.push(...formatGroup('Atom mapping', run.metrics.mapping), '');
   lines.push(...formatGroup('Design rules', run.metrics.designRules), '');
   if (CHANNEL_IDS.some((c) => run.channels[c].beam || run.channels[c].focus)) {

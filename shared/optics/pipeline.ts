@@ -73,6 +73,7 @@ import {
   type TargetPlane,
 } from './target';
 import type { CancelSignal, CellGrid, ComplexField, JonesVector, ProgressCallback } from './types';
+import { formatLength } from '../display-names';
 
 export type { FarFieldSet } from './device-preview';
 
@@ -414,10 +415,10 @@ function hologramMetrics(
     efficiency: metric(signalEfficiency(intensity, n, window, power), 'fraction', `power in the target window of the ${plane} / incident power, under this channel's input`),
     uniformity: metric(
       uniformity(intensity, target, n, window),
-      'ratio',
+      '',
       '1 − (max − min)/(max + min) of intensity/target over window pixels brighter than half the target peak (1 = uniform; common practice, no published source)',
     ),
-    correlation: metric(correlation(intensity, target, n, window), 'ratio', 'Pearson correlation of intensity and target intensity over the window'),
+    correlation: metric(correlation(intensity, target, n, window), '', 'Pearson correlation of intensity and target intensity over the window'),
     rmse: metric(
       normalizedRmse(intensity, target, n, window),
       'fraction of target peak',
@@ -637,21 +638,21 @@ export async function runDesign(design: Design, resources: DesignResources, opti
         }
       } else {
         const image = fresnelImages[c]!;
-        Object.assign(group, hologramMetrics(image.intensity, image.wanted, image.unwanted, target, n, hologram.target.window, power, `image plane at ${hologram.fresnelDistance} m`));
+        Object.assign(group, hologramMetrics(image.intensity, image.wanted, image.unwanted, target, n, hologram.target.window, power, `image plane at ${formatLength(hologram.fresnelDistance)}`));
       }
     }
     const beam = beams[c];
     if (beam) {
       const { spec } = beam;
       const kind = beam.featureRadius.kind;
-      group.sinBeta = metric(spec.sinBeta, 'NA', 'sinβ of the axicon (cone half-angle β)');
+      group.sinBeta = metric(spec.sinBeta, '', 'sin β = k_r/k of the axicon, β the cone half-angle');
       group.topologicalCharge = metric(spec.charge, 'count', 'sum of the vortex charges ℓ of the channel');
       group[`${kind}RadiusMeasured`] = metric(
         beam.featureRadius.measured,
         'm',
         kind === 'core'
-          ? `first minimum of the radial profile at z = ${beam.profile.z.toExponential(3)} m (mid-range)`
-          : `first maximum of the radial profile at z = ${beam.profile.z.toExponential(3)} m (mid-range)`,
+          ? `first minimum of the radial profile at z = ${formatLength(beam.profile.z)} (mid-range)`
+          : `first maximum of the radial profile at z = ${formatLength(beam.profile.z)} (mid-range)`,
       );
       group[`${kind}RadiusFormula`] = metric(
         beam.featureRadius.formula,
@@ -665,16 +666,16 @@ export async function runDesign(design: Design, resources: DesignResources, opti
         `distance where the ${spec.charge === 0 ? 'on-axis' : 'ring'} intensity falls below half its peak, beyond the peak (x–z planes)`,
       );
       group.nonDiffractingLengthFormula = metric(beam.nonDiffractingLength.formula, 'm', 'R/tanβ for the illuminated aperture radius R (Durnin 1987)');
-      group.profileCorrelation = metric(beam.profileCorrelation, 'ratio', `Pearson correlation of the measured radial profile with J_ℓ²(k sinβ r) at mid-range`);
+      group.profileCorrelation = metric(beam.profileCorrelation, '', `Pearson correlation of the measured radial profile with J_ℓ²(k sinβ r) at mid-range`);
     }
     const focus = foci[c];
     if (focus) {
       group.focalLength = metric(focus.focalLength, 'm', 'focal length f of the lens term');
-      group.numericalAperture = metric(focus.numericalAperture, 'NA', 'sin(atan(R/f)) of the illuminated aperture');
+      group.numericalAperture = metric(focus.numericalAperture, '', 'sin(atan(R/f)) of the illuminated aperture');
       group.focalSpotZeroMeasured = metric(focus.measuredFirstZero, 'm', 'first minimum of the intensity along x through the focus at z = f');
       group.focalSpotZeroSquare = metric(focus.squareApertureZero, 'm', 'first zero λf/D of the square device aperture (paraxial, Goodman §4.4.1)');
       group.focalSpotRadiusAiry = metric(focus.airyRadius, 'm', 'Airy first zero 0.61 λ/NA of a circular aperture of radius D/2, for reference (Born & Wolf §8.5)');
-      group.strehlVsDesign = metric(focus.strehlVsDesign, 'ratio', 'focal peak intensity of the realized device / that of the ideal designed phase');
+      group.strehlVsDesign = metric(focus.strehlVsDesign, '', 'focal peak intensity of the realized device / that of the ideal designed phase');
     }
     channels[c] = outcome;
     channelMetrics[c] = group;
@@ -682,7 +683,7 @@ export async function runDesign(design: Design, resources: DesignResources, opti
 
   const extra = farFields.extra;
   const extraInput: MetricGroup = {
-    zeroOrder: metric(zeroOrderFraction(extra.total, n, power, zeroRadius), 'fraction', 'far-field power near the zero order / incident power, under the extra input'),
+    zeroOrder: metric(zeroOrderFraction(extra.total, n, power, zeroRadius), 'fraction', 'far-field power near the zero order / incident power, under the third input'),
   };
   for (const c of CHANNEL_IDS) {
     const window = channels[c].window;
@@ -690,7 +691,7 @@ export async function runDesign(design: Design, resources: DesignResources, opti
       extraInput[`efficiency${c.toUpperCase()}`] = metric(
         signalEfficiency(extra.total, n, window, power),
         'fraction',
-        `power in channel ${c.toUpperCase()}'s window / incident power, under the extra input`,
+        `power in channel ${c.toUpperCase()}'s window / incident power, under the third input`,
       );
     }
   }
@@ -700,8 +701,8 @@ export async function runDesign(design: Design, resources: DesignResources, opti
     period: metric(grid.period, 'm', 'lattice period P'),
     wavelength: metric(grid.lambda, 'm', 'design wavelength λ'),
     aperture: metric(n * grid.period, 'm', 'device side N·P'),
-    directionCosineStep: metric(directionCosineStep(grid), 'direction cosine', 'far-field pixel λ/(N·P)'),
-    incidentPower: metric(power, 'cell·|E|²', 'Σ a² over the cells, the reference of every efficiency'),
+    directionCosineStep: metric(directionCosineStep(grid), '', 'far-field pixel in direction cosines, Δu = λ/(N·P)'),
+    incidentPower: metric(power, '', 'Σ a² over the cells (one cell lit at |E| = 1 counts 1), the reference of every efficiency'),
   };
   const designRules: MetricGroup = {
     gapViolations: metric(drc.counts.gap, 'count', 'neighbour pairs closer than the minimum gap'),
@@ -766,7 +767,7 @@ export function mappingStatistics(atomIndex: Int32Array, cost: Float32Array, swa
     if (total > 0) unconverted += (u * (sumRe * sumRe + sumIm * sumIm)) / (2 * total);
   });
   return {
-    meanError: metric(costSum / cells, '|t|²', 'mean over cells of |tx e^{iαx} − e^{iδx}|² + |ty e^{iαy} − e^{iδy}|² of the chosen atom (0 = exact)'),
+    meanError: metric(costSum / cells, '', 'mean over cells of |tx e^{iαx} − e^{iδx}|² + |ty e^{iαy} − e^{iδy}|² of the chosen atom (0 = exact)'),
     meanTransmission: metric(transmission / cells, 'fraction', 'mean over cells of the chosen atom power transmission (tx² + ty²)/2'),
     retardanceFarFromPi: metric(
       farFromPi / cells,

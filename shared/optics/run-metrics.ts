@@ -6,7 +6,7 @@
 /** One figure of merit. `value` is null when it is undefined for this run (e.g. no minimum found). */
 export interface Metric {
   value: number | null;
-  /** Unit as shown to the user: 'fraction', 'dB', 'm', 'rad', 'count', 'ratio' … */
+  /** Unit: 'fraction', 'dB', 'm', 'rad', 'count', or '' for a pure number (shared/display-names.ts formats each). */
   unit: string;
   /** One line: what is measured, on which map, relative to what. */
   meaning: string;

@@ -3,8 +3,8 @@
  * standalone report.html inside the fab package (server) and as the print-friendly report page (client).
  * Pure data in, plain text out — no DOM, no Node API.
  */
-import type { Design, PhaseTermSpec } from '../schemas/design';
-import { PHASE_TERM_LABELS } from '../schemas/design';
+import { formatMetricValue, metricName, sectionName, termText } from '../display-names';
+import type { Design } from '../schemas/design';
 import type { RunDesignCheck } from '../schemas/fab';
 import type { RunMetric } from '../schemas/runs';
 
@@ -69,30 +69,6 @@ function polarizationText(design: Design): string {
   return `elliptical ψ = ${num(p.psiDeg)}°, χ = ${num(p.chiDeg)}°, and its orthogonal partner`;
 }
 
-/** One phase term in words. Example: { kind: 'tilt', thetaXDeg: 10 } → 'tilt: thetaXDeg 10'. */
-export function termText(term: PhaseTermSpec): string {
-  const parts: string[] = [];
-  for (const [key, value] of Object.entries(term)) {
-    if (key === 'kind' || value === undefined) continue;
-    if (typeof value === 'object' && value !== null) {
-      const v = value as Record<string, unknown>;
-      if ('source' in v) parts.push(`${key} ${v.source === 'demo' ? `demo "${String(v.name)}"` : v.source === 'upload' ? `upload ${String(v.id)}` : String(v.path ?? '')}`);
-      else parts.push(`${key} {${Object.entries(v).map(([k, x]) => `${k} ${typeof x === 'number' ? num(x) : String(x)}`).join(', ')}}`);
-    } else parts.push(`${key} ${typeof value === 'number' ? num(value) : String(value)}`);
-  }
-  return `${PHASE_TERM_LABELS[term.kind]}${parts.length ? `: ${parts.join(', ')}` : ''}`;
-}
-
-/** A metric with its unit: fractions as %, metres in nm/µm. */
-export function metricText(m: RunMetric): string {
-  const { value, unit } = m;
-  if (value === null || !Number.isFinite(value)) return 'not defined';
-  if (unit === 'fraction') return `${(100 * value).toFixed(2)} %`;
-  if (unit === 'm') return Math.abs(value) < 1e-6 ? `${num(value * 1e9)} nm` : `${num(value * 1e6)} µm`;
-  if (unit === 'count') return Number.isInteger(value) ? String(value) : value.toFixed(1);
-  return `${num(value)}${unit ? ` ${unit}` : ''}`;
-}
-
 const KIND_WORDS = { gap: 'gap', feature: 'feature', 'aspect-ratio': 'aspect ratio' } as const;
 
 export function buildReportModel(input: ReportInput): ReportModel {
@@ -127,14 +103,14 @@ export function buildReportModel(input: ReportInput): ReportModel {
     title: 'Channel recipes',
     rows: (['a', 'b'] as const).map((c) => [
       `Channel ${c.toUpperCase()}${design.channels[c].label ? ` — ${design.channels[c].label}` : ''}`,
-      design.channels[c].terms.map(termText).join(' + '),
+      design.channels[c].terms.map((t) => termText(t)).join(' + '),
     ]),
     paragraphs: [],
   });
   if (input.metrics) {
     const rows: string[][] = [];
     for (const [section, group] of Object.entries(input.metrics)) {
-      for (const [key, metric] of Object.entries(group)) rows.push([section, key, metricText(metric), metric.meaning]);
+      for (const [key, metric] of Object.entries(group)) rows.push([sectionName(section), metricName(key), formatMetricValue(metric), metric.meaning]);
     }
     sections.push({ id: 'metrics', title: 'Metrics', rows: [], paragraphs: [], table: { head: ['Section', 'Metric', 'Value', 'Meaning'], rows } });
   }

@@ -49,7 +49,7 @@ describe('runs', () => {
     const label = (name: string) => run.artifacts.find((a) => a.name === name)?.label;
     expect(label('farfield_a.png')).toMatch(/^Far field under input A: all the light, both output polarizations together/);
     expect(label('farfield_a_out-b.png')).toMatch(/^Far field under input A: only the light in channel B's output polarization \(λB\*/);
-    expect(label('farfield_extra_y.png')).toBe('Far field under the extra input: only the y-polarized light, on the same brightness scale as the total');
+    expect(label('farfield_extra_y.png')).toBe('Far field under the third input: only the y-polarized light, on the same brightness scale as the total');
 
     const png = await download(designer, `/api/projects/${projectId}/runs/${run.id}/artifacts/farfield_a.png`);
     expect(png.status).toBe(200);
@@ -94,7 +94,7 @@ describe('cancelling', () => {
 
     const again = await designer.post(`/api/projects/${projectId}/runs/${first.id}/cancel`);
     expect(again.status).toBe(409);
-    expect(again.body.error).toMatch(/already finished \(cancelled\)/);
+    expect(again.body.error).toMatch(/already ended \(Cancelled\)/);
 
     // The row as the cancel left it: a late progress or status write from the stopping worker would change it.
     const rowAtCancel = (await RunModel.findByPk(first.id, { raw: true }))!;
@@ -126,7 +126,7 @@ describe('failures', () => {
     const started = await designer.post(`/api/projects/${projectId}/revisions/${number}/runs`);
     const run = await waitForRun(designer, projectId, started.body.run.id);
     expect(run.status).toBe('failed');
-    expect(run.error).toMatch(/^channel A, term 1 \(image hologram\), window: /);
+    expect(run.error).toMatch(/^channel A, term 1 \(image hologram\), far-field window: /);
     expect(run.error).toMatch(/propagating region.*make the window smaller or move it towards the zero order/);
     expect(run.error).not.toMatch(/\n\s+at /);
     expect(run.events.at(-1)).toMatchObject({ status: 'failed', message: run.error });

@@ -158,7 +158,7 @@ describe('storage quota', () => {
     const queued = await RunModel.create({ projectId: p.projectId, revisionId: p.revisionId, startedById: null, queuedAt: new Date(), stage: 'queued' });
     const res = await designer.delete(`/api/projects/${p.projectId}/runs/${queued.id}/files`);
     expect(res.status).toBe(409);
-    expect(res.body.error).toMatch(/is queued; cancel it or wait/);
+    expect(res.body.error).toMatch(/is still waiting; cancel it or wait/);
     await queued.update({ status: 'cancelled' });
   });
 

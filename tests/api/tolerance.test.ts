@@ -125,7 +125,7 @@ describe('tolerance studies', () => {
       const held = await RunModel.create({ projectId, revisionId, startedById: null, queuedAt: new Date(), status, progress: status === 'running' ? 0.4 : 0, stage: status === 'running' ? 'phase retrieval' : 'queued', startedAt: status === 'running' ? new Date() : null });
       const early = await designer.post(url(held.id), {});
       expect(early.status, `${status} run`).toBe(409);
-      expect(early.body.error).toMatch(new RegExp(`${status}; a tolerance study needs a run that has succeeded`));
+      expect(early.body.error).toMatch(new RegExp(`is still ${status === 'queued' ? 'waiting' : 'running'}; a bias and detuning sweep needs a finished run`));
       await held.update({ status: 'cancelled', finishedAt: new Date() });
     }
   });
@@ -136,6 +136,6 @@ describe('tolerance studies', () => {
     expect((await designer.post(`/api/projects/${projectId}/runs/${runId}/cancel`)).status).toBe(200);
     const refused = await designer.post(`/api/projects/${projectId}/runs/${runId}/tolerance`, {});
     expect(refused.status).toBe(409);
-    expect(refused.body.error).toMatch(/cancelled; a tolerance study needs a run that has succeeded/);
+    expect(refused.body.error).toMatch(/is cancelled; a bias and detuning sweep needs a finished run/);
   });
 });

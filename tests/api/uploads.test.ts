@@ -234,7 +234,7 @@ describe('designs that use uploads', () => {
     const badNumber = (await designer.post(`/api/projects/${projectId}/revisions`, { design })).body.revision.number;
     const failed = await waitForRun(designer, projectId, (await designer.post(`/api/projects/${projectId}/revisions/${badNumber}/runs`)).body.run.id);
     expect(failed.status).toBe('failed');
-    expect(failed.error).toBe(`channel B, term 1 (custom phase map), phaseMap: upload ${small.id} ("small.npy") has shape (32, 32), the design needs (128, 128)`);
+    expect(failed.error).toBe(`channel B, term 1 (custom phase map), phase map: upload ${small.id} ("small.npy") has shape (32, 32), the design needs (128, 128)`);
   });
 
   it('a black target picture fails the run with the engine saying why, not an internal error', async () => {

@@ -4,6 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { DEMO_PASSWORD } from '../../server/db/seed-demo';
+import { expectAccessible } from '../support/axe';
 import { screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
 import { ApiClient, signedInClient } from '../support/test-app';
@@ -32,6 +33,7 @@ describe('security log in the browser', () => {
     await table.getByText('Sign-in refused').first().waitFor();
     await table.getByText('Added as Reviewer').waitFor();
     await screenshot(page, 'audit-01-log');
+    await expectAccessible(page, 'audit-01-log');
 
     await page.getByLabel('Person').selectOption({ label: `Kai Brenner · ${VIEWER}` });
     await page.waitForURL(/person=\d+/);
@@ -44,6 +46,7 @@ describe('security log in the browser', () => {
     await page.waitForURL(/kind=project-role-changed/);
     await expect.poll(() => table.locator('tbody tr').count()).toBe(1);
     await screenshot(page, 'audit-02-filtered');
+    await expectAccessible(page, 'audit-02-filtered');
     await page.reload();
     expect(await page.getByLabel('Event').inputValue()).toBe('project-role-changed');
     await expect.poll(() => table.locator('tbody tr').count()).toBe(1);

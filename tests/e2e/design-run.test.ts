@@ -4,6 +4,7 @@
  * then sees the run but no run or cancel controls.
  */
 import { describe, expect, it } from 'vitest';
+import { expectAccessible } from '../support/axe';
 import { screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
 
@@ -24,6 +25,7 @@ describe('design → run → preview in the browser', () => {
     expect(await charge.inputValue()).toBe('2');
     await charge.fill('3');
     await screenshot(page, 'design-run-01-composer');
+    await expectAccessible(page, 'design-run-01-composer');
 
     await page.getByRole('button', { name: 'Save and run' }).click();
     await page.getByLabel('Message').fill('Charge 3 for the wider ring');
@@ -45,8 +47,16 @@ describe('design → run → preview in the browser', () => {
     const metricsText = await metrics.innerText();
     expect(metricsText).toMatch(/Channel B/);
     expect(metricsText).toMatch(/µm/);
+    // Words a designer reads without guessing: the axicon by sin β (no "NA" pseudo-unit), the third input by
+    // that one name, the headline efficiencies by their kind and the worst-of-two figures saying so.
+    expect(metricsText).toMatch(/Axicon sin β\s+0\.15\b/);
+    expect(metricsText).not.toMatch(/\bNA \d|\d ratio\b|Extra input|cell·\|E\|²/);
+    expect(metricsText).toMatch(/Third input/);
+    const headline = await page.locator('[aria-label="Headline figures"]').innerText();
+    expect(headline).toMatch(/Wavefront efficiency A[^]*Wavefront efficiency B[^]*Crosstalk, worse channel[^]*Zero order, worse channel/);
     await page.getByText('Laser safety').first().waitFor();
     await screenshot(page, 'design-run-02-run-finished');
+    await expectAccessible(page, 'design-run-02-run-finished');
 
     // The saved revision carries the new charge.
     const revision = await page.evaluate(async (url) => {
@@ -98,6 +108,7 @@ describe('design → run → preview in the browser', () => {
     await page.getByRole('table').first().waitFor();
     expect(await page.getByRole('button', { name: /Start (a|the first) run/ }).count()).toBe(0);
     await screenshot(page, 'design-run-03-viewer-runs');
+    await expectAccessible(page, 'design-run-03-viewer-runs');
     await page.close();
   });
 });

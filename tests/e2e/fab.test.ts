@@ -11,6 +11,7 @@ import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { atomLibraryToCsv } from '../../shared/optics/atoms';
 import { demoAtomLibrary } from '../../shared/optics/demo-library';
+import { expectAccessible } from '../support/axe';
 import { screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
 import { PYTHON } from '../support/python';
@@ -39,6 +40,7 @@ describe('atom library → run → layout → fab package', () => {
     await page.getByRole('button', { name: 'Upload library' }).click();
     await page.getByText('Bench library 633').first().waitFor();
     await screenshot(page, 'fab-01-library');
+    await expectAccessible(page, 'fab-01-library');
 
     await page.getByRole('link', { name: 'Design' }).click();
     const picker = page.getByLabel('Library to map atoms from');
@@ -66,6 +68,7 @@ describe('atom library → run → layout → fab package', () => {
     await expect.poll(async () => page.locator('[data-cell]').count()).toBeGreaterThan(10);
     await expect.poll(async () => page.locator('[data-violation]').count()).toBeGreaterThan(0);
     await screenshot(page, 'fab-02-layout-violations');
+    await expectAccessible(page, 'fab-02-layout-violations');
 
     // The owner overrides with a recorded reason; then the package downloads.
     await page.goto(runUrl);
@@ -111,6 +114,7 @@ describe('atom library → run → layout → fab package', () => {
     expect(report).toContain('calibrate the etch bias');
     expect(report).toMatch(/laser safety officer/i);
     await screenshot(page, 'fab-03-run-with-library');
+    await expectAccessible(page, 'fab-03-run-with-library');
     await page.close();
   });
 });

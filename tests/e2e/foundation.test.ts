@@ -4,6 +4,7 @@
  * a demo viewer sees the project but none of the owner's controls.
  */
 import { describe, expect, it } from 'vitest';
+import { expectAccessible } from '../support/axe';
 import { screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
 
@@ -18,6 +19,7 @@ describe('foundation in the browser', () => {
     await page.goto(`${demo.server.url}/`);
     await page.waitForURL(/\/sign-in/);
     await screenshot(page, 'foundation-01-sign-in');
+    await expectAccessible(page, 'foundation-01-sign-in');
 
     // A wrong password shows the server's message without leaving the page.
     const form = page.getByRole('form', { name: 'Sign in' });
@@ -30,6 +32,7 @@ describe('foundation in the browser', () => {
     const table = page.getByRole('table', { name: 'Projects' });
     await table.getByText('Twin-image security tag').waitFor();
     await screenshot(page, 'foundation-02-dashboard');
+    await expectAccessible(page, 'foundation-02-dashboard');
 
     await page.getByRole('button', { name: 'New project' }).click();
     await page.getByLabel('Project name').fill('Metalens for a fibre tip');
@@ -44,6 +47,7 @@ describe('foundation in the browser', () => {
     await page.getByLabel('Filter projects').fill('fibre');
     await expect.poll(async () => table.locator('tbody tr').count()).toBe(1);
     await screenshot(page, 'foundation-03-table-filtered');
+    await expectAccessible(page, 'foundation-03-table-filtered');
 
     await table.getByText('Metalens for a fibre tip').click();
     await page.getByRole('link', { name: 'Members' }).click();
@@ -64,6 +68,7 @@ describe('foundation in the browser', () => {
     await addForm.getByRole('button', { name: 'Add member' }).click();
     await page.getByText(/valid e-mail/).first().waitFor();
     await screenshot(page, 'foundation-04-members');
+    await expectAccessible(page, 'foundation-04-members');
     // The browser logs each refused request itself; the refusals this visit expects are 401 (before sign-in),
     // 403 (a designer may not invite an address without an account), 404 and 409. Any other failed load
     // (a 500, a missing asset) or script error is a bug.
@@ -82,6 +87,7 @@ describe('foundation in the browser', () => {
     await page.getByText('Tomás Reyes').first().waitFor();
     expect(await page.getByRole('form', { name: 'Add a member' }).count()).toBe(0);
     await screenshot(page, 'foundation-05-viewer-members');
+    await expectAccessible(page, 'foundation-05-viewer-members');
     await page.close();
   });
 });

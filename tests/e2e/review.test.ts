@@ -6,6 +6,7 @@
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import type { ReviewThread } from '../../shared/schemas/review';
+import { expectAccessible } from '../support/axe';
 import { screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
 import { waitForMail } from '../support/mailbox';
@@ -89,6 +90,7 @@ describe('pinned review comments in the browser', () => {
       'The side lobe here looks brighter than the target.\nCould you check, @Tomás Reyes <b>not bold</b>',
     );
     await screenshot(page, 'review-01-new-comment');
+    await expectAccessible(page, 'review-01-new-comment');
     await figure.getByRole('button', { name: 'Post comment' }).click();
 
     const pin = figure.getByRole('button', { name: 'Thread 1', exact: true });
@@ -122,6 +124,7 @@ describe('pinned review comments in the browser', () => {
     expect(Math.abs(after.x - (frameNow.x + frameNow.width * (0.5 + (thread.x - 0.5) * 1.5)))).toBeLessThan(2);
     expect(Math.abs(after.y - (frameNow.y + frameNow.height * (0.5 + (thread.y - 0.5) * 1.5)))).toBeLessThan(2);
     await screenshot(page, 'review-02-pinned-zoomed');
+    await expectAccessible(page, 'review-02-pinned-zoomed');
     await page.close();
   });
 
@@ -153,6 +156,7 @@ describe('pinned review comments in the browser', () => {
       .toBe(true);
     await figure.getByText('@Tomás Reyes').first().waitFor();
     await screenshot(page, 'review-03-owner-lands-on-pin');
+    await expectAccessible(page, 'review-03-owner-lands-on-pin');
 
     await figure.getByLabel('Reply', { exact: true }).fill('Yes — the lobe sits at 1.2°, inside the window.\nLeaving it as is.');
     await figure.getByRole('button', { name: 'Post reply' }).click();
@@ -163,6 +167,7 @@ describe('pinned review comments in the browser', () => {
     expect(await page.getByRole('radio', { name: 'Resolved' }).isChecked()).toBe(true);
     await page.getByRole('button', { name: /Go to thread 1 · resolved/ }).waitFor();
     await screenshot(page, 'review-04-resolved');
+    await expectAccessible(page, 'review-04-resolved');
 
     const { threads } = await getJson<{ threads: ReviewThread[] }>(page, `/api${runPath}/threads`);
     expect(threads[0].resolvedAt).not.toBeNull();
@@ -190,6 +195,7 @@ describe('pinned review comments in the browser', () => {
     expect(await page.getByLabel('Reply', { exact: true }).count()).toBe(0);
     expect(await page.getByRole('button', { name: /Resolve thread|Reopen thread|Edit|Delete/ }).count()).toBe(0);
     await screenshot(page, 'review-05-viewer');
+    await expectAccessible(page, 'review-05-viewer');
     await page.close();
   });
 });

@@ -6,6 +6,7 @@
  */
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
+import { expectAccessible } from '../support/axe';
 import { screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
 
@@ -44,6 +45,7 @@ describe('freeing storage', () => {
     const dialog = page.getByRole('dialog');
     await dialog.getByText('Delete “compass-rose.png”?').waitFor();
     await screenshot(page, 'storage-01-delete-upload');
+    await expectAccessible(page, 'storage-01-delete-upload');
     await dialog.getByRole('button', { name: 'Keep as is' }).click();
     await expect.poll(async () => page.getByRole('dialog').count()).toBe(0);
     expect(await pictures.getByText('compass-rose.png').count()).toBeGreaterThan(0);
@@ -61,6 +63,7 @@ describe('freeing storage', () => {
     await page.getByRole('button', { name: 'Delete files' }).click();
     await page.getByRole('dialog').getByText(`Delete the files of run ${runId}?`).waitFor();
     await screenshot(page, 'storage-02-delete-run-files');
+    await expectAccessible(page, 'storage-02-delete-run-files');
     await page.getByRole('dialog').getByRole('button', { name: 'Delete files' }).click();
 
     await page.getByText('This run’s files were deleted').waitFor({ timeout: 20_000 });
@@ -71,6 +74,7 @@ describe('freeing storage', () => {
     // The metrics stay.
     await page.getByRole('region', { name: 'Metrics' }).waitFor();
     await screenshot(page, 'storage-03-files-deleted');
+    await expectAccessible(page, 'storage-03-files-deleted');
     const run = await page.evaluate(async (url) => ((await (await fetch(url)).json()) as { run: { artifacts: unknown[]; filesDeletedAt: string | null } }).run, `/api/projects/${projectId}/runs/${runId}`);
     expect(run.artifacts).toEqual([]);
     expect(run.filesDeletedAt).not.toBeNull();

@@ -256,7 +256,7 @@ describe('design run (pipeline.ts)', () => {
     const image = run.channels.a.fresnelImage!;
     expect(image).toHaveLength(n * n);
     const m = run.metrics.channels.a;
-    expect(m.efficiency.meaning).toMatch(/image plane at 0\.00015 m/);
+    expect(m.efficiency.meaning).toMatch(/image plane at 150 µm/);
     expect(m.efficiency.value!).toBeGreaterThan(0.5);
     expect(m.correlation.value!).toBeGreaterThan(0.8);
     expect(m.crosstalk.value!).toBeLessThan(-40);

@@ -1,12 +1,32 @@
 /**
- * The design report as one standalone HTML file (inline CSS, no scripts, no external resources), with
+ * The design report as one standalone HTML file (inline CSS, no scripts, no external resources; formulas as
+ * MathML), with
  * print CSS so a browser prints it cleanly to PDF. The previews are the PNG files next to it in the
  * fab package (previews/…), referenced by relative path.
  */
+import katex from 'katex';
 import type { ReportModel } from '../../../shared/report/design-report';
+import { splitMath, toTex } from '../../../shared/split-math';
 
 const escape = (text: string) =>
   text.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+
+/**
+ * Text with its formulas (shared/split-math.ts) as MathML — for the tables of metrics, never for what people wrote, which browsers draw without scripts, fonts or CSS;
+ * a formula KaTeX cannot read stays as written.
+ */
+function withMath(text: string): string {
+  return splitMath(text)
+    .map((part) => {
+      if (!part.math) return escape(part.text);
+      try {
+        return katex.renderToString(toTex(part.text), { output: 'mathml', throwOnError: true, strict: 'ignore' });
+      } catch {
+        return escape(part.text);
+      }
+    })
+    .join('');
+}
 
 const STYLE = `
 body{font-family:system-ui,-apple-system,"Segoe UI",sans-serif;color:#1c2430;margin:2rem auto;max-width:60rem;padding:0 1rem;line-height:1.45}
@@ -33,7 +53,7 @@ export function reportHtml(model: ReportModel, previews: { file: string; caption
     for (const p of s.paragraphs) out.push(`<p>${escape(p)}</p>`);
     if (s.table) {
       out.push(`<table><thead><tr>${s.table.head.map((h) => `<th>${escape(h)}</th>`).join('')}</tr></thead><tbody>`);
-      for (const row of s.table.rows) out.push(`<tr>${row.map((cell) => `<td>${escape(cell)}</td>`).join('')}</tr>`);
+      for (const row of s.table.rows) out.push(`<tr>${row.map((cell) => `<td>${withMath(cell)}</td>`).join('')}</tr>`);
       out.push('</tbody></table>');
     }
     out.push('</section>');

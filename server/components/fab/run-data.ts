@@ -13,6 +13,7 @@ import { UserModel } from '../users/user.model';
 import { ExportOverrideModel } from './fab.model';
 import { recheckDesignRules } from './layout-jobs';
 import type { StoredDrc } from './layout-task';
+import { runStatusPhrase } from '../../../shared/display-names';
 
 /** Yields an artifact's stored chunks in order, one in memory at a time. */
 export async function* artifactChunks(artifactId: number): AsyncGenerator<Buffer> {
@@ -43,7 +44,7 @@ export async function readArtifact(runId: number, name: string): Promise<Buffer 
 
 export function requireSucceeded(run: RunModel): void {
   if (run.status !== 'succeeded') {
-    throw new AppError(409, `Run ${run.id} is ${run.status}; only a run that succeeded has a layout to show or export`);
+    throw new AppError(409, `Run ${run.id} is ${runStatusPhrase(run.status)}; only a finished run has a layout to show or export`);
   }
   if (run.filesDeletedAt) {
     throw new AppError(409, `The files of run ${run.id} were deleted; start the revision again to lay it out, check it or export it`);

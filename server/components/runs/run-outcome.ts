@@ -5,6 +5,7 @@
  */
 import { DesignUnitsError } from '../../../shared/optics/design-units';
 import type { DesignRun } from '../../../shared/optics/pipeline';
+import { TERM_PARAMETER_NAMES, THIRD_INPUT } from '../../../shared/display-names';
 import { PHASE_TERM_LABELS, type Design } from '../../../shared/schemas/design';
 import type { RunHeadline, RunMetric } from '../../../shared/schemas/runs';
 import { InputError } from '../../cli/design-files';
@@ -12,7 +13,7 @@ import { metricsRecord } from '../../cli/outputs';
 
 export type MetricSections = Record<string, Record<string, RunMetric>>;
 
-/** Sections as shown in the preview: run, channel A, channel B, extra input, atom mapping, design rules. */
+/** Sections as shown in the preview: run, channel A, channel B, third input (key 'extra input'), atom mapping, design rules. */
 export function metricSections(run: DesignRun): MetricSections {
   const m = run.metrics;
   return {
@@ -65,7 +66,7 @@ export function convergenceOf(run: DesignRun): { a: number[]; b: number[] } {
   return { a: curve('a'), b: curve('b') };
 }
 
-const inputWords = (input: string) => (input === 'extra' ? 'the extra input' : `input ${input.toUpperCase()}`);
+const inputWords = (input: string) => (input === 'extra' ? `the ${THIRD_INPUT}` : `input ${input.toUpperCase()}`);
 
 const ARTIFACTS: [RegExp, string, (m: RegExpExecArray) => string][] = [
   [/^phase_([ab])\.npy$/, 'application/x-npy', (m) => `Channel ${m[1].toUpperCase()} phase φ, rad, float64 N×N (numpy)`],
@@ -120,7 +121,7 @@ export function describeDesignPath(design: Design, path: string): string {
     const term = design.channels[channel as 'a' | 'b'].terms[Number(index)];
     parts.push(`term ${Number(index) + 1}${term ? ` (${PHASE_TERM_LABELS[term.kind]})` : ''}`);
   }
-  if (rest) parts.push(rest);
+  if (rest) parts.push(TERM_PARAMETER_NAMES[rest]?.label ?? rest);
   return parts.join(', ');
 }
 

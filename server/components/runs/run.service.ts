@@ -11,6 +11,7 @@ import { UploadModel } from '../uploads/upload.model';
 import { UserModel } from '../users/user.model';
 import { findArtifact, listArtifacts } from './run-artifacts';
 import { RunArtifactModel, RunEventModel, RunModel } from './run.model';
+import { runStatusName, runStatusPhrase } from '../../../shared/display-names';
 
 const EMPTY_HEADLINE: RunHeadline = { efficiencyA: null, efficiencyB: null, crosstalkDb: null, zeroOrder: null };
 const includes = [
@@ -173,10 +174,10 @@ export async function createQueuedRun(projectId: number, revisionId: number, use
 
 export async function cancelRun(ctx: AppContext, projectId: number, runId: number): Promise<RunDetail> {
   const run = await findRun(projectId, runId);
-  if (run.status !== 'queued' && run.status !== 'running') throw new AppError(409, `This run has already finished (${run.status}); there is nothing to cancel`);
+  if (run.status !== 'queued' && run.status !== 'running') throw new AppError(409, `This run has already ended (${runStatusName(run.status)}); there is nothing to cancel`);
   if (!(await ctx.runQueue.cancel(runId))) {
     const now = await findRun(projectId, runId);
-    throw new AppError(409, `This run finished (${now.status}) before it could be cancelled`);
+    throw new AppError(409, `This run ended (${runStatusName(now.status)}) before it could be cancelled`);
   }
   return getRun(projectId, runId);
 }
@@ -188,7 +189,7 @@ export async function cancelRun(ctx: AppContext, projectId: number, runId: numbe
 export async function deleteRunFiles(ctx: AppContext, projectId: number, runId: number, userId: number): Promise<RunDetail> {
   const run = await findRun(projectId, runId);
   if (run.status === 'queued' || run.status === 'running') {
-    throw new AppError(409, `Run ${runId} is ${run.status}; cancel it or wait for it to finish before deleting its files`);
+    throw new AppError(409, `Run ${runId} is ${runStatusPhrase(run.status)}; cancel it or wait for it to finish before deleting its files`);
   }
   if (!run.filesDeletedAt) {
     const by = await UserModel.findByPk(userId, { attributes: ['name'] });
@@ -206,7 +207,7 @@ export async function artifactForDownload(projectId: number, projectName: string
   const run = await findRun(projectId, runId);
   const artifact = await findArtifact(runId, name);
   if (!artifact) {
-    const why = run.filesDeletedAt ? ' (its files were deleted)' : run.status === 'succeeded' ? '' : ` (the run is ${run.status})`;
+    const why = run.filesDeletedAt ? ' (its files were deleted)' : run.status === 'succeeded' ? '' : ` (the run ${run.status === 'failed' || run.status === 'cancelled' ? 'was' : 'is'} ${runStatusPhrase(run.status)})`;
     throw new AppError(404, `Run ${runId} has no file "${name}"${why}`);
   }
   return { artifact, fileName: `${slugOf(projectName)}-r${run.revision!.number}-run${run.id}-${artifact.name}` };

@@ -4,6 +4,7 @@ import { AppError } from '../../lib/app-error';
 import { withRunSlot } from '../quotas/quota.service';
 import { findRun } from '../runs/run.service';
 import { ToleranceStudyModel } from './tolerance.model';
+import { runStatusPhrase } from '../../../shared/display-names';
 
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
 
@@ -39,11 +40,11 @@ export async function getToleranceStudy(projectId: number, runId: number): Promi
  */
 export async function startToleranceStudy(ctx: AppContext, projectId: number, runId: number, userId: number, request: ToleranceRequestBody): Promise<ToleranceStudy> {
   const run = await findRun(projectId, runId);
-  if (run.status !== 'succeeded') throw new AppError(409, `Run ${runId} is ${run.status}; a tolerance study needs a run that has succeeded`);
+  if (run.status !== 'succeeded') throw new AppError(409, `Run ${runId} is ${runStatusPhrase(run.status)}; a bias and detuning sweep needs a finished run`);
   if (run.filesDeletedAt) throw new AppError(409, `The files of run ${runId} were deleted; a tolerance study needs them. Start the revision again.`);
   const latest = await ToleranceStudyModel.findOne({ where: { runId }, order: [['id', 'DESC']], attributes: ['id', 'status'] });
   if (latest && (latest.status === 'queued' || latest.status === 'running')) {
-    throw new AppError(409, `A tolerance study of run ${runId} is already ${latest.status}; wait for it to finish`);
+    throw new AppError(409, `A bias and detuning sweep of run ${runId} is already ${runStatusPhrase(latest.status)}; wait for it to finish`);
   }
   const study = await withRunSlot(ctx, { userId, projectId, needsStorage: false }, (transaction) =>
     ToleranceStudyModel.create({ runId, request, startedById: userId, queuedAt: new Date(), stage: 'queued' }, { transaction }),

@@ -7,9 +7,11 @@ interface CardProps {
   children?: ReactNode;
   className?: string;
   headingLevel?: 'h2' | 'h3';
+  /** Literature the card's options and formulas rest on, shown as a footnote below its content. */
+  references?: string[];
 }
 
-export function Card({ title, description, actions, children, className = '', headingLevel = 'h2' }: CardProps) {
+export function Card({ title, description, actions, children, className = '', headingLevel = 'h2', references }: CardProps) {
   const Heading = headingLevel;
   return (
     <section className={`rounded-card bg-card p-6 shadow-card ring-1 ring-line/70 ${className}`}>
@@ -23,6 +25,16 @@ export function Card({ title, description, actions, children, className = '', he
         </div>
       ) : null}
       {children}
+      {references?.length ? (
+        <footer className="mt-5 border-t border-line pt-3 text-xs text-ink-soft">
+          <p className="font-bold">References</p>
+          <ul className="mt-1 flex flex-col gap-0.5">
+            {references.map((reference) => (
+              <li key={reference}>{reference}</li>
+            ))}
+          </ul>
+        </footer>
+      ) : null}
     </section>
   );
 }

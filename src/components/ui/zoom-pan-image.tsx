@@ -267,7 +267,7 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
             type="button"
             onClick={() => setView(START)}
             disabled={!zoomed}
-            aria-label={`Fit ${alt} to the frame`}
+            aria-label={`${Math.round(view.scale * 100)} %: fit ${alt} to the frame`}
             className="h-8 border-x border-line-strong px-3 text-xs font-bold tabular-nums hover:bg-paper-deep disabled:opacity-60"
           >
             {Math.round(view.scale * 100)} %

@@ -3,6 +3,7 @@ import { Card } from '@/components/ui/card';
 import { paths } from '@/config/paths';
 import { DesignNumber, DesignSelect } from '@/features/designs/components/design-inputs';
 import { useDesignEditor } from '@/features/designs/stores/design-editor-store';
+import { CHI_HINT } from '@/features/designs/utils/design-draft';
 
 const extraKindOptions = [
   { value: 'linear', label: 'Linear' },
@@ -31,9 +32,9 @@ export function AdvancedSection({ projectId }: { projectId: number }) {
       <div className="flex flex-col gap-6">
         <section data-field="simulation" aria-labelledby="sim-heading" className="flex flex-col gap-4">
           <h3 id="sim-heading" className="font-extrabold">
-            Third preview input
+            Third input
           </h3>
-          <p className="-mt-2 text-sm text-ink-soft">Besides A and B, every run also shows the device under this state; linear 45° lights both channels at once.</p>
+          <p className="-mt-2 text-sm text-ink-soft">Besides inputs A and B, every run also previews the device under this third input; linear 45° lights both channels at once.</p>
           <div className="grid gap-4 sm:grid-cols-3">
             <DesignSelect
               path={['simulation', 'extraInput', 'kind']}
@@ -53,7 +54,7 @@ export function AdvancedSection({ projectId }: { projectId: number }) {
             ) : (
               <>
                 <DesignNumber path={['simulation', 'extraInput', 'psiDeg']} label="Orientation ψ" unit="°" />
-                <DesignNumber path={['simulation', 'extraInput', 'chiDeg']} label="Ellipticity χ" unit="°" />
+                <DesignNumber path={['simulation', 'extraInput', 'chiDeg']} label="Ellipticity χ" unit="°" hint={CHI_HINT} />
               </>
             )}
           </div>
@@ -65,7 +66,7 @@ export function AdvancedSection({ projectId }: { projectId: number }) {
             className="max-w-sm"
           />
           <fieldset className="flex flex-col gap-3">
-            <legend className="mb-1 text-sm font-bold">Planes of the x–z beam slice</legend>
+            <legend className="mb-1 text-sm font-bold">Planes of the x–z beam slice (µm, as plotted)</legend>
             <label className="flex items-center gap-2 text-sm">
               <input
                 type="checkbox"

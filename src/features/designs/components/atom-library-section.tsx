@@ -78,7 +78,7 @@ function StoredLibraryFacts({ library, wavelengthNm, periodNm }: { library: Atom
         <p className="text-ink-soft">This library is marked approximate: treat the preview efficiencies as approximate.</p>
       ) : null}
       {mismatches.length > 0 ? (
-        <Banner tone="warning" title="This library does not fit the design">
+        <Banner tone="error" title="This library does not fit the design">
           <p>{mismatches.join('; ')}. Saving is refused until the wavelength and period match the library’s (within 0.1 %).</p>
         </Banner>
       ) : null}

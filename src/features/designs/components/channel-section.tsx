@@ -174,6 +174,13 @@ function TermCard({ projectId, channel, index, count, term, readOnly }: TermCard
   );
 }
 
+/** The phase-retrieval algorithms an image hologram offers, where they were published. */
+const RETRIEVAL_REFERENCES = [
+  'Gerchberg–Saxton: R. W. Gerchberg and W. O. Saxton, Optik 35, 237 (1972).',
+  'Weighted Gerchberg–Saxton: R. Di Leonardo, F. Ianni and G. Ruocco, Opt. Express 15, 1913 (2007).',
+  'MRAF: M. Pasienski and B. DeMarco, Opt. Express 16, 2176 (2008).',
+];
+
 export function ChannelSection({ projectId, channel, readOnly }: { projectId: number; channel: ChannelId; readOnly: boolean }) {
   const recipe = useDesignEditor((state) => state.draft?.channels[channel]);
   const setup = useDesignEditor((state) => state.draft?.setup);
@@ -188,6 +195,7 @@ export function ChannelSection({ projectId, channel, readOnly }: { projectId: nu
       title={CHANNEL_NAMES[channel]}
       description={`Phase recipe for light in ${stateName}: the terms are added in this order.`}
       headingLevel="h2"
+      references={terms.some((term) => term.kind === 'hologram') ? RETRIEVAL_REFERENCES : undefined}
     >
       <div data-field={`channels.${channel}`} className="flex flex-col gap-5">
         <DesignText path={['channels', channel, 'label']} label={`${CHANNEL_NAMES[channel]} label`} maxLength={80} hint="Optional, e.g. “Bessel beam under x-polarized light”." />

@@ -1,9 +1,13 @@
 import type { ReactNode } from 'react';
 import { SelectField, TextField } from '@/components/ui/field';
+import { MathText } from '@/components/ui/math-text';
 import { NumberField } from '@/components/ui/number-field';
 import { useDesignField } from '@/features/designs/hooks/use-design-field';
 import type { FieldPath } from '@/features/designs/utils/design-draft';
 import { friendlyMessage } from '@/features/designs/utils/friendly-message';
+
+/** Hints may hold formulas (`$…$` or TeX notation such as e^{iφ}); KaTeX typesets them. */
+const typeset = (hint: ReactNode) => (typeof hint === 'string' ? <MathText text={hint} /> : hint);
 
 interface CommonProps {
   path: FieldPath;
@@ -26,7 +30,7 @@ export function DesignNumber({
       <NumberField
         label={label}
         unit={unit}
-        hint={hint}
+        hint={typeset(hint)}
         placeholder={placeholder}
         value={typeof field.value === 'number' ? field.value : undefined}
         onValueChange={field.set}
@@ -42,7 +46,7 @@ export function DesignText({ path, label, hint, className = '', maxLength }: Com
     <div data-field={field.key} className={className}>
       <TextField
         label={label}
-        hint={hint}
+        hint={typeset(hint)}
         maxLength={maxLength}
         value={field.value ?? ''}
         onValueChange={field.set}
@@ -65,7 +69,7 @@ export function DesignSelect<V extends string>({
     <div data-field={field.key} className={className}>
       <SelectField
         label={label}
-        hint={hint}
+        hint={typeset(hint)}
         value={field.value === undefined ? options[0].value : (String(field.value) as V)}
         options={options}
         onValueChange={(value) => (onSelect ? onSelect(value) : field.set(value))}

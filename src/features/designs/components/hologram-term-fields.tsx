@@ -19,9 +19,9 @@ const unitOptions = [
 ] as const;
 
 const algorithmOptions = [
-  { value: 'weighted-gs', label: 'Weighted Gerchberg–Saxton (Di Leonardo 2007)' },
-  { value: 'gs', label: 'Gerchberg–Saxton (1972)' },
-  { value: 'mraf', label: 'MRAF (Pasienski & DeMarco 2008)' },
+  { value: 'weighted-gs', label: 'Weighted Gerchberg–Saxton' },
+  { value: 'gs', label: 'Gerchberg–Saxton' },
+  { value: 'mraf', label: 'MRAF (mixed-region amplitude freedom)' },
 ] as const;
 
 const seenOnOptions = [
@@ -139,9 +139,14 @@ export function HologramTermFields({ projectId, path, term, canUpload }: Hologra
         <DesignSelect path={[...path, 'algorithm']} label="Phase retrieval" options={algorithmOptions} className="sm:col-span-2" />
         <DesignNumber path={[...path, 'iterations']} label="Iterations" placeholder="100" hint="1 … 5000" />
         <DesignNumber path={[...path, 'seed']} label="Random seed" placeholder="1" hint="Same seed, same result." />
-        <DesignNumber path={[...path, 'gamma']} label="Gamma" placeholder="1" hint="Target intensity = (gray/255)^gamma." />
+        <DesignNumber path={[...path, 'gamma']} label="Gamma" placeholder="1" hint="Target intensity $I = (g/255)^{γ}$ for gray level g." />
         {term.algorithm === 'mraf' ? (
-          <DesignNumber path={[...path, 'mixing']} label="MRAF mixing m" placeholder="0.5" hint="Share of the signal region, in (0, 1]." />
+          <DesignNumber
+            path={[...path, 'mixing']}
+            label="MRAF target weight m"
+            placeholder="0.5"
+            hint="Weight of the target in the signal region, in (0, 1]: each iteration sets the window to m × the target amplitude and keeps 1 − m of the light outside it."
+          />
         ) : null}
       </div>
 

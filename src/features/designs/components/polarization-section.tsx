@@ -4,6 +4,7 @@ import { Card } from '@/components/ui/card';
 import { DesignNumber, DesignSelect } from '@/features/designs/components/design-inputs';
 import { PolarizationDrawing } from '@/features/designs/components/polarization-drawing';
 import { useDesignEditor } from '@/features/designs/stores/design-editor-store';
+import { CHI_HINT } from '@/features/designs/utils/design-draft';
 
 const DEG = Math.PI / 180;
 
@@ -73,7 +74,7 @@ export function PolarizationSection() {
           ) : (
             <div className="grid gap-4 sm:grid-cols-2">
               <DesignNumber path={['polarization', 'psiDeg']} label="Orientation ψ" unit="°" hint="Major axis of A, from x towards y." />
-              <DesignNumber path={['polarization', 'chiDeg']} label="Ellipticity χ" unit="°" hint="−45° … 45°; χ > 0 is left-handed." />
+              <DesignNumber path={['polarization', 'chiDeg']} label="Ellipticity χ" unit="°" hint={CHI_HINT} />
             </div>
           )}
           <p className="text-xs text-ink-soft">{HANDEDNESS_CONVENTION}</p>

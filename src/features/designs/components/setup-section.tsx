@@ -87,7 +87,7 @@ export function SetupSection() {
             <Figure term="Propagating limit" value="sin²θx + sin²θy ≤ 1" note="Directions outside the unit circle are evanescent." />
           </dl>
           {figures.periodAtLeastHalfWave ? (
-            <Banner tone="warning" className="mt-4" title="P is at least λ/2">
+            <Banner tone="note" className="mt-4" title="P is at least λ/2 (runs are not blocked)">
               The far-field grid stops at sin θ = ±{fixed(figures.gridHalfWidth, 3)}, short of the horizon, so the steepest propagating
               directions cannot be addressed, and copies of the pattern shifted by λ/P = {fixed(2 * figures.gridHalfWidth, 3)} in sin θ
               fall inside the propagating circle. Choose P below λ/2 = {fixed(setup.wavelengthNm / 2, 1)} nm to avoid both.

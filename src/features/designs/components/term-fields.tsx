@@ -1,4 +1,5 @@
 import { useId } from 'react';
+import { MathText } from '@/components/ui/math-text';
 import { AssetPicker } from '@/features/designs/components/asset-picker';
 import { DesignNumber, GroupError } from '@/features/designs/components/design-inputs';
 import { HologramTermFields } from '@/features/designs/components/hologram-term-fields';
@@ -34,25 +35,30 @@ function AxiconFields({ path, term }: { path: FieldPath; term: AxiconDraft }) {
         <legend className="mb-1.5 font-bold">Give the cone as</legend>
         <label className="flex items-center gap-2">
           <input type="radio" name={group} className="size-4 accent-[var(--color-teal)]" checked={byAngle} onChange={() => switchTo('angle')} />
-          By the cone angle β
+          By the cone half-angle β
         </label>
         <label className="flex items-center gap-2">
           <input type="radio" name={group} className="size-4 accent-[var(--color-teal)]" checked={!byAngle} onChange={() => switchTo('na')} />
-          By NA = sin β
+          By <MathText text="$\sin β = k_r/k$" />
         </label>
       </fieldset>
       {byAngle ? (
         <DesignNumber path={[...path, 'coneHalfAngleDeg']} label="Cone half-angle β" unit="°" hint="Between 0° and 90°." className="max-w-xs" />
       ) : (
         <>
-          <DesignNumber path={[...path, 'numericalAperture']} label="Numerical aperture NA" hint="Between 0 and 1." className="max-w-xs" />
+          <DesignNumber
+            path={[...path, 'numericalAperture']}
+            label="sin β of the cone"
+            hint="Between 0 and 1: the radial wavenumber $k_r/k = \sin β$ of the Bessel beam, β the cone half-angle."
+            className="max-w-xs"
+          />
           <GroupError path={[...path, 'coneHalfAngleDeg']} />
         </>
       )}
       <GroupError path={path} />
       {coreRadiusUm ? (
         <p className="text-sm text-ink-soft">
-          Bessel core radius r₀ = 2.405/(k sin β) ≈ <strong className="text-ink tabular-nums">{coreRadiusUm.toPrecision(3)} µm</strong>.
+          Bessel core radius <MathText text="$r_0 = 2.405/(k \sin β)$" /> ≈ <strong className="text-ink tabular-nums">{coreRadiusUm.toPrecision(3)} µm</strong>.
         </p>
       ) : null}
     </div>

@@ -36,6 +36,14 @@ export function termKindLabel(kind: TermKind): string {
   return TERM_KINDS.find((entry) => entry.kind === kind)?.label ?? kind;
 }
 
+/**
+ * The sign of χ in λ(ψ, χ) = [cosψ cosχ − i sinψ sinχ, sinψ cosχ + i cosψ sinχ] under exp(−iωt): χ > 0 turns
+ * counter-clockwise as seen looking towards the source, which Born & Wolf (the convention README cites) call
+ * left-handed (from memory, not checked against the book: Born & Wolf's own χ, sin 2χ = sin 2α sin δ, has the
+ * opposite sign).
+ */
+export const CHI_HINT = '−45° … 45°. χ > 0 turns counter-clockwise seen looking towards the source: left-handed in Born & Wolf’s naming (χ = 45° is [1, i]/√2, left-circular).';
+
 export const CHANNEL_NAMES: Record<ChannelId, string> = { a: 'Channel A', b: 'Channel B' };
 
 /** A fresh term of a kind, with values that validate as they are. */

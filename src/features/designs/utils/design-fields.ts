@@ -1,3 +1,4 @@
+import { TERM_PARAMETER_NAMES } from '@shared/display-names';
 import { getIn, termKindLabel, type TermKind } from '@/features/designs/utils/design-draft';
 
 interface FieldLabel {
@@ -25,12 +26,12 @@ const TOP_FIELDS: Record<string, FieldLabel> = {
   atomLibrary: { label: 'Atom library' },
   'atomLibrary.source': { label: 'Atom library' },
   simulation: { label: 'Simulation' },
-  'simulation.extraInput': { label: 'Third preview input' },
-  'simulation.extraInput.kind': { label: 'Third preview input, kind' },
-  'simulation.extraInput.angleDeg': { label: 'Third preview input, angle ψ', unit: '°' },
-  'simulation.extraInput.handedness': { label: 'Third preview input, handedness' },
-  'simulation.extraInput.psiDeg': { label: 'Third preview input, orientation ψ', unit: '°' },
-  'simulation.extraInput.chiDeg': { label: 'Third preview input, ellipticity χ', unit: '°' },
+  'simulation.extraInput': { label: 'Third input' },
+  'simulation.extraInput.kind': { label: 'Third input, kind' },
+  'simulation.extraInput.angleDeg': { label: 'Third input, angle ψ', unit: '°' },
+  'simulation.extraInput.handedness': { label: 'Third input, handedness' },
+  'simulation.extraInput.psiDeg': { label: 'Third input, orientation ψ', unit: '°' },
+  'simulation.extraInput.chiDeg': { label: 'Third input, ellipticity χ', unit: '°' },
   'simulation.beamZUm': { label: 'Beam slice planes' },
   'simulation.beamZUm.start': { label: 'Beam slice from z', unit: 'µm' },
   'simulation.beamZUm.end': { label: 'Beam slice to z', unit: 'µm' },
@@ -63,10 +64,11 @@ const TERM_FIELDS: Record<string, FieldLabel> = {
   algorithm: { label: 'algorithm' },
   iterations: { label: 'iterations', unit: '' },
   seed: { label: 'random seed', unit: '' },
-  mixing: { label: 'MRAF mixing m', unit: '' },
+  mixing: TERM_PARAMETER_NAMES.mixing,
   fresnelDistanceUm: { label: 'image distance', unit: 'µm' },
-  coneHalfAngleDeg: { label: 'cone half-angle β', unit: '°' },
-  numericalAperture: { label: 'numerical aperture NA', unit: '' },
+  seenOn: { label: 'picture seen on' },
+  coneHalfAngleDeg: TERM_PARAMETER_NAMES.coneHalfAngleDeg,
+  numericalAperture: TERM_PARAMETER_NAMES.numericalAperture,
   charge: { label: 'topological charge ℓ', unit: '' },
   focalLengthUm: { label: 'focal length f', unit: 'µm' },
   thetaXDeg: { label: 'deflection θx', unit: '°' },

@@ -1,8 +1,8 @@
 const IDENTIFIERS: Record<string, string> = {
   wavelengthNm: 'the wavelength',
   periodNm: 'the period',
-  coneHalfAngleDeg: 'a cone half-angle',
-  numericalAperture: 'a numerical aperture',
+  coneHalfAngleDeg: 'the cone half-angle β',
+  numericalAperture: 'sin β',
 };
 
 /** A schema message rephrased for the field it is shown at (the field's label already names the quantity). */
@@ -12,7 +12,7 @@ export function friendlyMessage(path: string, message: string): string {
   const generic = /invalid input|expected|required/i.test(message);
   if (generic && /phaseMap(\.(source|id))?$/.test(path)) return 'Choose an uploaded phase map';
   if (generic && /image(\.(source|id|name))?$/.test(path)) return 'Choose a target picture';
-  if (message.startsWith('give exactly one of')) return 'Give either a cone half-angle or a numerical aperture';
+  if (message.startsWith('give exactly one of')) return 'Give either the cone half-angle β or sin β';
   let text = message.replace(/^[^]*?\bmust\b/, 'Must');
   for (const [identifier, words] of Object.entries(IDENTIFIERS)) text = text.replaceAll(identifier, words);
   text = text.replace(/^Too small: expected number to be >=(.*)$/, 'Must be at least$1');

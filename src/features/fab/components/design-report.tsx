@@ -1,6 +1,7 @@
 import type { ReportModel } from '@shared/report/design-report';
 import { FULL_VIEW, PictureAxes, type PictureAxesSpec } from '@/components/ui/picture-axes';
 import { apiUrl } from '@/lib/api-client';
+import { MathText } from '@/components/ui/math-text';
 
 /** The design report on screen and on paper: the same model as report.html in the fab package. */
 export function DesignReport({ model, projectId, runId, previews }: { model: ReportModel; projectId: number; runId: number; previews: { name: string; label: string; frame?: PictureAxesSpec }[] }) {
@@ -49,7 +50,7 @@ export function DesignReport({ model, projectId, runId, previews }: { model: Rep
                   <tr key={r} className="break-inside-avoid">
                     {row.map((cell, c) => (
                       <td key={c} className="border border-line px-2 py-1 align-top tabular-nums">
-                        {cell}
+                        <MathText text={cell} />
                       </td>
                     ))}
                   </tr>

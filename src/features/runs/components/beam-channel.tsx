@@ -2,6 +2,7 @@ import type { RunArtifact, RunMetric } from '@shared/schemas/runs';
 import { Card } from '@/components/ui/card';
 import type { PictureAnnotation } from '@/components/ui/zoom-pan-image';
 import { ArtifactFigure } from '@/features/runs/components/artifact-figure';
+import { MathText } from '@/components/ui/math-text';
 import { formatMetricValue, metricName } from '@/features/runs/components/format-run';
 import { LaserSafetyNote } from '@/features/runs/components/laser-safety-note';
 import { AxialChart, ProfileChart } from '@/features/runs/components/run-charts';
@@ -34,7 +35,9 @@ const BEAM_KEYS = [
   'profileCorrelation',
   'focalLength',
   'numericalAperture',
+  'focalSpotZeroMeasured',
   'focalSpotRadiusMeasured',
+  'focalSpotZeroSquare',
   'focalSpotRadiusAiry',
   'strehlVsDesign',
 ];
@@ -56,6 +59,7 @@ export function BeamChannel({ projectId, runId, channel, slice, profiles, lines,
   };
   addRadius('coreRadiusFormula', 'r₀ formula');
   addRadius('ringRadiusFormula', 'ring formula');
+  addRadius('focalSpotZeroSquare', 'λf/D');
   addRadius('focalSpotRadiusAiry', 'Airy 0.61 λ/NA');
   const zMarkers: { z: number; label: string }[] = [];
   const measuredLength = value(metrics, 'nonDiffractingLengthMeasured');
@@ -87,12 +91,12 @@ export function BeamChannel({ projectId, runId, channel, slice, profiles, lines,
             <h3 className="mb-2 font-extrabold">Key figures</h3>
             <dl className="divide-y divide-line/70 rounded-2xl ring-1 ring-line/70 ring-inset">
               {figures.map((key) => (
-                <div key={key} className="flex flex-col gap-0.5 px-4 py-2.5">
-                  <div className="flex flex-wrap items-baseline justify-between gap-x-4">
-                    <dt className="font-bold">{metricName(key)}</dt>
-                    <dd className="font-bold tabular-nums">{formatMetricValue(metrics![key])}</dd>
-                  </div>
-                  <p className="text-xs text-ink-soft">{metrics![key].meaning}</p>
+                <div key={key} className="grid grid-cols-[1fr_auto] items-baseline gap-x-4 gap-y-0.5 px-4 py-2.5">
+                  <dt className="font-bold">{metricName(key)}</dt>
+                  <dd className="font-bold tabular-nums">{formatMetricValue(metrics![key])}</dd>
+                  <dd className="col-span-2 text-xs text-ink-soft">
+                    <MathText text={metrics![key].meaning} />
+                  </dd>
                 </div>
               ))}
             </dl>
@@ -104,7 +108,7 @@ export function BeamChannel({ projectId, runId, channel, slice, profiles, lines,
               <span className="font-extrabold">Transverse radial profile</span>
               <span className="block text-sm text-ink-soft">
                 Azimuthal mean of the simulated intensity
-                {profile.z !== null ? ` at z = ${(profile.z * 1e3).toPrecision(3)} mm` : ''}
+                {profile.z !== null ? ` at z = ${(profile.z * 1e6).toPrecision(4)} µm` : ''}
                 {profile.analytic ? ', against the analytic Bessel curve scaled to it' : ''}.
               </span>
             </figcaption>

@@ -1,5 +1,6 @@
 import type { RunDetail } from '@shared/schemas/runs';
 import { Card } from '@/components/ui/card';
+import { MathText } from '@/components/ui/math-text';
 import { isRunActive } from '@/features/runs/api/run-status';
 import type { ChannelKey } from '@/features/runs/components/artifact-groups';
 import { ConvergenceChart } from '@/features/runs/components/run-charts';
@@ -27,9 +28,15 @@ export function ConvergenceCard({ run, channelNames }: ConvergenceCardProps) {
     <Card
       title="Gerchberg–Saxton convergence"
       description={
-        active
-          ? 'Error per iteration of the phase retrieval, on a log scale; the curve grows while the run works.'
-          : 'Error per iteration of the phase retrieval, on a log scale.'
+        <>
+          Fienup’s error over the whole far-field plane per iteration, on a log scale:{' '}
+          <MathText text="$E_k = \sqrt{Σ (|G_k| − T)² / Σ T²}$" />, the target T being zero outside the window
+          {active ? '; the curve grows while the run works' : ''}. Every bit of light outside the window counts
+          against it, so weighted Gerchberg–Saxton and MRAF level off high on this measure by design: weighted GS
+          re-weights the target each iteration towards even brightness in the window rather than towards the lowest
+          whole-plane error, and MRAF sets the window to m × the target and leaves the rest of the light outside it. How
+          well the picture itself is matched is the retrieval error in the window, under Metrics.
+        </>
       }
     >
       {series.length === 0 ? (

@@ -42,7 +42,7 @@ export function DesignRulesCard({ findings, truncated, counts }: DesignRulesCard
               the previews).
             </span>
           </p>
-          <div className="max-h-96 overflow-auto rounded-2xl ring-1 ring-line/70 ring-inset">
+          <div role="region" aria-label="Design-rule findings, scrollable" tabIndex={0} className="max-h-96 overflow-auto rounded-2xl ring-1 ring-line/70 ring-inset">
             <table className="w-full min-w-[36rem] text-sm">
               <caption className="sr-only">Design-rule findings</caption>
               <thead className="sticky top-0 border-b border-line bg-card text-ink-soft">

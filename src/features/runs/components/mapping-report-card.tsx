@@ -1,6 +1,7 @@
 import { Bar, BarChart, CartesianGrid, Tooltip, XAxis, YAxis } from 'recharts';
 import type { RunMetric } from '@shared/schemas/runs';
 import { Card } from '@/components/ui/card';
+import { MathText } from '@/components/ui/math-text';
 
 const GRID = '#ddd3c1';
 const TICK = { fill: '#5e4d6e', fontSize: 12 };
@@ -41,7 +42,7 @@ interface MappingReportCardProps {
 
 /** How well the library realized the ideal cells: the numbers, the error histogram and the most used atoms. */
 export function MappingReportCard({ report, figures }: MappingReportCardProps) {
-  const { edges, counts, unit } = report.errorHistogram;
+  const { edges, counts } = report.errorHistogram;
   const histogram = counts.map((count, b) => ({ bin: `${edges[b].toPrecision(2)}–${edges[b + 1].toPrecision(2)}`, centre: (edges[b] + edges[b + 1]) / 2, share: (100 * count) / report.cells, count }));
   const usage = report.topAtoms.slice(0, 12).map((a) => ({ atom: a.id, share: (100 * a.cells) / report.cells, cells: a.cells, size: a.widthNm > 0 ? `${a.widthNm.toFixed(0)} × ${a.lengthNm.toFixed(0)} nm` : 'no pillar' }));
   const shown = usage.reduce((s, a) => s + a.cells, 0);
@@ -59,7 +60,9 @@ export function MappingReportCard({ report, figures }: MappingReportCardProps) {
                 <dd className="text-lg font-extrabold text-ink" data-testid={`mapping-${f.key}`}>
                   {m.value === null ? '—' : f.format(m.value)}
                 </dd>
-                <dd className="text-xs text-ink-soft">{meaning}</dd>
+                <dd className="text-xs text-ink-soft">
+                  <MathText text={meaning} />
+                </dd>
               </div>
             );
           })}
@@ -69,13 +72,14 @@ export function MappingReportCard({ report, figures }: MappingReportCardProps) {
         <figure className="min-w-0" aria-label="Mapping error histogram">
           <figcaption className="mb-1 text-sm font-bold text-ink">Complex mapping error per cell</figcaption>
           <p className="mb-2 text-xs text-ink-soft">
-            |tx e^(iαx) − e^(iδx)|² + |ty e^(iαy) − e^(iδy)|² of the chosen atom ({unit}; 0 = exact), share of the {report.cells.toLocaleString('en')} cells per bin.
+            <MathText text="$|t_x e^{iα_x} − e^{iδ_x}|² + |t_y e^{iα_y} − e^{iδ_y}|²$" /> of the chosen atom (dimensionless; 0 = exact), share of the{' '}
+            {report.cells.toLocaleString('en')} cells per bin.
           </p>
           <BarChart data={histogram} style={chartStyle} responsive margin={{ top: 8, right: 16, bottom: 22, left: 8 }}>
             <CartesianGrid stroke={GRID} strokeDasharray="3 3" vertical={false} />
-            <XAxis dataKey="centre" type="category" tick={TICK} tickFormatter={(v: number) => String(Number(v.toPrecision(2)))} label={{ value: `mapping error (${unit})`, position: 'insideBottom', offset: -14, ...LABEL }} />
+            <XAxis dataKey="centre" type="category" tick={TICK} tickFormatter={(v: number) => String(Number(v.toPrecision(2)))} label={{ value: 'mapping error', position: 'insideBottom', offset: -14, ...LABEL }} />
             <YAxis tick={TICK} width={52} label={{ value: 'cells (%)', angle: -90, position: 'insideLeft', ...LABEL }} />
-            <Tooltip formatter={(value, _name, item) => [`${Number(value).toFixed(2)} % (${(item.payload as { count: number }).count} cells)`, 'cells']} labelFormatter={(_label, payload) => `error ${(payload?.[0]?.payload as { bin?: string } | undefined)?.bin ?? ''} ${unit}`} />
+            <Tooltip formatter={(value, _name, item) => [`${Number(value).toFixed(2)} % (${(item.payload as { count: number }).count} cells)`, 'cells']} labelFormatter={(_label, payload) => `error ${(payload?.[0]?.payload as { bin?: string } | undefined)?.bin ?? ''}`} />
             <Bar dataKey="share" fill="#27686a" isAnimationActive={false} />
           </BarChart>
         </figure>

@@ -1,6 +1,7 @@
 import { useId } from 'react';
 import type { RunDetail } from '@shared/schemas/runs';
 import { Card } from '@/components/ui/card';
+import { MathText } from '@/components/ui/math-text';
 import { formatMetricValue, metricName, sectionName } from '@/features/runs/components/format-run';
 
 /** Every metric of the run, by section, with its value and unit and the one line that says what it measures. */
@@ -10,7 +11,7 @@ export function MetricsTable({ metrics }: { metrics: NonNullable<RunDetail['metr
   return (
     <Card
       title={<span id={headingId}>Metrics</span>}
-      description="Computed on the realized device. Fractions are shown in %, lengths in nm, µm or mm, ratios of powers in dB."
+      description="Computed on the realized device. Fractions are shown in %, lengths in nm, µm or mm, ratios of powers in dB; pure numbers (correlations, sin β, Strehl ratio) have no unit."
     >
       <div role="region" aria-labelledby={headingId} className="flex flex-col gap-6">
         {sections.map(([section, group]) => (
@@ -37,7 +38,9 @@ export function MetricsTable({ metrics }: { metrics: NonNullable<RunDetail['metr
                       {metricName(key)}
                     </th>
                     <td className="px-3 py-2 text-right font-bold whitespace-nowrap tabular-nums">{formatMetricValue(metric)}</td>
-                    <td className="px-3 py-2 text-ink-soft">{metric.meaning}</td>
+                    <td className="px-3 py-2 text-ink-soft">
+                      <MathText text={metric.meaning} />
+                    </td>
                   </tr>
                 ))}
               </tbody>

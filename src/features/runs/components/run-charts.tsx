@@ -74,7 +74,7 @@ export function ConvergenceChart({ series }: ConvergenceChartProps) {
         tickFormatter={scientific}
         tick={TICK}
         width={64}
-        label={{ value: 'error', angle: -90, position: 'insideLeft', fill: '#5e4d6e', fontSize: 12 }}
+        label={{ value: 'whole-plane error', angle: -90, position: 'insideLeft', fill: '#5e4d6e', fontSize: 12 }}
       />
       <Tooltip formatter={(value) => (typeof value === 'number' ? value.toExponential(3) : String(value))} labelFormatter={(label) => `Iteration ${label}`} />
       <Legend verticalAlign="top" height={28} />
@@ -157,9 +157,9 @@ interface AxialChartProps {
   markers: { z: number; label: string }[];
 }
 
-/** Intensity along the beam (on the axis, or on the ring of a vortex beam) against z in mm. */
+/** Intensity along the beam (on the axis, or on the ring of a vortex beam) against z in µm, the unit the slice planes are entered in. */
 export function AxialChart({ line, markers }: AxialChartProps) {
-  const rows = line.z.map((z, i) => ({ z: z * 1e3, intensity: line.intensity[i] ?? null }));
+  const rows = line.z.map((z, i) => ({ z: z * 1e6, intensity: line.intensity[i] ?? null }));
   return (
     <LineChart data={rows} style={chartStyle} responsive margin={{ top: 8, right: 16, bottom: 20, left: 8 }}>
       <CartesianGrid stroke={GRID} strokeDasharray="3 3" />
@@ -169,17 +169,17 @@ export function AxialChart({ line, markers }: AxialChartProps) {
         domain={['dataMin', 'dataMax']}
         tick={TICK}
         tickFormatter={(v: number) => String(Number(v.toPrecision(3)))}
-        label={{ value: 'distance z (mm)', position: 'insideBottom', offset: -12, fill: '#5e4d6e', fontSize: 12 }}
+        label={{ value: 'distance z (µm)', position: 'insideBottom', offset: -12, fill: '#5e4d6e', fontSize: 12 }}
       />
       <YAxis domain={[0, 'auto']} tick={TICK} width={64} tickFormatter={scientific} />
       <Tooltip
         formatter={(value) => (typeof value === 'number' ? value.toExponential(3) : String(value))}
-        labelFormatter={(label) => `z = ${Number(label).toPrecision(4)} mm`}
+        labelFormatter={(label) => `z = ${Number(label).toPrecision(4)} µm`}
       />
       {markers.map((m, i) => (
         <ReferenceLine
           key={m.label}
-          x={m.z * 1e3}
+          x={m.z * 1e6}
           stroke={INK}
           strokeDasharray="2 4"
           label={{ value: m.label, position: i % 2 === 0 ? 'insideTopLeft' : 'insideBottomRight', fill: INK, fontSize: 11 }}

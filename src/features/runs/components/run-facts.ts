@@ -1,3 +1,4 @@
+import { INPUT_NAMES } from '@shared/display-names';
 import { PHASE_TERM_LABELS, type Design, type PolarizationState } from '@shared/schemas/design';
 import type { RunDetail, RunMetric } from '@shared/schemas/runs';
 import type { ChannelKey, InputKey } from '@/features/runs/components/artifact-groups';
@@ -84,9 +85,9 @@ function partner(state: PolarizationState): PolarizationState {
 /** Words for the three preview inputs, with the polarization state when the design is known. */
 export function inputNames(design: Design | null): Record<InputKey, { title: string; state: string | null }> {
   return {
-    a: { title: 'Input A', state: design ? describeState(design.polarization) : null },
-    b: { title: 'Input B', state: design ? describeState(partner(design.polarization)) : null },
-    extra: { title: 'Extra input', state: design ? describeState(design.simulation.extraInput) : null },
+    a: { title: INPUT_NAMES.a, state: design ? describeState(design.polarization) : null },
+    b: { title: INPUT_NAMES.b, state: design ? describeState(partner(design.polarization)) : null },
+    extra: { title: INPUT_NAMES.extra, state: design ? describeState(design.simulation.extraInput) : null },
   };
 }
 

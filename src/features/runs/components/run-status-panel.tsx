@@ -10,6 +10,7 @@ import { useStartRun } from '@/features/runs/api/start-run';
 import { formatDb, formatDuration, formatPercent, STATUS_LABELS } from '@/features/runs/components/format-run';
 import { RunProgress } from '@/features/runs/components/run-progress';
 import { RunStatusBadge } from '@/features/runs/components/run-status-badge';
+import { channelMetrics } from '@/features/runs/components/run-facts';
 
 interface RunStatusPanelProps {
   projectId: number;
@@ -27,13 +28,23 @@ function Fact({ term, children }: { term: string; children: ReactNode }) {
   );
 }
 
-function Headline({ label, value }: { label: string; value: string }) {
+function Headline({ label, value, note }: { label: string; value: string; note: string }) {
   return (
     <div className="rounded-2xl bg-paper px-4 py-3 ring-1 ring-line/70 ring-inset">
       <dt className="text-xs font-bold text-ink-soft">{label}</dt>
       <dd className="mt-0.5 text-2xl font-extrabold tabular-nums">{value}</dd>
+      <dd className="mt-0.5 text-xs text-ink-soft">{note}</dd>
     </div>
   );
+}
+
+/** Which efficiency the headline shows for a channel: into the target window (holograms) or into the designed wavefront. */
+function efficiencyHeadline(run: RunDetail, channel: 'a' | 'b') {
+  const window = channelMetrics(run.metrics, channel)?.efficiency !== undefined;
+  const name = channel.toUpperCase();
+  return window
+    ? { label: `Window efficiency ${name}`, note: `power in channel ${name}'s target window / incident power` }
+    : { label: `Wavefront efficiency ${name}`, note: `share of the incident power in channel ${name}'s designed wavefront` };
 }
 
 /** The run at a glance: status, stage, live percent, who and when, the headline figures, Cancel / Run again. */
@@ -42,7 +53,7 @@ export function RunStatusPanel({ projectId, run, canRun, onRestarted }: RunStatu
   const cancel = useCancelRun(projectId, run.id);
   const restart = useStartRun(projectId);
   const active = isRunActive(run.status);
-  const stage = run.status === 'queued' ? 'Waiting for a free worker' : run.stage ? run.stage.charAt(0).toUpperCase() + run.stage.slice(1) : '';
+  const stage = run.status === 'queued' ? 'Waiting for a free worker' : active && run.stage ? run.stage.charAt(0).toUpperCase() + run.stage.slice(1) : '';
 
   return (
     <section aria-labelledby="run-status-heading" className="rounded-card bg-card p-6 shadow-card ring-1 ring-line/70">
@@ -119,10 +130,10 @@ export function RunStatusPanel({ projectId, run, canRun, onRestarted }: RunStatu
 
       {run.status === 'succeeded' ? (
         <dl className="mt-5 grid grid-cols-2 gap-3 lg:grid-cols-4" aria-label="Headline figures">
-          <Headline label="Efficiency A" value={formatPercent(run.headline.efficiencyA)} />
-          <Headline label="Efficiency B" value={formatPercent(run.headline.efficiencyB)} />
-          <Headline label="Crosstalk" value={formatDb(run.headline.crosstalkDb)} />
-          <Headline label="Zero order" value={formatPercent(run.headline.zeroOrder, 2)} />
+          <Headline {...efficiencyHeadline(run, 'a')} value={formatPercent(run.headline.efficiencyA)} />
+          <Headline {...efficiencyHeadline(run, 'b')} value={formatPercent(run.headline.efficiencyB)} />
+          <Headline label="Crosstalk, worse channel" value={formatDb(run.headline.crosstalkDb)} note="the higher of channels A and B, each in its own window" />
+          <Headline label="Zero order, worse channel" value={formatPercent(run.headline.zeroOrder, 2)} note="the larger of channels A and B, each under its own input" />
         </dl>
       ) : null}
 

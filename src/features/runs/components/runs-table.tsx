@@ -49,9 +49,9 @@ export function RunsTable({ projectId, runs, filters, onSort, stale = false, sel
             <SortHeader label="Revision" sortKey="revisionNumber" sort={filters} onSort={onSort} className="px-3" align="right" />
             <PlainHeader>Started by</PlainHeader>
             <SortHeader label="Duration" sortKey="durationMs" sort={filters} onSort={onSort} className="px-3" align="right" />
-            <PlainHeader align="right">Efficiency A / B</PlainHeader>
-            <PlainHeader align="right">Crosstalk</PlainHeader>
-            <PlainHeader align="right">Zero order</PlainHeader>
+            <PlainHeader align="right">Efficiency A / B (window or wavefront)</PlainHeader>
+            <PlainHeader align="right">Crosstalk, worse channel</PlainHeader>
+            <PlainHeader align="right">Zero order, worse channel</PlainHeader>
           </tr>
         </thead>
         <tbody className="divide-y divide-line/70">

@@ -3,6 +3,7 @@ import { DEFAULT_DETUNE_NM, DEFAULT_WIDTH_BIAS_NM, REDUCED_CELLS, TOLERANCE_LIMI
 import { Banner, FormErrorBanner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
+import { MathText } from '@/components/ui/math-text';
 import { SelectField, TextField } from '@/components/ui/field';
 import { isApiError } from '@/lib/api-client';
 import { isStudyActive, useTolerance } from '@/features/runs/api/get-tolerance';
@@ -61,12 +62,12 @@ export function ToleranceCard({ projectId, runId, canRun, channelNames }: Tolera
 
   return (
     <Card
-      title="Tolerance"
-      description="How the realized device degrades when every pillar comes out wider and longer by Δ, or is lit at λ + δ: efficiency, crosstalk and zero order per channel, re-simulated from the run’s own layout."
+      title="Fabrication bias and detuning sweep"
+      description="How the realized device degrades when every pillar comes out wider and longer by Δ (each edge moves out by Δ/2), or is lit at λ + δ: efficiency, crosstalk and zero order per channel, re-simulated from the run’s own layout."
     >
       {canRun ? (
         <form
-          aria-label="Start a tolerance study"
+          aria-label="Start a bias and detuning sweep"
           className="mb-5 grid gap-4 md:grid-cols-[1fr_1fr_12rem_auto] md:items-start"
           onSubmit={(event) => {
             event.preventDefault();
@@ -75,7 +76,7 @@ export function ToleranceCard({ projectId, runId, canRun, channelNames }: Tolera
         >
           <TextField
             label="Width and length bias Δ (nm)"
-            hint={`Added to both sides of every pillar; up to ${TOLERANCE_MAX_POINTS} values in −${TOLERANCE_LIMIT_NM}…${TOLERANCE_LIMIT_NM} nm.`}
+            hint={`Δ is added to the width and to the length of every pillar (each edge moves by Δ/2); up to ${TOLERANCE_MAX_POINTS} values in −${TOLERANCE_LIMIT_NM}…${TOLERANCE_LIMIT_NM} nm.`}
             value={biasText}
             onValueChange={setBiasText}
             error={(touched ? bias.error : undefined) ?? detailOf('widthBiasNm')}
@@ -99,7 +100,7 @@ export function ToleranceCard({ projectId, runId, canRun, channelNames }: Tolera
             name="cells"
           />
           <Button type="submit" className="md:mt-7" pending={start.isPending} disabled={active || start.isPending}>
-            Start tolerance study
+            Start the sweep
           </Button>
         </form>
       ) : null}
@@ -113,12 +114,12 @@ export function ToleranceCard({ projectId, runId, canRun, channelNames }: Tolera
 }
 
 function StudyStatus({ study, loading, loadError }: { study: ToleranceStudy | null; loading: boolean; loadError: string | null }) {
-  if (loadError) return <Banner title="The tolerance study did not load">{loadError}</Banner>;
-  if (loading) return <p className="text-sm text-ink-soft">Loading the tolerance study…</p>;
-  if (!study) return <p className="text-sm text-ink-soft" data-testid="tolerance-status">No tolerance study of this run yet.</p>;
+  if (loadError) return <Banner title="The bias and detuning sweep did not load">{loadError}</Banner>;
+  if (loading) return <p className="text-sm text-ink-soft">Loading the bias and detuning sweep…</p>;
+  if (!study) return <p className="text-sm text-ink-soft" data-testid="tolerance-status">No bias and detuning sweep of this run yet.</p>;
   if (study.status === 'failed') {
     return (
-      <Banner title="The tolerance study failed">
+      <Banner title="The bias and detuning sweep failed">
         <span data-testid="tolerance-status">{study.error}</span>
       </Banner>
     );
@@ -126,7 +127,7 @@ function StudyStatus({ study, loading, loadError }: { study: ToleranceStudy | nu
   if (study.status === 'succeeded') {
     return (
       <p className="text-sm text-ink-soft" data-testid="tolerance-status">
-        Study finished{study.durationMs !== null ? ` in ${(study.durationMs / 1000).toFixed(1)} s` : ''}
+        Sweep finished{study.durationMs !== null ? ` in ${(study.durationMs / 1000).toFixed(1)} s` : ''}
         {study.results ? ` · ${study.results.msPerPoint.toFixed(0)} ms per point on ${study.results.cells}² cells` : ''}
         {study.results?.reducedFrom ? ` (central crop of the ${study.results.reducedFrom}² device: figures differ from the run’s)` : ''}.
       </p>
@@ -138,7 +139,7 @@ function StudyStatus({ study, loading, loadError }: { study: ToleranceStudy | nu
       <p className="text-sm font-bold text-ink">
         {study.status === 'queued' ? 'Waiting for a worker…' : `Running: ${study.stage} (${percent} %)`}
       </p>
-      <div role="progressbar" aria-label="Tolerance study progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={percent} className="h-2 overflow-hidden rounded-full bg-paper-deep">
+      <div role="progressbar" aria-label="Sweep progress" aria-valuemin={0} aria-valuemax={100} aria-valuenow={percent} className="h-2 overflow-hidden rounded-full bg-paper-deep">
         <div className="h-full bg-teal transition-[width]" style={{ width: `${percent}%` }} />
       </div>
     </div>
@@ -157,7 +158,8 @@ function StudyResults({ study, channelNames }: { study: ToleranceStudy; channelN
         <li>Detuning: {results.detuningNote}.{results.detuningAvailable ? ' Images keep their far-field pixels, so their angles scale with λ + δ.' : ''}</li>
         {(['a', 'b'] as const).map((c) => (
           <li key={c}>
-            {channelNames[c]}: efficiency = {results.channels[c].efficiencyMeaning}; crosstalk = {results.channels[c].crosstalkMeaning}.
+            {channelNames[c]}: efficiency = <MathText text={results.channels[c].efficiencyMeaning} />; crosstalk ={' '}
+            <MathText text={results.channels[c].crosstalkMeaning} />.
           </li>
         ))}
         <li>Zero order = {results.zeroOrderMeaning}.</li>

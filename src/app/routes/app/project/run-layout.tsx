@@ -11,6 +11,7 @@ import { useDesignCheck } from '@/features/fab/api/get-design-check';
 import { LayoutViewer, viewAround, type LayoutView } from '@/features/fab/components/layout-viewer';
 import { ViolationsList } from '@/features/fab/components/violations-list';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
+import { runStatusPhrase } from '@shared/display-names';
 
 export default function RunLayoutRoute() {
   const { project } = useProjectOutlet();
@@ -26,7 +27,7 @@ export default function RunLayoutRoute() {
   if (runId === null) return <Banner title="No such run">The link is mistyped.</Banner>;
   if (run.isPending || (succeeded && check.isPending)) return <PageLoader label="Loading the layout" />;
   if (run.isError) return <Banner title="The run did not load">{run.error.message}</Banner>;
-  if (!succeeded) return <Banner tone="info" title="No layout yet">Run {runId} is {run.data.status}; a layout exists once it succeeds.</Banner>;
+  if (!succeeded) return <Banner tone="info" title="No layout yet">Run {runId} is {runStatusPhrase(run.data.status)}; a layout exists once it has finished.</Banner>;
   if (check.isError) return <Banner title="The design-rule result did not load">{check.error.message}</Banner>;
   const cells = n ?? 64;
   const current = view ?? viewAround(cells, cells / 2, cells / 2, Math.min(64, cells));
