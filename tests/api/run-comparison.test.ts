@@ -123,7 +123,14 @@ async function picture(a: number, b: number, channel: string, show: string): Pro
   return PNG.sync.read(res.body);
 }
 
-const pixel = (png: PNG, [row, col]: [number, number]) => [...png.data.subarray(4 * (row * png.width + col), 4 * (row * png.width + col) + 3)];
+/**
+ * The colour at array index [iv, iu] (numpy's row, column; iv grows with v) of a picture painted +v up
+ * (README "Picture convention"): the array's row iv is the picture's row height − 1 − iv.
+ */
+const pixel = (png: PNG, [iv, iu]: [number, number]) => {
+  const at = 4 * ((png.height - 1 - iv) * png.width + iu);
+  return [...png.data.subarray(at, at + 3)];
+};
 
 describe('run comparison', () => {
   it('lists every metric of both runs with its change b − a and the change in % of a', async () => {

@@ -1,10 +1,11 @@
 /**
  * Paints the pictures of a run comparison. Intensities: the previews' own sequential colours, √(I/max) (gamma
  * 0.5, as the run's far-field previews), brighter pixels clipped. Differences b − a: the diverging colours of
- * difference-colormap.ts (teal where run a is brighter, amber where run b is) at (b − a)/max. Rows as stored
- * (row 0 on top), like the run's far-field previews.
+ * difference-colormap.ts (teal where run a is brighter, amber where run b is) at (b − a)/max. +v up, like the
+ * run's far-field previews (README "Picture convention"): the stored rows [iv, iu] grow with v, so the last
+ * one is painted at the top (`upright`).
  */
-import { paintIntensity, type RgbaImage } from '../../../shared/optics/colormap';
+import { paintIntensity, upright, type RgbaImage } from '../../../shared/optics/colormap';
 import { differenceColor } from '../../../shared/optics/difference-colormap';
 
 export type CompareChannel = 'a' | 'b';
@@ -17,7 +18,7 @@ export type ComparisonPaint =
 /** Example: a difference picture where b exceeds a by `max` at one pixel paints it differenceColor(1), equal pixels differenceColor(0). */
 export function paintComparison(paint: ComparisonPaint): RgbaImage {
   const { side } = paint;
-  if (paint.kind === 'intensity') return paintIntensity(paint.map, side, side, { kind: 'gamma', gamma: 0.5, max: paint.max > 0 ? paint.max : undefined });
+  if (paint.kind === 'intensity') return upright(paintIntensity(paint.map, side, side, { kind: 'gamma', gamma: 0.5, max: paint.max > 0 ? paint.max : undefined }));
   const { a, b, max } = paint;
   if (a.length !== side * side || b.length !== side * side) throw new RangeError(`difference of maps of ${a.length} and ${b.length} values, expected ${side}×${side}`);
   const data = new Uint8ClampedArray(side * side * 4);
@@ -29,5 +30,5 @@ export function paintComparison(paint: ComparisonPaint): RgbaImage {
     data[4 * i + 2] = bl;
     data[4 * i + 3] = 255;
   }
-  return { width: side, height: side, data };
+  return upright({ width: side, height: side, data });
 }

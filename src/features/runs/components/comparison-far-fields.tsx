@@ -1,3 +1,4 @@
+import type { PictureAxesSpec } from '@/components/ui/picture-axes';
 import type { FarFieldComparison } from '@shared/schemas/run-comparison';
 import { differenceColor } from '@shared/optics/difference-colormap';
 import type { Rgb } from '@shared/optics/colormap';
@@ -54,6 +55,11 @@ export function ComparisonFarFields({ projectId, runA, runB, farFields, note }: 
   }
   const { side, extent, scales } = farFields;
   const extentText = (value: number) => `u, v from −${value.toFixed(3)} to ${value.toFixed(3)}`;
+  // The pictures are painted +v up (README "Picture convention"), each run's over its own u, v extent.
+  const farFieldAxes = (value: number): PictureAxesSpec => ({
+    x: { label: 'u = sin θx', unit: '', from: -value, to: value },
+    y: { label: 'v = sin θy', unit: '', from: -value, to: value },
+  });
   return (
     <Card
       title="Far fields"
@@ -77,6 +83,7 @@ export function ComparisonFarFields({ projectId, runA, runB, farFields, note }: 
                       <span className="text-xs text-ink-soft">{caption}</span>
                     </figcaption>
                     <ZoomPanImage
+                      axes={farFieldAxes(show === 'b' ? extent.b : extent.a)}
                       src={comparisonPictureHref(projectId, runA, runB, scale.channel, show)}
                       alt={`${CHANNEL_TITLES[scale.channel]}: ${show === 'difference' ? `difference ${title}` : `${title} far field on the common scale`}`}
                     />

@@ -1,3 +1,4 @@
+import { efficiencyHeadline } from '@/features/runs/components/run-status-panel';
 import type { ReactNode } from 'react';
 import { Link } from 'react-router-dom';
 import type { RunDetail } from '@shared/schemas/runs';
@@ -83,10 +84,10 @@ export function LatestRunCard({ projectId }: { projectId: number }) {
       <div className="grid gap-5 lg:grid-cols-[minmax(0,1.4fr)_minmax(0,1fr)]">
         {run.data ? <Thumbnails projectId={projectId} run={run.data} /> : <div className="aspect-[3/1] rounded-xl bg-paper" aria-hidden="true" />}
         <dl className="grid grid-cols-2 content-start gap-2">
-          <Figure term="Efficiency, channel A">{formatPercent(headline.efficiencyA)}</Figure>
-          <Figure term="Efficiency, channel B">{formatPercent(headline.efficiencyB)}</Figure>
-          <Figure term="Crosstalk (worse channel)">{formatDb(headline.crosstalkDb)}</Figure>
-          <Figure term="Zero order (worse channel)">{formatPercent(headline.zeroOrder, 2)}</Figure>
+          <Figure term={run.data ? efficiencyHeadline(run.data, 'a').label : 'Efficiency A'}>{formatPercent(headline.efficiencyA)}</Figure>
+          <Figure term={run.data ? efficiencyHeadline(run.data, 'b').label : 'Efficiency B'}>{formatPercent(headline.efficiencyB)}</Figure>
+          <Figure term="Crosstalk, worse channel">{formatDb(headline.crosstalkDb)}</Figure>
+          <Figure term="Zero order, worse channel">{formatPercent(headline.zeroOrder, 2)}</Figure>
         </dl>
       </div>
     </Card>

@@ -39,7 +39,7 @@ function Headline({ label, value, note }: { label: string; value: string; note: 
 }
 
 /** Which efficiency the headline shows for a channel: into the target window (holograms) or into the designed wavefront. */
-function efficiencyHeadline(run: RunDetail, channel: 'a' | 'b') {
+export function efficiencyHeadline(run: Pick<RunDetail, 'metrics'>, channel: 'a' | 'b') {
   const window = channelMetrics(run.metrics, channel)?.efficiency !== undefined;
   const name = channel.toUpperCase();
   return window
