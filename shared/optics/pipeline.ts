@@ -671,8 +671,18 @@ export async function runDesign(design: Design, resources: DesignResources, opti
     if (focus) {
       group.focalLength = metric(focus.focalLength, 'm', 'focal length f of the lens term');
       group.numericalAperture = metric(focus.numericalAperture, 'NA', 'sin(atan(R/f)) of the illuminated aperture');
-      group.focalSpotZeroMeasured = metric(focus.measuredFirstZero, 'm', 'first minimum of the intensity along x through the focus at z = f');
-      group.focalSpotZeroSquare = metric(focus.squareApertureZero, 'm', 'first zero λf/D of the square device aperture (paraxial, Goodman §4.4.1)');
+      group.focalSpotZeroMeasured = metric(
+        focus.measuredFirstZero,
+        'm',
+        'distance from the focal peak to the first zero of the intensity along x through it at z = f (cut sampled 40 times per λf/D)',
+      );
+      // Beyond the paraxial range the zero moves out to λ/(2 sin θ) for the edge ray's angle θ (angular-spectrum picture).
+      const edge = (n * grid.period) / 2 / Math.hypot((n * grid.period) / 2, focus.focalLength);
+      group.focalSpotZeroSquare = metric(
+        focus.squareApertureZero,
+        'm',
+        `first zero λf/D of the square device aperture (paraxial, Goodman §4.4.1); λ/(2 sin θ) = ${((grid.lambda / (2 * edge)) * 1e6).toFixed(3)} µm for the edge ray at this NA`,
+      );
       group.focalSpotRadiusAiry = metric(focus.airyRadius, 'm', 'Airy first zero 0.61 λ/NA of a circular aperture of radius D/2, for reference (Born & Wolf §8.5)');
       group.strehlVsDesign = metric(focus.strehlVsDesign, 'ratio', 'focal peak intensity of the realized device / that of the ideal designed phase');
     }

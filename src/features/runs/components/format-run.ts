@@ -121,6 +121,8 @@ const METRIC_NAMES: Record<string, string> = {
   profileCorrelation: 'Profile match to J_ℓ²',
   focalLength: 'Focal length',
   numericalAperture: 'Numerical aperture',
+  focalSpotZeroMeasured: 'Focal spot first zero, simulated',
+  focalSpotZeroSquare: 'Focal spot first zero, λf/D (square aperture)',
   focalSpotRadiusMeasured: 'Focal spot radius, simulated',
   focalSpotRadiusAiry: 'Focal spot radius, Airy',
   strehlVsDesign: 'Strehl ratio against the design',

@@ -1,6 +1,7 @@
 import { Bar, BarChart, CartesianGrid, Tooltip, XAxis, YAxis } from 'recharts';
 import type { RunMetric } from '@shared/schemas/runs';
 import { Card } from '@/components/ui/card';
+import { roundTick } from '@/lib/format';
 
 const GRID = '#ddd3c1';
 const TICK = { fill: '#5e4d6e', fontSize: 12 };
@@ -73,8 +74,8 @@ export function MappingReportCard({ report, figures }: MappingReportCardProps) {
           </p>
           <BarChart data={histogram} style={chartStyle} responsive margin={{ top: 8, right: 16, bottom: 22, left: 8 }}>
             <CartesianGrid stroke={GRID} strokeDasharray="3 3" vertical={false} />
-            <XAxis dataKey="centre" type="category" tick={TICK} tickFormatter={(v: number) => String(Number(v.toPrecision(2)))} label={{ value: `mapping error (${unit})`, position: 'insideBottom', offset: -14, ...LABEL }} />
-            <YAxis tick={TICK} width={52} label={{ value: 'cells (%)', angle: -90, position: 'insideLeft', ...LABEL }} />
+            <XAxis dataKey="centre" type="category" tick={TICK} tickFormatter={(v) => roundTick(v, 2)} label={{ value: `mapping error (${unit})`, position: 'insideBottom', offset: -14, ...LABEL }} />
+            <YAxis tick={TICK} width={52} tickFormatter={(v) => roundTick(v)} label={{ value: 'cells (%)', angle: -90, position: 'insideLeft', ...LABEL }} />
             <Tooltip formatter={(value, _name, item) => [`${Number(value).toFixed(2)} % (${(item.payload as { count: number }).count} cells)`, 'cells']} labelFormatter={(_label, payload) => `error ${(payload?.[0]?.payload as { bin?: string } | undefined)?.bin ?? ''} ${unit}`} />
             <Bar dataKey="share" fill="#27686a" isAnimationActive={false} />
           </BarChart>
@@ -86,7 +87,7 @@ export function MappingReportCard({ report, figures }: MappingReportCardProps) {
           </p>
           <BarChart data={usage} style={chartStyle} responsive layout="vertical" margin={{ top: 8, right: 16, bottom: 22, left: 8 }}>
             <CartesianGrid stroke={GRID} strokeDasharray="3 3" horizontal={false} />
-            <XAxis type="number" tick={TICK} label={{ value: 'cells (%)', position: 'insideBottom', offset: -14, ...LABEL }} />
+            <XAxis type="number" tick={TICK} tickFormatter={(v) => roundTick(v)} label={{ value: 'cells (%)', position: 'insideBottom', offset: -14, ...LABEL }} />
             <YAxis type="category" dataKey="atom" tick={TICK} width={96} />
             <Tooltip formatter={(value, _name, item) => [`${Number(value).toFixed(2)} % (${(item.payload as { cells: number }).cells} cells, ${(item.payload as { size: string }).size})`, 'share']} />
             <Bar dataKey="share" fill="#b94721" isAnimationActive={false} />

@@ -1,6 +1,7 @@
 import { CartesianGrid, Legend, Line, LineChart, Tooltip, XAxis, YAxis } from 'recharts';
 import type { TolerancePoint } from '@shared/schemas/tolerance';
 import { CHANNEL_COLOURS } from '@/features/runs/components/run-charts';
+import { roundTick } from '@/lib/format';
 
 const GRID = '#ddd3c1';
 const TICK = { fill: '#5e4d6e', fontSize: 12 };
@@ -43,6 +44,7 @@ export function ToleranceChart({ points, along, quantity, channelNames }: Tolera
         type="number"
         domain={['dataMin', 'dataMax']}
         tick={TICK}
+        tickFormatter={(v) => roundTick(v)}
         label={{ value: along === 'widthBiasNm' ? 'width and length bias Δ (nm)' : 'wavelength detuning δ (nm)', position: 'insideBottom', offset: -14, ...LABEL }}
       />
       <YAxis
