@@ -11,7 +11,7 @@ import { resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { DesignUnitsError } from '../../shared/optics/design-units';
 import { CHANNEL_IDS } from '../../shared/optics/pipeline';
-import type { Metric, MetricGroup } from '../../shared/optics/run-metrics';
+import { decibelText, type Metric, type MetricGroup } from '../../shared/optics/run-metrics';
 import { InputError } from './design-files';
 import { runDesignFile, type RunFileResult } from './run-design-file';
 
@@ -74,7 +74,7 @@ export function formatMetric(m: Metric): string {
     case 'fraction':
       return `${(100 * v).toFixed(2)} %`;
     case 'dB':
-      return `${v.toFixed(1)} dB`;
+      return decibelText(v);
     case 'm':
       return Math.abs(v) >= 1e-3 ? `${(v * 1e3).toPrecision(4)} mm` : `${(v * 1e6).toPrecision(4)} µm`;
     case 'count':

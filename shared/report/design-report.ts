@@ -7,6 +7,7 @@ import type { Design, PhaseTermSpec } from '../schemas/design';
 import { PHASE_TERM_LABELS } from '../schemas/design';
 import type { RunDesignCheck } from '../schemas/fab';
 import type { RunMetric } from '../schemas/runs';
+import { decibelText } from '../optics/run-metrics';
 
 export const LASER_SAFETY_CAUTION =
   'Focused and Bessel beams concentrate laser power along a line or in a spot. Follow ANSI Z136.1 / IEC 60825-1 and your institution’s laser safety officer.';
@@ -90,6 +91,7 @@ export function metricText(m: RunMetric): string {
   if (unit === 'fraction') return `${(100 * value).toFixed(2)} %`;
   if (unit === 'm') return Math.abs(value) < 1e-6 ? `${num(value * 1e9)} nm` : `${num(value * 1e6)} µm`;
   if (unit === 'count') return Number.isInteger(value) ? String(value) : value.toFixed(1);
+  if (unit === 'dB') return decibelText(value);
   return `${num(value)}${unit ? ` ${unit}` : ''}`;
 }
 

@@ -1,3 +1,4 @@
+import { decibelText } from '@shared/optics/run-metrics';
 import type { RunMetric, RunStatus } from '@shared/schemas/runs';
 
 export const STATUS_LABELS: Record<RunStatus, string> = {
@@ -15,7 +16,7 @@ export function formatPercent(fraction: number | null | undefined, digits = 1): 
 }
 
 export function formatDb(value: number | null | undefined): string {
-  return value === null || value === undefined || !Number.isFinite(value) ? '—' : `${value.toFixed(1)} dB`;
+  return value === null || value === undefined || !Number.isFinite(value) ? '—' : decibelText(value);
 }
 
 /** A length in metres, in the unit a person reads best: nm below 1 µm, µm below 1 mm, mm above. */
