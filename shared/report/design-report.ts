@@ -8,6 +8,7 @@ import { PHASE_TERM_LABELS } from '../schemas/design';
 import type { RunDesignCheck } from '../schemas/fab';
 import type { RunMetric } from '../schemas/runs';
 import { decibelText } from '../optics/run-metrics';
+import { assetName } from '../design-values';
 
 export const LASER_SAFETY_CAUTION =
   'Focused and Bessel beams concentrate laser power along a line or in a spot. Follow ANSI Z136.1 / IEC 60825-1 and your institution’s laser safety officer.';
@@ -28,6 +29,8 @@ export interface ReportInput {
   inputs: { a: StoredJones; b: StoredJones } | null;
   library: { name: string; approximate: boolean; source: string | null; material: string | null; atoms: number };
   check: RunDesignCheck;
+  /** File names of the uploads the design uses (absent: named by id only). */
+  uploads?: { id: number; name: string }[];
 }
 
 export interface ReportSection {
@@ -70,14 +73,17 @@ function polarizationText(design: Design): string {
   return `elliptical ψ = ${num(p.psiDeg)}°, χ = ${num(p.chiDeg)}°, and its orthogonal partner`;
 }
 
-/** One phase term in words. Example: { kind: 'tilt', thetaXDeg: 10 } → 'tilt: thetaXDeg 10'. */
-export function termText(term: PhaseTermSpec): string {
+/**
+ * One phase term in words; an uploaded picture by its file name when `uploadNames` has it.
+ * Example: { kind: 'tilt', thetaXDeg: 10 } → 'tilt: thetaXDeg 10'.
+ */
+export function termText(term: PhaseTermSpec, uploadNames?: ReadonlyMap<number, string>): string {
   const parts: string[] = [];
   for (const [key, value] of Object.entries(term)) {
     if (key === 'kind' || value === undefined) continue;
     if (typeof value === 'object' && value !== null) {
       const v = value as Record<string, unknown>;
-      if ('source' in v) parts.push(`${key} ${v.source === 'demo' ? `demo "${String(v.name)}"` : v.source === 'upload' ? `upload ${String(v.id)}` : String(v.path ?? '')}`);
+      if ('source' in v) parts.push(`${key} ${v.source === 'demo' ? `demo "${String(v.name)}"` : v.source === 'upload' ? assetName({ source: 'upload', id: v.id }, uploadNames) : String(v.path ?? '')}`);
       else parts.push(`${key} {${Object.entries(v).map(([k, x]) => `${k} ${typeof x === 'number' ? num(x) : String(x)}`).join(', ')}}`);
     } else parts.push(`${key} ${typeof value === 'number' ? num(value) : String(value)}`);
   }
@@ -99,6 +105,7 @@ const KIND_WORDS = { gap: 'gap', feature: 'feature', 'aspect-ratio': 'aspect rat
 
 export function buildReportModel(input: ReportInput): ReportModel {
   const { design, check, library } = input;
+  const uploadNames = input.uploads ? new Map(input.uploads.map((u) => [u.id, u.name])) : undefined;
   const beamLike = (['a', 'b'] as const).some((c) => design.channels[c].terms.some((t) => t.kind === 'axicon' || t.kind === 'lens' || t.kind === 'vortex'));
   const sections: ReportSection[] = [];
   sections.push({
@@ -129,7 +136,7 @@ export function buildReportModel(input: ReportInput): ReportModel {
     title: 'Channel recipes',
     rows: (['a', 'b'] as const).map((c) => [
       `Channel ${c.toUpperCase()}${design.channels[c].label ? ` — ${design.channels[c].label}` : ''}`,
-      design.channels[c].terms.map(termText).join(' + '),
+      design.channels[c].terms.map((t) => termText(t, uploadNames)).join(' + '),
     ]),
     paragraphs: [],
   });
@@ -172,7 +179,8 @@ export function buildReportModel(input: ReportInput): ReportModel {
     id: 'library',
     title: 'Atom library',
     rows: [
-      ['Library', `${library.name}${library.approximate ? ' (approximate)' : ''}`],
+      // Say "(approximate)" once: the demo library's name already carries it.
+      ['Library', `${library.name}${library.approximate && !/\(approximate\)/i.test(library.name) ? ' (approximate)' : ''}`],
       ['Atoms', String(library.atoms)],
       ...(library.material ? [['Material', library.material] as [string, string]] : []),
       ['Source', library.source ?? 'not stated'],
