@@ -36,6 +36,7 @@ import { useCurrentUser } from '@/features/auth/api/get-me';
 import { useMembers } from '@/features/projects/api/get-members';
 import { ReviewThreadsCard } from '@/features/review/components/review-threads-card';
 import { useRunReview } from '@/features/review/hooks/use-run-review';
+import { runGrid } from '@/features/review/utils/pin-place';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
 
 function parseRunId(value: string | undefined): number | null {
@@ -130,6 +131,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
     runId: run.id,
     viewer: { userId: me.id, canComment, canDeleteAny: canManage },
     members: members.data ?? [],
+    grid: runGrid(run.metrics),
   });
   const groups = useMemo(() => groupArtifacts(run.artifacts), [run.artifacts]);
   const plots = useMemo(() => readRunPlots(run.plots), [run.plots]);
