@@ -67,6 +67,11 @@ describe('pinned review comments in the browser', () => {
     if ((await tabs.count()) > 1) await tabs.nth(1).click();
     await page.getByRole('heading', { name: 'Review threads' }).waitFor();
     await page.getByText('No comments yet.').first().waitFor();
+    // Every chart tick is rounded: no 0.08333333333333333 under a histogram bar.
+    const ticks = page.locator('.recharts-cartesian-axis-tick-value');
+    await expect.poll(() => ticks.count()).toBeGreaterThan(10);
+    const tickTexts = await ticks.allInnerTexts();
+    expect(tickTexts.filter((text) => /\d\.\d{5,}|\d{8,}/.test(text))).toEqual([]);
 
     const figure = page.locator('figure:visible').filter({ has: page.getByRole('button', { name: 'Comment on this picture' }) }).first();
     const toggle = figure.getByRole('button', { name: 'Comment on this picture' });
