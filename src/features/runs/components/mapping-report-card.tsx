@@ -38,10 +38,14 @@ interface MappingReportCardProps {
   report: MappingReportData;
   /** The run's "atom mapping" metrics section. */
   figures: Record<string, RunMetric> | null;
+  /** False for a linear or elliptical pair: the circular-light figures (kept by runs made before they were left out) mean nothing there. */
+  circularPair?: boolean;
 }
 
+const CIRCULAR_ONLY = new Set(['retardanceFarFromPi', 'unconvertedCircular']);
+
 /** How well the library realized the ideal cells: the numbers, the error histogram and the most used atoms. */
-export function MappingReportCard({ report, figures }: MappingReportCardProps) {
+export function MappingReportCard({ report, figures, circularPair = true }: MappingReportCardProps) {
   const { edges, counts, unit } = report.errorHistogram;
   const histogram = counts.map((count, b) => ({ bin: `${edges[b].toPrecision(2)}–${edges[b + 1].toPrecision(2)}`, centre: (edges[b] + edges[b + 1]) / 2, share: (100 * count) / report.cells, count }));
   const usage = report.topAtoms.slice(0, 12).map((a) => ({ atom: a.id, share: (100 * a.cells) / report.cells, cells: a.cells, size: a.widthNm > 0 ? `${a.widthNm.toFixed(0)} × ${a.lengthNm.toFixed(0)} nm` : 'no pillar' }));
@@ -51,7 +55,7 @@ export function MappingReportCard({ report, figures }: MappingReportCardProps) {
     <Card title="Atom mapping report" description="How closely the chosen atoms reproduce the ideal cell of every position, and which atoms the layout uses.">
       {figures ? (
         <dl className="mb-5 grid gap-x-6 gap-y-3 sm:grid-cols-2 xl:grid-cols-3" aria-label="Mapping figures">
-          {FIGURES.filter((f) => figures[f.key]).map((f) => {
+          {FIGURES.filter((f) => figures[f.key] && (circularPair || !CIRCULAR_ONLY.has(f.key))).map((f) => {
             const m = figures[f.key];
             const meaning = f.key === 'retardanceFarFromPi' ? `${m.meaning} (threshold ${thresholdDeg.toFixed(0)}° = π/4)` : m.meaning;
             return (

@@ -242,7 +242,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
         <DesignRulesCard findings={designRules.findings} truncated={designRules.truncated} counts={sectionOf('Design rules')} />
       ) : null}
 
-      {mappingReport ? <MappingReportCard report={mappingReport} figures={sectionOf('Atom mapping')} /> : null}
+      {mappingReport ? <MappingReportCard report={mappingReport} figures={sectionOf('Atom mapping')} circularPair={design ? design.polarization.kind === 'circular' : true} /> : null}
 
       {run.status === 'succeeded' && !filesDeleted ? <ToleranceCard projectId={projectId} runId={run.id} canRun={canRun} channelNames={channelNames} /> : null}
 
