@@ -4,13 +4,14 @@
  * uploaded pictures by their file name, and a changed number as a signed difference in its unit.
  * Pure, no I/O.
  */
+import { PHASE_TERM_LABELS } from './schemas/design';
 
 /** Display words of the enumerated design values, by the field's own key (the last part of its path). */
 export const DESIGN_VALUE_WORDS: Readonly<Record<string, Readonly<Record<string, string>>>> = {
   algorithm: { gs: 'Gerchberg–Saxton', 'weighted-gs': 'weighted Gerchberg–Saxton', mraf: 'MRAF' },
   seenOn: { 'far-field': 'far field (evenly in sin θ)', 'flat-screen': 'flat screen facing the device' },
   units: { degrees: 'degrees', 'direction-cosine': 'direction cosines (sin θ)', cells: 'far-field cells' },
-  kind: { linear: 'linear', circular: 'circular', elliptical: 'elliptical', plane: 'plane wave', gaussian: 'Gaussian beam' },
+  kind: { linear: 'linear', circular: 'circular', elliptical: 'elliptical', plane: 'plane wave', gaussian: 'Gaussian beam', ...PHASE_TERM_LABELS },
   handedness: { left: 'left-handed', right: 'right-handed' },
   source: { demo: 'demo', upload: 'uploaded file', file: 'file', library: 'project library' },
 };

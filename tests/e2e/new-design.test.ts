@@ -73,4 +73,42 @@ describe('a new design', () => {
     await screenshot(page, 'new-design-03-blank');
     await page.close();
   });
+
+  it('revision compare shows an angle change as a difference in degrees, the uploaded picture by file name and words for values', async () => {
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, 'tomas.reyes@harbourlight.example');
+    await page.getByRole('table', { name: 'Projects' }).getByText('Bold F beside a lens').click();
+    await page.getByRole('link', { name: 'Design', exact: true }).click();
+    const start = page.getByRole('group', { name: 'Start from' });
+    await start.waitFor();
+    await start.getByRole('button', { name: /^Demo template/ }).click();
+    const save = async (message: string) => {
+      await page.getByRole('button', { name: 'Save', exact: true }).click();
+      await page.getByLabel('Message').fill(message);
+      await page.getByRole('button', { name: 'Save revision', exact: true }).click();
+      await page.getByText(/^Saved as revision \d+\.$/).waitFor();
+    };
+    await save('template');
+    const projectId = /projects\/(\d+)/.exec(page.url())![1];
+
+    // Channel A: the uploaded "F" instead of the lighthouse, 5° further out, plain Gerchberg–Saxton.
+    const picker = page.locator('[data-field="channels.a.terms.0.image"]');
+    await picker.getByText('bold-F.png').click();
+    const centreX = page.locator('[data-field="channels.a.terms.0.window.centerX"] input, input[data-field="channels.a.terms.0.window.centerX"]').first();
+    await centreX.fill('20');
+    await page.locator('[data-field="channels.a.terms.0.algorithm"] select, select[data-field="channels.a.terms.0.algorithm"]').first().selectOption('gs');
+    await save('F at 20°');
+
+    await page.goto(`${demo.server.url}/projects/${projectId}/revisions/compare?a=1&b=2`);
+    const changes = page.getByRole('list').filter({ hasText: 'changed from' }).first();
+    await changes.waitFor();
+    const text = await changes.innerText();
+    expect(text).toMatch(/window centre x changed from 15° to 20° \(\+5°\)/);
+    expect(text).not.toMatch(/up \d+ ?%/);
+    expect(text).toMatch(/“bold-F\.png” \(upload \d+\)/);
+    expect(text).toContain('weighted Gerchberg–Saxton');
+    expect(text).not.toMatch(/weighted-gs|seenOn/);
+    await screenshot(page, 'new-design-04-compare');
+    await page.close();
+  });
 });

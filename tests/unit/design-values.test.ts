@@ -32,6 +32,8 @@ describe('enumerated values', () => {
     expect(valueWords('seenOn', 'flat-screen')).toBe('flat screen facing the device');
     expect(Object.values(DESIGN_VALUE_WORDS).flatMap((w) => Object.values(w))).not.toContain('weighted-gs');
     expect(valueWords('algorithm', 'something-else')).toBeNull();
+    expect(valueWords('kind', 'hologram')).toBe('image hologram');
+    expect(valueWords('kind', 'custom')).toBe('custom phase map');
   });
 });
 
