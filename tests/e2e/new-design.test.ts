@@ -111,4 +111,35 @@ describe('a new design', () => {
     await screenshot(page, 'new-design-04-compare');
     await page.close();
   });
+
+  it('a lens run shows the focal spot first zero among its key figures, next to λf/D', async () => {
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, 'tomas.reyes@harbourlight.example');
+    await page.getByRole('table', { name: 'Projects' }).getByText('Bold F beside a lens').click();
+    await page.getByRole('link', { name: 'Design', exact: true }).click();
+    await page.getByRole('heading', { name: /^Revision \d+/ }).waitFor();
+    // From the latest revision: a lens in channel A and a tilt in channel B instead of the two pictures, 128² cells.
+    await page.getByLabel('Array size N × N').selectOption('128');
+    for (const [channel, kind] of [['A', 'Lens'], ['B', 'Tilt']] as const) {
+      await page.getByRole('list', { name: `Channel ${channel} terms` }).getByRole('button', { name: /^Remove/ }).first().click();
+      await page.getByRole('button', { name: `Add term to Channel ${channel}` }).click();
+      await page.getByRole('menu', { name: `Kinds of term for Channel ${channel}` }).getByRole('menuitem', { name: new RegExp(`^${kind}`) }).click();
+    }
+    await page.locator('[data-field="channels.a.terms.0.focalLengthUm"] input').fill('150');
+    await page.getByRole('button', { name: 'Save and run' }).click();
+    await page.getByLabel('Message').fill('lens of 150 µm');
+    await page.getByRole('button', { name: 'Save revision and start run' }).click();
+    await page.waitForURL(/\/runs\/\d+$/);
+    await page.getByText('Finished').first().waitFor({ timeout: 150_000 });
+    const figures = page.locator('dl').filter({ hasText: 'Focal spot first zero, simulated' }).first();
+    await figures.waitFor();
+    const text = await figures.innerText();
+    // λf/D = 0.633 µm · 150 µm / 57.6 µm = 1.648 µm (Goodman §4.4.1); the simulated zero lies within a few percent.
+    expect(text).toMatch(/Focal spot first zero, λf\/D \(square aperture\)\s+1\.648 µm/);
+    const simulated = Number(/Focal spot first zero, simulated\s+([\d.]+) µm/.exec(text)![1]);
+    expect(Math.abs(simulated / 1.648 - 1)).toBeLessThan(0.05);
+    expect(text).not.toMatch(/Focal spot zero/);
+    await screenshot(page, 'new-design-05-lens-run');
+    await page.close();
+  });
 });
