@@ -134,13 +134,14 @@ export function ProfileChart({ profile, charge, markers, axisLabel = 'radius r' 
         labelFormatter={(label) => `r = ${Number(label).toPrecision(4)} µm`}
       />
       <Legend verticalAlign="top" height={28} />
-      {markers.map((m) => (
+      {markers.map((m, i) => (
         <ReferenceLine
           key={m.label}
           x={m.radius * 1e6}
           stroke={INK}
           strokeDasharray="2 4"
-          label={{ value: m.label, position: 'insideTopRight', fill: INK, fontSize: 11 }}
+          // Lines close together (λf/D beside the simulated zero) keep their labels apart: top, middle, lower.
+          label={{ value: m.label, position: (['insideTopRight', 'insideRight', 'insideBottomRight'] as const)[i % 3], fill: INK, fontSize: 11 }}
         />
       ))}
       <Line dataKey="measured" name="Simulated" stroke={CHANNEL_COLOURS.a} strokeWidth={2} dot={false} isAnimationActive={false} connectNulls />
