@@ -5,6 +5,7 @@
  * `strehlVsDesign` or `thetaXDeg` reaches a screen or a page. Pure data and string functions: no DOM, no Node API.
  */
 import { PHASE_TERM_LABELS, type AssetRef, type PhaseTermSpec } from './schemas/design';
+import { decibelText } from './optics/run-metrics';
 import type { RunMetric, RunStatus } from './schemas/runs';
 
 export const RUN_STATUS_NAMES: Readonly<Record<RunStatus, string>> = {
@@ -131,8 +132,9 @@ export function formatPercent(fraction: number | null | undefined, digits = 1): 
   return fraction === null || fraction === undefined || !Number.isFinite(fraction) ? '—' : minus(`${(100 * fraction).toFixed(digits)} %`);
 }
 
+/** A power ratio in dB; below the computation's floor (−100 dB) it reads "below −100 dB" (run-metrics.ts). */
 export function formatDb(value: number | null | undefined): string {
-  return value === null || value === undefined || !Number.isFinite(value) ? '—' : minus(`${value.toFixed(1)} dB`);
+  return value === null || value === undefined || !Number.isFinite(value) ? '—' : minus(decibelText(value));
 }
 
 /**

@@ -67,7 +67,6 @@ function parseArgs(argv: string[]): { help: true } | { help: false; run: RunArgs
   return { help: false, run: { design, out, sequential } };
 }
 
-/** Formats a metric for the summary. Example: { value: 0.4123, unit: 'fraction' } → "41.23 %". */
 /** A metric's value with its unit, as the web app shows it (shared/display-names.ts). */
 export function formatMetric(m: Metric): string {
   return m.value === null ? 'n/a' : formatMetricValue(m);

@@ -501,7 +501,7 @@ export async function runDesign(design: Design, resources: DesignResources, opti
   lap('jones synthesis');
   const mapped = mapAtoms(decomposition, library, { allowAxisSwap: true, complexError: false, lookup, signal, memory, onProgress: (f) => report('atom mapping', f) });
   const mapping = { atomIndex: mapped.atomIndex, theta: mapped.theta, cost: mapped.cost };
-  const mappingMetrics = mappingStatistics(mapped.atomIndex, mapped.cost, mapped.swapped, library);
+  const mappingMetrics = mappingStatistics(mapped.atomIndex, mapped.cost, mapped.swapped, library, { circularPair: design.polarization.kind === 'circular' });
   const mappingDetail = mappingReport(mapped.atomIndex, mapped.cost, library);
   lap('atom mapping');
   options.onLayout?.({ design, grid, decomposition, mapping, library, phases });
@@ -672,8 +672,18 @@ export async function runDesign(design: Design, resources: DesignResources, opti
     if (focus) {
       group.focalLength = metric(focus.focalLength, 'm', 'focal length f of the lens term');
       group.numericalAperture = metric(focus.numericalAperture, '', 'sin(atan(R/f)) of the illuminated aperture');
-      group.focalSpotZeroMeasured = metric(focus.measuredFirstZero, 'm', 'first minimum of the intensity along x through the focus at z = f');
-      group.focalSpotZeroSquare = metric(focus.squareApertureZero, 'm', 'first zero λf/D of the square device aperture (paraxial, Goodman §4.4.1)');
+      group.focalSpotZeroMeasured = metric(
+        focus.measuredFirstZero,
+        'm',
+        'distance from the focal peak to the first zero of the intensity along x through it at z = f (cut sampled 40 times per λf/D)',
+      );
+      // Beyond the paraxial range the zero moves out to λ/(2 sin θ) for the edge ray's angle θ (angular-spectrum picture).
+      const edge = (n * grid.period) / 2 / Math.hypot((n * grid.period) / 2, focus.focalLength);
+      group.focalSpotZeroSquare = metric(
+        focus.squareApertureZero,
+        'm',
+        `first zero λf/D of the square device aperture (paraxial, Goodman §4.4.1); λ/(2 sin θ) = ${((grid.lambda / (2 * edge)) * 1e6).toFixed(3)} µm for the edge ray at this NA`,
+      );
       group.focalSpotRadiusAiry = metric(focus.airyRadius, 'm', 'Airy first zero 0.61 λ/NA of a circular aperture of radius D/2, for reference (Born & Wolf §8.5)');
       group.strehlVsDesign = metric(focus.strehlVsDesign, '', 'focal peak intensity of the realized device / that of the ideal designed phase');
     }
@@ -736,10 +746,17 @@ function intensity32(field: ComplexField): Float32Array {
 }
 
 /**
- * Statistics of an atom mapping: mean mapping error, mean power transmission, retardance far from π and
- * the unconverted share for circular light (the part that feeds the zero order in a circular-basis design).
+ * Statistics of an atom mapping: mean mapping error, mean power transmission and, for a circular pair only,
+ * retardance far from π and the unconverted share of circular light (the part that feeds the zero order in
+ * a circular-basis design; for a linear or elliptical pair neither says anything about the device).
  */
-export function mappingStatistics(atomIndex: Int32Array, cost: Float32Array, swapped: Uint8Array, library: AtomLibrary): MetricGroup {
+export function mappingStatistics(
+  atomIndex: Int32Array,
+  cost: Float32Array,
+  swapped: Uint8Array,
+  library: AtomLibrary,
+  options: { circularPair: boolean } = { circularPair: true },
+): MetricGroup {
   const k = library.atoms.length;
   const used = atomUsage(atomIndex, k);
   const cells = atomIndex.length;
@@ -766,15 +783,18 @@ export function mappingStatistics(atomIndex: Int32Array, cost: Float32Array, swa
     const total = atom.tx * atom.tx + atom.ty * atom.ty;
     if (total > 0) unconverted += (u * (sumRe * sumRe + sumIm * sumIm)) / (2 * total);
   });
-  return {
-    meanError: metric(costSum / cells, '', 'mean over cells of |tx e^{iαx} − e^{iδx}|² + |ty e^{iαy} − e^{iδy}|² of the chosen atom (0 = exact)'),
-    meanTransmission: metric(transmission / cells, 'fraction', 'mean over cells of the chosen atom power transmission (tx² + ty²)/2'),
+  const circular: MetricGroup = {
     retardanceFarFromPi: metric(
       farFromPi / cells,
       'fraction',
       'share of cells whose atom retardance αx − αy is more than π/4 from π (their light partly keeps its circular state and feeds the zero order)',
     ),
     unconvertedCircular: metric(unconverted / cells, 'fraction', 'mean share of transmitted circular light left in its own handedness, |A + B|²/(2(|A|² + |B|²))'),
+  };
+  return {
+    meanError: metric(costSum / cells, '', 'mean over cells of |tx e^{iαx} − e^{iδx}|² + |ty e^{iαy} − e^{iδy}|² of the chosen atom (0 = exact)'),
+    meanTransmission: metric(transmission / cells, 'fraction', 'mean over cells of the chosen atom power transmission (tx² + ty²)/2'),
+    ...(options.circularPair ? circular : {}),
     distinctAtoms: metric(distinct, 'count', `different atoms used, of ${k} in the library`),
     axisSwapped: metric(swappedCount / cells, 'fraction', 'share of cells whose atom is placed turned by 90° (δx and δy exchanged)'),
   };

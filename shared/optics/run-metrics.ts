@@ -45,3 +45,15 @@ export function equivalentPhaseLevels(rmsPhaseError: number): number {
 export function blazedEfficiency(levels: number): number {
   return Number.isFinite(levels) ? sinc(1 / levels) ** 2 : 1;
 }
+
+/**
+ * Ratios of powers below this (dB) are the numerical floor of a float32 simulation, not a measurement:
+ * a channel that leaks nothing computes to −300 dB or so, which says no more than "below −100 dB".
+ */
+export const DECIBEL_FLOOR = -100;
+
+/** A power ratio in dB as shown everywhere. Example: −21.34 → "-21.3 dB"; −328.4 → "below −100 dB". */
+export function decibelText(value: number, digits = 1): string {
+  if (value < DECIBEL_FLOOR) return `below −${-DECIBEL_FLOOR} dB`;
+  return `${value.toFixed(digits)} dB`;
+}

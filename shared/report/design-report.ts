@@ -27,6 +27,8 @@ export interface ReportInput {
   inputs: { a: StoredJones; b: StoredJones } | null;
   library: { name: string; approximate: boolean; source: string | null; material: string | null; atoms: number };
   check: RunDesignCheck;
+  /** File names of the uploads the design uses (absent: named by id only). */
+  uploads?: { id: number; name: string }[];
 }
 
 export interface ReportSection {
@@ -73,6 +75,7 @@ const KIND_WORDS = { gap: 'gap', feature: 'feature', 'aspect-ratio': 'aspect rat
 
 export function buildReportModel(input: ReportInput): ReportModel {
   const { design, check, library } = input;
+  const uploadNames = input.uploads ? new Map(input.uploads.map((u) => [u.id, u.name])) : undefined;
   const beamLike = (['a', 'b'] as const).some((c) => design.channels[c].terms.some((t) => t.kind === 'axicon' || t.kind === 'lens' || t.kind === 'vortex'));
   const sections: ReportSection[] = [];
   sections.push({
@@ -103,7 +106,7 @@ export function buildReportModel(input: ReportInput): ReportModel {
     title: 'Channel recipes',
     rows: (['a', 'b'] as const).map((c) => [
       `Channel ${c.toUpperCase()}${design.channels[c].label ? ` — ${design.channels[c].label}` : ''}`,
-      design.channels[c].terms.map((t) => termText(t)).join(' + '),
+      design.channels[c].terms.map((t) => termText(t, (id) => uploadNames?.get(id))).join(' + '),
     ]),
     paragraphs: [],
   });
@@ -146,7 +149,8 @@ export function buildReportModel(input: ReportInput): ReportModel {
     id: 'library',
     title: 'Atom library',
     rows: [
-      ['Library', `${library.name}${library.approximate ? ' (approximate)' : ''}`],
+      // Say "(approximate)" once: the demo library's name already carries it.
+      ['Library', `${library.name}${library.approximate && !/\(approximate\)/i.test(library.name) ? ' (approximate)' : ''}`],
       ['Atoms', String(library.atoms)],
       ...(library.material ? [['Material', library.material] as [string, string]] : []),
       ['Source', library.source ?? 'not stated'],

@@ -18,6 +18,8 @@ export interface Upload {
   width: number;
   height: number;
   size: number;
+  /** SHA-256 of the stored bytes, hex: lets a client see that a file is already uploaded. */
+  sha256: string;
   createdAt: string;
   createdBy: { id: number; name: string } | null;
 }

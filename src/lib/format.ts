@@ -32,3 +32,13 @@ export function formatRelative(iso: string, now: number = Date.now()): string {
   }
   return 'just now';
 }
+
+/**
+ * An axis tick or a numeric label rounded to `digits` significant digits, without trailing zeros.
+ * Example: roundTick(0.30000000000000004) → "0.3"; roundTick(1234567) → "1230000"; a label that is no number stays.
+ */
+export function roundTick(value: unknown, digits = 3): string {
+  const v = typeof value === 'number' ? value : typeof value === 'string' && value.trim() !== '' ? Number(value) : NaN;
+  if (!Number.isFinite(v)) return String(value);
+  return String(Number(v.toPrecision(digits)));
+}

@@ -321,3 +321,55 @@ describe('a layout that breaks the project rules', () => {
     expect(last!.overrideId).toBe(ok.body.override.id);
   });
 });
+
+describe('the package explains itself', () => {
+  it('README.txt names every file, its units, the frame, the library and the cautions; report.html names the uploaded picture by file name', async () => {
+    // Our own bold "F" on black, uploaded under its own file name.
+    const { Jimp } = await import('jimp');
+    const image = new Jimp({ width: 32, height: 32, color: 0x000000ff });
+    for (let y = 4; y < 28; y++) for (let x = 8; x < 26; x++) if (x < 13 || y < 9 || (y >= 14 && y < 18 && x < 22)) image.setPixelColor(0xffffffff, x, y);
+    const uploaded = await owner.agent
+      .post(`/api/projects/${projectId}/uploads`)
+      .set('x-csrf-token', owner.csrfToken)
+      .field('kind', 'image')
+      .attach('file', await image.getBuffer('image/png'), { filename: 'bold-F.png', contentType: 'image/png' });
+    expect(uploaded.status, JSON.stringify(uploaded.body)).toBe(201);
+    const design = deflectorDesign() as { channels: { a: { terms: object[] } } };
+    design.channels.a.terms = [{ kind: 'hologram', image: { source: 'upload', id: uploaded.body.upload.id }, window: { units: 'degrees', width: 8, centerX: 10, centerY: 6 }, iterations: 4 }];
+    const revision = await owner.post(`/api/projects/${projectId}/revisions`, { design });
+    expect(revision.status, JSON.stringify(revision.body)).toBe(201);
+    const started = await owner.post(`/api/projects/${projectId}/revisions/${revision.body.revision.number}/runs`);
+    const run = await waitForRun(owner, projectId, started.body.run.id);
+    expect(run.status, run.error ?? '').toBe('succeeded');
+    const check = (await owner.get(`/api/projects/${projectId}/runs/${run.id}/design-check`)).body.check as RunDesignCheck;
+    if (!check.exportAllowed) {
+      const override = await owner.post(`/api/projects/${projectId}/runs/${run.id}/export-override`, { reason: 'Test structure: the package text is what is checked here.' });
+      expect(override.status, JSON.stringify(override.body)).toBe(201);
+    }
+    const res = await download(owner, `/api/projects/${projectId}/runs/${run.id}/fab-package.zip`);
+    expect(res.status).toBe(200);
+    const zipPath = join(work, 'readme.zip');
+    await writeFile(zipPath, res.body as Buffer);
+    // Read back with Python's zipfile, independent of the archiver that wrote it.
+    const read = (suffix: string) =>
+      execFileSync(PYTHON, ['-c', 'import sys, zipfile; z = zipfile.ZipFile(sys.argv[1]); print(z.read([n for n in z.namelist() if n.endswith(sys.argv[2])][0]).decode())', zipPath, suffix], { encoding: 'utf8' });
+    const names = JSON.parse(execFileSync(PYTHON, ['-c', 'import sys, json, zipfile; print(json.dumps(zipfile.ZipFile(sys.argv[1]).namelist()))', zipPath], { encoding: 'utf8' })) as string[];
+    const folder = names[0].split('/')[0];
+    expect(names).toContain(`${folder}/README.txt`);
+    const readme = read('/README.txt');
+    for (const name of names) expect(readme, name).toContain(name.slice(folder.length + 1));
+    expect(readme).toMatch(/phase_a\.npy\s+Designed phase of channel A per cell, radians/);
+    expect(readme).toMatch(/database unit 1 nm/);
+    expect(readme).toContain('x to the right and y up, seen facing the device from the side the light goes to');
+    expect(readme).toContain('"Picture convention"');
+    expect(readme).toContain('APPROXIMATE');
+    expect(readme).toContain('ANSI Z136.1 / IEC 60825-1');
+    expect(readme).toMatch(/cleanroom’s own procedures/);
+    expect(readme).toMatch(/own rules come first/);
+
+    const html = read('/report.html');
+    expect(html).toContain('“bold-F.png” (upload');
+    expect(html).not.toMatch(/image upload \d/);
+    expect(html.match(/\(approximate\)/g)).toHaveLength(1);
+  });
+});

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { diffDesigns } from '../../shared/design-diff';
-import { deflectorDesign, twinImageDesign } from '../support/designs';
+import { deflectorDesign, twinImageDesign, waitForRun } from '../support/designs';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
 
 let t: TestApp;
@@ -115,6 +115,27 @@ describe('revisions', () => {
     expect(bad.status).toBe(400);
     expect(bad.body.details.b).toBeDefined();
     expect((await designer.get(`${base()}/compare?a=${a}&b=999`)).status).toBe(404);
+  });
+});
+
+describe("the project's last change", () => {
+  it('follows a saved revision, a started run and a finished one', async () => {
+    const id = (await designer.post('/api/projects', { name: 'Last change project' })).body.project.id;
+    const lastChange = async () => Date.parse((await designer.get(`/api/projects/${id}`)).body.project.updatedAt);
+    const pause = () => new Promise((r) => setTimeout(r, 1100));
+    const created = await lastChange();
+    await pause();
+    const saved = (await designer.post(`/api/projects/${id}/revisions`, { design: deflectorDesign() })).body.revision;
+    const afterRevision = await lastChange();
+    expect(afterRevision).toBeGreaterThan(created);
+    expect(afterRevision).toBeGreaterThanOrEqual(Date.parse(saved.createdAt) - 1000);
+    await pause();
+    const run = (await designer.post(`/api/projects/${id}/revisions/${saved.number}/runs`)).body.run;
+    const afterStart = await lastChange();
+    expect(afterStart).toBeGreaterThan(afterRevision);
+    const done = await waitForRun(designer, id, run.id);
+    expect(done.status).toBe('succeeded');
+    expect(await lastChange()).toBeGreaterThanOrEqual(Date.parse(done.finishedAt!) - 1000);
   });
 });
 

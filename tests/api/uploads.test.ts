@@ -91,6 +91,8 @@ describe('uploads that are accepted', () => {
     expect(Buffer.compare(content.body, png)).toBe(0);
     // The hash is computed off the request thread, with the decode; it is the hash of the stored bytes.
     expect((await UploadModel.findByPk(id, { attributes: ['sha256'] }))?.sha256).toBe(createHash('sha256').update(png).digest('hex'));
+    // …and the listing carries it, so a client sees a file it already uploaded (node:crypto, independent of the server's hashing).
+    expect(list.body.uploads.find((u: { id: number }) => u.id === id).sha256).toBe(createHash('sha256').update(png).digest('hex'));
     expect((await designer.get(`/api/projects/${projectId}/uploads/99999/content`)).status).toBe(404);
   });
 

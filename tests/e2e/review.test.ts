@@ -68,6 +68,12 @@ describe('pinned review comments in the browser', () => {
     if ((await tabs.count()) > 1) await tabs.nth(1).click();
     await page.getByRole('heading', { name: 'Review threads' }).waitFor();
     await page.getByText('No comments yet.').first().waitFor();
+    // Every chart tick is rounded: no 0.08333333333333333 under a histogram bar.
+    const ticks = page.locator('.recharts-cartesian-axis-tick-value');
+    await expect.poll(() => ticks.count()).toBeGreaterThan(10);
+    const tickTexts = await ticks.allTextContents();
+    expect(tickTexts.join(' ')).toMatch(/\d/);
+    expect(tickTexts.filter((text) => /\d\.\d{5,}|\d{8,}/.test(text))).toEqual([]);
 
     const figure = page.locator('figure:visible').filter({ has: page.getByRole('button', { name: 'Comment on this picture' }) }).first();
     const toggle = figure.getByRole('button', { name: 'Comment on this picture' });
@@ -93,7 +99,7 @@ describe('pinned review comments in the browser', () => {
     await expectAccessible(page, 'review-01-new-comment');
     await figure.getByRole('button', { name: 'Post comment' }).click();
 
-    const pin = figure.getByRole('button', { name: 'Thread 1', exact: true });
+    const pin = figure.getByRole('button', { name: /^Thread 1 at (u|x) = / });
     await pin.waitFor();
     await figure.getByRole('heading', { name: /Thread 1/ }).waitFor();
     // Plain text: the markup shows as typed, the line break is kept, and nothing became an element.
@@ -108,10 +114,14 @@ describe('pinned review comments in the browser', () => {
     expect(thread.y).toBeCloseTo(0.4, 1);
     expect(thread.comments[0].mentions).toHaveLength(1);
 
-    // The pin's pointed corner (bottom left) stays on the same picture point when zoomed about the centre by 1.5.
+    // The pin names its place in the picture's own coordinates (a far field: direction and angles; a map: µm).
+    expect(await pin.getAttribute('aria-label')).toMatch(/^Thread 1 at (u = −?\d\.\d{3}, v = −?\d\.\d{3} \(θx = −?[\d.]+°, θy = −?[\d.]+°\)|x = −?[\d.]+ µm, y = −?[\d.]+ µm)$/);
+    await figure.getByText(/^Pinned at (u|x) = /).waitFor();
+    // The pin sits 6 px up and right of its point, so it does not cover it; that offset corner stays on the same
+    // picture point when zoomed about the centre by 1.5.
     const tip = async () => {
       const b = (await pin.boundingBox())!;
-      return { x: b.x, y: b.y + b.height };
+      return { x: b.x - 6, y: b.y + b.height + 6 };
     };
     const before = await tip();
     const frameBefore = (await frame.boundingBox())!;
@@ -148,7 +158,7 @@ describe('pinned review comments in the browser', () => {
     await heading.waitFor();
     await expect.poll(() => heading.evaluate((el) => el === el.ownerDocument.activeElement)).toBe(true);
     const figure = page.locator('figure').filter({ has: heading });
-    const pin = figure.getByRole('button', { name: 'Thread 1', exact: true });
+    const pin = figure.getByRole('button', { name: /^Thread 1 at (u|x) = / });
     expect(await pin.getAttribute('aria-expanded')).toBe('true');
     await expect.poll(() => pin.isVisible()).toBe(true);
     await expect

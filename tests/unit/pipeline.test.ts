@@ -281,6 +281,10 @@ describe('design run (pipeline.ts)', () => {
     expect(focus.strehlVsDesign).toBeGreaterThan(0.95);
     expect(focus.strehlVsDesign).toBeLessThan(1.01);
     expect(run.channels.b.focus).toBeNull();
+    // A linear pair: the circular-light figures of the mapping mean nothing here and are left out.
+    expect(run.metrics.mapping.unconvertedCircular).toBeUndefined();
+    expect(run.metrics.mapping.retardanceFarFromPi).toBeUndefined();
+    expect(run.metrics.mapping.meanError.value).not.toBeNull();
   });
 
   it('runs an injected retriever with cloneable jobs, reports ordered progress, and cancels between stages', async () => {

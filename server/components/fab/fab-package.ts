@@ -5,7 +5,8 @@
  *   database unit 1 nm); otherwise regenerated with gdsii.ts from the stored atom_index/theta, on the layout
  *   worker (layout-jobs.ts, with its time limit) into a temporary file that is removed once sent;
  * - arrays/*.npy, previews/*.png, design.json, metrics.json, drc.json, atoms.csv — the stored artifacts;
- * - report.html — the design report, standalone; export.json — who exported when, with which options.
+ * - report.html — the design report, standalone; export.json — who exported when, with which options;
+ * - README.txt — what each file is, units, the orientation frame, the library's status, the cautions (fab-readme.ts).
  * Refused (409) while design-rule violations stand and no owner has overridden them.
  */
 import { pictureFrameText } from '../../../shared/schemas/pictures';
@@ -23,12 +24,15 @@ import { findArtifact, listArtifacts } from '../runs/run-artifacts';
 import type { RunModel } from '../runs/run.model';
 import { slugOf } from '../runs/run.service';
 import { FabExportModel } from './fab.model';
+import { fabReadme } from './fab-readme';
 import { reportHtml } from './report-html';
 import { regenerateGds } from './layout-jobs';
 import type { GdsOptions } from './layout-task';
 import { artifactStream, designCheckOf, readArtifact } from './run-data';
 import { parseAtomLibraryCsv } from '../../../shared/optics/atoms';
 import type { Design } from '../../../shared/schemas/design';
+import { uploadIdsOf } from '../revisions/design-assets';
+import { UploadModel } from '../uploads/upload.model';
 
 const KIND_WORDS = { gap: 'gap', feature: 'minimum feature', 'aspect-ratio': 'aspect ratio' } as const;
 
@@ -51,6 +55,10 @@ export async function reportInputOf(run: RunModel, projectName: string, check: R
   const metricsJson = metricsFile ? (JSON.parse(metricsFile.toString('utf8')) as { inputs?: ReportInput['inputs'] & object }) : null;
   const csv = await readArtifact(run.id, 'atoms.csv');
   const library = csv ? parseAtomLibraryCsv(csv.toString('utf8')).library : null;
+  const uploadIds = uploadIdsOf(design);
+  const uploads = uploadIds.length
+    ? (await UploadModel.findAll({ where: { id: uploadIds, projectId: run.projectId }, attributes: ['id', 'name'] })).map((u) => ({ id: u.id, name: u.name }))
+    : [];
   return {
     projectName,
     runId: run.id,
@@ -63,6 +71,7 @@ export async function reportInputOf(run: RunModel, projectName: string, check: R
       ? { name: library.name, approximate: library.approximate, source: library.source ?? null, material: library.material || null, atoms: library.atoms.length }
       : { name: 'unknown (atoms.csv missing)', approximate: true, source: null, material: null, atoms: 0 },
     check,
+    uploads,
   };
 }
 
@@ -113,6 +122,7 @@ export async function prepareFabPackage(config: AppConfig, run: RunModel, projec
     const name = (file: string) => ({ name: `${folder}/${file}`, date });
     zip.append(gdsFile ? createReadStream(gdsFile) : artifactStream(storedGds!.id), name('layout.gds'));
     const previews: { file: string; caption: string }[] = [];
+    const placed: { place: string; label: string }[] = [{ place: 'layout.gds', label: '' }];
     for (const a of artifacts) {
       if (a.name === 'layout.gds') continue;
       const ids = await findArtifact(run.id, a.name);
@@ -123,11 +133,31 @@ export async function prepareFabPackage(config: AppConfig, run: RunModel, projec
         const frame = pictureFrameText((run.plots as Record<string, unknown> | null)?.pictures, a.name);
         previews.push({ file: place, caption: frame ? `${a.label} — ${frame}` : a.label });
       }
+      placed.push({ place, label: a.label });
       zip.append(artifactStream(ids.id), { ...name(place), store: a.name.endsWith('.png') });
     }
     const overrideNote = check.total > 0 && check.overrides.length ? ` Exported under the owner’s override of ${check.total} design-rule violations.` : '';
     const exportNote = `Fab package exported ${record.at.toISOString().slice(0, 16).replace('T', ' ')} UTC: GDSII layer ${options.layer}, datatype ${options.datatype}, database unit ${options.dbUnitNm} nm.${overrideNote}`;
     zip.append(reportHtml(buildReportModel(reportInput), previews, exportNote), name('report.html'));
+    placed.push({ place: 'report.html', label: '' }, { place: 'export.json', label: '' });
+    const { design } = reportInput;
+    zip.append(
+      fabReadme({
+        folder,
+        projectName,
+        designName: design.name,
+        revisionNumber: reportInput.revisionNumber,
+        runId: run.id,
+        files: placed,
+        cells: design.setup.cells,
+        periodNm: design.setup.periodNm,
+        wavelengthNm: design.setup.wavelengthNm,
+        gds: { ...options, regenerated },
+        library: reportInput.library,
+        exportNote,
+      }),
+      name('README.txt'),
+    );
     zip.append(
       JSON.stringify(
         {

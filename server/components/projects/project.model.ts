@@ -1,4 +1,4 @@
-import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
+import { DataTypes, Model, type CreationOptional, type Transaction, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize';
 import type { UserModel } from '../users/user.model';
 import type { MembershipModel } from './membership.model';
 
@@ -27,4 +27,13 @@ export class ProjectModel extends Model<InferAttributes<ProjectModel>, InferCrea
       { sequelize, modelName: 'Project', tableName: 'projects', underscored: true },
     );
   }
+}
+
+/**
+ * Moves the project's "last change" to now: a new revision, a run started or a run finished is a change of
+ * the project as much as a new name is. Example: after a revision is saved the overview shows its time.
+ */
+export async function touchProject(projectId: number, transaction?: Transaction): Promise<void> {
+  // Sequelize's own update leaves a row alone when only its timestamp changes, so say it in SQL.
+  await ProjectModel.sequelize!.query('UPDATE projects SET updated_at = ? WHERE id = ?', { replacements: [new Date(), projectId], transaction });
 }

@@ -5,6 +5,7 @@ import type { Design } from '../../../shared/schemas/design';
 import type { Revision, RevisionComparison, RevisionSummary } from '../../../shared/schemas/revisions';
 import { AppError } from '../../lib/app-error';
 import { usableLibrary } from '../atom-libraries/atom-library.service';
+import { touchProject } from '../projects/project.model';
 import { UploadModel } from '../uploads/upload.model';
 import { UserModel } from '../users/user.model';
 import { assetUses } from './design-assets';
@@ -106,6 +107,7 @@ export async function createRevision(projectId: number, userId: number, input: {
         createdById: userId,
         atomLibraryId: input.design.atomLibrary.source === 'library' ? input.design.atomLibrary.id : null,
       });
+      await touchProject(projectId);
       return getRevision(projectId, created.number);
     } catch (error) {
       // Two saves at the same moment picked the same number: take the next one.

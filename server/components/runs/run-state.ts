@@ -6,6 +6,7 @@
 import { Op, type InferAttributes } from 'sequelize';
 import type { RunStatus } from '../../../shared/schemas/runs';
 import { deleteArtifacts } from './run-artifacts';
+import { touchProject } from '../projects/project.model';
 import { RunEventModel, RunModel } from './run.model';
 
 /** A run interrupted by a server stop this many times is given up. */
@@ -31,6 +32,12 @@ export async function addEvent(runId: number, status: RunStatus, stage: string, 
 async function transition(runId: number, from: RunStatus[], values: Partial<InferAttributes<RunModel>>): Promise<boolean> {
   const [count] = await RunModel.update(values, { where: { id: runId, status: { [Op.in]: from } } });
   return count > 0;
+}
+
+/** A run that ended changes its project: its "last change" follows. */
+async function touchProjectOf(runId: number): Promise<void> {
+  const run = await RunModel.findByPk(runId, { attributes: ['id', 'projectId'] });
+  if (run) await touchProject(run.projectId);
 }
 
 /** A worker picked the run up: running, one more attempt. False when it is no longer queued (cancelled). */
@@ -63,6 +70,7 @@ export async function markSucceeded(
   });
   if (ok) {
     await addEvent(runId, 'succeeded', 'done', 'finished');
+    await touchProjectOf(runId);
     finished(runId, 'succeeded');
   }
   return ok;
@@ -79,6 +87,7 @@ export async function markFailed(runId: number, error: string, from: RunStatus[]
   });
   if (ok) {
     await addEvent(runId, 'failed', run?.stage ?? '', error);
+    await touchProjectOf(runId);
     finished(runId, 'failed');
   }
   return ok;
@@ -92,7 +101,10 @@ export async function markCancelled(runId: number): Promise<boolean> {
     finishedAt,
     durationMs: run?.startedAt ? finishedAt.getTime() - run.startedAt.getTime() : null,
   });
-  if (ok) await addEvent(runId, 'cancelled', run?.stage ?? '', 'cancelled');
+  if (ok) {
+    await addEvent(runId, 'cancelled', run?.stage ?? '', 'cancelled');
+    await touchProjectOf(runId);
+  }
   return ok;
 }
 

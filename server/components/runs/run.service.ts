@@ -7,6 +7,7 @@ import { AppError } from '../../lib/app-error';
 import { withRunSlot } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { findRevision } from '../revisions/revision.service';
+import { touchProject } from '../projects/project.model';
 import { UploadModel } from '../uploads/upload.model';
 import { UserModel } from '../users/user.model';
 import { findArtifact, listArtifacts } from './run-artifacts';
@@ -169,6 +170,7 @@ export async function createQueuedRun(projectId: number, revisionId: number, use
   const run = await RunModel.create({ projectId, revisionId, startedById: userId, queuedAt: new Date(), stage: 'queued' }, { transaction });
   const by = await UserModel.findByPk(userId, { attributes: ['name'], transaction });
   await RunEventModel.create({ runId: run.id, status: 'queued', stage: 'queued', message: `queued by ${by?.name ?? 'someone'}`, at: new Date() }, { transaction });
+  await touchProject(projectId, transaction);
   return run.id;
 }
 

@@ -16,6 +16,7 @@ function toUploadDto(upload: UploadModel): Upload {
     width: upload.width,
     height: upload.height,
     size: upload.size,
+    sha256: upload.sha256,
     createdAt: upload.createdAt.toISOString(),
     createdBy: upload.createdBy ? { id: upload.createdBy.id, name: upload.createdBy.name } : null,
   };

@@ -12,6 +12,7 @@ import { useCreateUpload } from '@/features/designs/api/create-upload';
 import { useDeleteUpload } from '@/features/designs/api/delete-upload';
 import { uploadContentUrl, useUploads } from '@/features/designs/api/get-uploads';
 import { DEMO_IMAGES } from '@/features/designs/utils/demo-images';
+import { formatDateTime } from '@/lib/format';
 
 interface Choice {
   key: string;
@@ -36,12 +37,19 @@ const ACCEPT: Record<UploadKind, string> = {
   'phase-map': '.npy,image/png,.png',
 };
 
+/** SHA-256 of a file, hex, or null where the browser offers no digest (not a secure context). */
+async function fileHash(file: File): Promise<string | null> {
+  if (!globalThis.crypto?.subtle) return null;
+  const digest = await crypto.subtle.digest('SHA-256', await file.arrayBuffer());
+  return Array.from(new Uint8Array(digest), (b) => b.toString(16).padStart(2, '0')).join('');
+}
+
 function uploadChoice(projectId: number, upload: Upload): Choice {
   return {
     key: `upload-${upload.id}`,
     ref: { source: 'upload', id: upload.id },
     label: upload.name,
-    detail: `${upload.width} × ${upload.height}`,
+    detail: `${upload.width} × ${upload.height} · ${formatDateTime(upload.createdAt)}`,
     thumbnail: upload.mime === 'application/x-npy' ? null : uploadContentUrl(projectId, upload.id),
     upload,
   };
@@ -68,6 +76,7 @@ export function AssetPicker({ projectId, kind, legend, value, onChange, canUploa
   const [uploadError, setUploadError] = useState<string | null>(null);
   // The server's own limits; the defaults until they have loaded.
   const limits = useMe().data?.limits ?? { uploadMaxBytes: UPLOAD_LIMITS.maxBytes, uploadMaxSide: UPLOAD_LIMITS.maxSide };
+  const [uploadNote, setUploadNote] = useState<string | null>(null);
   const name = useId();
 
   const ownUploads = (uploads.data ?? []).filter((upload) => upload.kind === kind);
@@ -98,6 +107,15 @@ export function AssetPicker({ projectId, kind, legend, value, onChange, canUploa
       return;
     }
     try {
+      // The same file again: choose the upload the project already has instead of storing a second copy.
+      const hash = await fileHash(file);
+      const same = ownUploads.find((u) => (hash ? u.sha256 === hash : u.size === file.size && u.name === file.name));
+      if (same) {
+        setUploadNote(`“${file.name}” is already uploaded (${formatDateTime(same.createdAt)}) — that upload is chosen.`);
+        onChange({ source: 'upload', id: same.id }, { width: same.width, height: same.height });
+        return;
+      }
+      setUploadNote(null);
       const { upload: created } = await create.mutateAsync({ file, kind });
       onChange({ source: 'upload', id: created.id }, { width: created.width, height: created.height });
     } catch (caught) {
@@ -193,6 +211,11 @@ export function AssetPicker({ projectId, kind, legend, value, onChange, canUploa
               : 'N × N float .npy in radians, or a grayscale PNG (0…255 → 0…2π).'}
           </span>
         </div>
+      ) : null}
+      {uploadNote ? (
+        <p className="text-sm text-ink-soft" role="status">
+          {uploadNote}
+        </p>
       ) : null}
       {uploadError ? <Banner title="Upload refused">{uploadError}</Banner> : null}
       <ConfirmDialog

@@ -9,7 +9,7 @@ import { Button, buttonClasses } from '@/components/ui/button';
 import { PageLoader } from '@/components/ui/spinner';
 import { paths } from '@/config/paths';
 import { isApiError } from '@/lib/api-client';
-import { formatRelative } from '@/lib/format';
+import { formatDateTime, formatRelative } from '@/lib/format';
 import { useCreateRevision } from '@/features/designs/api/create-revision';
 import { AdvancedSection } from '@/features/designs/components/advanced-section';
 import { AtomLibrarySection } from '@/features/designs/components/atom-library-section';
@@ -20,7 +20,8 @@ import { PolarizationSection } from '@/features/designs/components/polarization-
 import { SaveRevisionDialog, type SaveMode } from '@/features/designs/components/save-revision-dialog';
 import { SetupSection } from '@/features/designs/components/setup-section';
 import { designSourceKey, parseSourceKey, useDesignEditor } from '@/features/designs/stores/design-editor-store';
-import type { DesignDraft } from '@/features/designs/utils/design-draft';
+import { blankDesign, designTemplate, type DesignDraft } from '@/features/designs/utils/design-draft';
+import { discardLocalDraft, keepLocalDraft, readLocalDraft } from '@/features/designs/utils/local-draft';
 import { focusField } from '@/features/designs/utils/focus-field';
 
 interface DesignComposerProps {
@@ -74,13 +75,34 @@ export function DesignComposer({ project, sourceKey, initialDraft, baseRevision,
   const [saveError, setSaveError] = useState<string | null>(null);
   const [notice, setNotice] = useState<{ tone: 'success' | 'error'; text: string } | null>(null);
   const [showIssues, setShowIssues] = useState(false);
+  /** Time of the unsaved edits restored from this browser, while they are shown as restored. */
+  const [restoredAt, setRestoredAt] = useState<string | null>(null);
 
   const conflict =
     loadedKey !== null && loadedKey !== sourceKey && dirty && parseSourceKey(loadedKey).userId === parseSourceKey(sourceKey).userId;
 
   useEffect(() => {
-    if (loadedKey !== sourceKey && !conflict) load(sourceKey, initialDraft, baseRevision?.number ?? null);
-  }, [loadedKey, sourceKey, conflict, load, initialDraft, baseRevision]);
+    if (loadedKey === sourceKey || conflict) return;
+    const kept = readOnly ? null : readLocalDraft<DesignDraft>(window.localStorage, sourceKey);
+    load(sourceKey, kept ? kept.draft : initialDraft, baseRevision?.number ?? null);
+    if (kept) {
+      useDesignEditor.setState({ dirty: true });
+      setRestoredAt(kept.savedAt);
+    }
+  }, [loadedKey, sourceKey, conflict, load, initialDraft, baseRevision, readOnly]);
+
+  // Unsaved edits are kept in this browser until they are saved or discarded.
+  useEffect(() => {
+    if (readOnly || loadedKey !== sourceKey || !draft) return;
+    if (dirty) keepLocalDraft(window.localStorage, sourceKey, draft);
+    else discardLocalDraft(window.localStorage, sourceKey);
+  }, [readOnly, loadedKey, sourceKey, draft, dirty]);
+
+  function startOver(next: DesignDraft) {
+    discardLocalDraft(window.localStorage, sourceKey);
+    setRestoredAt(null);
+    load(sourceKey, next, baseRevision?.number ?? null);
+  }
 
   useEffect(() => {
     if (!dirty || readOnly) return;
@@ -89,7 +111,17 @@ export function DesignComposer({ project, sourceKey, initialDraft, baseRevision,
     return () => window.removeEventListener('beforeunload', warn);
   }, [dirty, readOnly]);
 
-  if (conflict) return <UnsavedElsewhere sourceKey={loadedKey} onDiscard={() => load(sourceKey, initialDraft, baseRevision?.number ?? null)} />;
+  if (conflict) {
+    return (
+      <UnsavedElsewhere
+        sourceKey={loadedKey}
+        onDiscard={() => {
+          discardLocalDraft(window.localStorage, loadedKey);
+          load(sourceKey, initialDraft, baseRevision?.number ?? null);
+        }}
+      />
+    );
+  }
   if (loadedKey !== sourceKey || !draft) return <PageLoader label="Opening the design" />;
 
   const issueCount = Object.keys(issues).length;
@@ -144,6 +176,8 @@ export function DesignComposer({ project, sourceKey, initialDraft, baseRevision,
       return;
     }
     const savedKey = designSourceKey(parseSourceKey(sourceKey).userId, project.id, revision.number);
+    discardLocalDraft(window.localStorage, sourceKey);
+    setRestoredAt(null);
     load(savedKey, revision.design as DesignDraft, revision.number);
     if (mode === 'save-and-run') {
       try {
@@ -184,9 +218,7 @@ export function DesignComposer({ project, sourceKey, initialDraft, baseRevision,
                 {base.createdBy ? `${base.createdBy.name}, ` : ''}
                 <time dateTime={base.createdAt}>{formatRelative(base.createdAt)}</time> ·{' '}
               </>
-            ) : (
-              'Starts from a template with our two demo pictures. '
-            )}
+            ) : null}
             <Link to={paths.projects.revisions.getHref(project.id)} className="font-bold text-teal underline-offset-4 hover:underline">
               All revisions
             </Link>
@@ -222,6 +254,26 @@ export function DesignComposer({ project, sourceKey, initialDraft, baseRevision,
         ) : null}
       </div>
 
+      {!base && canDesign ? (
+        <div className="flex flex-wrap items-center gap-2 text-sm" role="group" aria-label="Start from">
+          <span className="font-bold">Start from</span>
+          <Button variant="secondary" size="sm" onClick={() => startOver(designTemplate(project.name))}>
+            Demo template (two demo pictures, circular pair)
+          </Button>
+          <Button variant="secondary" size="sm" onClick={() => startOver(blankDesign(project.name))}>
+            Blank design
+          </Button>
+          {dirty ? <span className="text-ink-soft">Either replaces your unsaved changes.</span> : null}
+        </div>
+      ) : null}
+      {restoredAt && dirty ? (
+        <Banner tone="info" title="Your unsaved changes were restored">
+          <p>Kept in this browser since {formatDateTime(restoredAt)}; they stay here until you save or discard them.</p>
+          <Button variant="secondary" size="sm" className="mt-3" onClick={() => startOver(base ? (base.design as DesignDraft) : initialDraft)}>
+            Discard them
+          </Button>
+        </Banner>
+      ) : null}
       {readOnly ? (
         <Banner tone="info">You can read this design. Only owners and designers of the project can change, save or run it.</Banner>
       ) : null}

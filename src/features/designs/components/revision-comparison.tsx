@@ -5,7 +5,9 @@ import { Badge } from '@/components/ui/badge';
 import { Card } from '@/components/ui/card';
 import { paths } from '@/config/paths';
 import { formatDateTime } from '@/lib/format';
-import { describeField, formatValue } from '@/features/designs/utils/design-fields';
+import { signedChange } from '@shared/design-values';
+import { useUploads } from '@/features/designs/api/get-uploads';
+import { describeField, formatValue, valueKey } from '@/features/designs/utils/design-fields';
 import { changeTouches, flattenDesign, mergePaths } from '@/features/designs/utils/flatten-design';
 
 function RevisionHeader({ projectId, revision, side }: { projectId: number; revision: Revision; side: 'Left' | 'Right' }) {
@@ -34,8 +36,12 @@ function RevisionHeader({ projectId, revision, side }: { projectId: number; revi
   );
 }
 
-/** One change in plain words, e.g. “Channel B, term 2 (Vortex): topological charge ℓ changed from 1 to 3”. */
-export function describeChange(change: DesignChange, a: Revision, b: Revision): ReactNode {
+/**
+ * One change in plain words, e.g. “Channel B, term 1 (Tilt): deflection θx changed from 10° to 15° (+5°)”;
+ * uploaded pictures by file name when `uploadNames` knows them.
+ */
+export function describeChange(change: DesignChange, a: Revision, b: Revision, uploadNames?: ReadonlyMap<number, string>): ReactNode {
+  const words = { key: valueKey(change.path), uploadNames };
   const absentA = change.a === null || change.a === undefined;
   const absentB = change.b === null || change.b === undefined;
   const field = describeField(change.path, absentB ? a.design : b.design);
@@ -44,7 +50,7 @@ export function describeChange(change: DesignChange, a: Revision, b: Revision): 
   if (absentA) {
     return (
       <>
-        <strong>{field.label}</strong> {isTerm ? 'added' : `set to ${formatValue(change.b, field.unit)}`} in revision {b.number}
+        <strong>{field.label}</strong> {isTerm ? 'added' : `set to ${formatValue(change.b, field.unit, words)}`} in revision {b.number}
         {isTerm ? '' : ' (not given before)'}
       </>
     );
@@ -52,18 +58,16 @@ export function describeChange(change: DesignChange, a: Revision, b: Revision): 
   if (absentB) {
     return (
       <>
-        <strong>{fieldA.label}</strong> {isTerm ? 'removed' : `(${formatValue(change.a, fieldA.unit)}) left out`} in revision {b.number}
+        <strong>{fieldA.label}</strong> {isTerm ? 'removed' : `(${formatValue(change.a, fieldA.unit, words)}) left out`} in revision {b.number}
       </>
     );
   }
-  let trend = '';
-  if (typeof change.a === 'number' && typeof change.b === 'number' && change.a !== 0) {
-    const ratio = change.b / change.a;
-    if (ratio > 0) trend = ` — ${ratio > 1 ? 'up' : 'down'} ${Math.abs((ratio - 1) * 100).toFixed(ratio > 0.9 && ratio < 1.1 ? 1 : 0)}%`;
-  }
+  // Angles and lengths change by so much, in their unit (a ratio of angles means nothing).
+  const difference = typeof change.a === 'number' && typeof change.b === 'number' && words.key !== 'upload' ? signedChange(change.a, change.b, field.unit) : null;
+  const trend = difference ? ` (${difference})` : '';
   return (
     <>
-      <strong>{field.label}</strong> changed from {formatValue(change.a, fieldA.unit)} to {formatValue(change.b, field.unit)}
+      <strong>{field.label}</strong> changed from {formatValue(change.a, fieldA.unit, words)} to {formatValue(change.b, field.unit, words)}
       {trend}
     </>
   );
@@ -77,6 +81,8 @@ interface RevisionComparisonProps {
 }
 
 export function RevisionComparison({ projectId, a, b, changes }: RevisionComparisonProps) {
+  const uploads = useUploads(projectId);
+  const uploadNames = uploads.data ? new Map(uploads.data.map((u) => [u.id, u.name])) : undefined;
   const leavesA = flattenDesign(a.design);
   const leavesB = flattenDesign(b.design);
   const rows = mergePaths(leavesA, leavesB).filter((path) => path !== 'format');
@@ -102,7 +108,7 @@ export function RevisionComparison({ projectId, a, b, changes }: RevisionCompari
             {changes.map((change) => (
               <li key={change.path} className="flex gap-2">
                 <span aria-hidden="true" className="mt-1.5 size-2 shrink-0 rounded-full bg-ember" />
-                <span>{describeChange(change, a, b)}</span>
+                <span>{describeChange(change, a, b, uploadNames)}</span>
               </li>
             ))}
           </ul>
@@ -149,9 +155,9 @@ export function RevisionComparison({ projectId, a, b, changes }: RevisionCompari
                           </span>
                         </th>
                         <td className={`px-3 py-2 tabular-nums ${changed ? 'font-bold' : ''}`}>
-                          {formatValue(leavesA.get(path), fieldA.unit)}
+                          {formatValue(leavesA.get(path), fieldA.unit, { key: valueKey(path), uploadNames })}
                         </td>
-                        <td className={`px-3 py-2 tabular-nums ${changed ? 'font-bold' : ''}`}>{formatValue(leavesB.get(path), fieldB.unit)}</td>
+                        <td className={`px-3 py-2 tabular-nums ${changed ? 'font-bold' : ''}`}>{formatValue(leavesB.get(path), fieldB.unit, { key: valueKey(path), uploadNames })}</td>
                       </tr>
                     );
                   })}

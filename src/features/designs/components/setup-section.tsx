@@ -3,6 +3,7 @@ import { Banner } from '@/components/ui/banner';
 import { Card } from '@/components/ui/card';
 import { DesignNumber, DesignSelect, DesignText } from '@/features/designs/components/design-inputs';
 import { useDesignEditor } from '@/features/designs/stores/design-editor-store';
+import { useWindowCopyNotes } from '@/features/designs/hooks/use-window-copy-notes';
 import { setupFigures } from '@/features/designs/utils/far-field';
 
 const cellOptions = CELL_COUNTS.map((n) => ({ value: String(n), label: `${n} × ${n}` }));
@@ -26,6 +27,7 @@ function Figure({ term, value, note }: { term: string; value: string; note?: str
 export function SetupSection() {
   const setup = useDesignEditor((state) => state.draft?.setup);
   const setField = useDesignEditor((state) => state.setField);
+  const copyNotes = useWindowCopyNotes();
   if (!setup) return null;
   const figures = setupFigures(setup.wavelengthNm, setup.periodNm, setup.cells);
   const gaussian = setup.illumination?.kind === 'gaussian';
@@ -91,6 +93,13 @@ export function SetupSection() {
               The far-field grid stops at sin θ = ±{fixed(figures.gridHalfWidth, 3)}, short of the horizon, so the steepest propagating
               directions cannot be addressed, and copies of the pattern shifted by λ/P = {fixed(2 * figures.gridHalfWidth, 3)} in sin θ
               fall inside the propagating circle. Choose P below λ/2 = {fixed(setup.wavelengthNm / 2, 1)} nm to avoid both.
+              {copyNotes.length ? (
+                <ul className="mt-2 list-disc pl-5" data-testid="window-copy-notes">
+                  {copyNotes.map((note) => (
+                    <li key={note}>{note}</li>
+                  ))}
+                </ul>
+              ) : null}
             </Banner>
           ) : figures.gridHasEvanescent ? (
             <p className="mt-4 text-sm text-ink-soft">

@@ -1,5 +1,6 @@
 import { create } from 'zustand';
 import { designSchema, type Design } from '@shared/schemas/design';
+import { followLabel } from '@/features/designs/utils/channel-labels';
 import type { FieldErrors } from '@/lib/api-client';
 import {
   newTerm,
@@ -68,6 +69,15 @@ function withoutPrefix(errors: FieldErrors, prefix: string): FieldErrors {
   return kept;
 }
 
+/** `next` with the channel's automatic label following its new terms (channel-labels.ts). */
+function withFollowedLabel(previous: DesignDraft, next: DesignDraft, channel: ChannelId): DesignDraft {
+  const before = previous.channels[channel];
+  const after = next.channels[channel];
+  if (!before || !after || before.terms === after.terms) return next;
+  const label = followLabel(before, after.terms);
+  return label === after.label ? next : setIn(next, ['channels', channel, 'label'], label);
+}
+
 function channelPrefix(channel: ChannelId) {
   return `channels.${channel}.terms`;
 }
@@ -95,7 +105,8 @@ export const useDesignEditor = create<DesignEditorState>()((set) => ({
   setField: (path, value) =>
     set((state) => {
       if (!state.draft) return state;
-      const draft = setIn(state.draft, path, value);
+      let draft = setIn(state.draft, path, value);
+      if (path[0] === 'channels' && path[2] === 'terms' && (path[1] === 'a' || path[1] === 'b')) draft = withFollowedLabel(state.draft, draft, path[1]);
       return { draft, check: checkDraft(draft), dirty: true, serverErrors: withoutPrefix(state.serverErrors, pathKey(path)) };
     }),
 
@@ -103,7 +114,7 @@ export const useDesignEditor = create<DesignEditorState>()((set) => ({
     set((state) => {
       if (!state.draft) return state;
       const terms = [...state.draft.channels[channel].terms, newTerm(kind, channel)];
-      const draft = setIn(state.draft, ['channels', channel, 'terms'], terms);
+      const draft = withFollowedLabel(state.draft, setIn(state.draft, ['channels', channel, 'terms'], terms), channel);
       return {
         draft,
         check: checkDraft(draft),
@@ -122,7 +133,7 @@ export const useDesignEditor = create<DesignEditorState>()((set) => ({
       const ids = [...state.termIds[channel]];
       [terms[index], terms[target]] = [terms[target], terms[index]];
       [ids[index], ids[target]] = [ids[target], ids[index]];
-      const draft = setIn(state.draft, ['channels', channel, 'terms'], terms);
+      const draft = withFollowedLabel(state.draft, setIn(state.draft, ['channels', channel, 'terms'], terms), channel);
       return {
         draft,
         check: checkDraft(draft),
@@ -136,7 +147,7 @@ export const useDesignEditor = create<DesignEditorState>()((set) => ({
     set((state) => {
       if (!state.draft) return state;
       const terms = state.draft.channels[channel].terms.filter((_, i) => i !== index);
-      const draft = setIn(state.draft, ['channels', channel, 'terms'], terms);
+      const draft = withFollowedLabel(state.draft, setIn(state.draft, ['channels', channel, 'terms'], terms), channel);
       return {
         draft,
         check: checkDraft(draft),

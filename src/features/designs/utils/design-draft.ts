@@ -97,6 +97,17 @@ export function designTemplate(projectName: string): DesignDraft {
   };
 }
 
+/** A blank start: the same light and lattice, a linear x/y pair and no terms — nothing from the demos. */
+export function blankDesign(projectName: string): DesignDraft {
+  const template = designTemplate(projectName);
+  return {
+    ...template,
+    setup: { ...template.setup, platform: '' },
+    polarization: { kind: 'linear', angleDeg: 0 },
+    channels: { a: { label: '', terms: [] }, b: { label: '', terms: [] } },
+  };
+}
+
 export function getIn(value: unknown, path: FieldPath): unknown {
   let current = value;
   for (const key of path) {

@@ -1,4 +1,5 @@
 import { TERM_PARAMETER_NAMES } from '@shared/display-names';
+import { assetName, valueWords } from '@shared/design-values';
 import { getIn, termKindLabel, type TermKind } from '@/features/designs/utils/design-draft';
 
 interface FieldLabel {
@@ -66,13 +67,13 @@ const TERM_FIELDS: Record<string, FieldLabel> = {
   seed: { label: 'random seed', unit: '' },
   mixing: TERM_PARAMETER_NAMES.mixing,
   fresnelDistanceUm: { label: 'image distance', unit: 'µm' },
-  seenOn: { label: 'picture seen on' },
   coneHalfAngleDeg: TERM_PARAMETER_NAMES.coneHalfAngleDeg,
   numericalAperture: TERM_PARAMETER_NAMES.numericalAperture,
   charge: { label: 'topological charge ℓ', unit: '' },
   focalLengthUm: { label: 'focal length f', unit: 'µm' },
   thetaXDeg: { label: 'deflection θx', unit: '°' },
   thetaYDeg: { label: 'deflection θy', unit: '°' },
+  seenOn: { label: 'picture seen on' },
   phaseMap: { label: 'phase map' },
   'phaseMap.source': { label: 'phase map' },
   'phaseMap.id': { label: 'uploaded phase map' },
@@ -141,25 +142,41 @@ export function describeField(path: string, design?: unknown): DescribedField {
 
 const numberFormat = new Intl.NumberFormat(undefined, { maximumSignificantDigits: 6 });
 
+/** What names a value beyond its unit: the field's own key (for enumerated words) and the project's uploads. */
+export interface ValueContext {
+  /** Last part of the field's path, e.g. 'algorithm'. */
+  key?: string;
+  /** File names of the project's uploads, by id. */
+  uploadNames?: ReadonlyMap<number, string>;
+}
+
+/**
+ * The key that names a dotted path's value: its last part, or 'upload' for the id of an uploaded picture or map.
+ * Example: 'channels.a.terms.0.algorithm' → 'algorithm'; 'channels.a.terms.0.image.id' → 'upload'.
+ */
+export function valueKey(path: string): string {
+  if (/(?:^|\.)(?:image|phaseMap)\.id$/.test(path)) return 'upload';
+  return path.slice(path.lastIndexOf('.') + 1);
+}
+
 /** A design value in words, with its unit. */
-export function formatValue(value: unknown, unit?: string): string {
+export function formatValue(value: unknown, unit?: string, context: ValueContext = {}): string {
   if (value === undefined) return '—';
   if (value === null) return 'none';
   if (typeof value === 'number') {
+    if (context.key === 'upload') return assetName({ source: 'upload', id: value }, context.uploadNames);
     if (!Number.isFinite(value)) return 'not a number';
     const text = numberFormat.format(value);
     if (!unit) return text;
     return unit === '°' || unit === '×' ? `${text}${unit}` : `${text} ${unit}`;
   }
-  if (typeof value === 'string') return value === '' ? '(empty)' : value;
+  if (typeof value === 'string') return value === '' ? '(empty)' : (valueWords(context.key ?? '', value) ?? value);
   if (typeof value === 'boolean') return value ? 'yes' : 'no';
   if (Array.isArray(value)) return `${value.length} item${value.length === 1 ? '' : 's'}`;
   if (typeof value === 'object') {
     const record = value as Record<string, unknown>;
     if (typeof record.kind === 'string') return termKindLabel(record.kind as TermKind);
-    if (record.source === 'demo' && typeof record.name === 'string') return `demo picture “${record.name}”`;
-    if (record.source === 'upload') return `upload #${String(record.id)}`;
-    if (record.source === 'file') return `file ${String(record.path)}`;
+    if (typeof record.source === 'string' && record.source !== 'library') return assetName(record as { source: string }, context.uploadNames);
     return Object.entries(record)
       .map(([key, entry]) => `${key} ${formatValue(entry)}`)
       .join(', ');

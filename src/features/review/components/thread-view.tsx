@@ -24,11 +24,13 @@ interface ThreadViewProps {
   viewer: ReviewViewer;
   members: MentionCandidate[];
   headingId: string;
+  /** Where the pin sits, in the picture's own coordinates, when it has them. */
+  place?: string | null;
   onClose: () => void;
 }
 
 /** One pinned thread: its comments, a reply box, resolve or reopen, edit and delete of one's own comments. */
-export function ThreadView({ projectId, runId, thread, number, viewer, members, headingId, onClose }: ThreadViewProps) {
+export function ThreadView({ projectId, runId, thread, number, viewer, members, headingId, place, onClose }: ThreadViewProps) {
   const reply = useAddComment(projectId, runId, thread.id);
   const resolve = useSetThreadResolved(projectId, runId, thread.id);
   const resolved = thread.resolvedAt !== null;
@@ -51,6 +53,7 @@ export function ThreadView({ projectId, runId, thread, number, viewer, members, 
           </Button>
         </div>
       </div>
+      {place ? <p className="mb-2 text-xs text-ink-soft">Pinned at {place}</p> : null}
       {resolved && thread.resolvedBy ? (
         <p className="mb-3 text-xs text-ink-soft">
           Resolved by {thread.resolvedBy.name} on {formatDateTime(thread.resolvedAt!)}

@@ -6,19 +6,24 @@ import type { MentionCandidate } from '@/features/review/components/comment-box'
 import { NewThreadForm } from '@/features/review/components/new-thread-form';
 import { PinLayer } from '@/features/review/components/pin-layer';
 import { ThreadView, type ReviewViewer } from '@/features/review/components/thread-view';
+import { pinPlace, type PinGrid, type RowDirection } from '@/features/review/utils/pin-place';
 
 interface RunReviewOptions {
   projectId: number;
   runId: number;
   viewer: ReviewViewer;
   members: MentionCandidate[];
+  /** The run's grid, to give pins their place in the picture's own coordinates. */
+  grid?: PinGrid | null;
+  /** Which way the run's previews run (pin-place.ts): +y up for runs in the current picture convention. */
+  rows?: RowDirection;
 }
 
 /**
  * Review state of one run page: which picture takes a new pin, which thread is open, and the request to
  * bring a thread's picture into view (from the thread list or a `?thread=` link).
  */
-export function useRunReview({ projectId, runId, viewer, members }: RunReviewOptions) {
+export function useRunReview({ projectId, runId, viewer, members, grid = null, rows = 'top-is-positive' }: RunReviewOptions) {
   const threadsQuery = useThreads(projectId, runId);
   const threads = useMemo(() => [...(threadsQuery.data ?? [])].sort((a, b) => a.id - b.id), [threadsQuery.data]);
   const [commentingOn, setCommentingOn] = useState<string | null>(null);
@@ -49,6 +54,8 @@ export function useRunReview({ projectId, runId, viewer, members }: RunReviewOpt
 
   const numberOf = (threadId: number) => threads.findIndex((t) => t.id === threadId) + 1;
 
+  const placeOf = (artifact: string, x: number, y: number) => pinPlace(artifact, x, y, grid, rows);
+
   const annotate = (artifact: string): PictureAnnotation => {
     const here = threads.filter((t) => t.artifact === artifact);
     const commenting = viewer.canComment && commentingOn === artifact;
@@ -58,7 +65,7 @@ export function useRunReview({ projectId, runId, viewer, members }: RunReviewOpt
       overlay: (layer) => (
         <PinLayer
           layer={layer}
-          pins={here.map((t) => ({ id: t.id, number: numberOf(t.id), x: t.x, y: t.y, resolved: t.resolvedAt !== null }))}
+          pins={here.map((t) => ({ id: t.id, number: numberOf(t.id), x: t.x, y: t.y, resolved: t.resolvedAt !== null, place: placeOf(artifact, t.x, t.y) }))}
           openId={openThread?.id ?? null}
           draft={draftHere}
           onOpen={(id) => {
@@ -101,6 +108,7 @@ export function useRunReview({ projectId, runId, viewer, members }: RunReviewOpt
               runId={runId}
               artifact={artifact}
               point={draftHere}
+              place={placeOf(artifact, draftHere.x, draftHere.y)}
               members={members}
               onCancel={() => setDraft(null)}
               onCreated={(threadId) => {
@@ -123,6 +131,7 @@ export function useRunReview({ projectId, runId, viewer, members }: RunReviewOpt
                   viewer={viewer}
                   members={members}
                   headingId={headingId}
+                  place={placeOf(artifact, openThread.x, openThread.y)}
                   onClose={() => setOpenThreadId(null)}
                 />
               )}

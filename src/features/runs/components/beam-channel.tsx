@@ -60,6 +60,7 @@ export function BeamChannel({ projectId, runId, channel, slice, profiles, lines,
   addRadius('coreRadiusFormula', 'r₀ formula');
   addRadius('ringRadiusFormula', 'ring formula');
   addRadius('focalSpotZeroSquare', 'λf/D');
+  addRadius('focalSpotZeroMeasured', 'first zero');
   addRadius('focalSpotRadiusAiry', 'Airy 0.61 λ/NA');
   const zMarkers: { z: number; label: string }[] = [];
   const measuredLength = value(metrics, 'nonDiffractingLengthMeasured');
@@ -105,15 +106,15 @@ export function BeamChannel({ projectId, runId, channel, slice, profiles, lines,
         {profiles.map((profile) => (
           <figure key={profile.source} className="min-w-0">
             <figcaption className="mb-2">
-              <span className="font-extrabold">Transverse radial profile</span>
+              <span className="font-extrabold">{channel.beam ? 'Transverse radial profile' : 'Focal spot along x'}</span>
               <span className="block text-sm text-ink-soft">
-                Azimuthal mean of the simulated intensity
+                {channel.beam ? 'Azimuthal mean of the simulated intensity' : 'Simulated intensity along x through the focal peak at z = f, sampled 40 times per λf/D'}
                 {profile.z !== null ? ` at z = ${(profile.z * 1e6).toPrecision(4)} µm` : ''}
                 {profile.analytic ? ', against the analytic Bessel curve scaled to it' : ''}.
               </span>
             </figcaption>
             <div role="img" aria-label={`Radial intensity profile of ${channel.name}${profile.analytic ? ' with the analytic J_ℓ² curve' : ''}`}>
-              <ProfileChart profile={profile} charge={channel.beam ? channel.charge : null} markers={radiusMarkers} />
+              <ProfileChart profile={profile} charge={channel.beam ? channel.charge : null} markers={radiusMarkers} axisLabel={channel.beam ? undefined : 'distance x from the focal peak'} />
             </div>
           </figure>
         ))}

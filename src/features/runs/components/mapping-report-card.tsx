@@ -2,6 +2,7 @@ import { Bar, BarChart, CartesianGrid, Tooltip, XAxis, YAxis } from 'recharts';
 import type { RunMetric } from '@shared/schemas/runs';
 import { Card } from '@/components/ui/card';
 import { MathText } from '@/components/ui/math-text';
+import { roundTick } from '@/lib/format';
 
 const GRID = '#ddd3c1';
 const TICK = { fill: '#5e4d6e', fontSize: 12 };
@@ -38,10 +39,14 @@ interface MappingReportCardProps {
   report: MappingReportData;
   /** The run's "atom mapping" metrics section. */
   figures: Record<string, RunMetric> | null;
+  /** False for a linear or elliptical pair: the circular-light figures (kept by runs made before they were left out) mean nothing there. */
+  circularPair?: boolean;
 }
 
+const CIRCULAR_ONLY = new Set(['retardanceFarFromPi', 'unconvertedCircular']);
+
 /** How well the library realized the ideal cells: the numbers, the error histogram and the most used atoms. */
-export function MappingReportCard({ report, figures }: MappingReportCardProps) {
+export function MappingReportCard({ report, figures, circularPair = true }: MappingReportCardProps) {
   const { edges, counts } = report.errorHistogram;
   const histogram = counts.map((count, b) => ({ bin: `${edges[b].toPrecision(2)}–${edges[b + 1].toPrecision(2)}`, centre: (edges[b] + edges[b + 1]) / 2, share: (100 * count) / report.cells, count }));
   const usage = report.topAtoms.slice(0, 12).map((a) => ({ atom: a.id, share: (100 * a.cells) / report.cells, cells: a.cells, size: a.widthNm > 0 ? `${a.widthNm.toFixed(0)} × ${a.lengthNm.toFixed(0)} nm` : 'no pillar' }));
@@ -51,7 +56,7 @@ export function MappingReportCard({ report, figures }: MappingReportCardProps) {
     <Card title="Atom mapping report" description="How closely the chosen atoms reproduce the ideal cell of every position, and which atoms the layout uses.">
       {figures ? (
         <dl className="mb-5 grid gap-x-6 gap-y-3 sm:grid-cols-2 xl:grid-cols-3" aria-label="Mapping figures">
-          {FIGURES.filter((f) => figures[f.key]).map((f) => {
+          {FIGURES.filter((f) => figures[f.key] && (circularPair || !CIRCULAR_ONLY.has(f.key))).map((f) => {
             const m = figures[f.key];
             const meaning = f.key === 'retardanceFarFromPi' ? `${m.meaning} (threshold ${thresholdDeg.toFixed(0)}° = π/4)` : m.meaning;
             return (
@@ -77,8 +82,8 @@ export function MappingReportCard({ report, figures }: MappingReportCardProps) {
           </p>
           <BarChart data={histogram} style={chartStyle} responsive margin={{ top: 8, right: 16, bottom: 22, left: 8 }}>
             <CartesianGrid stroke={GRID} strokeDasharray="3 3" vertical={false} />
-            <XAxis dataKey="centre" type="category" tick={TICK} tickFormatter={(v: number) => String(Number(v.toPrecision(2)))} label={{ value: 'mapping error', position: 'insideBottom', offset: -14, ...LABEL }} />
-            <YAxis tick={TICK} width={52} label={{ value: 'cells (%)', angle: -90, position: 'insideLeft', ...LABEL }} />
+            <XAxis dataKey="centre" type="category" tick={TICK} tickFormatter={(v) => roundTick(v, 2)} label={{ value: 'mapping error', position: 'insideBottom', offset: -14, ...LABEL }} />
+            <YAxis tick={TICK} width={52} tickFormatter={(v) => roundTick(v)} label={{ value: 'cells (%)', angle: -90, position: 'insideLeft', ...LABEL }} />
             <Tooltip formatter={(value, _name, item) => [`${Number(value).toFixed(2)} % (${(item.payload as { count: number }).count} cells)`, 'cells']} labelFormatter={(_label, payload) => `error ${(payload?.[0]?.payload as { bin?: string } | undefined)?.bin ?? ''}`} />
             <Bar dataKey="share" fill="#27686a" isAnimationActive={false} />
           </BarChart>
@@ -90,7 +95,7 @@ export function MappingReportCard({ report, figures }: MappingReportCardProps) {
           </p>
           <BarChart data={usage} style={chartStyle} responsive layout="vertical" margin={{ top: 8, right: 16, bottom: 22, left: 8 }}>
             <CartesianGrid stroke={GRID} strokeDasharray="3 3" horizontal={false} />
-            <XAxis type="number" tick={TICK} label={{ value: 'cells (%)', position: 'insideBottom', offset: -14, ...LABEL }} />
+            <XAxis type="number" tick={TICK} tickFormatter={(v) => roundTick(v)} label={{ value: 'cells (%)', position: 'insideBottom', offset: -14, ...LABEL }} />
             <YAxis type="category" dataKey="atom" tick={TICK} width={96} />
             <Tooltip formatter={(value, _name, item) => [`${Number(value).toFixed(2)} % (${(item.payload as { cells: number }).cells} cells, ${(item.payload as { size: string }).size})`, 'share']} />
             <Bar dataKey="share" fill="#b94721" isAnimationActive={false} />

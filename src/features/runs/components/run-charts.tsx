@@ -1,5 +1,6 @@
 import { Bar, BarChart, CartesianGrid, Legend, Line, LineChart, ReferenceLine, Tooltip, XAxis, YAxis } from 'recharts';
 import type { AxialLine, Histogram, RadialProfile } from '@/features/runs/components/run-plots';
+import { roundTick } from '@/lib/format';
 
 export const CHANNEL_COLOURS = { a: '#27686a', b: '#b94721' } as const;
 const INK = '#2b1740';
@@ -98,10 +99,12 @@ interface ProfileChartProps {
   profile: RadialProfile;
   charge: number | null;
   markers: { radius: number; label: string }[];
+  /** Name of the horizontal axis, µm; default the radius. */
+  axisLabel?: string;
 }
 
 /** Transverse radial profile against radius in µm, with the analytic J_ℓ² curve when given. */
-export function ProfileChart({ profile, charge, markers }: ProfileChartProps) {
+export function ProfileChart({ profile, charge, markers, axisLabel = 'radius r' }: ProfileChartProps) {
   const rows = profile.radius.map((r, i) => ({
     r: r * 1e6,
     measured: profile.measured[i] ?? null,
@@ -117,7 +120,7 @@ export function ProfileChart({ profile, charge, markers }: ProfileChartProps) {
         domain={[0, 'dataMax']}
         tick={TICK}
         tickFormatter={(v: number) => String(Number(v.toPrecision(3)))}
-        label={{ value: 'radius r (µm)', position: 'insideBottom', offset: -12, fill: '#5e4d6e', fontSize: 12 }}
+        label={{ value: `${axisLabel} (µm)`, position: 'insideBottom', offset: -12, fill: '#5e4d6e', fontSize: 12 }}
       />
       <YAxis
         domain={[0, 'auto']}
@@ -131,13 +134,14 @@ export function ProfileChart({ profile, charge, markers }: ProfileChartProps) {
         labelFormatter={(label) => `r = ${Number(label).toPrecision(4)} µm`}
       />
       <Legend verticalAlign="top" height={28} />
-      {markers.map((m) => (
+      {markers.map((m, i) => (
         <ReferenceLine
           key={m.label}
           x={m.radius * 1e6}
           stroke={INK}
           strokeDasharray="2 4"
-          label={{ value: m.label, position: 'insideTopRight', fill: INK, fontSize: 11 }}
+          // Lines close together (λf/D beside the simulated zero) keep their labels apart: top, middle, lower.
+          label={{ value: m.label, position: (['insideTopRight', 'insideRight', 'insideBottomRight'] as const)[i % 3], fill: INK, fontSize: 11 }}
         />
       ))}
       <Line dataKey="measured" name="Simulated" stroke={CHANNEL_COLOURS.a} strokeWidth={2} dot={false} isAnimationActive={false} connectNulls />
@@ -196,8 +200,8 @@ export function HistogramChart({ histogram }: { histogram: Histogram }) {
   return (
     <BarChart data={rows} style={chartStyle} responsive margin={{ top: 8, right: 16, bottom: 20, left: 8 }}>
       <CartesianGrid stroke={GRID} strokeDasharray="3 3" vertical={false} />
-      <XAxis dataKey="label" tick={TICK} interval="preserveStartEnd" minTickGap={8} />
-      <YAxis tick={TICK} width={64} allowDecimals={false} />
+      <XAxis dataKey="label" tick={TICK} interval="preserveStartEnd" minTickGap={8} tickFormatter={(v) => roundTick(v)} />
+      <YAxis tick={TICK} width={64} allowDecimals={false} tickFormatter={(v) => roundTick(v)} />
       <Tooltip />
       <Bar dataKey="value" name="cells" fill={CHANNEL_COLOURS.a} isAnimationActive={false} />
     </BarChart>

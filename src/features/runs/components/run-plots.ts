@@ -1,4 +1,5 @@
 import type { ChannelKey } from '@/features/runs/components/artifact-groups';
+import { roundTick } from '@/lib/format';
 
 /** A transverse radial profile: measured intensity and, for Bessel beams, the analytic J_ℓ² curve. */
 export interface RadialProfile {
@@ -63,7 +64,7 @@ function histogramOf(value: unknown, source: string): Histogram | null {
   const values = (value[countsKey] as (number | null)[]).map((v) => v ?? 0);
   const labelKey = Object.keys(value).find((key) => /^(labels?|names?|atoms?|bins?|edges?)$/i.test(key) && Array.isArray(value[key]));
   const given = labelKey ? (value[labelKey] as unknown[]) : [];
-  const labels = values.map((_, i) => (given[i] !== undefined && given[i] !== null ? String(given[i]) : String(i)));
+  const labels = values.map((_, i) => (given[i] !== undefined && given[i] !== null ? roundTick(given[i]) : String(i)));
   return { source, values, labels };
 }
 

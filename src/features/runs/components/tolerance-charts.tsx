@@ -1,6 +1,8 @@
 import { CartesianGrid, Legend, Line, LineChart, Tooltip, XAxis, YAxis } from 'recharts';
+import { DECIBEL_FLOOR, decibelText } from '@shared/optics/run-metrics';
 import type { TolerancePoint } from '@shared/schemas/tolerance';
 import { CHANNEL_COLOURS } from '@/features/runs/components/run-charts';
+import { roundTick } from '@/lib/format';
 
 const GRID = '#ddd3c1';
 const TICK = { fill: '#5e4d6e', fontSize: 12 };
@@ -11,7 +13,7 @@ export type ToleranceQuantity = 'efficiency' | 'crosstalkDb' | 'zeroOrder';
 
 const AXIS: Record<ToleranceQuantity, { label: string; format: (v: number) => string }> = {
   efficiency: { label: 'efficiency (%)', format: (v) => `${(100 * v).toFixed(2)} %` },
-  crosstalkDb: { label: 'crosstalk (dB)', format: (v) => `${v.toFixed(2)} dB` },
+  crosstalkDb: { label: 'crosstalk (dB)', format: (v) => decibelText(v, 2) },
   zeroOrder: { label: 'zero order (%)', format: (v) => `${(100 * v).toFixed(3)} %` },
 };
 
@@ -30,7 +32,8 @@ export function ToleranceChart({ points, along, quantity, channelNames }: Tolera
     .map((p) => {
       const value = (c: 'a' | 'b') => {
         const v = p.channels![c][quantity];
-        return v === null ? null : percent ? 100 * v : v;
+        // Crosstalk below the numerical floor is plotted at the floor (the tooltip says "below").
+        return v === null ? null : percent ? 100 * v : Math.max(DECIBEL_FLOOR - 1e-9, v);
       };
       return { x: p[along], a: value('a'), b: value('b') };
     });
@@ -43,6 +46,7 @@ export function ToleranceChart({ points, along, quantity, channelNames }: Tolera
         type="number"
         domain={['dataMin', 'dataMax']}
         tick={TICK}
+        tickFormatter={(v) => roundTick(v)}
         label={{ value: along === 'widthBiasNm' ? 'width and length bias Δ (nm)' : 'wavelength detuning δ (nm)', position: 'insideBottom', offset: -14, ...LABEL }}
       />
       <YAxis

@@ -29,7 +29,7 @@ import { RunEvents } from '@/features/runs/components/run-events';
 import { channelLayout, inputNames, usesApproximateLibrary } from '@/features/runs/components/run-facts';
 import { readDesignRules, readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusPanel } from '@/features/runs/components/run-status-panel';
-import { RunPictureView } from '@/features/runs/components/picture-view';
+import { readPictureFrames, RunPictureView } from '@/features/runs/components/picture-view';
 import { RunSection, RunSectionIndex } from '@/features/runs/components/run-section-index';
 import { ExportPanel } from '@/features/fab/components/export-panel';
 import { ShareLinksCard } from '@/features/sharing/components/share-links-card';
@@ -38,6 +38,7 @@ import { useCurrentUser } from '@/features/auth/api/get-me';
 import { useMembers } from '@/features/projects/api/get-members';
 import { ReviewThreadsCard } from '@/features/review/components/review-threads-card';
 import { useRunReview } from '@/features/review/hooks/use-run-review';
+import { runGrid } from '@/features/review/utils/pin-place';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
 
 function parseRunId(value: string | undefined): number | null {
@@ -132,6 +133,9 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
     runId: run.id,
     viewer: { userId: me.id, canComment, canDeleteAny: canManage },
     members: members.data ?? [],
+    grid: runGrid(run.metrics),
+    // Runs with a picture record paint +v (+y) up (README "Picture convention"); older ones have row 0 at the top.
+    rows: readPictureFrames(run.plots) ? 'top-is-positive' : 'top-is-negative',
   });
   const groups = useMemo(() => groupArtifacts(run.artifacts), [run.artifacts]);
   const plots = useMemo(() => readRunPlots(run.plots), [run.plots]);
@@ -251,7 +255,9 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
       ) : null}
       </RunSection>
 
-      <RunSection id="mapping">{mappingReport ? <MappingReportCard report={mappingReport} figures={sectionOf('Atom mapping')} /> : null}</RunSection>
+      <RunSection id="mapping">
+        {mappingReport ? <MappingReportCard report={mappingReport} figures={sectionOf('Atom mapping')} circularPair={design ? design.polarization.kind === 'circular' : true} /> : null}
+      </RunSection>
 
       <RunSection id="fabrication-sweep">
         {run.status === 'succeeded' && !filesDeleted ? <ToleranceCard projectId={projectId} runId={run.id} canRun={canRun} channelNames={channelNames} /> : null}
