@@ -132,6 +132,16 @@ describe('the design–run–compare workbench', () => {
     await expect.poll(() => index.getByRole('link', { name: 'Far fields', exact: true }).getAttribute('aria-current')).toBe('location');
     await page.screenshot({ path: `${SCREENSHOT_DIR}/workbench-run-index-far-fields.png` });
 
+    // Let the link's smooth scroll end before scrolling back up by hand (it would otherwise carry on after the wheel).
+    let settled = -1;
+    await expect
+      .poll(async () => {
+        const y = await page.evaluate(() => window.scrollY);
+        const still = y === settled;
+        settled = y;
+        return still;
+      }, { intervals: [250] })
+      .toBe(true);
     await page.mouse.wheel(0, -50_000);
     await expect.poll(() => index.getByRole('link', { name: 'Summary', exact: true }).getAttribute('aria-current')).toBe('location');
     await page.screenshot({ path: `${SCREENSHOT_DIR}/workbench-run-top.png` });
