@@ -368,7 +368,7 @@ describe('the package explains itself', () => {
     expect(readme).toMatch(/own rules come first/);
 
     const html = read('/report.html');
-    expect(html).toContain('“bold-F.png” (upload');
+    expect(html).toContain('target picture bold-F.png');
     expect(html).not.toMatch(/image upload \d/);
     expect(html.match(/\(approximate\)/g)).toHaveLength(1);
   });

@@ -135,7 +135,7 @@ describe('a new design', () => {
     await figures.waitFor();
     const text = await figures.innerText();
     // λf/D = 0.633 µm · 150 µm / 57.6 µm = 1.648 µm (Goodman §4.4.1); the simulated zero lies within a few percent.
-    expect(text).toMatch(/Focal spot first zero, λf\/D \(square aperture\)\s+1\.648 µm/);
+    expect(text).toMatch(/Focal spot first zero, expected λf\/D \(square aperture\)\s+1\.648 µm/);
     const simulated = Number(/Focal spot first zero, simulated\s+([\d.]+) µm/.exec(text)![1]);
     expect(Math.abs(simulated / 1.648 - 1)).toBeLessThan(0.05);
     expect(text).not.toMatch(/Focal spot zero/);
