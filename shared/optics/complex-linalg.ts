@@ -5,8 +5,8 @@
  * back-substitution (the same steps as LAPACK's zgebal/zgehrd/zhseqr/ztrevc; Golub & Van Loan, Matrix
  * Computations, 4th ed., §7.4–7.6). Matrices are row-major with split real and imaginary parts.
  *
- * Why our own: candidates from npm, measured on this machine (node 20, one thread, 2 Dec 2026 build of the
- * workbench, random complex matrices) before writing this module:
+ * Why our own: candidates from npm, measured on this machine (node 20, one thread, random complex matrices)
+ * before writing this module:
  * - mathjs 15.2.0 `eigs` takes complex matrices and is correct (residual 2e-12) but slow: 1.0 s at 20×20 and
  *   38 s at 60×60 (cubic growth puts 242×242, the size at 11×11 harmonics, beyond half an hour);
  * - ml-matrix 6.15.1 `EigenvalueDecomposition` refuses complex input ("Input data contains non-numeric
