@@ -11,6 +11,10 @@
  *   matrix [[ε]].
  * - Layers are joined by the enhanced transmittance matrix approach (Moharam, Grann, Pommet & Gaylord,
  *   JOSA A 12, 1077 (1995)), which only ever multiplies by decaying exponentials: stable for tall pillars.
+ * - A centred pillar is symmetric under x → −x and y → −y: `computeAtom` solves x- and y-polarized input each
+ *   in its own symmetry sector (fields of one parity class per component), a quarter of the unknowns, which is
+ *   why an atom's cross terms t_xy, t_yx are exactly 0; `solveRcwaStack` without `mirrorSymmetric` solves the
+ *   full coupled problem (tests compare the two).
  * - Time dependence exp(−iωt): a lossy material has n + ik with k > 0; a forward wave is exp(+i k_z z) with
  *   Im k_z ≥ 0. Lengths in metres; phases in radians.
  *
@@ -255,6 +259,7 @@ function patternedModes(
   py: number,
   kx: Float64Array,
   ky: Float64Array,
+  basis: SectorBasis | null,
 ): Modes {
   const m = nx * ny;
   const bg = layer.background;
@@ -331,7 +336,7 @@ function patternedModes(
       }
     }
   }
-  const ezi = cInverse(ezz);
+  const ezi = basis ? parityInverse(ezz, nx, ny) : cInverse(ezz);
   // P = [[Kx Ezi Ky, I − Kx Ezi Kx], [Ky Ezi Ky − I, −Ky Ezi Kx]], Q = [[Kx Ky, Eyy − Kx²], [Ky² − Exx, −Ky Kx]].
   const n = 2 * m;
   const p = cZeros(n, n);
@@ -340,15 +345,21 @@ function patternedModes(
     for (let j = 0; j < m; j++) {
       const er = ezi.re[i * m + j];
       const ei = ezi.im[i * m + j];
-      const put = (mat: CMatrix, r: number, c: number, s: number, add: number): void => {
-        mat.re[r * n + c] = s * er + add;
-        mat.im[r * n + c] = s * ei;
-      };
       const id = i === j ? 1 : 0;
-      put(p, i, j, kx[i] * ky[j], 0);
-      put(p, i, j + m, -kx[i] * kx[j], id);
-      put(p, i + m, j, ky[i] * ky[j], -id);
-      put(p, i + m, j + m, -ky[i] * kx[j], 0);
+      const top = i * n + j;
+      const bottom = (i + m) * n + j;
+      const s11 = kx[i] * ky[j];
+      const s12 = -kx[i] * kx[j];
+      const s21 = ky[i] * ky[j];
+      const s22 = -ky[i] * kx[j];
+      p.re[top] = s11 * er;
+      p.im[top] = s11 * ei;
+      p.re[top + m] = s12 * er + id;
+      p.im[top + m] = s12 * ei;
+      p.re[bottom] = s21 * er - id;
+      p.im[bottom] = s21 * ei;
+      p.re[bottom + m] = s22 * er;
+      p.im[bottom + m] = s22 * ei;
       q.re[i * n + j + m] = eyy.re[i * m + j] - (id ? kx[i] * kx[i] : 0);
       q.im[i * n + j + m] = eyy.im[i * m + j];
       q.re[(i + m) * n + j] = (id ? ky[i] * ky[i] : 0) - exx.re[i * m + j];
@@ -357,14 +368,17 @@ function patternedModes(
     q.re[i * n + i] = kx[i] * ky[i];
     q.re[(i + m) * n + i + m] = -ky[i] * kx[i];
   }
-  const omega2 = cMul(p, q);
+  const pr = basis ? project(p, basis.e, basis.h) : p;
+  const qr = basis ? project(q, basis.h, basis.e) : q;
+  const nr = pr.rows;
+  const omega2 = cMul(pr, qr);
   const eig = cEig(omega2);
   const w = eig.vectors;
-  const kzRe = new Float64Array(n);
-  const kzIm = new Float64Array(n);
+  const kzRe = new Float64Array(nr);
+  const kzIm = new Float64Array(nr);
   // V = Q·W·diag(−i/kz)
-  const v = cMul(q, w);
-  for (let j = 0; j < n; j++) {
+  const v = cMul(qr, w);
+  for (let j = 0; j < nr; j++) {
     const kz = forwardSqrt(-eig.valuesRe[j], -eig.valuesIm[j]);
     kzRe[j] = kz.re;
     kzIm[j] = kz.im;
@@ -372,14 +386,150 @@ function patternedModes(
     if (d === 0) throw new Error('RCWA: a mode of the patterned layer has k_z = 0 (a grazing order); change the period or wavelength slightly');
     const fr = -kz.im / d;
     const fi = -kz.re / d;
-    for (let i = 0; i < n; i++) {
-      const ar = v.re[i * n + j];
-      const ai = v.im[i * n + j];
-      v.re[i * n + j] = ar * fr - ai * fi;
-      v.im[i * n + j] = ar * fi + ai * fr;
+    for (let i = 0; i < nr; i++) {
+      const ar = v.re[i * nr + j];
+      const ai = v.im[i * nr + j];
+      v.re[i * nr + j] = ar * fr - ai * fi;
+      v.im[i * nr + j] = ar * fi + ai * fr;
     }
   }
   return { w, v, kzRe, kzIm };
+}
+
+/**
+ * A symmetry sector of a cell with mirror lines x = 0 and y = 0 (a centred rectangle or ellipse) at normal
+ * incidence: x-polarized light keeps Ex even and Ey odd in both x and y (and hx odd, hy even), y-polarized the
+ * reverse; each sector has about a quarter of the 2·Nx·Ny unknowns. Columns are orthonormal real combinations
+ * of the orders (±m, ±n) of one component, listed as full-vector indices and coefficients.
+ */
+interface SectorBasis {
+  e: BasisColumn[];
+  h: BasisColumn[];
+}
+interface BasisColumn {
+  idx: number[];
+  coef: number[];
+}
+
+function parityColumns(nx: number, ny: number, oddX: boolean, oddY: boolean, offset: number): BasisColumn[] {
+  const hx = (nx - 1) / 2;
+  const hy = (ny - 1) / 2;
+  const cols: BasisColumn[] = [];
+  for (let n = oddY ? 1 : 0; n <= hy; n++) {
+    for (let m = oddX ? 1 : 0; m <= hx; m++) {
+      const pts: [number, number, number][] = [];
+      for (const sm of m === 0 ? [1] : [1, -1]) {
+        for (const sn of n === 0 ? [1] : [1, -1]) {
+          const sign = (oddX && sm < 0 ? -1 : 1) * (oddY && sn < 0 ? -1 : 1);
+          pts.push([sm * m, sn * n, sign]);
+        }
+      }
+      const norm = 1 / Math.sqrt(pts.length);
+      cols.push({ idx: pts.map(([a, b]) => offset + a + hx + nx * (b + hy)), coef: pts.map(([, , sg]) => sg * norm) });
+    }
+  }
+  return cols;
+}
+
+function sectorBasis(nx: number, ny: number, sector: 'x' | 'y'): SectorBasis {
+  const m = nx * ny;
+  const even = sector === 'x';
+  // x input: Ex even-even, Ey odd-odd; hx odd-odd, hy even-even. y input: the reverse.
+  return {
+    e: [...parityColumns(nx, ny, !even, !even, 0), ...parityColumns(nx, ny, even, even, m)],
+    h: [...parityColumns(nx, ny, even, even, 0), ...parityColumns(nx, ny, !even, !even, m)],
+  };
+}
+
+/** Lᵀ·A·R for basis column lists L (rows) and R (columns). */
+function project(a: CMatrix, left: BasisColumn[], right: BasisColumn[]): CMatrix {
+  const out = cZeros(left.length, right.length);
+  const n = a.cols;
+  for (let i = 0; i < left.length; i++) {
+    const li = left[i];
+    for (let j = 0; j < right.length; j++) {
+      const rj = right[j];
+      let sr = 0;
+      let si = 0;
+      for (let p = 0; p < li.idx.length; p++) {
+        const row = li.idx[p] * n;
+        for (let q = 0; q < rj.idx.length; q++) {
+          const w = li.coef[p] * rj.coef[q];
+          sr += w * a.re[row + rj.idx[q]];
+          si += w * a.im[row + rj.idx[q]];
+        }
+      }
+      out.re[i * right.length + j] = sr;
+      out.im[i * right.length + j] = si;
+    }
+  }
+  return out;
+}
+
+/** S·X: reduced coordinates (rows of X, one per basis column) back to the full vector of `size`. */
+function expand(x: CMatrix, basis: BasisColumn[], size: number): CMatrix {
+  const out = cZeros(size, x.cols);
+  for (let j = 0; j < basis.length; j++) {
+    const col = basis[j];
+    for (let p = 0; p < col.idx.length; p++) {
+      const row = col.idx[p] * x.cols;
+      for (let k = 0; k < x.cols; k++) {
+        out.re[row + k] += col.coef[p] * x.re[j * x.cols + k];
+        out.im[row + k] += col.coef[p] * x.im[j * x.cols + k];
+      }
+    }
+  }
+  return out;
+}
+
+/**
+ * Inverse of a matrix that commutes with the mirrors x → −x and y → −y (the Laurent matrix of a mirror-
+ * symmetric pattern), block by block in the four parity classes of a scalar function: four inversions of a
+ * quarter of the size instead of one.
+ */
+function parityInverse(a: CMatrix, nx: number, ny: number): CMatrix {
+  const out = cZeros(a.rows, a.cols);
+  const n = a.cols;
+  for (const [oddX, oddY] of [
+    [false, false],
+    [true, false],
+    [false, true],
+    [true, true],
+  ] as const) {
+    const cols = parityColumns(nx, ny, oddX, oddY, 0);
+    if (cols.length === 0) continue;
+    const b = cInverse(project(a, cols, cols));
+    const r = cols.length;
+    for (let i = 0; i < r; i++) {
+      for (let j = 0; j < r; j++) {
+        const vr = b.re[i * r + j];
+        const vi = b.im[i * r + j];
+        const ci = cols[i];
+        const cj = cols[j];
+        for (let p = 0; p < ci.idx.length; p++) {
+          for (let q = 0; q < cj.idx.length; q++) {
+            const w = ci.coef[p] * cj.coef[q];
+            const k = ci.idx[p] * n + cj.idx[q];
+            out.re[k] += w * vr;
+            out.im[k] += w * vi;
+          }
+        }
+      }
+    }
+  }
+  return out;
+}
+
+/** Uniform-medium modes in a sector: W = I, V projected, k_z of each column's orders (all alike). */
+function reduceUniform(modes: Modes, basis: SectorBasis | null): Modes {
+  if (!basis) return modes;
+  const r = basis.e.length;
+  return {
+    w: cIdentity(r),
+    v: project(modes.v, basis.h, basis.e),
+    kzRe: Float64Array.from(basis.e, (c) => modes.kzRe[c.idx[0]]),
+    kzIm: Float64Array.from(basis.e, (c) => modes.kzIm[c.idx[0]]),
+  };
 }
 
 /** z-component of the Poynting flux per order (arbitrary common units): Re(i·(Ex·hy* − Ey·hx*)). */
@@ -403,11 +553,38 @@ function fluxPerOrder(e: CMatrix, h: CMatrix, col: number, m: number): Float64Ar
 }
 
 /**
+/** Throws unless every patterned layer's rectangles are symmetric under x → −x and y → −y. */
+function checkMirrorSymmetric(stack: RcwaStack): void {
+  const tol = 1e-12 * Math.max(stack.periodX, stack.periodY);
+  const same = (a: RcwaRect, b: RcwaRect): boolean =>
+    Math.abs(a.x0 - b.x0) <= tol && Math.abs(a.x1 - b.x1) <= tol && Math.abs(a.y0 - b.y0) <= tol && Math.abs(a.y1 - b.y1) <= tol;
+  for (const layer of stack.layers) {
+    if (layer.kind !== 'patterned') continue;
+    for (const rect of layer.rects) {
+      const mx = { x0: -rect.x1, x1: -rect.x0, y0: rect.y0, y1: rect.y1 };
+      const my = { x0: rect.x0, x1: rect.x1, y0: -rect.y1, y1: -rect.y0 };
+      if (!layer.rects.some((o) => same(o, mx)) || !layer.rects.some((o) => same(o, my))) {
+        throw new RangeError('mirrorSymmetric: a patterned layer is not symmetric under x → −x and y → −y');
+      }
+    }
+  }
+}
+
+/**
  * Solves a stack at normal incidence for x- and y-polarized unit plane waves (enhanced transmittance matrix,
- * see module comment). `harmonics`: N (N × N) or [Nx, Ny], odd.
+ * see module comment). `harmonics`: N (N × N) or [Nx, Ny], odd. `mirrorSymmetric`: every patterned layer is
+ * symmetric under x → −x and y → −y (checked); then each input polarization is solved in its own symmetry
+ * sector with about a quarter of the unknowns, with the same result (t_xy = t_yx = 0 exactly).
  */
-export function solveRcwaStack(stack: RcwaStack, lambda: number, harmonics: number | readonly [number, number]): RcwaStackResult {
+export function solveRcwaStack(
+  stack: RcwaStack,
+  lambda: number,
+  harmonics: number | readonly [number, number],
+  options: { mirrorSymmetric?: boolean } = {},
+): RcwaStackResult {
   const [nx, ny] = harmonicCounts(harmonics);
+  const mirror = options.mirrorSymmetric === true;
+  if (mirror) checkMirrorSymmetric(stack);
   if (!(lambda > 0) || !Number.isFinite(lambda)) throw new RangeError(`wavelength must be positive, got ${lambda}`);
   for (const p of [stack.periodX, stack.periodY]) if (!(p > 0) || !Number.isFinite(p)) throw new RangeError(`period must be positive, got ${p}`);
   const m = nx * ny;
@@ -429,85 +606,113 @@ export function solveRcwaStack(stack: RcwaStack, lambda: number, harmonics: numb
   const incident = uniformModes(stack.incident, kx, ky);
   const exit = uniformModes(stack.exit, kx, ky);
 
-  // Backward pass: f, g at the top of each layer; keep Y_l = a_l⁻¹·X_l for the forward pass.
-  let f = cIdentity(n2);
-  let g = exit.v;
-  const ys: CMatrix[] = [];
-  for (let l = stack.layers.length - 1; l >= 0; l--) {
-    const layer = stack.layers[l];
-    if (!(layer.thickness >= 0) || !Number.isFinite(layer.thickness)) throw new RangeError(`layer ${l + 1}: thickness must be ≥ 0, got ${layer.thickness}`);
-    const modes =
-      layer.kind === 'uniform' || layer.rects.length === 0
-        ? uniformModes(layer.kind === 'uniform' ? layer.epsilon : layer.background, kx, ky)
-        : patternedModes(layer, nx, ny, stack.periodX, stack.periodY, kx, ky);
-    const wf = cLuSolve(cLu(modes.w), f);
-    const vg = cLuSolve(cLu(modes.v), g);
-    const a = cZeros(n2, n2);
-    const b = cZeros(n2, n2);
-    for (let k = 0; k < a.re.length; k++) {
-      a.re[k] = 0.5 * (wf.re[k] + vg.re[k]);
-      a.im[k] = 0.5 * (wf.im[k] + vg.im[k]);
-      b.re[k] = 0.5 * (wf.re[k] - vg.re[k]);
-      b.im[k] = 0.5 * (wf.im[k] - vg.im[k]);
-    }
-    // X = diag(exp(i·kz·k0·d))
-    const xr = new Float64Array(n2);
-    const xi = new Float64Array(n2);
-    for (let j = 0; j < n2; j++) {
-      const amp = Math.exp(-modes.kzIm[j] * k0 * layer.thickness);
-      const ph = modes.kzRe[j] * k0 * layer.thickness;
-      xr[j] = amp * Math.cos(ph);
-      xi[j] = amp * Math.sin(ph);
-    }
-    const xm = cZeros(n2, n2);
-    for (let j = 0; j < n2; j++) {
-      xm.re[j * n2 + j] = xr[j];
-      xm.im[j * n2 + j] = xi[j];
-    }
-    const y = cLuSolve(cLu(a), xm); // a⁻¹·X
-    ys.push(y);
-    const by = cMul(b, y); // b·a⁻¹·X
-    // X·b·a⁻¹·X: scale rows by X
-    for (let i = 0; i < n2; i++) {
-      for (let j = 0; j < n2; j++) {
-        const k = i * n2 + j;
-        const r = by.re[k];
-        const im = by.im[k];
-        by.re[k] = xr[i] * r - xi[i] * im;
-        by.im[k] = xr[i] * im + xi[i] * r;
-      }
-    }
-    const plus = cIdentity(n2);
-    const minus = cIdentity(n2);
-    for (let k = 0; k < by.re.length; k++) {
-      plus.re[k] += by.re[k];
-      plus.im[k] += by.im[k];
-      minus.re[k] -= by.re[k];
-      minus.im[k] -= by.im[k];
-    }
-    f = cMul(modes.w, plus);
-    g = cMul(modes.v, minus);
-  }
-  ys.reverse();
-  // Incident side: (g1 + Vi f1)·T1 = 2·Vi·s, r = f1·T1 − s; s has two columns (x and y input).
   const s = cZeros(n2, 2);
   s.re[zero * 2 + 0] = 1;
   s.re[(zero + m) * 2 + 1] = 1;
-  const vif = cMul(incident.v, f);
-  for (let k = 0; k < vif.re.length; k++) {
-    vif.re[k] += g.re[k];
-    vif.im[k] += g.im[k];
+  // Enhanced transmittance matrices in the full basis (basis null) or in one mirror-symmetry sector.
+  const solveSector = (basis: SectorBasis | null, s: CMatrix): { t: CMatrix; r: CMatrix } => {
+    // Backward pass: f, g at the top of each layer; keep Y_l = a_l⁻¹·X_l for the forward pass.
+    const inc = reduceUniform(incident, basis);
+    const out = reduceUniform(exit, basis);
+    const nr = inc.v.rows;
+    let f = cIdentity(nr);
+    let g = out.v;
+    const ys: CMatrix[] = [];
+    for (let l = stack.layers.length - 1; l >= 0; l--) {
+      const layer = stack.layers[l];
+      if (!(layer.thickness >= 0) || !Number.isFinite(layer.thickness)) throw new RangeError(`layer ${l + 1}: thickness must be ≥ 0, got ${layer.thickness}`);
+      const modes =
+        layer.kind === 'uniform' || layer.rects.length === 0
+          ? reduceUniform(uniformModes(layer.kind === 'uniform' ? layer.epsilon : layer.background, kx, ky), basis)
+          : patternedModes(layer, nx, ny, stack.periodX, stack.periodY, kx, ky, basis);
+      const wf = cLuSolve(cLu(modes.w), f);
+      const vg = cLuSolve(cLu(modes.v), g);
+      const a = cZeros(nr, nr);
+      const b = cZeros(nr, nr);
+      for (let k = 0; k < a.re.length; k++) {
+        a.re[k] = 0.5 * (wf.re[k] + vg.re[k]);
+        a.im[k] = 0.5 * (wf.im[k] + vg.im[k]);
+        b.re[k] = 0.5 * (wf.re[k] - vg.re[k]);
+        b.im[k] = 0.5 * (wf.im[k] - vg.im[k]);
+      }
+      // X = diag(exp(i·kz·k0·d))
+      const xr = new Float64Array(nr);
+      const xi = new Float64Array(nr);
+      for (let j = 0; j < nr; j++) {
+        const amp = Math.exp(-modes.kzIm[j] * k0 * layer.thickness);
+        const ph = modes.kzRe[j] * k0 * layer.thickness;
+        xr[j] = amp * Math.cos(ph);
+        xi[j] = amp * Math.sin(ph);
+      }
+      const xm = cZeros(nr, nr);
+      for (let j = 0; j < nr; j++) {
+        xm.re[j * nr + j] = xr[j];
+        xm.im[j * nr + j] = xi[j];
+      }
+      const y = cLuSolve(cLu(a), xm); // a⁻¹·X
+      ys.push(y);
+      const by = cMul(b, y); // b·a⁻¹·X
+      // X·b·a⁻¹·X: scale rows by X
+      for (let i = 0; i < nr; i++) {
+        for (let j = 0; j < nr; j++) {
+          const k = i * nr + j;
+          const r = by.re[k];
+          const im = by.im[k];
+          by.re[k] = xr[i] * r - xi[i] * im;
+          by.im[k] = xr[i] * im + xi[i] * r;
+        }
+      }
+      const plus = cIdentity(nr);
+      const minus = cIdentity(nr);
+      for (let k = 0; k < by.re.length; k++) {
+        plus.re[k] += by.re[k];
+        plus.im[k] += by.im[k];
+        minus.re[k] -= by.re[k];
+        minus.im[k] -= by.im[k];
+      }
+      f = cMul(modes.w, plus);
+      g = cMul(modes.v, minus);
+    }
+    ys.reverse();
+    // Incident side: (g1 + Vi f1)·T1 = 2·Vi·s, r = f1·T1 − s.
+    const vif = cMul(inc.v, f);
+    for (let k = 0; k < vif.re.length; k++) {
+      vif.re[k] += g.re[k];
+      vif.im[k] += g.im[k];
+    }
+    const rhs = cMul(inc.v, s);
+    for (let k = 0; k < rhs.re.length; k++) {
+      rhs.re[k] *= 2;
+      rhs.im[k] *= 2;
+    }
+    let amp = cLuSolve(cLu(vif), rhs);
+    const r = cMul(f, amp);
+    for (let k = 0; k < r.re.length; k++) r.re[k] -= s.re[k];
+    for (const y of ys) amp = cMul(y, amp);
+    return { t: amp, r };
+  };
+  let t: CMatrix;
+  let r: CMatrix;
+  if (mirror) {
+    t = cZeros(n2, 2);
+    r = cZeros(n2, 2);
+    (['x', 'y'] as const).forEach((sector, col) => {
+      const basis = sectorBasis(nx, ny, sector);
+      const source = cZeros(basis.e.length, 1);
+      source.re[basis.e.findIndex((c) => c.idx[0] === zero + col * m)] = 1;
+      const part = solveSector(basis, source);
+      const tf = expand(part.t, basis.e, n2);
+      const rf = expand(part.r, basis.e, n2);
+      for (let i = 0; i < n2; i++) {
+        t.re[i * 2 + col] = tf.re[i];
+        t.im[i * 2 + col] = tf.im[i];
+        r.re[i * 2 + col] = rf.re[i];
+        r.im[i * 2 + col] = rf.im[i];
+      }
+    });
+  } else {
+    ({ t, r } = solveSector(null, s));
   }
-  const rhs = cMul(incident.v, s);
-  for (let k = 0; k < rhs.re.length; k++) {
-    rhs.re[k] *= 2;
-    rhs.im[k] *= 2;
-  }
-  let amp = cLuSolve(cLu(vif), rhs);
-  const r = cMul(f, amp);
-  for (let k = 0; k < r.re.length; k++) r.re[k] -= s.re[k];
-  for (const y of ys) amp = cMul(y, amp);
-  const t = amp;
 
   const hInc = cMul(incident.v, s);
   const hT = cMul(exit.v, t);
@@ -743,7 +948,7 @@ export function computeAtom(cell: RcwaCell, options: RcwaOptions): RcwaAtomResul
   if (!Number.isInteger(steps) || steps < 1 || steps > 256) throw new RangeError(`ellipseSteps must be an integer from 1 to 256, got ${steps}`);
   const harmonics = harmonicCounts(options.harmonics);
   const stack = cellStack(cell, lambda, illumination, pillarRects(cell, steps));
-  const res = solveRcwaStack(stack, lambda, harmonics);
+  const res = solveRcwaStack(stack, lambda, harmonics, { mirrorSymmetric: true });
   const bareRes = solveRcwaStack(cellStack(cell, lambda, illumination, []), lambda, 1);
   const nIn = materialIndex(illumination === 'superstrate' ? cell.superstrate : cell.substrate, lambda);
   const nOut = materialIndex(illumination === 'superstrate' ? cell.substrate : cell.superstrate, lambda);
