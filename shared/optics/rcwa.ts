@@ -933,7 +933,8 @@ export function checkCell(cell: RcwaCell): void {
 
 /**
  * One meta-atom by RCWA: zeroth-order Jones matrix, phases against a bare cell, powers, and the lattice
- * diffraction warning. Cost: one eigendecomposition of size 2·Nx·Ny (see bench/rcwa.ts for times).
+ * diffraction warning. Cost: two eigendecompositions (one per symmetry sector) of about Nx·Ny/2 each
+ * (see bench/rcwa.ts for times).
  * Example: computeAtom({ period: 450e-9, superstrate: air, substrate: silica, pillar: { shape: 'rect', width:
  * 200e-9, length: 200e-9, height: 1.2e-6, material: nitride } }, { lambda: 633e-9, harmonics: 11,
  * illumination: 'superstrate' }).txx equals .tyy (square pillar).
