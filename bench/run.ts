@@ -7,7 +7,8 @@
  * - 2048² designs for peak memory: the twin image with 20 iterations, and a Bessel pair whose x–z slice
  *   needs 4096² zero-padded propagation.
  * Targets (issue): demo < 10 s; 2048² < 2 GB peak; two channels in parallel ≥ 1.8× the throughput of one.
- * `npm run bench -- --end-to-end-only` skips the FFT benchmark. The machine is shared: note the load average
+ * Then the RCWA per-atom times (bench/rcwa.ts).
+ * `npm run bench -- --end-to-end-only` skips the FFT and RCWA benchmarks. The machine is shared: note the load average
  * printed with the results.
  */
 import { spawnSync } from 'node:child_process';
@@ -16,6 +17,7 @@ import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { main as fftBench } from './fft-bench';
+import { main as rcwaBench } from './rcwa';
 
 const ROOT = fileURLToPath(new URL('../', import.meta.url));
 const CHILD = fileURLToPath(new URL('./design-run-child.ts', import.meta.url));
@@ -56,6 +58,7 @@ function derivedDesign(source: string, dir: string, name: string, edit: (design:
 }
 
 const fft = process.argv.includes('--end-to-end-only') ? null : await fftBench();
+if (!process.argv.includes('--end-to-end-only')) rcwaBench();
 const scratch = mkdtempSync(join(tmpdir(), 'phasewright-bench-'));
 try {
   const twin = join(ROOT, 'demo-assets/designs/twin-image.json');
