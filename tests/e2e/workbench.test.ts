@@ -136,11 +136,11 @@ describe('the design–run–compare workbench', () => {
     let settled = -1;
     await expect
       .poll(async () => {
-        const y = await page.evaluate(() => window.scrollY);
+        const y = await page.evaluate(() => (globalThis as unknown as { scrollY: number }).scrollY);
         const still = y === settled;
         settled = y;
         return still;
-      }, { intervals: [250] })
+      }, { interval: 250 })
       .toBe(true);
     await page.mouse.wheel(0, -50_000);
     await expect.poll(() => index.getByRole('link', { name: 'Summary', exact: true }).getAttribute('aria-current')).toBe('location');
