@@ -43,7 +43,7 @@ export function errorHistogram(cost: Float32Array, bins = 24): Histogram {
     counts[b]++;
   }
   const edges = Array.from({ length: bins + 1 }, (_, b) => (b === bins ? top : b * width));
-  return { edges, counts, unit: '|t|²' };
+  return { edges, counts, unit: '' };
 }
 
 /** One atom's share of the layout. */

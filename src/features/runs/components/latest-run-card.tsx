@@ -14,7 +14,7 @@ const FINISHED_FIRST = { status: 'succeeded', revision: null, sort: 'queuedAt', 
 const THUMBNAILS = [
   { name: 'farfield_a.png', title: 'Under input A' },
   { name: 'farfield_b.png', title: 'Under input B' },
-  { name: 'farfield_extra.png', title: 'Under the extra input' },
+  { name: 'farfield_extra.png', title: 'Under the third input' },
 ] as const;
 
 function Figure({ term, children }: { term: string; children: ReactNode }) {

@@ -27,7 +27,7 @@ export function readMappingReport(plots: Record<string, unknown> | null): Mappin
 }
 
 const FIGURES: { key: string; label: string; format: (v: number) => string }[] = [
-  { key: 'meanError', label: 'Mean mapping error', format: (v) => `${v.toPrecision(3)} |t|²` },
+  { key: 'meanError', label: 'Mean mapping error', format: (v) => v.toPrecision(3) },
   { key: 'meanTransmission', label: 'Mean transmission', format: (v) => `${(100 * v).toFixed(1)} %` },
   { key: 'retardanceFarFromPi', label: 'Retardance far from π', format: (v) => `${(100 * v).toFixed(1)} % of cells` },
   { key: 'unconvertedCircular', label: 'Unconverted circular light', format: (v) => `${(100 * v).toFixed(2)} %` },
