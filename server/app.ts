@@ -38,6 +38,8 @@ export function createApp(ctx: AppContext) {
   const inputs = createInputPool(config);
   const app = express();
   app.disable('x-powered-by');
+  // No ETag hashed over every API answer (the client never asks conditionally); static files keep their own.
+  app.set('etag', false);
   app.set('trust proxy', 'loopback');
   app.use(
     helmet({

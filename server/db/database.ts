@@ -22,6 +22,7 @@ import { UploadModel } from '../components/uploads/upload.model';
 import { UserModel } from '../components/users/user.model';
 import { migrations } from './migrations/index';
 import { bindSelect } from './select';
+import { watchRunDetailWrites } from '../components/runs/run-detail-cache';
 
 export type DbConfig = Pick<AppConfig, 'DB_HOST' | 'DB_PORT' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD'>;
 
@@ -86,6 +87,7 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
   NotificationModel.belongsTo(UserModel, { as: 'actor', foreignKey: 'actorId' });
   NotificationModel.belongsTo(ProjectModel, { as: 'project', foreignKey: 'projectId' });
   watchAccessWrites();
+  watchRunDetailWrites();
   bindSelect(sequelize);
   return sequelize;
 }

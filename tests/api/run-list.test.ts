@@ -74,4 +74,23 @@ describe('runs list and run detail', () => {
     const events = await RunEventModel.findAll({ where: { runId: run.id }, order: [['at', 'ASC'], ['id', 'ASC']] });
     expect(run.events).toEqual(events.map((e) => ({ at: e.at.toISOString(), status: e.status, stage: e.stage, message: e.message })));
   });
+
+  it("serves a finished run's large columns as stored, and their new values once the row is written again", async () => {
+    const projectId = (await designer.post('/api/projects', { name: 'Run detail again' })).body.project.id as number;
+    const number = (await designer.post(`/api/projects/${projectId}/revisions`, { design: deflectorDesign() })).body.revision.number as number;
+    const run = await waitForRun(designer, projectId, (await designer.post(`/api/projects/${projectId}/revisions/${number}/runs`)).body.run.id);
+    expect(run.status, run.error ?? '').toBe('succeeded');
+    const row = (await RunModel.findByPk(run.id))!;
+    const first = (await designer.get(`/api/projects/${projectId}/runs/${run.id}`)).body.run;
+    // As the model reads the row (an independent reading of the same columns).
+    expect(first.metrics).toEqual(row.metrics);
+    expect(first.plots).toEqual(row.plots);
+    expect(first.convergence).toEqual(row.convergence);
+    expect((await designer.get(`/api/projects/${projectId}/runs/${run.id}`)).body.run).toEqual(first);
+    // A write of the row through the model (as every server path writes runs): the next read shows it.
+    await new Promise((r) => setTimeout(r, 5));
+    const metrics = { ...row.metrics!, note: { marker: { value: 1, unit: '', meaning: 'written after the run' } } };
+    await RunModel.update({ metrics }, { where: { id: run.id } });
+    expect((await designer.get(`/api/projects/${projectId}/runs/${run.id}`)).body.run.metrics.note.marker.meaning).toBe('written after the run');
+  });
 });

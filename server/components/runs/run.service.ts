@@ -1,6 +1,6 @@
 import type { Transaction } from 'sequelize';
 import type { Design } from '../../../shared/schemas/design';
-import type { ListRunsQuery, RunDetail, RunHeadline, RunSummary } from '../../../shared/schemas/runs';
+import { FINISHED_STATUSES, type ListRunsQuery, type RunDetail, type RunHeadline, type RunSummary } from '../../../shared/schemas/runs';
 import type { AppContext } from '../../context';
 import { jsonColumn, select } from '../../db/select';
 import { AppError } from '../../lib/app-error';
@@ -11,6 +11,7 @@ import { touchProject } from '../projects/project.model';
 import { UploadModel } from '../uploads/upload.model';
 import { UserModel } from '../users/user.model';
 import { findArtifact, listArtifacts } from './run-artifacts';
+import { keepLargeColumns, keptLargeColumns } from './run-detail-cache';
 import { RunArtifactModel, RunEventModel, RunModel } from './run.model';
 import { runStatusName, runStatusPhrase } from '../../../shared/display-names';
 
@@ -76,27 +77,37 @@ export async function findRun(projectId: number, runId: number): Promise<RunMode
   return run;
 }
 
-export async function getRun(projectId: number, runId: number): Promise<RunDetail> {
-  const [run] = await select<RunSummaryRow & { convergence: unknown; metrics: unknown; plots: unknown }>(
-    `${SUMMARY_SELECT}, r.convergence, r.metrics, r.plots ${SUMMARY_FROM} WHERE r.id = ? AND r.project_id = ?`,
-    [runId, projectId],
-  );
+/** A JSON column as JSON text, whether the driver hands it over as text or already parsed; `fallback` for NULL. */
+const columnText = (value: unknown, fallback: string) => (value === null || value === undefined ? fallback : typeof value === 'string' ? value : JSON.stringify(value));
+
+/** A run's detail (RunDetail) as JSON text, for the routes that send it as it is. */
+export async function getRunJson(projectId: number, runId: number): Promise<string> {
+  const [run] = await select<RunSummaryRow & { updatedAt: Date }>(`${SUMMARY_SELECT}, r.updated_at AS updatedAt ${SUMMARY_FROM} WHERE r.id = ? AND r.project_id = ?`, [runId, projectId]);
   if (!run) throw new AppError(404, `This project has no run ${runId}`);
-  const [events, artifacts] = await Promise.all([
-    select<{ at: Date; status: RunSummary['status']; stage: string; message: string }>(
-      'SELECT at, status, stage, message FROM run_events WHERE run_id = ? ORDER BY at ASC, id ASC',
-      [runId],
-    ),
+  const finished = FINISHED_STATUSES.includes(run.status);
+  const stamp = run.updatedAt.getTime();
+  const kept = finished ? keptLargeColumns(runId, stamp) : null;
+  const [large, events, artifacts] = await Promise.all([
+    kept !== null
+      ? kept
+      : select<{ convergence: unknown; metrics: unknown; plots: unknown }>('SELECT convergence, metrics, plots FROM runs WHERE id = ?', [runId]).then(([row]) => {
+          const text = `"convergence":${columnText(row?.convergence, '{"a":[],"b":[]}')},"metrics":${columnText(row?.metrics, 'null')},"plots":${columnText(row?.plots, 'null')}`;
+          if (finished) keepLargeColumns(runId, stamp, text);
+          return text;
+        }),
+    select<{ at: Date; status: RunSummary['status']; stage: string; message: string }>('SELECT at, status, stage, message FROM run_events WHERE run_id = ? ORDER BY at ASC, id ASC', [runId]),
     listArtifacts(runId),
   ]);
-  return {
+  const small = JSON.stringify({
     ...toSummary(run),
-    convergence: jsonColumn<RunDetail['convergence']>(run.convergence) ?? { a: [], b: [] },
-    metrics: jsonColumn<RunDetail['metrics']>(run.metrics),
-    plots: jsonColumn<RunDetail['plots']>(run.plots),
     events: events.map((e) => ({ at: e.at.toISOString(), status: e.status, stage: e.stage, message: e.message })),
     artifacts,
-  };
+  });
+  return `${small.slice(0, -1)},${large}}`;
+}
+
+export async function getRun(projectId: number, runId: number): Promise<RunDetail> {
+  return JSON.parse(await getRunJson(projectId, runId)) as RunDetail;
 }
 
 /** Polling-friendly view of a run without its large JSON columns. */
