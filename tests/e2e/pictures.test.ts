@@ -7,19 +7,12 @@
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { RunModel } from '../../server/components/runs/run.model';
-import { screenshot } from '../support/browser';
+import { getJson, screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
 
 const TOMAS = 'tomas.reyes@harbourlight.example';
 const demo = useDemoBrowser();
 
-async function getJson<T>(page: Page, path: string): Promise<T> {
-  return page.evaluate(async (url) => {
-    const res = await fetch(url);
-    if (!res.ok) throw new Error(`${url} answered ${res.status}`);
-    return res.json();
-  }, path) as Promise<T>;
-}
 
 /** The finished run of the demo's twin-image project (two picture holograms). */
 async function twinImageRun(page: Page): Promise<string> {

@@ -7,7 +7,7 @@ import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import type { ReviewThread } from '../../shared/schemas/review';
 import { expectAccessible } from '../support/axe';
-import { screenshot } from '../support/browser';
+import { getJson, screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
 import { waitForMail } from '../support/mailbox';
 
@@ -17,13 +17,6 @@ const KAI = 'kai.brenner@harbourlight.example';
 
 const demo = useDemoBrowser();
 
-async function getJson<T>(page: Page, path: string): Promise<T> {
-  return page.evaluate(async (url) => {
-    const res = await fetch(url);
-    if (!res.ok) throw new Error(`${url} answered ${res.status}`);
-    return res.json();
-  }, path) as Promise<T>;
-}
 
 /** The first succeeded demo run, preferring the Bessel project; waits for the queue to finish one. */
 async function finishedDemoRun(page: Page): Promise<{ projectId: number; projectName: string; runId: number }> {

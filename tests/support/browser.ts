@@ -35,3 +35,12 @@ export async function screenshot(page: Page, name: string) {
   mkdirSync(SCREENSHOT_DIR, { recursive: true });
   await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`), fullPage: true });
 }
+
+/** GET `path` from inside the page, with its session; the JSON answer, or an error naming the status. */
+export async function getJson<T>(page: Page, path: string): Promise<T> {
+  return page.evaluate(async (url) => {
+    const res = await fetch(url);
+    if (!res.ok) throw new Error(`${url} answered ${res.status}`);
+    return res.json();
+  }, path) as Promise<T>;
+}

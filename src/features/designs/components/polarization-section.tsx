@@ -1,12 +1,11 @@
+import { draftPolarizationPair } from '@/features/designs/utils/polarization-pair';
 import { useMemo } from 'react';
-import { polarizationPair, type PolarizationPair } from '@shared/optics/polarization';
 import { Card } from '@/components/ui/card';
 import { DesignNumber, DesignSelect } from '@/features/designs/components/design-inputs';
 import { PolarizationDrawing } from '@/features/designs/components/polarization-drawing';
 import { useDesignEditor } from '@/features/designs/stores/design-editor-store';
 import { CHI_HINT } from '@/features/designs/utils/design-draft';
 
-const DEG = Math.PI / 180;
 
 const kindOptions = [
   { value: 'linear', label: 'Linear (A at ψ, B at ψ + 90°)' },
@@ -26,21 +25,7 @@ export function PolarizationSection() {
   const polarization = useDesignEditor((state) => state.draft?.polarization);
   const setField = useDesignEditor((state) => state.setField);
 
-  const pair = useMemo((): PolarizationPair | null => {
-    if (!polarization) return null;
-    try {
-      switch (polarization.kind) {
-        case 'linear':
-          return polarizationPair({ kind: 'linear', angle: (polarization.angleDeg ?? 0) * DEG });
-        case 'circular':
-          return polarizationPair({ kind: 'circular', handedness: polarization.handedness });
-        case 'elliptical':
-          return polarizationPair({ kind: 'elliptical', psi: polarization.psiDeg * DEG, chi: polarization.chiDeg * DEG });
-      }
-    } catch {
-      return null;
-    }
-  }, [polarization]);
+  const pair = useMemo(() => draftPolarizationPair(polarization), [polarization]);
 
   if (!polarization) return null;
 
