@@ -43,7 +43,8 @@ interface MappingReportCardProps {
   circularPair?: boolean;
 }
 
-const CIRCULAR_ONLY = new Set(['retardanceFarFromPi', 'unconvertedCircular']);
+/** Figures about circular light: they mean nothing for a linear or elliptical pair (older runs kept them). */
+export const CIRCULAR_ONLY = new Set(['retardanceFarFromPi', 'unconvertedCircular']);
 
 /** How well the library realized the ideal cells: the numbers, the error histogram and the most used atoms. */
 export function MappingReportCard({ report, figures, circularPair = true }: MappingReportCardProps) {

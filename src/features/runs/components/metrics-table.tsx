@@ -3,9 +3,10 @@ import type { RunDetail } from '@shared/schemas/runs';
 import { Card } from '@/components/ui/card';
 import { MathText } from '@/components/ui/math-text';
 import { formatMetricValue, metricName, sectionName } from '@/features/runs/components/format-run';
+import { CIRCULAR_ONLY } from '@/features/runs/components/mapping-report-card';
 
 /** Every metric of the run, by section, with its value and unit and the one line that says what it measures. */
-export function MetricsTable({ metrics }: { metrics: NonNullable<RunDetail['metrics']> }) {
+export function MetricsTable({ metrics, circularPair = true }: { metrics: NonNullable<RunDetail['metrics']>; circularPair?: boolean }) {
   const headingId = useId();
   const sections = Object.entries(metrics).filter(([, group]) => group && Object.keys(group).length > 0);
   return (
@@ -32,7 +33,9 @@ export function MetricsTable({ metrics }: { metrics: NonNullable<RunDetail['metr
                 </tr>
               </thead>
               <tbody className="divide-y divide-line/70">
-                {Object.entries(group).map(([key, metric]) => (
+                {Object.entries(group)
+                  .filter(([key]) => circularPair || !CIRCULAR_ONLY.has(key))
+                  .map(([key, metric]) => (
                   <tr key={key} className="align-top">
                     <th scope="row" className="px-3 py-2 text-left font-bold">
                       {metricName(key)}

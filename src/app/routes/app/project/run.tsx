@@ -263,7 +263,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
         {run.status === 'succeeded' && !filesDeleted ? <ToleranceCard projectId={projectId} runId={run.id} canRun={canRun} channelNames={channelNames} /> : null}
       </RunSection>
 
-      <RunSection id="metrics">{run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} /> : null}</RunSection>
+      <RunSection id="metrics">{run.metrics && Object.keys(run.metrics).length > 0 ? <MetricsTable metrics={run.metrics} circularPair={design ? design.polarization.kind === 'circular' : true} /> : null}</RunSection>
 
       <RunSection id="files" className="flex flex-col gap-6">
 
