@@ -2,6 +2,7 @@
  * The `phasewright` command line: batch runs of design files.
  *
  *   phasewright run DESIGN.json --out DIR [--sequential]
+ *   phasewright library build SPEC.json --out atoms.csv
  *   phasewright --help
  *
  * Progress goes to stderr, the summary to stdout. Exit codes: 0 done, 1 the run failed, 2 bad input
@@ -14,12 +15,14 @@ import { DesignUnitsError } from '../../shared/optics/design-units';
 import { CHANNEL_IDS } from '../../shared/optics/pipeline';
 import type { Metric, MetricGroup } from '../../shared/optics/run-metrics';
 import { InputError } from './design-files';
+import { libraryBuildCommand, parseLibraryBuildArgs, type LibraryBuildArgs } from './library-build';
 import { runDesignFile, type RunFileResult } from './run-design-file';
 
 export const USAGE = `Phasewright — design polarization-multiplexed metasurfaces from the command line.
 
 Usage:
   phasewright run DESIGN.json --out DIR [--sequential]
+  phasewright library build SPEC.json --out atoms.csv
   phasewright --help
 
 run          Reads the design file (format phasewright-design/1), retrieves both channels' phases,
@@ -34,6 +37,11 @@ run          Reads the design file (format phasewright-design/1), retrieves both
              Files named in the design are read relative to the design file's folder.
 --out DIR    Folder for the results (created if missing).
 --sequential Retrieve the two channels one after the other on one thread (default: two worker threads).
+library build
+             Computes a meta-atom library by RCWA from SPEC.json (wavelengthNm, periodNm, heightNm,
+             pillar, substrate, superstrate, illumination, sweep {minFeatureNm, minGapNm, stepNm},
+             harmonics; see README) and writes atoms.csv (not approximate, with its source line)
+             and atoms.powers.csv (zeroth-order and other-order powers per atom). One thread.
 --help       This text.
 
 Exit codes: 0 done, 1 the run failed, 2 bad input (the message names the field), 130 interrupted.`;
@@ -44,9 +52,13 @@ interface RunArgs {
   sequential: boolean;
 }
 
-function parseArgs(argv: string[]): { help: true } | { help: false; run: RunArgs } {
+function parseArgs(argv: string[]): { help: true } | { help: false; run: RunArgs } | { help: false; library: LibraryBuildArgs } {
   if (argv.length === 0 || argv.includes('--help') || argv.includes('-h') || argv[0] === 'help') return { help: true };
   const [command, ...rest] = argv;
+  if (command === 'library') {
+    if (rest[0] !== 'build') throw new InputError(`unknown library command '${rest[0] ?? ''}' (try: phasewright library build SPEC.json --out atoms.csv)`);
+    return { help: false, library: parseLibraryBuildArgs(rest.slice(1)) };
+  }
   if (command !== 'run') throw new InputError(`unknown command '${command}' (try: phasewright --help)`);
   let design: string | undefined;
   let out: string | undefined;
@@ -162,6 +174,7 @@ export async function main(argv: string[]): Promise<number> {
     process.stdout.write(`${USAGE}\n`);
     return 0;
   }
+  if ('library' in parsed) return libraryBuildCommand(parsed.library);
   const { design, out, sequential } = parsed.run;
   const controller = new AbortController();
   const onSigint = () => controller.abort(new Error('interrupted'));
