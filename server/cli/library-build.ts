@@ -6,7 +6,7 @@
  */
 import { readFile, writeFile, mkdir } from 'node:fs/promises';
 import { dirname, resolve } from 'node:path';
-import { atomLibraryToCsv } from '../../shared/optics/atoms';
+import { atomLibraryToCsv, checkAtomLibrary } from '../../shared/optics/atoms';
 import { buildAtomLibrary, LibrarySpecError, parseLibrarySpec, type BuiltAtomPowers } from '../../shared/optics/library-builder';
 import { InputError } from './design-files';
 
@@ -88,6 +88,8 @@ export async function libraryBuildCommand(args: LibraryBuildArgs): Promise<numbe
       },
     });
     for (const w of built.warnings) process.stderr.write(`phasewright: warning: ${w}\n`);
+    // The library's own checks (e.g. phase coverage of a coarse sweep): said, not fatal — the file is still written.
+    for (const issue of checkAtomLibrary(built.library).issues) process.stderr.write(`phasewright: note: ${issue.message}\n`);
     const out = resolve(args.out);
     await mkdir(dirname(out), { recursive: true });
     await writeFile(out, atomLibraryToCsv(built.library));

@@ -245,7 +245,7 @@ export function parseLibrarySpec(raw: unknown): ResolvedSpec {
       if (count * count > MAX_LIBRARY_ATOMS) {
         problems.push({ field: 'sweep.stepNm', message: `${count} × ${count} = ${count * count} atoms is more than ${MAX_LIBRARY_ATOMS}: take a larger step` });
       } else {
-        sizes = Array.from({ length: count }, (_, i) => (sweep.minFeatureNm + i * sweep.stepNm) * 1e-9);
+        sizes = Array.from({ length: count }, (_, i) => Math.round((sweep.minFeatureNm + i * sweep.stepNm) * 1e4) / 1e4 / 1e9);
       }
     }
   }
@@ -322,7 +322,8 @@ export interface BuiltLibrary {
 export interface BuildOptions {
   /** fraction 0…1, stage text, detail { atom, atoms, secondsPerAtom }. */
   onProgress?: (fraction: number, stage: string, detail: { atom: number; atoms: number; secondsPerAtom: number }) => void;
-  signal?: AbortSignal;
+  /** An AbortSignal (or anything with throwIfAborted); checked before each atom. */
+  signal?: { readonly aborted: boolean; throwIfAborted(): void };
   /** Clock in ms (tests may pass their own); default performance.now. */
   now?: () => number;
 }
@@ -333,7 +334,10 @@ export function atomFromResult(r: ResolvedSpec, width: number, length: number, r
   return { id, shape: 'rect', width, length, height: r.height, period: r.period, tx: res.tx, alphaX: res.alphaX, ty: res.ty, alphaY: res.alphaY };
 }
 
-const yieldToEventLoop = (): Promise<void> => new Promise((done) => setTimeout(done, 0));
+// The engine is compiled without DOM or Node typings: the timer and clock both environments have, typed here.
+const host = globalThis as unknown as { setTimeout(f: () => void, ms: number): unknown; performance: { now(): number } };
+const yieldToEventLoop = (): Promise<void> => new Promise((done) => host.setTimeout(done, 0));
+const clock = (): number => host.performance.now();
 
 /**
  * Sweeps the spec's width × length grid, one computeAtom per pillar, in order of width then length, on this
@@ -342,7 +346,7 @@ const yieldToEventLoop = (): Promise<void> => new Promise((done) => setTimeout(d
  * Example: (await buildAtomLibrary(parseLibrarySpec(spec))).library.atoms.length → sizes.length².
  */
 export async function buildAtomLibrary(r: ResolvedSpec, options: BuildOptions = {}): Promise<BuiltLibrary> {
-  const now = options.now ?? (() => performance.now());
+  const now = options.now ?? clock;
   const total = r.sizes.length * r.sizes.length;
   const atoms: MetaAtom[] = [];
   const powers: BuiltAtomPowers[] = [];
@@ -403,7 +407,7 @@ export interface BuildCost {
  * Measures the time of one atom at the spec's harmonics (the middle of the sweep, after one untimed warm-up
  * atom) and multiplies by the number of atoms. Costs two atoms' time. Example: estimateBuildCost(r).seconds.
  */
-export function estimateBuildCost(r: ResolvedSpec, now: () => number = () => performance.now()): BuildCost {
+export function estimateBuildCost(r: ResolvedSpec, now: () => number = clock): BuildCost {
   const atoms = r.sizes.length * r.sizes.length;
   if (atoms === 0) return { atoms, secondsPerAtom: 0, seconds: 0 };
   const mid = r.sizes[Math.floor(r.sizes.length / 2)];
