@@ -2,26 +2,41 @@
  * `phasewright library build SPEC.json --out atoms.csv`: computes a meta-atom library by RCWA from a build spec
  * (shared/optics/library-builder.ts) and writes it as atoms.csv (the format `parseAtomLibraryCsv` reads), with a
  * second file beside it, `<out>.powers.csv`, holding each atom's zeroth-order and other-order powers.
- * Sequential, on one thread (no --threads yet). Progress on stderr; exit codes as `run`.
+ * On this thread, or with `--threads N` on N worker threads (library-worker.ts), one atom per worker at a time.
+ * Progress on stderr; exit codes as `run`.
  */
 import { readFile, writeFile, mkdir } from 'node:fs/promises';
 import { dirname, resolve } from 'node:path';
 import { atomLibraryToCsv, checkAtomLibrary } from '../../shared/optics/atoms';
-import { buildAtomLibrary, LibrarySpecError, parseLibrarySpec, type BuiltAtomPowers } from '../../shared/optics/library-builder';
+import { buildAtomLibrary, LibrarySpecError, parseLibrarySpec, type BuiltAtomPowers, type LibrarySpec, type SweepAtom } from '../../shared/optics/library-builder';
 import { InputError } from './design-files';
+import { startTsWorker } from './ts-worker';
+
+/** Most worker threads `--threads` may ask for. */
+const MAX_THREADS = 16;
 
 export interface LibraryBuildArgs {
   spec: string;
   out: string;
+  /** Worker threads; 1: compute on the main thread. */
+  threads: number;
 }
 
 /** Parses the arguments after `library build`. Throws InputError saying what is missing. */
 export function parseLibraryBuildArgs(rest: string[]): LibraryBuildArgs {
   let spec: string | undefined;
   let out: string | undefined;
+  let threads = 1;
+  const threadCount = (text: string | undefined): number => {
+    const v = Number(text);
+    if (!Number.isInteger(v) || v < 1 || v > MAX_THREADS) throw new InputError(`--threads needs a whole number from 1 to ${MAX_THREADS}, got ${text ?? 'nothing'}`);
+    return v;
+  };
   for (let i = 0; i < rest.length; i++) {
     const arg = rest[i];
-    if (arg === '--out' || arg === '-o') {
+    if (arg === '--threads') threads = threadCount(rest[++i]);
+    else if (arg.startsWith('--threads=')) threads = threadCount(arg.slice('--threads='.length));
+    else if (arg === '--out' || arg === '-o') {
       out = rest[++i];
       if (!out) throw new InputError('--out needs a file name, e.g. --out atoms.csv');
     } else if (arg.startsWith('--out=')) out = arg.slice('--out='.length);
@@ -31,7 +46,36 @@ export function parseLibraryBuildArgs(rest: string[]): LibraryBuildArgs {
   }
   if (!spec) throw new InputError('library build needs a spec file: phasewright library build SPEC.json --out atoms.csv');
   if (!out) throw new InputError('library build needs --out FILE.csv');
-  return { spec, out };
+  return { spec, out, threads };
+}
+
+/** `count` worker threads computing sweep atoms of `spec`; compute(index, lane) runs on worker `lane`. */
+function workerPool(spec: LibrarySpec, count: number) {
+  const pending = new Map<number, { resolve: (r: SweepAtom) => void; reject: (e: Error) => void }>();
+  let nextId = 0;
+  const workers = Array.from({ length: count }, () => {
+    const worker = startTsWorker(new URL('./library-worker.ts', import.meta.url), { spec });
+    worker.on('message', (m: { id: number; type: 'done'; result: SweepAtom } | { id: number; type: 'error'; message: string }) => {
+      const p = pending.get(m.id);
+      pending.delete(m.id);
+      if (m.type === 'done') p?.resolve(m.result);
+      else p?.reject(new Error(m.message));
+    });
+    worker.on('error', (error) => {
+      for (const p of pending.values()) p.reject(error);
+      pending.clear();
+    });
+    return worker;
+  });
+  return {
+    compute: (index: number, lane: number): Promise<SweepAtom> =>
+      new Promise((resolve, reject) => {
+        const id = nextId++;
+        pending.set(id, { resolve, reject });
+        workers[lane].postMessage({ id, index });
+      }),
+    close: () => Promise.all(workers.map((w) => w.terminate())),
+  };
 }
 
 function powersCsv(powers: BuiltAtomPowers[]): string {
@@ -70,12 +114,16 @@ export async function libraryBuildCommand(args: LibraryBuildArgs): Promise<numbe
   process.once('SIGINT', onSigint);
   const n = resolved.sizes.length;
   const h = resolved.spec.harmonics;
-  process.stderr.write(`library build: ${n} × ${n} = ${n * n} atoms at ${h}×${h} harmonics, one thread\n`);
+  const threads = Math.min(args.threads, n * n);
+  process.stderr.write(`library build: ${n} × ${n} = ${n * n} atoms at ${h}×${h} harmonics, ${threads > 1 ? `${threads} worker threads` : 'one thread'}\n`);
+  const pool = threads > 1 ? workerPool(resolved.spec, threads) : undefined;
   let lastPercent = -100;
   let lastTime = 0;
   try {
     const built = await buildAtomLibrary(resolved, {
       signal: controller.signal,
+      compute: pool?.compute,
+      lanes: threads,
       onProgress: (fraction, _stage, d) => {
         const percent = Math.floor(100 * fraction);
         const now = Date.now();
@@ -102,7 +150,7 @@ export async function libraryBuildCommand(args: LibraryBuildArgs): Promise<numbe
         `Library "${built.library.name}": ${built.library.atoms.length} atoms, not approximate`,
         `Source: ${built.library.source}`,
         `Zeroth-order transmittance ${Math.min(...zero).toFixed(3)}–${Math.max(...zero).toFixed(3)}; power in other orders up to ${Math.max(...other).toFixed(3)}`,
-        `Time: ${(built.secondsPerAtom * 1000).toFixed(1)} ms per atom`,
+        `Time: ${(built.secondsPerAtom * 1000).toFixed(1)} ms per atom (wall time${threads > 1 ? ` on ${threads} threads` : ''})`,
         `Wrote ${out}`,
         `Wrote ${powersOut}`,
       ].join('\n') + '\n',
@@ -117,5 +165,6 @@ export async function libraryBuildCommand(args: LibraryBuildArgs): Promise<numbe
     return 1;
   } finally {
     process.off('SIGINT', onSigint);
+    await pool?.close();
   }
 }

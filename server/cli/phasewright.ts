@@ -2,7 +2,7 @@
  * The `phasewright` command line: batch runs of design files.
  *
  *   phasewright run DESIGN.json --out DIR [--sequential]
- *   phasewright library build SPEC.json --out atoms.csv
+ *   phasewright library build SPEC.json --out atoms.csv [--threads N]
  *   phasewright --help
  *
  * Progress goes to stderr, the summary to stdout. Exit codes: 0 done, 1 the run failed, 2 bad input
@@ -22,7 +22,7 @@ export const USAGE = `Phasewright — design polarization-multiplexed metasurfac
 
 Usage:
   phasewright run DESIGN.json --out DIR [--sequential]
-  phasewright library build SPEC.json --out atoms.csv
+  phasewright library build SPEC.json --out atoms.csv [--threads N]
   phasewright --help
 
 run          Reads the design file (format phasewright-design/1), retrieves both channels' phases,
@@ -41,7 +41,8 @@ library build
              Computes a meta-atom library by RCWA from SPEC.json (wavelengthNm, periodNm, heightNm,
              pillar, substrate, superstrate, illumination, sweep {minFeatureNm, minGapNm, stepNm},
              harmonics; see README) and writes atoms.csv (not approximate, with its source line)
-             and atoms.powers.csv (zeroth-order and other-order powers per atom). One thread.
+             and atoms.powers.csv (zeroth-order and other-order powers per atom).
+--threads N  library build: compute on N worker threads (default 1: the main thread).
 --help       This text.
 
 Exit codes: 0 done, 1 the run failed, 2 bad input (the message names the field), 130 interrupted.`;

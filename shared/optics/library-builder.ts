@@ -315,7 +315,7 @@ export interface BuiltLibrary {
   powers: BuiltAtomPowers[];
   /** Lattice-diffraction warnings with their numbers (empty when P < λ/n on both sides). */
   warnings: string[];
-  /** Mean wall time per atom, seconds. */
+  /** Wall time of the sweep divided by its atoms, seconds (with several lanes: less than one atom's time). */
   secondsPerAtom: number;
 }
 
@@ -326,6 +326,10 @@ export interface BuildOptions {
   signal?: { readonly aborted: boolean; throwIfAborted(): void };
   /** Clock in ms (tests may pass their own); default performance.now. */
   now?: () => number;
+  /** Computes atom `index` elsewhere (e.g. on worker thread `lane`); default computeSweepAtom on this thread. */
+  compute?: (index: number, lane: number) => Promise<SweepAtom>;
+  /** Atoms in flight at once with `compute` (one per worker); default 1. */
+  lanes?: number;
 }
 
 /** The atom of a w × l pillar from a computeAtom result. */
@@ -339,40 +343,66 @@ const host = globalThis as unknown as { setTimeout(f: () => void, ms: number): u
 const yieldToEventLoop = (): Promise<void> => new Promise((done) => host.setTimeout(done, 0));
 const clock = (): number => host.performance.now();
 
+/** One atom of the sweep with its powers. */
+export interface SweepAtom {
+  atom: MetaAtom;
+  powers: BuiltAtomPowers;
+}
+
+/** The sweep's atom number `index` (widths outer, lengths inner: index = i_w · sizes.length + i_l), by computeAtom. */
+export function computeSweepAtom(r: ResolvedSpec, index: number): SweepAtom {
+  const n = r.sizes.length;
+  if (!Number.isInteger(index) || index < 0 || index >= n * n) throw new RangeError(`atom index ${index} is outside the sweep of ${n * n} atoms`);
+  const width = r.sizes[Math.floor(index / n)];
+  const length = r.sizes[index % n];
+  const res = computeAtom(specCell(r, width, length), { lambda: r.lambda, harmonics: r.spec.harmonics, illumination: r.spec.illumination });
+  const atom = atomFromResult(r, width, length, res);
+  return {
+    atom,
+    powers: {
+      id: atom.id,
+      zeroOrderX: res.x.zeroOrderTransmitted,
+      zeroOrderY: res.y.zeroOrderTransmitted,
+      otherOrdersX: res.x.otherOrdersTransmitted,
+      otherOrdersY: res.y.otherOrdersTransmitted,
+      reflectedX: res.x.reflected,
+      reflectedY: res.y.reflected,
+    },
+  };
+}
+
 /**
- * Sweeps the spec's width × length grid, one computeAtom per pillar, in order of width then length, on this
- * thread; yields to the event loop between atoms so that `signal` (abort) and progress reach the caller.
- * Returns a library marked not approximate with its source line, and the per-atom powers.
+ * Sweeps the spec's width × length grid, one computeAtom per pillar (widths outer, lengths inner). By default on
+ * this thread, yielding to the event loop between atoms so that `signal` (abort) and progress reach the caller;
+ * with `options.compute` (e.g. worker threads) `lanes` atoms at a time, lane k always calling compute(index, k).
+ * Returns a library marked not approximate with its source line, and the per-atom powers, in sweep order.
  * Example: (await buildAtomLibrary(parseLibrarySpec(spec))).library.atoms.length → sizes.length².
  */
 export async function buildAtomLibrary(r: ResolvedSpec, options: BuildOptions = {}): Promise<BuiltLibrary> {
   const now = options.now ?? clock;
   const total = r.sizes.length * r.sizes.length;
-  const atoms: MetaAtom[] = [];
-  const powers: BuiltAtomPowers[] = [];
-  const start = now();
-  let done = 0;
-  for (const width of r.sizes) {
-    for (const length of r.sizes) {
-      options.signal?.throwIfAborted();
-      const res = computeAtom(specCell(r, width, length), { lambda: r.lambda, harmonics: r.spec.harmonics, illumination: r.spec.illumination });
-      const atom = atomFromResult(r, width, length, res);
-      atoms.push(atom);
-      powers.push({
-        id: atom.id,
-        zeroOrderX: res.x.zeroOrderTransmitted,
-        zeroOrderY: res.y.zeroOrderTransmitted,
-        otherOrdersX: res.x.otherOrdersTransmitted,
-        otherOrdersY: res.y.otherOrdersTransmitted,
-        reflectedX: res.x.reflected,
-        reflectedY: res.y.reflected,
-      });
-      done++;
-      const secondsPerAtom = (now() - start) / 1000 / done;
-      options.onProgress?.(done / total, 'RCWA sweep', { atom: done, atoms: total, secondsPerAtom });
+  const results: SweepAtom[] = new Array(total);
+  const compute =
+    options.compute ??
+    (async (index: number): Promise<SweepAtom> => {
+      const result = computeSweepAtom(r, index);
       await yieldToEventLoop();
+      return result;
+    });
+  const lanes = options.compute ? Math.max(1, Math.min(options.lanes ?? 1, total)) : 1;
+  const start = now();
+  let next = 0;
+  let done = 0;
+  const lane = async (k: number): Promise<void> => {
+    while (next < total) {
+      options.signal?.throwIfAborted();
+      const index = next++;
+      results[index] = await compute(index, k);
+      done++;
+      options.onProgress?.(done / total, 'RCWA sweep', { atom: done, atoms: total, secondsPerAtom: (now() - start) / 1000 / done });
     }
-  }
+  };
+  await Promise.all(Array.from({ length: lanes }, (_, k) => lane(k)));
   options.signal?.throwIfAborted();
   const nm = (v: number): string => `${Math.round(v * 1e10) / 10} nm`;
   const library: AtomLibrary = {
@@ -383,9 +413,14 @@ export async function buildAtomLibrary(r: ResolvedSpec, options: BuildOptions = 
     material: `${materialShort(r.spec.pillar)} pillars on ${materialShort(r.spec.substrate)} under ${materialShort(r.spec.superstrate)}`,
     approximate: false,
     source: specSource(r),
-    atoms,
+    atoms: results.map((x) => x.atom),
   };
-  return { library, powers, warnings: specDiffraction(r).map((d) => d.message), secondsPerAtom: total > 0 ? (now() - start) / 1000 / total : 0 };
+  return {
+    library,
+    powers: results.map((x) => x.powers),
+    warnings: specDiffraction(r).map((d) => d.message),
+    secondsPerAtom: total > 0 ? (now() - start) / 1000 / total : 0,
+  };
 }
 
 function materialShort(m: SpecMaterial): string {

@@ -202,6 +202,14 @@ describe('phasewright library build', () => {
     expect(read.library.atoms[3].tx).toBe(direct.tx);
   });
 
+  it('--threads 2 computes the same file on worker threads', () => {
+    const res = cli(['library', 'build', 'spec.json', '--out', 'threads/atoms.csv', '--threads', '2']);
+    expect(res.stderr).toMatch(/4 atoms at 5×5 harmonics, 2 worker threads/);
+    expect(res.status).toBe(0);
+    expect(readFileSync(join(dir, 'threads', 'atoms.csv'), 'utf8')).toBe(readFileSync(join(dir, 'lib', 'atoms.csv'), 'utf8'));
+    expect(readFileSync(join(dir, 'threads', 'atoms.powers.csv'), 'utf8')).toBe(readFileSync(join(dir, 'lib', 'atoms.powers.csv'), 'utf8'));
+  });
+
   it('exits 2 naming the field for a bad spec, and for missing arguments', () => {
     writeFileSync(join(dir, 'bad.json'), JSON.stringify({ ...demoSpec, sweep: { ...demoSpec.sweep, stepNm: 'big' } }));
     const bad = cli(['library', 'build', 'bad.json', '--out', 'x.csv']);
@@ -211,5 +219,8 @@ describe('phasewright library build', () => {
     expect(noOut.status).toBe(2);
     expect(noOut.stderr).toMatch(/--out/);
     expect(cli(['library', 'make']).status).toBe(2);
+    const threads = cli(['library', 'build', 'spec.json', '--out', 'x.csv', '--threads', '0']);
+    expect(threads.status).toBe(2);
+    expect(threads.stderr).toMatch(/--threads needs a whole number from 1 to 16, got 0/);
   });
 });
