@@ -87,7 +87,8 @@ export async function getRun(projectId: number, runId: number): Promise<RunDetai
       'SELECT at, status, stage, message FROM run_events WHERE run_id = ? ORDER BY at ASC, id ASC',
       [runId],
     ),
-    listArtifacts(runId),
+    // A run's files are shown only once it succeeded: never a partial set of a run still going or cut short.
+    run.status === 'succeeded' ? listArtifacts(runId) : [],
   ]);
   return {
     ...toSummary(run),
