@@ -219,6 +219,7 @@ export function createRedisRunWorker(options: RedisRunWorkerOptions): RedisRunWo
   async function runJob(runId: number) {
     const row = await RunModel.findByPk(runId, { attributes: ['id', 'status', 'attempts'] });
     if (!row) return;
+    logger.info({ runId, status: row.status }, 'run taken');
     if (row.status === 'running') {
       // The job was stalled: the worker that held it stopped mid-run.
       const outcome = await requeueInterrupted(row, 'a worker');
