@@ -62,6 +62,14 @@ function startWorker(): WorkerProcess {
   return worker;
 }
 
+const alive = (worker: WorkerProcess) => worker.child.exitCode === null && worker.child.signalCode === null;
+
+/** Two live worker processes (each test may also run alone). */
+function twoWorkers(): WorkerProcess[] {
+  while (workers.filter(alive).length < 2) startWorker();
+  return workers.filter(alive);
+}
+
 async function stopWorker(worker: WorkerProcess) {
   if (worker.child.exitCode !== null || worker.child.signalCode !== null) return;
   const exited = new Promise((resolve) => worker.child.once('exit', resolve));
@@ -115,7 +123,7 @@ describe('worker processes on one Redis queue', () => {
   it('two workers share six queued runs, all succeed, and the arrays equal the embedded engine\'s byte for byte', async () => {
     const ids: number[] = [];
     for (let i = 0; i < 6; i++) ids.push(await startRun(designer, projectId, SHARED_DESIGN));
-    const [a, b] = [startWorker(), startWorker()];
+    const [a, b] = twoWorkers();
     const runs: RunDetail[] = [];
     for (const id of ids) runs.push(await waitForRun(designer, projectId, id, undefined, 120_000));
     for (const run of runs) expect(run.status, run.error ?? '').toBe('succeeded');
@@ -133,6 +141,7 @@ describe('worker processes on one Redis queue', () => {
   }, 180_000);
 
   it('a cancel on the server stops the run on the worker process holding it within 2 s', async () => {
+    twoWorkers();
     const id = await startRun(designer, projectId, twinImageDesign({ cells: 512, iterations: 2000, name: 'Long twin' }));
     await waitForRun(designer, projectId, id, (run) => run.status === 'running' && run.stage === 'phase retrieval', 60_000);
     const holder = workers.find((w) => w.taken.includes(id))!;
@@ -150,10 +159,11 @@ describe('worker processes on one Redis queue', () => {
   }, 90_000);
 
   it('a worker killed with SIGKILL mid-run: another worker finishes the run as attempt 2, with one set of files', async () => {
+    twoWorkers();
     const id = await startRun(designer, projectId, twinImageDesign({ cells: 256, iterations: 400, name: 'Killed twin' }));
     await waitForRun(designer, projectId, id, (run) => run.status === 'running' && run.stage === 'phase retrieval', 60_000);
     const holder = workers.find((w) => w.taken.includes(id))!;
-    const other = workers.find((w) => w !== holder && w.child.exitCode === null && w.child.signalCode === null)!;
+    const other = workers.find((w) => w !== holder && alive(w))!;
     holder.child.kill('SIGKILL');
     const run = await waitForRun(designer, projectId, id, undefined, 120_000);
     expect(run.status, run.error ?? '').toBe('succeeded');

@@ -29,6 +29,8 @@ export interface RunQueue {
   enqueueTolerance(studyId: number): void;
   /** What the queue is doing now, for the health check; answers at once (no database). */
   state(): RunQueueState;
+  /** A distributed engine's own job counts per state (BullMQ's getJobCounts), for the admin page. */
+  counts?(): Promise<Record<string, number>>;
 }
 
 export interface RunQueueState {
