@@ -6,7 +6,7 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { RunArtifactModel } from '../../server/components/runs/run.model';
+import { RunArtifactModel, RunModel } from '../../server/components/runs/run.model';
 import type { RunDetail } from '../../shared/schemas/runs';
 import { download, twinImageDesign, waitForRun } from '../support/designs';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
@@ -138,7 +138,30 @@ describe('worker processes on one Redis queue', () => {
         expect((await files(designer, projectId, run, name)).equals(expected), `${name} of run ${run.id}`).toBe(true);
       }
     }
+    // The admin page's counts come from BullMQ itself.
+    const admin = await signedInClient(t.app, await makeUser({ siteRole: 'admin', name: 'Queue Admin' }));
+    const queue = await admin.get('/api/admin/run-queue');
+    expect(queue.status).toBe(200);
+    expect(queue.body.engine).toBe('redis');
+    expect(queue.body.counts.completed).toBeGreaterThanOrEqual(6);
+    expect(queue.body.counts).toMatchObject({ waiting: 0, failed: 0 });
   }, 180_000);
+
+  it('a queued run whose job Redis lost is given a new job when the server recovers, and runs', async () => {
+    twoWorkers();
+    const revisionId = (await designer.post(`/api/projects/${projectId}/revisions`, { design: twinImageDesign(), message: '' })).body.revision.id as number;
+    // A row queued with no job in Redis: what a Redis restarted without its data leaves behind.
+    const lost = await RunModel.create({ projectId, revisionId, startedById: null, queuedAt: new Date(), stage: 'queued' });
+    await new Promise((r) => setTimeout(r, 1000));
+    expect((await RunModel.findByPk(lost.id))!.status).toBe('queued');
+    const outcome = await t.ctx.runQueue.recover();
+    expect(outcome.requeued).toContain(lost.id);
+    const run = await waitForRun(designer, projectId, lost.id, undefined, 60_000);
+    expect(run.status, run.error ?? '').toBe('succeeded');
+    expect(run.attempts).toBe(1);
+    // A second recovery finds its job and adds none.
+    expect((await t.ctx.runQueue.recover()).requeued).toEqual([]);
+  }, 90_000);
 
   it('a cancel on the server stops the run on the worker process holding it within 2 s', async () => {
     twoWorkers();
