@@ -105,10 +105,16 @@ export function createRedisRunQueue(options: { logger: Logger; redis: RedisSetti
       const { requeued, failed } = await runQueue.recover();
       if (requeued.length || failed.length) logger.info({ requeued, failed }, 'runs given back to the queue');
       // Back from a Redis outage (or a Redis restarted without its data): queued rows get their jobs again.
-      let first = true;
+      let lost = false;
+      publisher.on('close', () => (lost = true));
       publisher.on('ready', () => {
-        if (first) return void (first = false);
-        void runQueue.recover().catch((err: unknown) => logger.error({ err }, 'runs could not be given back to the queue'));
+        if (!lost || !accepting) return;
+        lost = false;
+        logger.info('Redis answers again: giving queued runs their jobs back');
+        void runQueue
+          .recover()
+          .then(({ requeued, failed }) => logger.info({ requeued, failed }, 'runs given back to the queue'))
+          .catch((err: unknown) => logger.error({ err }, 'runs could not be given back to the queue'));
       });
       countTimer = setInterval(() => void refreshCounts().catch(() => undefined), 2_000).unref();
       await refreshCounts().catch(() => undefined);

@@ -1,7 +1,8 @@
 /**
  * The run queue: one interface for whatever executes runs. The default is embedded — a piscina pool of
- * worker threads (one per core) inside the server process, so runs never use the request thread. A queue on
- * a distributed engine can take its place behind the same interface when one machine is outgrown.
+ * worker threads (one per core) inside the server process, so runs never use the request thread. When one
+ * machine is outgrown, RUN_QUEUE=redis puts BullMQ on Redis behind the same interface (run-queue-redis.ts),
+ * with worker processes executing runs; both engines execute with the same code (run-executor.ts).
  *
  * The run row is the source of truth (run-state.ts): the queue only moves it along. A server stop leaves
  * running runs as they are; `recover()` at the next start queues them again.
