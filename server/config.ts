@@ -74,6 +74,8 @@ const envSchema = z.object({
   RUN_STALLED_CHECK_SECONDS: z.coerce.number().min(0.1).max(3600).default(30),
   /** How long a worker's hold on a run lasts without renewal, s; a run not renewed in time is taken by another worker. */
   RUN_LOCK_SECONDS: z.coerce.number().min(0.2).max(3600).default(30),
+  /** How often the server compares the queued and running runs with the jobs in Redis and gives any without one a job, s. */
+  RUN_QUEUE_RECHECK_SECONDS: z.coerce.number().min(0).max(3600).default(30),
   /** Queued + running runs (tolerance studies included) one person may have at once, over all projects. */
   RUNS_PER_USER: z.coerce.number().int().min(1).default(4),
   /** Queued + running runs (tolerance studies included) of one project at once. */

@@ -12,7 +12,7 @@ export function executorOptions(config: AppConfig, logger: Logger, threads = con
 
 /** RUN_QUEUE=embedded: runs on this process's threads; RUN_QUEUE=redis: this process only enqueues. */
 export function createConfiguredRunQueue(config: AppConfig, logger: Logger, threads = config.RUN_WORKERS): RunQueue {
-  if (config.RUN_QUEUE === 'redis') return createRedisRunQueue({ logger, redis: config });
+  if (config.RUN_QUEUE === 'redis') return createRedisRunQueue({ logger, redis: config, recheckMs: config.RUN_QUEUE_RECHECK_SECONDS * 1000 });
   return createEmbeddedRunQueue(executorOptions(config, logger, threads));
 }
 

@@ -18,7 +18,7 @@ import { EventEmitter } from 'node:events';
 import { Queue, Worker, type Job } from 'bullmq';
 import { Redis } from 'ioredis';
 import type { Logger } from 'pino';
-import { Op } from 'sequelize';
+import { ConnectionError, Op } from 'sequelize';
 import type { AppConfig } from '../../config';
 import { ToleranceStudyModel } from '../tolerance/tolerance.model';
 import { createRunExecutor, type RunExecutorOptions } from './run-executor';
@@ -51,7 +51,12 @@ function connect(url: string, logger: Logger, name: string): Redis {
   return redis;
 }
 
-export function createRedisRunQueue(options: { logger: Logger; redis: RedisSettings }): RunQueue & { counts(): Promise<RunQueueCounts> } {
+export function createRedisRunQueue(options: {
+  logger: Logger;
+  redis: RedisSettings;
+  /** How often the rows are compared with the jobs again, ms (0: only at start and reconnect). */
+  recheckMs?: number;
+}): RunQueue & { counts(): Promise<RunQueueCounts> } {
   const { logger } = options;
   const { REDIS_URL: url, REDIS_PREFIX: prefix } = options.redis;
   const names = channels(prefix);
@@ -64,6 +69,7 @@ export function createRedisRunQueue(options: { logger: Logger; redis: RedisSetti
   let accepting = false;
   let counts: RunQueueCounts = { waiting: 0, active: 0, delayed: 0, completed: 0, failed: 0, paused: 0 };
   let countTimer: NodeJS.Timeout | null = null;
+  let recheckTimer: NodeJS.Timeout | null = null;
 
   async function add(job: QueueJob) {
     if (!queue) return;
@@ -117,12 +123,22 @@ export function createRedisRunQueue(options: { logger: Logger; redis: RedisSetti
           .catch((err: unknown) => logger.error({ err }, 'runs could not be given back to the queue'));
       });
       countTimer = setInterval(() => void refreshCounts().catch(() => undefined), 2_000).unref();
+      // A job that ended without its row (a worker lost MariaDB while storing a result) is caught up here.
+      if (options.recheckMs) {
+        recheckTimer = setInterval(() => {
+          void runQueue
+            .recover()
+            .then(({ requeued, failed }) => (requeued.length || failed.length) && logger.info({ requeued, failed }, 'runs without a job given back to the queue'))
+            .catch((err: unknown) => logger.warn({ err }, 'run rows could not be compared with the queue'));
+        }, options.recheckMs).unref();
+      }
       await refreshCounts().catch(() => undefined);
     },
 
     async stop() {
       accepting = false;
       if (countTimer) clearInterval(countTimer);
+      if (recheckTimer) clearInterval(recheckTimer);
       await queue?.close();
       subscriber?.disconnect();
       publisher?.disconnect();
@@ -222,6 +238,27 @@ export function createRedisRunWorker(options: RedisRunWorkerOptions): RedisRunWo
   /** Never settles: a job abandoned at shutdown stays active in Redis until its lock expires. */
   const abandon = () => new Promise<never>(() => undefined);
 
+  /**
+   * Runs `work` again once MariaDB answers when it failed for want of a connection: the worker waits for the
+   * database rather than failing the job (its run stays queued and its hold on the job is kept meanwhile).
+   */
+  async function withDatabase(work: () => Promise<void>): Promise<void> {
+    for (;;) {
+      try {
+        return await work();
+      } catch (err) {
+        if (!(err instanceof ConnectionError) || stopping) throw err;
+        logger.warn({ err: err.message }, 'MariaDB does not answer: waiting for it');
+        for (;;) {
+          await new Promise((resolve) => setTimeout(resolve, 1_000));
+          if (stopping) await abandon();
+          if (await RunModel.sequelize!.authenticate().then(() => true, () => false)) break;
+        }
+        logger.info('MariaDB answers again');
+      }
+    }
+  }
+
   async function runJob(runId: number) {
     const row = await RunModel.findByPk(runId, { attributes: ['id', 'status', 'attempts'] });
     if (!row) return;
@@ -269,7 +306,7 @@ export function createRedisRunWorker(options: RedisRunWorkerOptions): RedisRunWo
       await subscriber.subscribe(names.cancel);
       worker = new Worker<QueueJob>(
         QUEUE_NAME,
-        async (job: Job<QueueJob>) => (job.data.kind === 'run' ? runJob(job.data.id) : toleranceJob(job.data.id)),
+        async (job: Job<QueueJob>) => withDatabase(() => (job.data.kind === 'run' ? runJob(job.data.id) : toleranceJob(job.data.id))),
         {
           connection: connect(url, logger, 'worker'),
           prefix,
