@@ -15,7 +15,14 @@ async function main() {
   const config = loadConfig();
   const logger = pino({ level: config.LOG_LEVEL }).child({ worker: process.pid });
   const sequelize = createSequelize(config);
-  await sequelize.authenticate();
+  // A worker may start before the database does (or while it is away): it waits rather than giving up.
+  for (let said = false; ; ) {
+    const error = await sequelize.authenticate().then(() => null, (err: Error) => err);
+    if (!error) break;
+    if (!said) logger.warn({ err: error.message }, 'MariaDB does not answer: waiting for it');
+    said = true;
+    await new Promise((resolve) => setTimeout(resolve, 1_000));
+  }
   const worker = createRedisRunWorker(workerOptions(config, logger));
   await worker.start();
   logger.info({ redis: config.REDIS_URL.replace(/\/\/[^@]*@/, '//…@'), threads: config.RUN_WORKERS ?? 'one per core' }, 'run worker taking jobs');

@@ -27,7 +27,8 @@ export interface TestApp {
 
 /** The environment of a test server on its own fresh, empty database (no tables yet). */
 export async function createTestDatabase(env: Record<string, string> = {}): Promise<{ env: Record<string, string>; dbName: string }> {
-  const dbPort = inject('dbPort');
+  // DB_PORT in `env`: a MariaDB of the test's own (with the same test account) instead of the shared one.
+  const dbPort = env.DB_PORT ? Number(env.DB_PORT) : inject('dbPort');
   const dbName = `pw_test_${randomBytes(6).toString('hex')}`;
   const admin = await mariadb.createConnection({ host: '127.0.0.1', port: dbPort, user: TEST_DB_USER, password: TEST_DB_PASSWORD });
   await admin.query(`CREATE DATABASE \`${dbName}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);

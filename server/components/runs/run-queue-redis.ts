@@ -208,6 +208,11 @@ export function createRedisRunQueue(options: {
   return runQueue;
 }
 
+/** A failure for want of MariaDB (refused, or the connection cut: the driver marks those fatal), not of the query. */
+function lostDatabase(err: unknown): boolean {
+  return err instanceof ConnectionError || (err as { parent?: { fatal?: boolean } } | null)?.parent?.fatal === true;
+}
+
 export interface RedisRunWorkerOptions extends RunExecutorOptions {
   redis: RedisSettings;
   /** BullMQ's check for jobs whose worker stopped renewing its lock, ms. */
@@ -247,8 +252,8 @@ export function createRedisRunWorker(options: RedisRunWorkerOptions): RedisRunWo
       try {
         return await work();
       } catch (err) {
-        if (!(err instanceof ConnectionError) || stopping) throw err;
-        logger.warn({ err: err.message }, 'MariaDB does not answer: waiting for it');
+        if (!lostDatabase(err) || stopping) throw err;
+        logger.warn({ err: (err as Error).message }, 'MariaDB does not answer: waiting for it');
         for (;;) {
           await new Promise((resolve) => setTimeout(resolve, 1_000));
           if (stopping) await abandon();
