@@ -6,6 +6,7 @@
  * then stops them in order — server, mail fake, MariaDB.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
+import { availableParallelism } from 'node:os';
 import { isLoopback, loadConfig, seedsDemo } from '../server/config';
 import { createSequelize, migrateUp } from '../server/db/database';
 import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemo } from '../server/db/seed-demo';
@@ -98,12 +99,14 @@ async function main() {
     }
   });
   if (redisMode) {
-    say(`Starting ${config.RUN_WORKER_PROCESSES} run worker process(es) (RUN_WORKER_PROCESSES)`);
+    // The cores shared among the local workers (one thread each per core), unless RUN_WORKERS says otherwise.
+    const threads = config.RUN_WORKERS ?? Math.max(1, Math.floor(availableParallelism() / Math.max(1, config.RUN_WORKER_PROCESSES)));
+    say(`Starting ${config.RUN_WORKER_PROCESSES} run worker process(es) of ${threads} thread(s) (RUN_WORKER_PROCESSES, RUN_WORKERS)`);
     for (let i = 0; i < config.RUN_WORKER_PROCESSES; i++) {
       const worker = spawn(process.execPath, ['--import', 'tsx', 'server/worker-main.ts'], {
         stdio: ['inherit', 'inherit', 'inherit', 'ipc'],
         detached: true,
-        env: { ...process.env, NODE_ENV: dev ? 'development' : 'production' },
+        env: { ...process.env, NODE_ENV: dev ? 'development' : 'production', RUN_WORKERS: String(threads) },
       });
       children.push(worker);
       worker.on('exit', (code) => {
