@@ -1,15 +1,18 @@
 /**
  * Runs the whole local stack for `npm start` (and `npm run dev` with --dev): private MariaDB on loopback,
- * the mail fake, migrations, demo seed, client build, and the server. Ctrl-C stops everything it started:
+ * the mail fake, migrations, demo seed, client build, and the server. With RUN_QUEUE=redis also a private
+ * Redis on loopback (append-only file in REDIS_DATA_DIR) and RUN_WORKER_PROCESSES worker processes. Ctrl-C stops everything it started:
  * children run in their own process groups (detached) so a terminal Ctrl-C reaches only this script, which
  * then stops them in order — server, mail fake, MariaDB.
  */
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
-import { loadConfig, seedsDemo } from '../server/config';
+import { availableParallelism } from 'node:os';
+import { isLoopback, loadConfig, seedsDemo } from '../server/config';
 import { createSequelize, migrateUp } from '../server/db/database';
 import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemo } from '../server/db/seed-demo';
 import { startMailFake } from './lib/mail-fake';
 import { startMariaDb } from './lib/mariadb';
+import { startRedis } from './lib/redis';
 import { waitForHealth } from './lib/wait-for-health';
 
 const dev = process.argv.includes('--dev');
@@ -50,6 +53,19 @@ async function main() {
   const mail = await startMailFake(config.SMTP_PORT, mailWebPort);
   stoppers.push(() => mail.stop());
 
+  const redisMode = config.RUN_QUEUE === 'redis';
+  if (redisMode) {
+    const redisUrl = new URL(config.REDIS_URL);
+    if (isLoopback(redisUrl.hostname)) {
+      const port = Number(redisUrl.port || 6379);
+      say(`Starting Redis on 127.0.0.1:${port} (append-only file in ${config.REDIS_DATA_DIR})`);
+      const redis = await startRedis({ port, dataDir: config.REDIS_DATA_DIR, password: redisUrl.password ? decodeURIComponent(redisUrl.password) : undefined });
+      stoppers.push(() => redis.stop());
+    } else {
+      say(`Using the Redis at ${redisUrl.hostname}:${redisUrl.port || 6379} (REDIS_URL is not loopback: not started here)`);
+    }
+  }
+
   const sequelize = createSequelize(config);
   const applied = await migrateUp(sequelize);
   say(applied.length ? `Applied migrations: ${applied.join(', ')}` : 'Database schema is up to date');
@@ -82,6 +98,22 @@ async function main() {
       void stopAll(code || 1);
     }
   });
+  if (redisMode) {
+    // The cores shared among the local workers (one thread each per core), unless RUN_WORKERS says otherwise.
+    const threads = config.RUN_WORKERS ?? Math.max(1, Math.floor(availableParallelism() / Math.max(1, config.RUN_WORKER_PROCESSES)));
+    say(`Starting ${config.RUN_WORKER_PROCESSES} run worker process(es) of ${threads} thread(s) (RUN_WORKER_PROCESSES, RUN_WORKERS)`);
+    for (let i = 0; i < config.RUN_WORKER_PROCESSES; i++) {
+      const worker = spawn(process.execPath, ['--import', 'tsx', 'server/worker-main.ts'], {
+        stdio: ['inherit', 'inherit', 'inherit', 'ipc'],
+        detached: true,
+        env: { ...process.env, NODE_ENV: dev ? 'development' : 'production', RUN_WORKERS: String(threads) },
+      });
+      children.push(worker);
+      worker.on('exit', (code) => {
+        if (!stopping) console.error(`A run worker process exited (code ${code}); its runs go to the other workers.`);
+      });
+    }
+  }
   let url = config.publicUrl;
   if (dev) {
     const vite = spawn('node_modules/.bin/vite', ['--host', '127.0.0.1', '--port', '5173', '--strictPort'], {

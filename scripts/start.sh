@@ -6,4 +6,6 @@ cd "$(dirname "$0")/.."
 source scripts/lib/ensure-system.sh
 ensure_node_modules
 ensure_apt mariadbd mariadb-server
+# RUN_QUEUE=redis: runs go through a private Redis to worker processes.
+if [ "${RUN_QUEUE:-embedded}" = redis ]; then ensure_apt redis-server redis-server; fi
 exec node --import tsx scripts/stack.ts "$@"

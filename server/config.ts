@@ -60,6 +60,22 @@ const envSchema = z.object({
   RUN_WORKER_NICE: z.coerce.number().int().min(0).max(19).default(10),
   /** Helper threads inside each run (both channels retrieved at once); omitted: on when 2·RUN_WORKERS ≤ cores. */
   RUN_HELPER_THREADS: flag.optional(),
+  /** Where runs execute: `embedded` (worker threads in the server) or `redis` (BullMQ; `npm run worker` processes). */
+  RUN_QUEUE: z.enum(['embedded', 'redis']).default('embedded'),
+  /** The Redis of RUN_QUEUE=redis, e.g. redis://:password@10.0.0.5:6380/0 (rediss:// for TLS). */
+  REDIS_URL: z.string().url('use a URL such as redis://127.0.0.1:6380').default('redis://127.0.0.1:6380'),
+  /** Prefix of the queue's keys in Redis: installations sharing one Redis use different ones. */
+  REDIS_PREFIX: z.string().regex(/^[A-Za-z0-9_-]+$/, 'letters, digits, _ and - only').default('phasewright'),
+  /** Data folder of the private Redis that `RUN_QUEUE=redis npm start` runs on loopback. */
+  REDIS_DATA_DIR: z.string().min(1).default('.data/redis'),
+  /** Worker processes `RUN_QUEUE=redis npm start` starts on this machine (0: only the ones you start elsewhere). */
+  RUN_WORKER_PROCESSES: z.coerce.number().int().min(0).max(64).default(2),
+  /** How often a worker process looks for runs whose worker stopped answering (BullMQ stalled jobs), s. */
+  RUN_STALLED_CHECK_SECONDS: z.coerce.number().min(0.1).max(3600).default(30),
+  /** How long a worker's hold on a run lasts without renewal, s; a run not renewed in time is taken by another worker. */
+  RUN_LOCK_SECONDS: z.coerce.number().min(0.2).max(3600).default(30),
+  /** How often the server compares the queued and running runs with the jobs in Redis and gives any without one a job, s. */
+  RUN_QUEUE_RECHECK_SECONDS: z.coerce.number().min(0).max(3600).default(30),
   /** Queued + running runs (tolerance studies included) one person may have at once, over all projects. */
   RUNS_PER_USER: z.coerce.number().int().min(1).default(4),
   /** Queued + running runs (tolerance studies included) of one project at once. */

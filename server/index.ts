@@ -3,7 +3,7 @@ import pino from 'pino';
 import { createApp } from './app';
 import { stopLayoutJobs } from './components/fab/layout-jobs';
 import { stopCompareJobs } from './components/runs/run-compare-jobs';
-import { createEmbeddedRunQueue } from './components/runs/run-queue';
+import { createConfiguredRunQueue } from './components/runs/run-queue-config';
 import { loadConfig } from './config';
 import { createSequelize, migrateUp } from './db/database';
 import { createMailer } from './lib/mailer';
@@ -21,13 +21,8 @@ async function main() {
   const applied = await migrateUp(sequelize);
   if (applied.length) logger.info({ applied }, 'migrations applied');
   const mailer = createMailer(config, logger);
-  const runQueue = createEmbeddedRunQueue({
-    logger,
-    threads: config.RUN_WORKERS,
-    parallelWithinRuns: config.RUN_HELPER_THREADS,
-    limits: config,
-    nice: config.RUN_WORKER_NICE,
-  });
+  // RUN_QUEUE=redis: runs execute on `npm run worker` processes; this process only enqueues.
+  const runQueue = createConfiguredRunQueue(config, logger);
   const { app, inputs } = createApp({ config, sequelize, mailer, logger, runQueue });
   await runQueue.start();
   const server: Server = app.listen(config.PORT, config.HOST, () => {

@@ -149,6 +149,7 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'get', path: '/admin/users', summary: 'All accounts', role: 'admin', ok: [200, '`{ users }`'] },
   { method: 'post', path: '/admin/users', summary: 'Invite a new account by e-mail', role: 'admin', body: createUserSchema, ok: [201, '`{ user }`'] },
   { method: 'patch', path: '/admin/users/:userId', summary: 'Change role or disable an account', role: 'admin', body: updateUserSchema, ok: [200, '`{ user }`'] },
+  { method: 'get', path: '/admin/run-queue', summary: 'The run queue: engine, this process\'s state and, with RUN_QUEUE=redis, BullMQ\'s job counts per state (null when Redis does not answer)', role: 'admin', ok: [200, '`{ engine, state, counts }`'] },
   { method: 'get', path: '/admin/audit', summary: 'Security events, newest first (filter by account and kind)', role: 'admin', query: listAuditQuerySchema, ok: [200, '`{ events, total, page, pageSize }`'] },
 ];
 

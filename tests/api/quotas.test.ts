@@ -11,7 +11,7 @@ import { RunModel } from '../../server/components/runs/run.model';
 import { ToleranceStudyModel } from '../../server/components/tolerance/tolerance.model';
 import { UserModel } from '../../server/components/users/user.model';
 import { deflectorDesign, twinImageDesign, waitForRun } from '../support/designs';
-import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
+import { createTestApp, makeUser, RUN_QUEUE_ENGINES, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
 
 let t: TestApp;
 let owner: ApiClient;
@@ -67,10 +67,11 @@ function within<T>(promise: Promise<T>, ms: number, what: string): Promise<T> {
 }
 
 // Each test app lives in its own describe, one after another: the models bind to the latest app's database.
-describe('with small limits', () => {
+describe.each(RUN_QUEUE_ENGINES)('with small limits (%s run queue)', (engine) => {
   beforeAll(async () => {
     // 0.05 minutes = 3 s: long enough for a run to start on a loaded machine, far shorter than the long design.
     t = await createTestApp({
+      RUN_QUEUE: engine,
       RUNS_PER_USER: '2',
       RUNS_PER_PROJECT: '3',
       RUN_TIME_LIMIT_MINUTES: '0.05',

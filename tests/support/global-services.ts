@@ -1,5 +1,5 @@
 /**
- * vitest global setup for API and browser tests: a throw-away MariaDB on loopback and the mail fake,
+ * vitest global setup for API and browser tests: a throw-away MariaDB and Redis on loopback and the mail fake,
  * started once per test run and stopped afterwards.
  */
 import { mkdtempSync, rmSync } from 'node:fs';
@@ -9,12 +9,15 @@ import type { TestProject } from 'vitest/node';
 import { freePort } from '../../scripts/lib/free-port';
 import { startMailFake } from '../../scripts/lib/mail-fake';
 import { startMariaDb } from '../../scripts/lib/mariadb';
+import { startRedis } from '../../scripts/lib/redis';
 
 declare module 'vitest' {
   export interface ProvidedContext {
     dbPort: number;
     smtpPort: number;
     mailWebPort: number;
+    /** The test Redis (RUN_QUEUE=redis); each test file uses its own key prefix. */
+    redisUrl: string;
   }
 }
 
@@ -29,11 +32,14 @@ export default async function setup(project: TestProject) {
   // Each test file creates its own pw_test_… database: the test user may create and use those, nothing else.
   const db = await startMariaDb({ dataDir, port: dbPort, user: TEST_DB_USER, password: TEST_DB_PASSWORD, databases: [], grants: [TEST_DB_PATTERN] });
   const mail = await startMailFake(smtpPort, mailWebPort);
+  const redis = await startRedis({ port: await freePort(), dataDir: null });
+  project.provide('redisUrl', redis.url);
   project.provide('dbPort', dbPort);
   project.provide('smtpPort', smtpPort);
   project.provide('mailWebPort', mailWebPort);
   return async () => {
     await mail.stop();
+    await redis.stop();
     await db.stop();
     rmSync(dataDir, { recursive: true, force: true });
   };

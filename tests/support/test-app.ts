@@ -10,7 +10,8 @@ import { loadConfig } from '../../server/config';
 import type { AppContext } from '../../server/context';
 import { stopLayoutJobs } from '../../server/components/fab/layout-jobs';
 import { stopCompareJobs } from '../../server/components/runs/run-compare-jobs';
-import { createEmbeddedRunQueue } from '../../server/components/runs/run-queue';
+import { createConfiguredRunQueue, workerOptions } from '../../server/components/runs/run-queue-config';
+import { createRedisRunWorker, type RedisRunWorker } from '../../server/components/runs/run-queue-redis';
 import { createSequelize, migrateUp } from '../../server/db/database';
 import { createMailer } from '../../server/lib/mailer';
 import { UserModel } from '../../server/components/users/user.model';
@@ -26,7 +27,8 @@ export interface TestApp {
 
 /** The environment of a test server on its own fresh, empty database (no tables yet). */
 export async function createTestDatabase(env: Record<string, string> = {}): Promise<{ env: Record<string, string>; dbName: string }> {
-  const dbPort = inject('dbPort');
+  // DB_PORT in `env`: a MariaDB of the test's own (with the same test account) instead of the shared one.
+  const dbPort = env.DB_PORT ? Number(env.DB_PORT) : inject('dbPort');
   const dbName = `pw_test_${randomBytes(6).toString('hex')}`;
   const admin = await mariadb.createConnection({ host: '127.0.0.1', port: dbPort, user: TEST_DB_USER, password: TEST_DB_PASSWORD });
   await admin.query(`CREATE DATABASE \`${dbName}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`);
@@ -46,12 +48,22 @@ export async function createTestDatabase(env: Record<string, string> = {}): Prom
       LOG_LEVEL: 'silent',
       CLIENT_DIST: '/nonexistent-client-dist',
       PUBLIC_URL: 'http://127.0.0.1:5999',
+      // RUN_QUEUE=redis: the test Redis, with this file's own keys.
+      REDIS_URL: inject('redisUrl'),
+      REDIS_PREFIX: dbName,
       ...env,
     },
   };
 }
 
-export async function createTestApp(env: Record<string, string> = {}): Promise<TestApp> {
+/** The run queue engines the queue and run tests run against. */
+export const RUN_QUEUE_ENGINES = ['embedded', 'redis'] as const;
+
+/**
+ * `worker`: with RUN_QUEUE=redis, also a worker in this process (on the same database connection) taking the
+ * queue's runs; false when the test starts worker processes of its own.
+ */
+export async function createTestApp(env: Record<string, string> = {}, options: { worker?: boolean } = {}): Promise<TestApp> {
   const database = await createTestDatabase(env);
   const dbName = database.dbName;
   const config = loadConfig(database.env);
@@ -59,21 +71,18 @@ export async function createTestApp(env: Record<string, string> = {}): Promise<T
   const sequelize = createSequelize(config);
   await migrateUp(sequelize);
   const mailer = createMailer(config, logger);
-  const runQueue = createEmbeddedRunQueue({
-    logger,
-    threads: config.RUN_WORKERS ?? 1,
-    parallelWithinRuns: config.RUN_HELPER_THREADS,
-    limits: config,
-    nice: config.RUN_WORKER_NICE,
-  });
+  const runQueue = createConfiguredRunQueue(config, logger, config.RUN_WORKERS ?? 1);
+  const worker: RedisRunWorker | null =
+    config.RUN_QUEUE === 'redis' && options.worker !== false ? createRedisRunWorker(workerOptions(config, logger, config.RUN_WORKERS ?? 1)) : null;
   const ctx: AppContext = { config, sequelize, mailer, logger, runQueue };
   const { app, inputs } = createApp(ctx);
   await runQueue.start();
+  await worker?.start();
   return {
     app,
     ctx,
     async close() {
-      await Promise.all([runQueue.stop(), stopLayoutJobs(), stopCompareJobs()]);
+      await Promise.all([runQueue.stop(), worker?.stop(), stopLayoutJobs(), stopCompareJobs()]);
       await inputs.close();
       await mailer.drain();
       await sequelize.query(`DROP DATABASE \`${dbName}\``);

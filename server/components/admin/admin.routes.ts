@@ -28,6 +28,11 @@ export function adminRoutes(ctx: AppContext) {
     res.json({ user: await updateUser(currentUser(req), parseId(req.params.userId, 'userId'), input) });
   });
 
+  router.get('/run-queue', async (_req, res) => {
+    const counts = ctx.runQueue.counts ? await ctx.runQueue.counts().catch(() => null) : null;
+    res.json({ engine: ctx.config.RUN_QUEUE, state: ctx.runQueue.state(), counts });
+  });
+
   router.get('/audit', async (req, res) => {
     res.json(await listAuditEvents(parseInput(listAuditQuerySchema, req.query, 'query')));
   });

@@ -123,18 +123,28 @@ export async function recoverInterrupted(): Promise<{ requeue: number[]; failed:
   const failed: number[] = [];
   for (const run of stale) {
     if (run.status === 'running') {
-      if (run.attempts >= MAX_ATTEMPTS) {
-        if (await markFailed(run.id, `the server stopped during this run ${run.attempts} times; start a new run, and if it keeps stopping, make the design smaller or tell your administrator`, ['running'])) {
-          failed.push(run.id);
-        }
-        continue;
-      }
-      await deleteArtifacts(run.id);
-      const ok = await transition(run.id, ['running'], { status: 'queued', progress: 0, stage: 'queued', convergence: null, startedAt: null });
-      if (!ok) continue;
-      await addEvent(run.id, 'queued', 'queued', `the server stopped during attempt ${run.attempts}; queued again`);
+      const outcome = await requeueInterrupted(run, 'the server');
+      if (outcome === 'failed') failed.push(run.id);
+      if (outcome !== 'queued') continue;
     }
     requeue.push(run.id);
   }
   return { requeue, failed };
+}
+
+/**
+ * A run left running by a holder that stopped (the server, or a worker process whose job was found stalled):
+ * queued again with its partial files deleted, or failed once it has had MAX_ATTEMPTS starts. Null when the
+ * row had moved on meanwhile.
+ */
+export async function requeueInterrupted(run: { id: number; attempts: number }, holder: 'the server' | 'a worker'): Promise<'queued' | 'failed' | null> {
+  if (run.attempts >= MAX_ATTEMPTS) {
+    const message = `${holder} stopped during this run ${run.attempts} times; start a new run, and if it keeps stopping, make the design smaller or tell your administrator`;
+    return (await markFailed(run.id, message, ['running'])) ? 'failed' : null;
+  }
+  await deleteArtifacts(run.id);
+  const ok = await transition(run.id, ['running'], { status: 'queued', progress: 0, stage: 'queued', convergence: null, startedAt: null });
+  if (!ok) return null;
+  await addEvent(run.id, 'queued', 'queued', `${holder} stopped during attempt ${run.attempts}; queued again`);
+  return 'queued';
 }

@@ -96,7 +96,8 @@ export async function getRunJson(projectId: number, runId: number): Promise<stri
           return text;
         }),
     select<{ at: Date; status: RunSummary['status']; stage: string; message: string }>('SELECT at, status, stage, message FROM run_events WHERE run_id = ? ORDER BY at ASC, id ASC', [runId]),
-    listArtifacts(runId),
+    // A run's files are shown only once it succeeded: never a partial set of a run still going or cut short.
+    run.status === 'succeeded' ? listArtifacts(runId) : [],
   ]);
   const small = JSON.stringify({
     ...toSummary(run),
