@@ -75,6 +75,22 @@ export function createRunPool(threads: number, nice = 0): Piscina<RunTask, RunTa
   });
 }
 
+/**
+ * `write` again when MariaDB chose it as a deadlock's victim (error 1213: "try restarting transaction"), as a
+ * run's start can meet the request that queues the next run of the same project.
+ */
+async function retryOnDeadlock<T>(write: () => Promise<T>, tries = 5): Promise<T> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await write();
+    } catch (err) {
+      const code = (err as { parent?: { errno?: number } }).parent?.errno;
+      if (code !== 1213 || attempt >= tries) throw err;
+      await new Promise((resolve) => setTimeout(resolve, 20 * attempt));
+    }
+  }
+}
+
 interface ActiveRun {
   controller: AbortController;
   /** Why the task was aborted, if it was. */
@@ -157,7 +173,12 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
       onMessage(message: RunProgressMessage) {
         if (message.type === 'started') {
           void later(async () => {
-            if (!(await markStarted(runId))) return controller.abort('cancel');
+            // A task computing while its row still says queued would be taken again: give up the task instead.
+            const started = await retryOnDeadlock(() => markStarted(runId)).catch((err: unknown) => {
+              logger.error({ err, runId }, 'run could not be marked started; it stays queued');
+              return false;
+            });
+            if (!started) return controller.abort('cancel');
             changed(runId);
             if (timeLimitMs !== null && !controller.signal.aborted) {
               entry.deadline = setTimeout(() => void later(() => stopAtTimeLimit(runId, entry)), timeLimitMs).unref();
