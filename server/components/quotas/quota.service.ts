@@ -13,6 +13,7 @@ import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
 import { ProjectModel } from '../projects/project.model';
 import { UserModel } from '../users/user.model';
+import { retryOnDeadlock } from '../../db/retry';
 
 const MIB = 1024 * 1024;
 
@@ -81,14 +82,14 @@ export async function reserveRunFiles<T>(
   adding: number,
   createRows: (transaction: Transaction) => Promise<T>,
 ): Promise<{ refusal: string } | { rows: T }> {
-  return ProjectModel.sequelize!.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
+  return retryOnDeadlock(() => ProjectModel.sequelize!.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
     await lockOwners(null, projectId, transaction);
     const used = await storedBytes(projectId, transaction);
     if (!fits(config, used, adding)) {
       return { refusal: `${storageUse(config, used)}; this run's files (${formatBytes(adding)}) do not fit, so they were not kept. Delete uploads or the files of old runs, then start the run again.` };
     }
     return { rows: await createRows(transaction) };
-  });
+  }));
 }
 
 /** 413 unless `adding` more bytes fit the project's storage quota. */
@@ -109,11 +110,11 @@ export async function requireStorageRoom(config: AppConfig, projectId: number, b
  * lock, after checking the storage quota; 413 naming the quota when they do not fit.
  */
 export async function withStorage<T>(ctx: AppContext, projectId: number, bytes: number, what: string, insert: (transaction: Transaction) => Promise<T>): Promise<T> {
-  return ctx.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
+  return retryOnDeadlock(() => ctx.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
     await lockOwners(null, projectId, transaction);
     requireRoom(ctx.config, await storedBytes(projectId, transaction), bytes, what);
     return insert(transaction);
-  });
+  }));
 }
 
 /**
@@ -127,7 +128,7 @@ export async function withRunSlot<T>(
   insert: (transaction: Transaction) => Promise<T>,
 ): Promise<T> {
   const { config } = ctx;
-  return ctx.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
+  return retryOnDeadlock(() => ctx.sequelize.transaction({ isolationLevel: Transaction.ISOLATION_LEVELS.READ_COMMITTED }, async (transaction) => {
     await lockOwners(slot.userId, slot.projectId, transaction);
     const active = await activeWork(slot.userId, slot.projectId, transaction);
     if (active.user >= config.RUNS_PER_USER) {
@@ -144,7 +145,7 @@ export async function withRunSlot<T>(
     }
     if (slot.needsStorage) requireRoom(config, await storedBytes(slot.projectId, transaction), 1, 'a new run’s files');
     return insert(transaction);
-  });
+  }));
 }
 
 /** The message of a run or study stopped at RUN_TIME_LIMIT_MINUTES. */

@@ -27,6 +27,7 @@ import { addEvent, markFailed, markStarted, markSucceeded, recordProgress } from
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
 import { RunArtifactModel, RunModel } from './run.model';
 import { deletedUploadsMessage } from './run.service';
+import { retryOnDeadlock } from '../../db/retry';
 
 export interface RunExecutorOptions {
   logger: Logger;
@@ -73,22 +74,6 @@ export function createRunPool(threads: number, nice = 0): Piscina<RunTask, RunTa
     execArgv: workerExecArgv(WORKER_FILE),
     workerData,
   });
-}
-
-/**
- * `write` again when MariaDB chose it as a deadlock's victim (error 1213: "try restarting transaction"), as a
- * run's start can meet the request that queues the next run of the same project.
- */
-async function retryOnDeadlock<T>(write: () => Promise<T>, tries = 5): Promise<T> {
-  for (let attempt = 1; ; attempt++) {
-    try {
-      return await write();
-    } catch (err) {
-      const code = (err as { parent?: { errno?: number } }).parent?.errno;
-      if (code !== 1213 || attempt >= tries) throw err;
-      await new Promise((resolve) => setTimeout(resolve, 20 * attempt));
-    }
-  }
 }
 
 interface ActiveRun {
