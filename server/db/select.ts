@@ -23,3 +23,9 @@ export function jsonColumn<T>(value: unknown): T | null {
   if (value === null || value === undefined) return null;
   return (typeof value === 'string' ? JSON.parse(value) : value) as T;
 }
+
+/** A JSON column as JSON text, whether the driver hands it over as text or already parsed; `fallback` for NULL. */
+export function jsonColumnText(value: unknown, fallback: string): string {
+  if (value === null || value === undefined) return fallback;
+  return typeof value === 'string' ? value : JSON.stringify(value);
+}

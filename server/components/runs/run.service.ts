@@ -2,7 +2,7 @@ import type { Transaction } from 'sequelize';
 import type { Design } from '../../../shared/schemas/design';
 import { FINISHED_STATUSES, type ListRunsQuery, type RunDetail, type RunHeadline, type RunSummary } from '../../../shared/schemas/runs';
 import type { AppContext } from '../../context';
-import { jsonColumn, select } from '../../db/select';
+import { jsonColumn, jsonColumnText, select } from '../../db/select';
 import { AppError } from '../../lib/app-error';
 import { withRunSlot } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
@@ -77,9 +77,6 @@ export async function findRun(projectId: number, runId: number): Promise<RunMode
   return run;
 }
 
-/** A JSON column as JSON text, whether the driver hands it over as text or already parsed; `fallback` for NULL. */
-const columnText = (value: unknown, fallback: string) => (value === null || value === undefined ? fallback : typeof value === 'string' ? value : JSON.stringify(value));
-
 /** A run's detail (RunDetail) as JSON text, for the routes that send it as it is. */
 export async function getRunJson(projectId: number, runId: number): Promise<string> {
   const [run] = await select<RunSummaryRow & { updatedAt: Date }>(`${SUMMARY_SELECT}, r.updated_at AS updatedAt ${SUMMARY_FROM} WHERE r.id = ? AND r.project_id = ?`, [runId, projectId]);
@@ -91,7 +88,7 @@ export async function getRunJson(projectId: number, runId: number): Promise<stri
     kept !== null
       ? kept
       : select<{ convergence: unknown; metrics: unknown; plots: unknown }>('SELECT convergence, metrics, plots FROM runs WHERE id = ?', [runId]).then(([row]) => {
-          const text = `"convergence":${columnText(row?.convergence, '{"a":[],"b":[]}')},"metrics":${columnText(row?.metrics, 'null')},"plots":${columnText(row?.plots, 'null')}`;
+          const text = `"convergence":${jsonColumnText(row?.convergence, '{"a":[],"b":[]}')},"metrics":${jsonColumnText(row?.metrics, 'null')},"plots":${jsonColumnText(row?.plots, 'null')}`;
           if (finished) keepLargeColumns(runId, stamp, text);
           return text;
         }),
