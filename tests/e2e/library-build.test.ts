@@ -1,0 +1,110 @@
+/**
+ * Computing an atom library in a real browser: the demo designer fills "Compute a library" with a tiny sweep
+ * (3 × 3 pillars, 5 × 5 harmonics), sees the server's field message for a bad step and the cost estimate with
+ * the lattice-diffraction warning of the demo period, starts the build, follows its progress to the maps over
+ * (w, l), and opens the composer with the stored library chosen. A viewer of the project sees the build but no
+ * way to start or cancel one.
+ */
+import type { Page } from 'playwright-core';
+import { describe, expect, it } from 'vitest';
+import { expectAccessible } from '../support/axe';
+import { getJson, screenshot } from '../support/browser';
+import { useDemoBrowser } from '../support/demo-browser';
+
+const demo = useDemoBrowser();
+const PROJECT = 'Twin-image security tag';
+const NAME = 'Tiny Si₃N₄ sweep';
+
+async function openAtomLibraries(page: Page): Promise<number> {
+  await page.getByRole('table', { name: 'Projects' }).getByText(PROJECT).click();
+  await page.waitForURL(/\/projects\/\d+/);
+  const projectId = Number(/projects\/(\d+)/.exec(page.url())![1]);
+  await page.goto(`${demo.server.url}/projects/${projectId}/atom-libraries`);
+  await page.getByRole('heading', { name: 'Library builds' }).waitFor();
+  return projectId;
+}
+
+describe('computing an atom library', () => {
+  it('a designer estimates, starts and follows a build, then uses the library in a design', async () => {
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, 'tomas.reyes@harbourlight.example');
+    const projectId = await openAtomLibraries(page);
+    const form = page.getByRole('form', { name: 'Compute a library' });
+
+    await form.getByLabel('Library name').fill(NAME);
+    await form.getByLabel('Pillar material').selectOption('silicon-nitride');
+    await form.getByLabel('Substrate', { exact: true }).selectOption('fused-silica');
+    await form.getByLabel('Illumination side').selectOption('substrate');
+    await form.getByLabel('Wavelength λ').fill('633');
+    await form.getByLabel('Period P').fill('450');
+    await form.getByLabel('Pillar height').fill('1200');
+    await form.getByLabel('Smallest feature').fill('100');
+    await form.getByLabel('Smallest gap').fill('150');
+    await form.getByLabel('Harmonics').selectOption('5');
+    await form.getByLabel('Proposed subset size N').fill('4');
+
+    // A step of 0 is refused by the server's spec check, with the message under the Step box.
+    await form.getByLabel('Step', { exact: false }).fill('0');
+    const stepBox = form.getByLabel('Step', { exact: false });
+    await expect.poll(async () => stepBox.getAttribute('aria-invalid'), { timeout: 15_000 }).toBe('true');
+    const stepMessage = await page.locator(`#${await stepBox.getAttribute('aria-describedby')}`).last().innerText();
+    expect(stepMessage).toMatch(/must be|step/i);
+
+    // 100, 200, 300 nm: 3 × 3 atoms. P = 450 nm ≥ 633 nm / n(fused silica) ≈ 434 nm: the lattice diffracts in the substrate.
+    await stepBox.fill('100');
+    const estimate = page.getByTestId('build-estimate');
+    await expect.poll(async () => (await estimate.count()) && (await estimate.innerText()), { timeout: 15_000 }).toMatch(/^9 atoms ×/);
+    expect(await stepBox.getAttribute('aria-invalid')).toBeNull();
+    const warning = page.getByRole('status').filter({ hasText: 'The lattice itself diffracts' });
+    await warning.waitFor();
+    expect(await warning.innerText()).toMatch(/450(\.0)? nm ≥ λ\/n = 633(\.0)? nm\/1\.45\d* = 43\d\.\d nm/);
+    await screenshot(page, 'library-build-01-form');
+    await expectAccessible(page, 'library-build-01-form');
+
+    await form.getByRole('button', { name: 'Start computing' }).click();
+    await page.waitForURL(/\/atom-libraries\/builds\/\d+$/);
+    const buildId = Number(/builds\/(\d+)$/.exec(page.url())![1]);
+    await page.getByRole('heading', { name: NAME }).waitFor();
+    await page.getByRole('progressbar', { name: 'Atoms computed' }).waitFor();
+    expect(await page.getByTestId('build-progress').innerText()).toMatch(/waiting for a worker|starting|atom \d+ of 9|All 9 atoms computed/);
+    await screenshot(page, 'library-build-02-progress');
+
+    await page.getByText('All 9 atoms computed').waitFor({ timeout: 240_000 });
+    for (const title of ['|t| for x-polarized input', 'Phase for x-polarized input', '|t| for y-polarized input', 'Phase for y-polarized input', 'Zeroth-order transmittance, x input', 'Power in other orders, y input']) {
+      await page.getByRole('img', { name: new RegExp(`^${title.replace(/[|()]/g, '\\$&')}: 3 × 3 atoms`) }).waitFor();
+    }
+    await page.getByRole('heading', { name: 'Phase coverage' }).first().waitFor();
+    await page.getByRole('heading', { name: 'Convergence against harmonics' }).waitFor();
+    await page.getByRole('heading', { name: 'Proposed subset of 4 atoms' }).waitFor();
+    const { build } = await getJson<{ build: { status: string; libraryId: number | null } }>(page, `/api/projects/${projectId}/library-builds/${buildId}`);
+    expect(build.status).toBe('succeeded');
+    expect(build.libraryId).not.toBeNull();
+    await screenshot(page, 'library-build-03-done');
+    await expectAccessible(page, 'library-build-03-done');
+
+    await page.getByRole('link', { name: 'Use in a design' }).click();
+    await page.waitForURL(new RegExp(`/projects/${projectId}/design`));
+    const picker = page.getByLabel('Library to map atoms from');
+    await expect.poll(async () => picker.inputValue(), { timeout: 20_000 }).toBe(String(build.libraryId));
+    expect(await picker.locator('option:checked').innerText()).toContain(NAME);
+    // The library was computed at P = 450 nm and 633 nm, the design takes them: no mismatch.
+    expect(await page.getByText('This library does not fit the design').count()).toBe(0);
+    expect(page.url()).not.toContain('library=');
+    await screenshot(page, 'library-build-04-composer');
+    await page.close();
+  });
+
+  it('a viewer sees the project’s builds but cannot start or cancel one', async () => {
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, 'kai.brenner@harbourlight.example');
+    await openAtomLibraries(page);
+    await page.getByRole('table', { name: 'Library builds of this project' }).getByRole('link', { name: NAME }).waitFor();
+    expect(await page.getByRole('heading', { name: 'Compute a library' }).count()).toBe(0);
+    expect(await page.getByRole('button', { name: 'Start computing' }).count()).toBe(0);
+    await page.getByRole('table', { name: 'Library builds of this project' }).getByRole('link', { name: NAME }).click();
+    await page.getByRole('heading', { name: NAME }).waitFor();
+    expect(await page.getByRole('button', { name: 'Cancel build' }).count()).toBe(0);
+    await screenshot(page, 'library-build-05-viewer');
+    await page.close();
+  });
+});
