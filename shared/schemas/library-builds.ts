@@ -1,32 +1,43 @@
 /**
- * Library builds: an RCWA sweep of pillars run as a background job, whose result is stored as an atom library.
- * What the API sends and accepts (the spec itself is `LibrarySpec` of shared/optics/library-builder.ts,
- * checked by `parseLibrarySpec`).
+ * Library builds: computing a meta-atom library by RCWA on the run workers (server/components/library-builds/).
+ * The spec is the command line's SPEC.json (`LibrarySpec` of shared/optics/library-builder.ts, lengths in nm),
+ * checked field by field by `parseLibrarySpec` on the server; these schemas check the body around it.
  */
 import { z } from 'zod';
-import type { LibrarySpec } from '../optics/library-builder';
+import { MAX_LIBRARY_ATOMS, type LibrarySpec } from '../optics/library-builder';
 
 export const LIBRARY_BUILD_STATUSES = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const;
 export type LibraryBuildStatus = (typeof LIBRARY_BUILD_STATUSES)[number];
+
 export const LIBRARY_BUILD_SCOPES = ['project', 'personal'] as const;
 export type LibraryBuildScope = (typeof LIBRARY_BUILD_SCOPES)[number];
 
 /** POST …/library-builds/estimate. */
-export const libraryBuildEstimateBodySchema = z.object({ spec: z.unknown() }).strict();
+export const libraryEstimateRequestSchema = z
+  .object({ spec: z.unknown().refine((v) => v !== undefined, 'spec is missing: send the build spec as { "spec": { … } }') })
+  .strict();
+
 /** POST …/library-builds. */
-export const startLibraryBuildBodySchema = z
+export const libraryBuildRequestSchema = z
   .object({
-    spec: z.unknown(),
-    scope: z.enum(LIBRARY_BUILD_SCOPES),
-    subsetSize: z.number().int().min(1).optional(),
+    spec: z.unknown().refine((v) => v !== undefined, 'spec is missing: send the build spec as { "spec": { … }, "scope": … }'),
+    scope: z.enum(LIBRARY_BUILD_SCOPES, { error: `scope must be one of ${LIBRARY_BUILD_SCOPES.join(', ')}` }),
+    subsetSize: z
+      .number({ error: 'subsetSize must be a whole number of atoms' })
+      .int('subsetSize must be a whole number of atoms')
+      .min(1, 'subsetSize must be at least 1')
+      .max(MAX_LIBRARY_ATOMS, `subsetSize must be at most ${MAX_LIBRARY_ATOMS}`)
+      .optional(),
   })
   .strict();
-export type StartLibraryBuildBody = { spec: LibrarySpec; scope: LibraryBuildScope; subsetSize?: number };
+export type LibraryBuildRequest = z.infer<typeof libraryBuildRequestSchema>;
 
+/** The cost of a build before it starts. */
 export interface LibraryBuildEstimate {
   atoms: number;
   harmonics: number;
   secondsPerAtom: number;
+  /** Sweep and convergence report together, wall time on the threads one build gets. */
   seconds: number;
   /** How the figure was obtained. */
   basis: string;
@@ -35,9 +46,11 @@ export interface LibraryBuildEstimate {
 }
 
 export interface LibraryBuildProgress {
+  /** Atoms done. */
   atom: number;
   atoms: number;
   fraction: number;
+  /** Wall time of the sweep so far divided by the atoms done. */
   secondsPerAtom: number;
 }
 
@@ -49,7 +62,7 @@ export interface LibraryBuild {
   status: LibraryBuildStatus;
   progress: LibraryBuildProgress | null;
   error: string | null;
-  /** The stored atom library when succeeded. */
+  /** The stored atom library (not approximate) once the build succeeded. */
   libraryId: number | null;
   spec: LibrarySpec;
   estimateSeconds: number;
@@ -76,11 +89,12 @@ export interface LibraryBuildAtom {
   reflectedY: number;
 }
 
-export interface LibraryBuildConvergence {
-  atomId: string;
-  widthNm: number;
-  lengthNm: number;
-  rows: Array<{ harmonics: number; tx: number; alphaX: number; ty: number; alphaY: number }>;
+export interface LibraryConvergenceRow {
+  harmonics: number;
+  tx: number;
+  alphaX: number;
+  ty: number;
+  alphaY: number;
 }
 
 export interface LibraryBuildResult {
@@ -88,7 +102,8 @@ export interface LibraryBuildResult {
   sizesNm: number[];
   /** Sweep order: widths outer, lengths inner. */
   atoms: LibraryBuildAtom[];
-  convergence: LibraryBuildConvergence[];
-  /** Proposed subset atom ids, when subsetSize was given. */
+  /** The smallest, middle and largest square pillar of the sweep at increasing harmonics (the last row: the build's own). */
+  convergence: Array<{ atomId: string; widthNm: number; lengthNm: number; rows: LibraryConvergenceRow[] }>;
+  /** Proposed subset atom ids (proposeSubset), when subsetSize was given. */
   subset: string[] | null;
 }

@@ -1,6 +1,6 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { LibrarySpec } from '@shared/optics/library-builder';
-import type { LibraryBuild, LibraryBuildEstimate, LibraryBuildResult, StartLibraryBuildBody } from '@shared/schemas/library-builds';
+import type { LibraryBuild, LibraryBuildEstimate, LibraryBuildResult, LibraryBuildRequest } from '@shared/schemas/library-builds';
 import { api } from '@/lib/api-client';
 import { designKeys } from '@/features/designs/api/query-keys';
 import { atomLibraryKeys } from '@/features/atom-libraries/api/query-keys';
@@ -53,7 +53,7 @@ export function useLibraryBuildEstimate(projectId: number, spec: LibrarySpec | n
 export function useStartLibraryBuild(projectId: number) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: StartLibraryBuildBody) => api.post<{ build: LibraryBuild }>(base(projectId), body),
+    mutationFn: (body: LibraryBuildRequest) => api.post<{ build: LibraryBuild }>(base(projectId), body),
     onSuccess: async ({ build }) => {
       queryClient.setQueryData(libraryBuildKeys.detail(projectId, build.id), { build, result: null });
       await queryClient.invalidateQueries({ queryKey: libraryBuildKeys.list(projectId) });

@@ -1,5 +1,5 @@
 import { CartesianGrid, Legend, Line, LineChart, Tooltip, XAxis, YAxis } from 'recharts';
-import type { LibraryBuildConvergence } from '@shared/schemas/library-builds';
+import type { LibraryBuildResult } from '@shared/schemas/library-builds';
 import { roundTick } from '@/lib/format';
 
 const GRID = '#ddd3c1';
@@ -7,6 +7,7 @@ const TICK = { fill: '#5e4d6e', fontSize: 12 };
 const chartStyle = { width: '100%', height: 280 };
 const COLOURS = ['#27686a', '#b94721', '#5e4d6e', '#c28a1e', '#2f5d9b', '#8a3f6b'];
 
+type LibraryBuildConvergence = LibraryBuildResult['convergence'][number];
 type Key = 'tx' | 'ty' | 'alphaX' | 'alphaY';
 
 /** a − b, phases wrapped to (−π, π]. Example: change('alphaX', 3.1, −3.1) ≈ −0.083. */
