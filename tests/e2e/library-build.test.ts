@@ -1,9 +1,10 @@
 /**
- * Computing an atom library in a real browser: the demo designer fills "Compute a library" with a tiny sweep
- * (3 × 3 pillars, 5 × 5 harmonics), sees the server's field message for a bad step and the cost estimate with
- * the lattice-diffraction warning of the demo period, starts the build, follows its progress to the maps over
- * (w, l), and opens the composer with the stored library chosen. A viewer of the project sees the build but no
- * way to start or cancel one.
+ * Computing an atom library in a real browser: the demo designer fills "Compute a library" with a small sweep
+ * (7 × 7 pillars at 5 × 5 harmonics: about the fewest that the stored library's check accepts, which wants
+ * phase steps of at most 2π/8 on each axis), sees the server's field message for a bad step, the cost estimate
+ * and the lattice-diffraction warning of the demo period, starts the build, follows its progress to the maps
+ * over (w, l), and opens the composer with the stored library chosen. A viewer of the project then sees the
+ * build but no way to start or cancel one (the second test uses the first one's build).
  */
 import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
@@ -38,8 +39,8 @@ describe('computing an atom library', () => {
     await form.getByLabel('Wavelength λ').fill('633');
     await form.getByLabel('Period P').fill('450');
     await form.getByLabel('Pillar height').fill('1200');
-    await form.getByLabel('Smallest feature').fill('100');
-    await form.getByLabel('Smallest gap').fill('150');
+    await form.getByLabel('Smallest feature').fill('60');
+    await form.getByLabel('Smallest gap').fill('50');
     await form.getByLabel('Harmonics').selectOption('5');
     await form.getByLabel('Proposed subset size N').fill('4');
 
@@ -50,10 +51,10 @@ describe('computing an atom library', () => {
     const stepMessage = await page.locator(`#${await stepBox.getAttribute('aria-describedby')}`).last().innerText();
     expect(stepMessage).toMatch(/must be|step/i);
 
-    // 100, 200, 300 nm: 3 × 3 atoms. P = 450 nm ≥ 633 nm / n(fused silica) ≈ 434 nm: the lattice diffracts in the substrate.
-    await stepBox.fill('100');
+    // 60, 110, …, 360 nm: 7 × 7 atoms. P = 450 nm ≥ 633 nm / n(fused silica) ≈ 434 nm: the lattice diffracts in the substrate.
+    await stepBox.fill('50');
     const estimate = page.getByTestId('build-estimate');
-    await expect.poll(async () => (await estimate.count()) && (await estimate.innerText()), { timeout: 15_000 }).toMatch(/^9 atoms ×/);
+    await expect.poll(async () => (await estimate.count()) && (await estimate.innerText()), { timeout: 15_000 }).toMatch(/^49 atoms ×/);
     expect(await stepBox.getAttribute('aria-invalid')).toBeNull();
     const warning = page.getByRole('status').filter({ hasText: 'The lattice itself diffracts' });
     await warning.waitFor();
@@ -66,12 +67,12 @@ describe('computing an atom library', () => {
     const buildId = Number(/builds\/(\d+)$/.exec(page.url())![1]);
     await page.getByRole('heading', { name: NAME }).waitFor();
     await page.getByRole('progressbar', { name: 'Atoms computed' }).waitFor();
-    expect(await page.getByTestId('build-progress').innerText()).toMatch(/waiting for a worker|starting|atom \d+ of 9|All 9 atoms computed/);
+    expect(await page.getByTestId('build-progress').innerText()).toMatch(/waiting for a worker|starting|atom \d+ of 49|All 49 atoms computed/);
     await screenshot(page, 'library-build-02-progress');
 
-    await page.getByText('All 9 atoms computed').waitFor({ timeout: 240_000 });
+    await page.getByText('All 49 atoms computed').waitFor({ timeout: 480_000 });
     for (const title of ['|t| for x-polarized input', 'Phase for x-polarized input', '|t| for y-polarized input', 'Phase for y-polarized input', 'Zeroth-order transmittance, x input', 'Power in other orders, y input']) {
-      await page.getByRole('img', { name: new RegExp(`^${title.replace(/[|()]/g, '\\$&')}: 3 × 3 atoms`) }).waitFor();
+      await page.getByRole('img', { name: new RegExp(`^${title.replace(/[|()]/g, '\\$&')}: 7 × 7 atoms`) }).waitFor();
     }
     await page.getByRole('heading', { name: 'Phase coverage' }).first().waitFor();
     await page.getByRole('heading', { name: 'Convergence against harmonics' }).waitFor();
@@ -92,7 +93,7 @@ describe('computing an atom library', () => {
     expect(page.url()).not.toContain('library=');
     await screenshot(page, 'library-build-04-composer');
     await page.close();
-  });
+  }, 600_000);
 
   it('a viewer sees the project’s builds but cannot start or cancel one', async () => {
     const page = await demo.browser.context.newPage();
