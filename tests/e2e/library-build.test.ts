@@ -71,7 +71,7 @@ describe('computing an atom library', () => {
     await screenshot(page, 'library-build-02-progress');
 
     await page.getByText('All 49 atoms computed').waitFor({ timeout: 480_000 });
-    for (const title of ['|t| for x-polarized input', 'Phase for x-polarized input', '|t| for y-polarized input', 'Phase for y-polarized input', 'Zeroth-order transmittance, x input', 'Power in other orders, y input']) {
+    for (const title of ['|t| for x-polarized input', 'Phase for x-polarized input', '|t| for y-polarized input', 'Phase for y-polarized input', 'Zeroth-order transmittance, x input', 'Transmitted into other orders, y input', 'Reflected, all orders, x input']) {
       await page.getByRole('img', { name: new RegExp(`^${title.replace(/[|()]/g, '\\$&')}: 7 × 7 atoms`) }).waitFor();
     }
     await page.getByRole('heading', { name: 'Phase coverage' }).first().waitFor();

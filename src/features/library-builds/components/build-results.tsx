@@ -26,14 +26,16 @@ const TRANSMISSION_MAPS: MapSpec[] = [
 
 const DIFFRACTION_MAPS: MapSpec[] = [
   { title: 'Zeroth-order transmittance, x input', measure: 'T₀ for x (fraction of the incident power)', quantity: 'power', value: (a) => a.zeroOrderX },
-  { title: 'Power in other orders, x input', measure: 'other orders for x (fraction of the incident power)', quantity: 'power', value: (a) => a.otherOrdersX },
+  { title: 'Transmitted into other orders, x input', measure: 'other orders for x (fraction of the incident power)', quantity: 'power', value: (a) => a.otherOrdersX },
+  { title: 'Reflected, all orders, x input', measure: 'R for x (fraction of the incident power)', quantity: 'power', value: (a) => a.reflectedX },
   { title: 'Zeroth-order transmittance, y input', measure: 'T₀ for y (fraction of the incident power)', quantity: 'power', value: (a) => a.zeroOrderY },
-  { title: 'Power in other orders, y input', measure: 'other orders for y (fraction of the incident power)', quantity: 'power', value: (a) => a.otherOrdersY },
+  { title: 'Transmitted into other orders, y input', measure: 'other orders for y (fraction of the incident power)', quantity: 'power', value: (a) => a.otherOrdersY },
+  { title: 'Reflected, all orders, y input', measure: 'R for y (fraction of the incident power)', quantity: 'power', value: (a) => a.reflectedY },
 ];
 
-function MapGrid({ maps, result, stepNm }: { maps: MapSpec[]; result: LibraryBuildResult; stepNm: number }) {
+function MapGrid({ maps, result, stepNm, columns }: { maps: MapSpec[]; result: LibraryBuildResult; stepNm: number; columns: 2 | 3 }) {
   return (
-    <div className="grid gap-6 md:grid-cols-2">
+    <div className={`grid gap-6 md:grid-cols-2 ${columns === 3 ? 'xl:grid-cols-3' : ''}`}>
       {maps.map((m) => (
         <SweepHeatMapItem key={m.title} spec={m} result={result} stepNm={stepNm} />
       ))}
@@ -46,10 +48,12 @@ function SweepHeatMapItem({ spec, result, stepNm }: { spec: MapSpec; result: Lib
   return <SweepHeatMap title={spec.title} measure={spec.measure} quantity={spec.quantity} value={value} atoms={result.atoms} sizesNm={result.sizesNm} stepNm={stepNm} />;
 }
 
-/** The largest power any atom sends into the other orders, for x or y input. */
-function worstOtherOrders(atoms: LibraryBuildAtom[]): number {
-  return atoms.reduce((worst, a) => Math.max(worst, a.otherOrdersX, a.otherOrdersY), 0);
+/** The largest of a power over the atoms, x and y input. */
+function largest(atoms: LibraryBuildAtom[], x: keyof LibraryBuildAtom, y: keyof LibraryBuildAtom): number {
+  return atoms.reduce((worst, a) => Math.max(worst, a[x] as number, a[y] as number), 0);
 }
+
+const percent = (v: number) => `${(100 * v).toFixed(1)} %`;
 
 /** What a finished build computed: maps over (w, l), lattice diffraction, coverage, convergence and the subset. */
 export function BuildResults({ build, result }: { build: LibraryBuild; result: LibraryBuildResult }) {
@@ -59,17 +63,18 @@ export function BuildResults({ build, result }: { build: LibraryBuild; result: L
   );
   const subset = useMemo(() => (result.subset ? rows.filter((row) => result.subset!.includes(row.id)) : null), [rows, result.subset]);
   const stepNm = build.spec.sweep.stepNm;
-  const worst = worstOtherOrders(result.atoms);
+  const others = largest(result.atoms, 'otherOrdersX', 'otherOrdersY');
+  const reflected = largest(result.atoms, 'reflectedX', 'reflectedY');
   return (
     <div className="flex flex-col gap-6">
       <Card title="Transmission over (w, l)" description={`Zeroth-order amplitude |t| and phase α of every atom of the sweep. ${ORIENTATION}`}>
-        <MapGrid maps={TRANSMISSION_MAPS} result={result} stepNm={stepNm} />
+        <MapGrid maps={TRANSMISSION_MAPS} result={result} stepNm={stepNm} columns={2} />
       </Card>
       <Card
         title="Lattice diffraction"
-        description={`The library keeps the zeroth order, the light that forms the designed wavefront. Light in other orders of the lattice is lost to the design; the most any atom sends there is ${(100 * worst).toFixed(1)} % of the incident power. ${ORIENTATION}`}
+        description={`The library keeps the zeroth order, the light that forms the designed wavefront. Light in other orders of the lattice, and light reflected, is lost to the design: at most ${percent(others)} of the incident power goes into other transmitted orders and at most ${percent(reflected)} is reflected (in all orders, including those the lattice diffracts back into the incident medium). ${ORIENTATION}`}
       >
-        <MapGrid maps={DIFFRACTION_MAPS} result={result} stepNm={stepNm} />
+        <MapGrid maps={DIFFRACTION_MAPS} result={result} stepNm={stepNm} columns={3} />
       </Card>
       <div className="grid gap-6 lg:grid-cols-2">
         <Card title="Phase coverage" description="α_x against α_y of every atom. A usable library fills the square without wide gaps.">
@@ -90,8 +95,10 @@ export function BuildResults({ build, result }: { build: LibraryBuild; result: L
           title={`Proposed subset of ${subset.length} atoms`}
           description="The atoms that cover the (α_x, α_y) square best at high transmission."
         >
-          <div className="grid gap-6 lg:grid-cols-2">
-            <PhaseCoverageChart atoms={subset} />
+          <div className="flex flex-col gap-6">
+            <div className="max-w-xl">
+              <PhaseCoverageChart atoms={subset} />
+            </div>
             <AtomTable atoms={subset} />
           </div>
         </Card>

@@ -1,10 +1,11 @@
 import { CartesianGrid, Legend, Line, LineChart, Tooltip, XAxis, YAxis } from 'recharts';
 import type { LibraryBuildResult } from '@shared/schemas/library-builds';
+import { niceTicks } from '@/components/ui/picture-axes';
 import { roundTick } from '@/lib/format';
 
 const GRID = '#ddd3c1';
 const TICK = { fill: '#5e4d6e', fontSize: 12 };
-const chartStyle = { width: '100%', height: 280 };
+const chartStyle = { width: '100%', height: 340 };
 const COLOURS = ['#27686a', '#b94721', '#5e4d6e', '#c28a1e', '#2f5d9b', '#8a3f6b'];
 
 type LibraryBuildConvergence = LibraryBuildResult['convergence'][number];
@@ -30,16 +31,19 @@ function ConvergenceLines({ report, keys, axisLabel }: { report: LibraryBuildCon
       return { id: `${atom.atomId}:${key}`, name: `${atom.atomId} ${name}`, values: new Map(atom.rows.map((row) => [row.harmonics, change(key, row[key], last[key])])) };
     }),
   );
+  const values = series.flatMap((s) => [...s.values.values()]).filter(Number.isFinite);
+  const ticks = niceTicks(Math.min(0, ...values), Math.max(0, ...values), 4);
+  const domain: [number, number] = ticks.values.length ? [Math.min(...values, ticks.values[0]), Math.max(...values, ticks.values[ticks.values.length - 1])] : [-1, 1];
   const data = harmonics.map((h) => Object.fromEntries([['harmonics', h], ...series.map((s) => [s.id, s.values.get(h) ?? null])]));
   return (
     <LineChart data={data} style={chartStyle} responsive margin={{ top: 8, right: 16, bottom: 20, left: 8 }}>
       <CartesianGrid stroke={GRID} strokeDasharray="3 3" />
       <XAxis dataKey="harmonics" type="number" domain={['dataMin', 'dataMax']} ticks={harmonics} tick={TICK}
         label={{ value: 'harmonics per axis (N for N × N)', position: 'insideBottom', offset: -12, fill: '#5e4d6e', fontSize: 12 }} />
-      <YAxis tick={TICK} width={64} tickFormatter={(v) => roundTick(v, 2)}
+      <YAxis tick={TICK} width={64} domain={domain} ticks={ticks.values.length ? ticks.values : undefined} tickFormatter={(v) => roundTick(v, 2)}
         label={{ value: axisLabel, angle: -90, position: 'insideLeft', fill: '#5e4d6e', fontSize: 12 }} />
       <Tooltip formatter={(value) => (typeof value === 'number' ? value.toExponential(2) : String(value))} labelFormatter={(h) => `${h} × ${h} harmonics`} />
-      <Legend verticalAlign="top" height={28} />
+      <Legend verticalAlign="bottom" wrapperStyle={{ paddingTop: 24, fontSize: 12 }} />
       {series.map((s, i) => (
         <Line key={s.id} dataKey={s.id} name={s.name} stroke={COLOURS[Math.floor(i / keys.length) % COLOURS.length]}
           strokeDasharray={i % keys.length === 0 ? undefined : '5 4'} strokeWidth={2} isAnimationActive={false} connectNulls />
