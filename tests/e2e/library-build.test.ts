@@ -95,6 +95,31 @@ describe('computing an atom library', () => {
     await page.close();
   }, 600_000);
 
+  it('a designer cancels a running build, after confirming', async () => {
+    const page = await demo.browser.context.newPage();
+    await demo.signIn(page, 'tomas.reyes@harbourlight.example');
+    await openAtomLibraries(page);
+    const form = page.getByRole('form', { name: 'Compute a library' });
+    // The form's own start: Si₃N₄ on fused silica, P = 400 nm, 14 × 14 atoms; at 21 × 21 harmonics it takes a while.
+    await form.getByLabel('Library name').fill('Long sweep to cancel');
+    await form.getByLabel('Harmonics').selectOption('21');
+    await expect.poll(async () => (await page.getByTestId('build-estimate').count()) && page.getByTestId('build-estimate').innerText(), { timeout: 15_000 }).toMatch(/^196 atoms ×.*21 × 21/);
+    expect(await page.getByRole('status').filter({ hasText: 'The lattice itself diffracts' }).count()).toBe(0);
+    await form.getByRole('button', { name: 'Start computing' }).click();
+    await page.waitForURL(/\/atom-libraries\/builds\/\d+$/);
+
+    await page.getByRole('button', { name: 'Cancel build' }).click();
+    const dialog = page.getByRole('dialog');
+    await dialog.getByText('Cancel “Long sweep to cancel”?').waitFor();
+    await screenshot(page, 'library-build-06-cancel');
+    await expectAccessible(page, 'library-build-06-cancel');
+    await dialog.getByRole('button', { name: 'Cancel build' }).click();
+    await page.getByText(/^Cancelled.*nothing was stored\.$/).waitFor({ timeout: 30_000 });
+    expect(await page.getByRole('button', { name: 'Cancel build' }).count()).toBe(0);
+    expect(await page.getByRole('link', { name: 'Use in a design' }).count()).toBe(0);
+    await page.close();
+  });
+
   it('a viewer sees the project’s builds but cannot start or cancel one', async () => {
     const page = await demo.browser.context.newPage();
     await demo.signIn(page, 'kai.brenner@harbourlight.example');
