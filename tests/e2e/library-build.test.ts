@@ -95,7 +95,7 @@ describe('computing an atom library', () => {
     await page.close();
   }, 600_000);
 
-  it('a designer cancels a running build, after confirming', async () => {
+  it('a designer cancels a build before it ends, after confirming', async () => {
     const page = await demo.browser.context.newPage();
     await demo.signIn(page, 'tomas.reyes@harbourlight.example');
     await openAtomLibraries(page);

@@ -2,11 +2,12 @@ import { useEffect } from 'react';
 import { useSearchParams } from 'react-router-dom';
 import { useDesignAtomLibraries } from '@/features/designs/api/get-atom-libraries';
 import { useDesignEditor } from '@/features/designs/stores/design-editor-store';
+import { focusField } from '@/features/designs/utils/focus-field';
 
 /**
  * `?library=7` in the composer's address (from a library build's "Use in a design"): once the design is open,
  * chooses stored library 7 and, when the project sees it, takes its wavelength and period (a design must match its library's), then drops
- * the parameter so a reload keeps the user's later edits.
+ * the parameter so a reload keeps the user's later edits; the library picker gets the focus.
  */
 export function useLibraryFromAddress(projectId: number, sourceKey: string) {
   const [search, setSearch] = useSearchParams();
@@ -24,6 +25,7 @@ export function useLibraryFromAddress(projectId: number, sourceKey: string) {
       setField(['setup', 'wavelengthNm'], library.wavelengthNm);
       setField(['setup', 'periodNm'], library.periodNm);
     }
+    if (wanted !== null) window.requestAnimationFrame(() => focusField('atomLibrary'));
     setSearch(
       (previous) => {
         const next = new URLSearchParams(previous);

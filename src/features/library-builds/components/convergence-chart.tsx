@@ -69,10 +69,10 @@ export function ConvergenceCharts({ report }: { report: LibraryBuildConvergence[
     <div className="flex flex-col gap-4">
       <div className="grid gap-6 lg:grid-cols-2">
         <div role="img" aria-label={`Amplitude against harmonics. ${summary.join('. ')}.`}>
-          <ConvergenceLines report={report} keys={[['tx', 't_x'], ['ty', 't_y']]} axisLabel="t − t at most harmonics" />
+          <ConvergenceLines report={report} keys={[['tx', 't_x'], ['ty', 't_y']]} axisLabel="change of t" />
         </div>
         <div role="img" aria-label={`Phase against harmonics. ${summary.join('. ')}.`}>
-          <ConvergenceLines report={report} keys={[['alphaX', 'α_x'], ['alphaY', 'α_y']]} axisLabel="α − α at most harmonics (rad)" />
+          <ConvergenceLines report={report} keys={[['alphaX', 'α_x'], ['alphaY', 'α_y']]} axisLabel="change of α (rad)" />
         </div>
       </div>
       <ul className="flex flex-col gap-0.5 text-xs text-ink-soft">
