@@ -49,6 +49,17 @@ function timeLeft(build: LibraryBuild): string | null {
   return formatDuration(Math.max(0, p.atoms - p.atom) * p.secondsPerAtom * 1000);
 }
 
+/**
+ * The sweep's sizes as parseLibrarySpec makes them: from the smallest feature in whole steps up to P minus the
+ * smallest gap. Example: 60 nm, step 50 nm, P 450 nm, gap 50 nm → "60 nm to 360 nm in steps of 50 nm (7 × 7 atoms)".
+ */
+function sweepText(s: LibraryBuild['spec']): string {
+  const { minFeatureNm, minGapNm, stepNm } = s.sweep;
+  const count = Math.floor((s.periodNm - minGapNm - minFeatureNm) / stepNm + 1e-9) + 1;
+  const last = Math.round((minFeatureNm + (count - 1) * stepNm) * 1e4) / 1e4;
+  return `${minFeatureNm} nm to ${last} nm in steps of ${stepNm} nm (${count} × ${count} atoms)`;
+}
+
 function SpecFacts({ build }: { build: LibraryBuild }) {
   const s = build.spec;
   const facts: [string, string][] = [
@@ -57,7 +68,7 @@ function SpecFacts({ build }: { build: LibraryBuild }) {
     ['Superstrate', materialText(s.superstrate)],
     ['Light', s.illumination === 'substrate' ? 'through the substrate' : 'onto the pillars'],
     ['Wavelength λ, period P', `${s.wavelengthNm} nm, ${s.periodNm} nm`],
-    ['Sweep of w and l', `${s.sweep.minFeatureNm} nm to ${s.periodNm - s.sweep.minGapNm} nm in steps of ${s.sweep.stepNm} nm`],
+    ['Sweep of w and l', sweepText(s)],
     ['Harmonics', `${s.harmonics} × ${s.harmonics}`],
     ['Estimated time', formatDuration(build.estimateSeconds * 1000)],
     ['Started by', `${build.createdBy.name}, ${formatDateTime(build.createdAt)}`],
