@@ -31,6 +31,9 @@ const ILLUMINATION_OPTIONS: { value: BuildForm['illumination']; label: string }[
 
 const HARMONIC_OPTIONS = Array.from({ length: 14 }, (_, i) => 5 + 2 * i).map((h) => ({ value: String(h), label: `${h} × ${h}` }));
 
+/** Fewest atoms a stored library holds (the library check's default phase levels, shared/optics/atoms.ts). */
+const MIN_STORED_ATOMS = 8;
+
 /** Field path of a server problem, without the body's "spec." prefix. */
 const specPath = (key: string) => (key.startsWith('spec.') ? key.slice('spec.'.length) : key);
 
@@ -132,6 +135,12 @@ function EstimatePanel({ estimate, settling }: { estimate: ReturnType<typeof use
               at {data.harmonics} × {data.harmonics} harmonics ≈ <strong className="tabular-nums">{formatDuration(data.seconds * 1000)}</strong>
             </p>
             <p className="mt-1 text-xs text-ink-soft">{data.basis}</p>
+            {data.atoms < MIN_STORED_ATOMS ? (
+              <p className="mt-2 font-semibold text-ember-deep">
+                A stored library needs at least {MIN_STORED_ATOMS} atoms whose phases step by at most 2π/{MIN_STORED_ATOMS} on each axis: take a
+                smaller step, or this build will compute but not be stored.
+              </p>
+            ) : null}
           </>
         ) : (
           <p className="text-ink-soft">Working out the estimate…</p>
