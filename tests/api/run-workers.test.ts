@@ -6,6 +6,8 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { RunArtifactModel, RunModel } from '../../server/components/runs/run.model';
+import { ToleranceStudyModel } from '../../server/components/tolerance/tolerance.model';
+import type { ToleranceStudy } from '../../shared/schemas/tolerance';
 import type { RunDetail } from '../../shared/schemas/runs';
 import { download, twinImageDesign, waitForRun } from '../support/designs';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
@@ -148,4 +150,32 @@ describe('worker processes on one Redis queue', () => {
     expect(new Set(names).size).toBe(names.length);
     expect(await RunArtifactModel.count({ where: { runId: id } })).toBe(names.length);
   }, 150_000);
+
+  it('a worker killed with SIGKILL during a fabrication sweep: another worker finishes the study as attempt 2', async () => {
+    twoWorkers();
+    const runId = await startRun(designer, projectId, twinImageDesign({ cells: 512, iterations: 20, name: 'Swept twin' }));
+    expect((await waitForRun(designer, projectId, runId, undefined, 120_000)).status).toBe('succeeded');
+    const points = Array.from({ length: 21 }, (_, i) => (i - 10) * 5);
+    const started = await designer.post(`/api/projects/${projectId}/runs/${runId}/tolerance`, { widthBiasNm: points, detuneNm: points });
+    expect(started.status, JSON.stringify(started.body)).toBe(202);
+    const studyId = started.body.study.id as number;
+    const studyOf = async () => (await designer.get(`/api/projects/${projectId}/runs/${runId}/tolerance`)).body.study as ToleranceStudy;
+    const until = async (done: (s: ToleranceStudy) => boolean, timeoutMs: number) => {
+      const deadline = Date.now() + timeoutMs;
+      for (let s = await studyOf(); ; s = await studyOf()) {
+        if (done(s)) return s;
+        if (Date.now() > deadline) throw new Error(`study ${studyId}: last seen ${JSON.stringify(s)}`);
+        await new Promise((r) => setTimeout(r, 50));
+      }
+    };
+    await until((s) => s.status === 'running' && s.progress > 0, 60_000);
+    const holder = workers.find((w) => workerAlive(w) && w.takenStudies.includes(studyId))!;
+    expect(holder, 'a worker process logged taking the study').toBeDefined();
+    holder.child.kill('SIGKILL');
+    const study = await until((s) => s.status === 'succeeded' || s.status === 'failed', 120_000);
+    expect(study.status, study.error ?? '').toBe('succeeded');
+    expect(study.results!.widthBias).toHaveLength(21);
+    expect((await ToleranceStudyModel.findByPk(studyId))!.attempts).toBe(2);
+    expect(workers.some((w) => w !== holder && w.takenStudies.includes(studyId))).toBe(true);
+  }, 240_000);
 });

@@ -9,6 +9,8 @@ export interface WorkerProcess {
   child: ChildProcess;
   /** Run ids this worker took, in order (its "run taken" log lines). */
   taken: number[];
+  /** Tolerance-study ids this worker took, in order ("tolerance study taken"). */
+  takenStudies: number[];
   /** When this worker logged "run cancelled", by run id (ms since the epoch). */
   cancelledAt: Map<number, number>;
 }
@@ -35,7 +37,7 @@ export function startWorkerProcess(c: AppConfig, env: Record<string, string> = {
       ...env,
     },
   });
-  const worker: WorkerProcess = { child, taken: [], cancelledAt: new Map() };
+  const worker: WorkerProcess = { child, taken: [], takenStudies: [], cancelledAt: new Map() };
   let buffered = '';
   child.stdout!.setEncoding('utf8');
   child.stdout!.on('data', (chunk: string) => {
@@ -43,8 +45,9 @@ export function startWorkerProcess(c: AppConfig, env: Record<string, string> = {
     const lines = buffered.split('\n');
     buffered = lines.pop()!;
     for (const line of lines) {
-      const entry = JSON.parse(line) as { msg: string; runId?: number };
+      const entry = JSON.parse(line) as { msg: string; runId?: number; studyId?: number };
       if (entry.msg === 'run taken') worker.taken.push(entry.runId!);
+      if (entry.msg === 'tolerance study taken') worker.takenStudies.push(entry.studyId!);
       if (entry.msg === 'run cancelled') worker.cancelledAt.set(entry.runId!, Date.now());
     }
   });

@@ -283,6 +283,7 @@ export function createRedisRunWorker(options: RedisRunWorkerOptions): RedisRunWo
   async function toleranceJob(studyId: number) {
     const study = await ToleranceStudyModel.findByPk(studyId, { attributes: ['id', 'status', 'attempts'] });
     if (!study) return;
+    logger.info({ studyId, status: study.status }, 'tolerance study taken');
     if (study.status === 'running') {
       const values = study.attempts >= MAX_ATTEMPTS
         ? { status: 'failed' as const, error: `a worker stopped during this study ${study.attempts} times; start a smaller one`, finishedAt: new Date() }
