@@ -83,6 +83,14 @@ export function createLibraryBuildExecutor(options: {
   /** Stores the library and the result, and marks the build succeeded, together; nothing when it was cancelled meanwhile. */
   async function store(build: LibraryBuildModel, result: Extract<LibraryBuildTaskResult, { ok: true }>) {
     const ownerId = build.createdById;
+    if (!result.library) {
+      const error =
+        `The computed atoms cannot make an atom library runs could use: ${result.refusal}. ` +
+        'They are kept for the plots; take a finer sweep step, taller pillars or a material of higher index, and build again.';
+      await transitionBuild(build.id, ['running'], { status: 'failed', error, result: result.result, finishedAt: new Date() });
+      return;
+    }
+    const stored = result.library;
     if (ownerId === null) {
       await fail(build.id, 'The account that started this library build no longer exists; nobody could own the library.');
       return;
@@ -91,7 +99,7 @@ export function createLibraryBuildExecutor(options: {
       LibraryBuildModel.sequelize!.transaction(async (transaction) => {
         const row = await LibraryBuildModel.findByPk(build.id, { attributes: ['id', 'status'], lock: transaction.LOCK.UPDATE, transaction });
         if (row?.status !== 'running') return;
-        const library = await insertAtomLibrary(build.projectId, ownerId, result.library, build.scope, transaction);
+        const library = await insertAtomLibrary(build.projectId, ownerId, stored, build.scope, transaction);
         await transitionBuild(build.id, ['running'], { status: 'succeeded', result: result.result, libraryId: library.id, finishedAt: new Date() }, transaction);
       }),
     );

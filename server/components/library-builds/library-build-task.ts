@@ -39,7 +39,8 @@ export interface LibraryBuildTask {
 export type LibraryBuildMessage = { type: 'started' } | { type: 'progress'; progress: LibraryBuildProgress; stage: string };
 
 export type LibraryBuildTaskResult =
-  | { ok: true; library: StorableLibrary; result: LibraryBuildResult; warnings: string[] }
+  /** `library` null: the atoms cannot make an atom library (`refusal` says why); the result is kept for the plots. */
+  | { ok: true; library: StorableLibrary | null; refusal: string | null; result: LibraryBuildResult; warnings: string[] }
   | { ok: false; message: string; detail?: string };
 
 const PROGRESS_INTERVAL_MS = 150;
@@ -117,11 +118,9 @@ export default async function libraryBuildTask(task: LibraryBuildTask): Promise<
     const result = resultOf(resolved, built, task.subsetSize);
     // Read back as an uploaded atoms.csv is: the stored library is the one a download of it gives back.
     const reading = readAtomLibraryCsv(Buffer.from(atomLibraryToCsv(built.library), 'utf8'), { name: task.name, scope: task.scope, material: '', wavelengthNm: undefined, periodNm: undefined, heightNm: undefined }, OWN_FILE);
-    if (!reading.library) {
-      const first = reading.problems[0];
-      return { ok: false, message: `the computed library could not be read back as atoms.csv: ${first ? `${first.column}: ${first.message}` : 'no library'}` };
-    }
-    return { ok: true, library: reading.library, result, warnings: built.warnings };
+    // Atoms whose phases leave a gap runs cannot fill: refused as the same file uploaded would be.
+    const refusal = reading.library ? null : reading.problems.map((p) => p.message).join('; ') || 'the library could not be read back';
+    return { ok: true, library: reading.library, refusal, result, warnings: built.warnings };
   } catch (error) {
     const err = error instanceof Error ? error : new Error(String(error));
     return { ok: false, message: err.message, detail: err.stack };

@@ -58,6 +58,16 @@ function resolveSpec(raw: unknown): ResolvedSpec {
   return resolved;
 }
 
+/**
+ * Fewest atoms a library may hold: the phase-coverage check of every atom library (checkAtomLibrary, 2π in
+ * eight steps per axis) refuses fewer, for an upload as for a build.
+ */
+const MIN_LIBRARY_ATOMS = 8;
+const fewAtoms = (r: ResolvedSpec) => {
+  const n = r.sizes.length;
+  return `the sweep holds ${n} × ${n} = ${n * n} atoms; an atom library needs at least ${MIN_LIBRARY_ATOMS} to cover 2π in eight steps: take a smaller step or a smaller smallest feature`;
+};
+
 /** Threads one build gets on this installation's workers (as runs get helper threads: RUN_HELPER_THREADS). */
 function lanesOf(ctx: AppContext): number {
   const threads = ctx.runQueue.state().threads || ctx.config.RUN_WORKERS || availableParallelism();
@@ -78,6 +88,7 @@ function estimateOf(ctx: AppContext, r: ResolvedSpec): LibraryBuildEstimate {
     `eigenproblem at ${h}×${h} harmonics), fitted to times measured by bench/rcwa.ts on a 2-core machine; ${atoms} atoms on ` +
     `${lanes === 1 ? 'one thread' : `${lanes} threads`}${ladder.length > 1 ? `, then the convergence report of ${pillars} pillar${pillars === 1 ? '' : 's'} at ${ladder.slice(0, -1).join(', ')} harmonics` : ''}`;
   const warnings = specDiffraction(r).map((d) => d.message);
+  if (atoms < MIN_LIBRARY_ATOMS) warnings.push(fewAtoms(r));
   const limit = ctx.config.LIBRARY_BUILD_TIME_LIMIT_MINUTES;
   if (seconds > limit * 60) {
     warnings.push(`the estimate (${Math.round(seconds / 60)} min) exceeds the time limit of ${limit} min (LIBRARY_BUILD_TIME_LIMIT_MINUTES): take a larger sweep step or fewer harmonics`);
@@ -97,6 +108,9 @@ export function estimateLibraryBuild(ctx: AppContext, rawSpec: unknown): Library
 export async function startLibraryBuild(ctx: AppContext, projectId: number, userId: number, request: LibraryBuildRequest): Promise<LibraryBuild> {
   const r = resolveSpec(request.spec);
   const atoms = r.sizes.length ** 2;
+  if (atoms < MIN_LIBRARY_ATOMS) {
+    throw new AppError(400, `The library spec has a problem — sweep: ${fewAtoms(r)}`, { 'spec.sweep.stepNm': fewAtoms(r) });
+  }
   if (request.subsetSize !== undefined && request.subsetSize > atoms) {
     throw new AppError(400, `subsetSize: the sweep has ${atoms} atoms; propose a subset of at most that many`, { subsetSize: `at most ${atoms} (the sweep's atoms)` });
   }
