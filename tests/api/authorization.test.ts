@@ -402,7 +402,8 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs', 'libr
   if (needs.includes('library')) fixture.libraryId = (await uploadAtomLibrary(owner, project.id, eightAtomCsv())).body.atomLibrary.id;
   if (needs.includes('build')) {
     const row = { projectId: project.id, scope: 'project' as const, name: 'Matrix build', spec: tinySpec(), subsetSize: null, estimateSeconds: 0, warnings: [] };
-    fixture.buildId = (await LibraryBuildModel.create({ ...row, createdById: users.owner.id, queuedAt: new Date() })).id;
+    // Started by the fixture's own member, so the queued row takes none of the owner's run slots.
+    fixture.buildId = (await LibraryBuildModel.create({ ...row, createdById: target.id, queuedAt: new Date() })).id;
   }
   if (!needs.includes('revision') && !needs.includes('runs')) return fixture;
   const revision = (await owner.post(`/api/projects/${project.id}/revisions`, { design: deflectorDesign() })).body.revision;
