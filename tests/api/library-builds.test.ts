@@ -12,6 +12,7 @@ import type { AtomLibraryDetail, AtomLibrarySummary } from '../../shared/schemas
 import type { LibraryBuild, LibraryBuildResult } from '../../shared/schemas/library-builds';
 import { FUSED_SILICA, SILICON_NITRIDE } from '../../shared/optics/materials';
 import { computeAtom, type RcwaCell } from '../../shared/optics/rcwa';
+import { fabReadme } from '../../server/components/fab/fab-readme';
 import { deflectorDesign, download, waitForRun } from '../support/designs';
 import { smallSpec, waitForBuild } from '../support/library-builds';
 import { createTestApp, makeUser, RUN_QUEUE_ENGINES, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
@@ -118,6 +119,23 @@ describe.each(RUN_QUEUE_ENGINES)('library builds on the %s run queue', (engine) 
     expect(metrics.library).toMatchObject({ name: 'Test nitride pillars', atoms: 49, approximate: false, source: summary.source });
     const report = (await designer.get(`/api/projects/${projectId}/runs/${run.id}/report`)).body.report;
     expect(report.library).toMatchObject({ approximate: false, source: summary.source });
+    // The fab package's README says where the library comes from, not that an uploader vouched for it.
+    const readme = fabReadme({
+      folder: 'f',
+      projectName: 'p',
+      designName: 'd',
+      revisionNumber: 1,
+      runId: run.id,
+      files: [],
+      cells: 64,
+      periodNm: 450,
+      wavelengthNm: 633,
+      gds: { layer: 1, datatype: 0, dbUnitNm: 1, regenerated: false },
+      library: report.library,
+      exportNote: '',
+    });
+    expect(readme).toContain(`Test nitride pillars — source: ${summary.source}.`);
+    expect(readme).toMatch(/Not approximate: computed in Phasewright by rigorous coupled-wave analysis/);
   });
 
   it('cancel stops a running build at once: its row says cancelled, no library is stored, and the next build runs on the freed thread', async () => {
