@@ -10,24 +10,28 @@ export function sectorSize(harmonics: number): number {
 }
 
 /*
- * Seconds per atom on one thread ≈ LINEAR · S + CUBIC · S³, S = sectorSize(harmonics). The cubic term is the
- * eigendecompositions and solves; the linear one what grows with the harmonics alone (Toeplitz matrices,
- * scattering-matrix products on the diagonal blocks, the bare cell). Constants fitted (least squares, by
- * hand) to the median times per atom that bench/rcwa.ts measured on this 2-core VM on 2026-12-03 for Si₃N₄
- * pillars, 1200 nm tall, P = 450 nm, λ = 633 nm, while other sessions loaded the machine (load average 3–3.5):
- * 5×5 0.05 s, 9×9 0.14 s, 11×11 0.18 s, 13×13 0.25 s, 15×15 0.31 s, 17×17 0.54 s. Taller pillars and more
- * films cost more; the estimate is a guide, the build's own progress shows the real time per atom.
+ * Seconds per atom on one thread ≈ FIXED + LINEAR · S + CUBIC · S³, S = sectorSize(harmonics). The cubic term is
+ * the eigendecompositions and solves; the linear one what grows with the harmonics alone (Toeplitz matrices,
+ * the diagonal blocks of the scattering-matrix products); the fixed one the bare cell and the set-up. Constants
+ * fitted by hand to per-atom times of bench/rcwa.ts on this 2-core VM (Si₃N₄ pillars 1200 nm tall on fused
+ * silica, P = 450 nm, λ = 633 nm, one thread): README's 24 ms at 5×5, 31 ms at 7×7, 76 ms at 11×11 and 276 ms
+ * at 15×15 (a quieter hour), and 21×21 measured on 2026-12-03 at 6.5 s under load 14.7 — about 2 s scaled by
+ * that run's own 15×15 ratio (0.88 s against 0.276 s). The formula gives 21, 31, 91, 300 ms and 1.7 s. Taller
+ * pillars, films and a loaded machine cost more: the estimate is a guide, and the build's progress shows the
+ * real time per atom.
  */
-const LINEAR_SECONDS = 2.3e-3;
-const CUBIC_SECONDS = 6.7e-8;
+const FIXED_SECONDS = 0.01;
+const LINEAR_SECONDS = 0.8e-3;
+const CUBIC_SECONDS = 1.4e-7;
 
 /** The formula in words, for the estimate's `basis`. */
-export const PER_ATOM_FORMULA = `seconds per atom ≈ ${LINEAR_SECONDS * 1e3} ms × S + ${CUBIC_SECONDS * 1e9} ns × S³`;
+const shown = (value: number) => Number(value.toPrecision(3));
+export const PER_ATOM_FORMULA = `seconds per atom ≈ ${shown(FIXED_SECONDS * 1e3)} ms + ${shown(LINEAR_SECONDS * 1e3)} ms × S + ${shown(CUBIC_SECONDS * 1e9)} ns × S³`;
 
-/** Estimated seconds of one atom on one thread. Example: secondsPerAtom(11) ≈ 0.16. */
+/** Estimated seconds of one atom on one thread. Example: secondsPerAtom(11) ≈ 0.091. */
 export function secondsPerAtom(harmonics: number): number {
   const s = sectorSize(harmonics);
-  return LINEAR_SECONDS * s + CUBIC_SECONDS * s ** 3;
+  return FIXED_SECONDS + LINEAR_SECONDS * s + CUBIC_SECONDS * s ** 3;
 }
 
 /**
