@@ -4,7 +4,7 @@
  * checked field by field by `parseLibrarySpec` on the server; these schemas check the body around it.
  */
 import { z } from 'zod';
-import { MAX_LIBRARY_ATOMS, type LibrarySpec } from '../optics/library-builder';
+import { MAX_LIBRARY_ATOMS, type BuiltAtomPowers, type LibrarySpec } from '../optics/library-builder';
 
 export const LIBRARY_BUILD_STATUSES = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const;
 export type LibraryBuildStatus = (typeof LIBRARY_BUILD_STATUSES)[number];
@@ -73,20 +73,14 @@ export interface LibraryBuild {
   finishedAt: string | null;
 }
 
-export interface LibraryBuildAtom {
-  id: string;
+/** One atom of a build: its size, zeroth-order transmission and phases, and its powers (BuiltAtomPowers). */
+export interface LibraryBuildAtom extends BuiltAtomPowers {
   widthNm: number;
   lengthNm: number;
   tx: number;
   alphaX: number;
   ty: number;
   alphaY: number;
-  zeroOrderX: number;
-  zeroOrderY: number;
-  otherOrdersX: number;
-  otherOrdersY: number;
-  reflectedX: number;
-  reflectedY: number;
 }
 
 export interface LibraryConvergenceRow {

@@ -13,6 +13,8 @@ import type { LibraryBuild, LibraryBuildResult } from '../../shared/schemas/libr
 import { FUSED_SILICA, SILICON_NITRIDE } from '../../shared/optics/materials';
 import { computeAtom, type RcwaCell } from '../../shared/optics/rcwa';
 import { fabReadme } from '../../server/components/fab/fab-readme';
+import { LibraryBuildModel } from '../../server/components/library-builds/library-build.model';
+import { createEmbeddedRunQueue } from '../../server/components/runs/run-queue';
 import { deflectorDesign, download, waitForRun } from '../support/designs';
 import { smallSpec, waitForBuild } from '../support/library-builds';
 import { createTestApp, makeUser, RUN_QUEUE_ENGINES, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
@@ -167,6 +169,7 @@ describe.each(RUN_QUEUE_ENGINES)('library builds on the %s run queue', (engine) 
 describe('library builds: validation, roles, personal libraries', () => {
   let t: TestApp;
   let owner: ApiClient;
+  let ownerId: number;
   let colleague: ApiClient;
   let viewer: ApiClient;
   let projectId: number;
@@ -174,7 +177,9 @@ describe('library builds: validation, roles, personal libraries', () => {
 
   beforeAll(async () => {
     t = await createTestApp();
-    owner = await signedInClient(t.app, await makeUser({ name: 'Owner' }));
+    const ownerUser = await makeUser({ name: 'Owner' });
+    ownerId = ownerUser.id;
+    owner = await signedInClient(t.app, ownerUser);
     const colleagueUser = await makeUser({ name: 'Colleague' });
     const viewerUser = await makeUser({ name: 'Viewer' });
     colleague = await signedInClient(t.app, colleagueUser);
@@ -220,6 +225,26 @@ describe('library builds: validation, roles, personal libraries', () => {
     expect(build.error).toMatch(/kept for the plots; take a finer sweep step/);
     expect(build.libraryId).toBeNull();
     expect(result!.atoms).toHaveLength(9);
+  });
+
+  it('a build left running by a stopped server is taken up again at the next start; after three starts it fails saying so', async () => {
+    const spec = smallSpec(7, 5, 'Interrupted pillars');
+    const row = { projectId, scope: 'project' as const, name: spec.name, spec, subsetSize: null, estimateSeconds: 1, warnings: [], createdById: ownerId, queuedAt: new Date() };
+    const interrupted = await LibraryBuildModel.create({ ...row, status: 'running', attempts: 1, startedAt: new Date() });
+    const worn = await LibraryBuildModel.create({ ...row, status: 'running', attempts: 3, startedAt: new Date() });
+    // A second start of the queue, as `npm start` after a stop: its recovery finds both rows.
+    const restarted = createEmbeddedRunQueue({ logger: t.ctx.logger, threads: 1 });
+    try {
+      await restarted.start();
+      const { build } = await waitForBuild(owner, projectId, interrupted.id);
+      expect(build.status, build.error ?? '').toBe('succeeded');
+      expect((await LibraryBuildModel.findByPk(interrupted.id))?.attempts).toBe(2);
+      const failed = (await owner.get(`${base()}/${worn.id}`)).body.build as LibraryBuild;
+      expect(failed).toMatchObject({ status: 'failed', libraryId: null });
+      expect(failed.error).toMatch(/the server stopped during this library build 3 times; start a smaller one/);
+    } finally {
+      await restarted.stop();
+    }
   });
 
   it('a viewer reads builds but cannot start or cancel one', async () => {

@@ -67,24 +67,15 @@ function convergenceReport(r: ResolvedSpec, built: BuiltLibrary): LibraryBuildRe
 
 /** What the plots need: sizes, per-atom transmission and powers, convergence, subset. */
 function resultOf(r: ResolvedSpec, built: BuiltLibrary, subsetSize: number | null): LibraryBuildResult {
-  const atoms = built.library.atoms.map((a, i) => {
-    const p = built.powers[i];
-    return {
-      id: a.id,
-      widthNm: nm(a.width),
-      lengthNm: nm(a.length),
-      tx: a.tx,
-      alphaX: a.alphaX,
-      ty: a.ty,
-      alphaY: a.alphaY,
-      zeroOrderX: p.zeroOrderX,
-      zeroOrderY: p.zeroOrderY,
-      otherOrdersX: p.otherOrdersX,
-      otherOrdersY: p.otherOrdersY,
-      reflectedX: p.reflectedX,
-      reflectedY: p.reflectedY,
-    };
-  });
+  const atoms = built.library.atoms.map((a, i) => ({
+    ...built.powers[i],
+    widthNm: nm(a.width),
+    lengthNm: nm(a.length),
+    tx: a.tx,
+    alphaX: a.alphaX,
+    ty: a.ty,
+    alphaY: a.alphaY,
+  }));
   const subset = subsetSize === null ? null : proposeSubset(built.library.atoms, subsetSize).map((i) => built.library.atoms[i].id);
   return { sizesNm: r.sizes.map(nm), atoms, convergence: convergenceReport(r, built), subset };
 }
