@@ -199,6 +199,9 @@ describe('library builds: validation, roles, personal libraries', () => {
     expect(bad.body.details['spec.harmonics']).toMatch(/odd whole number/);
     expect(bad.body.details['spec.pillar']).toMatch(/unknown material 'unobtainium'/);
     expect(bad.body.error).toMatch(/3 problems/);
+    const longName = await owner.post(base(), { spec: { ...smallSpec(7, 5), pillar: { name: 'x'.repeat(61), n: 2 } }, scope: 'project' });
+    expect(longName.status).toBe(400);
+    expect(longName.body.details['spec.pillar.name']).toBe('at most 60 characters');
     const noScope = await owner.post(base(), { spec: smallSpec(7, 5) });
     expect(noScope.status).toBe(400);
     expect(noScope.body.details.scope).toMatch(/project, personal/);

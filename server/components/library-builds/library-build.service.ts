@@ -5,7 +5,7 @@
  */
 import { availableParallelism } from 'node:os';
 import { Op } from 'sequelize';
-import { LibrarySpecError, libraryName, parseLibrarySpec, specDiffraction, type ResolvedSpec } from '../../../shared/optics/library-builder';
+import { LibrarySpecError, libraryName, parseLibrarySpec, specDiffraction, specSource, type ResolvedSpec } from '../../../shared/optics/library-builder';
 import type { LibraryBuild, LibraryBuildEstimate, LibraryBuildRequest, LibraryBuildResult } from '../../../shared/schemas/library-builds';
 import type { AppContext } from '../../context';
 import { AppError } from '../../lib/app-error';
@@ -18,6 +18,9 @@ import { LibraryBuildModel } from './library-build.model';
 const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null);
 const createdBy = { model: UserModel, as: 'createdBy', attributes: ['id', 'name'] };
 const NAME_MAX = 120;
+/** Longest source line an atom library keeps (atom_libraries.source). */
+const SOURCE_MAX = 500;
+const MATERIAL_NAME_MAX = 60;
 
 function toBuild(build: LibraryBuildModel): LibraryBuild {
   return {
@@ -54,7 +57,15 @@ function resolveSpec(raw: unknown): ResolvedSpec {
     const count = error.problems.length;
     throw new AppError(400, `The library spec has ${count === 1 ? 'a problem' : `${count} problems`} — ${error.message}`, details);
   }
-  if (resolved.spec.name.length > NAME_MAX) throw new AppError(400, `The library spec has a problem — name: at most ${NAME_MAX} characters`, { 'spec.name': `at most ${NAME_MAX} characters` });
+  const problem = (field: string, message: string) => new AppError(400, `The library spec has a problem — ${field}: ${message}`, { [`spec.${field}`]: message });
+  if (resolved.spec.name.length > NAME_MAX) throw problem('name', `at most ${NAME_MAX} characters`);
+  // The stored library keeps its source line (RCWA, harmonics, materials, λ, P, height) in SOURCE_MAX characters.
+  for (const field of ['pillar', 'substrate', 'superstrate'] as const) {
+    const material = resolved.spec[field];
+    if (typeof material === 'object' && (material.name?.length ?? 0) > MATERIAL_NAME_MAX) throw problem(`${field}.name`, `at most ${MATERIAL_NAME_MAX} characters`);
+  }
+  const source = specSource(resolved);
+  if (source.length > SOURCE_MAX) throw problem('pillar', `the materials' names make the library's source line ${source.length} characters long, more than ${SOURCE_MAX}: shorten them`);
   return resolved;
 }
 
