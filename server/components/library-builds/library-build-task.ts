@@ -40,7 +40,7 @@ export type LibraryBuildMessage = { type: 'started' } | { type: 'progress'; prog
 
 export type LibraryBuildTaskResult =
   /** `library` null: the atoms cannot make an atom library (`refusal` says why); the result is kept for the plots. */
-  | { ok: true; library: StorableLibrary | null; refusal: string | null; result: LibraryBuildResult; warnings: string[] }
+  | { ok: true; library: StorableLibrary | null; refusal: string | null; result: LibraryBuildResult }
   | { ok: false; message: string; detail?: string };
 
 const PROGRESS_INTERVAL_MS = 150;
@@ -111,7 +111,7 @@ export default async function libraryBuildTask(task: LibraryBuildTask): Promise<
     const reading = readAtomLibraryCsv(Buffer.from(atomLibraryToCsv(built.library), 'utf8'), { name: task.name, scope: task.scope, material: '', wavelengthNm: undefined, periodNm: undefined, heightNm: undefined }, OWN_FILE);
     // Atoms whose phases leave a gap runs cannot fill: refused as the same file uploaded would be.
     const refusal = reading.library ? null : reading.problems.map((p) => p.message).join('; ') || 'the library could not be read back';
-    return { ok: true, library: reading.library, refusal, result, warnings: built.warnings };
+    return { ok: true, library: reading.library, refusal, result };
   } catch (error) {
     const err = error instanceof Error ? error : new Error(String(error));
     return { ok: false, message: err.message, detail: err.stack };
