@@ -323,6 +323,7 @@ export function createRedisRunWorker(options: RedisRunWorkerOptions): RedisRunWo
   async function libraryBuildJob(buildId: number) {
     const build = await LibraryBuildModel.findByPk(buildId, { attributes: ['id', 'status', 'attempts'] });
     if (!build) return;
+    logger.info({ buildId, status: build.status }, 'library build taken');
     // Running: the job was stalled, the worker that held it stopped mid-build.
     if (build.status === 'running' && (await requeueInterruptedBuild(build, 'a worker')) !== 'queued') return;
     executor.libraryBuilds.enqueue(buildId);
