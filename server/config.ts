@@ -76,12 +76,14 @@ const envSchema = z.object({
   RUN_LOCK_SECONDS: z.coerce.number().min(0.2).max(3600).default(30),
   /** How often the server compares the queued and running runs with the jobs in Redis and gives any without one a job, s. */
   RUN_QUEUE_RECHECK_SECONDS: z.coerce.number().min(0).max(3600).default(30),
-  /** Queued + running runs (tolerance studies included) one person may have at once, over all projects. */
+  /** Queued + running runs (tolerance studies and library builds included) one person may have at once, over all projects. */
   RUNS_PER_USER: z.coerce.number().int().min(1).default(4),
-  /** Queued + running runs (tolerance studies included) of one project at once. */
+  /** Queued + running runs (tolerance studies and library builds included) of one project at once. */
   RUNS_PER_PROJECT: z.coerce.number().int().min(1).default(8),
   /** A run or tolerance study still running this long after it started is stopped and failed. */
   RUN_TIME_LIMIT_MINUTES: z.coerce.number().positive().default(60),
+  /** A library build still running this long after it started is stopped and failed. */
+  LIBRARY_BUILD_TIME_LIMIT_MINUTES: z.coerce.number().positive().default(30),
   /** Bytes one project may store (uploads + run files), in MiB. */
   PROJECT_STORAGE_MB: z.coerce.number().positive().default(2048),
   /** Run event streams (Server-Sent Events) one person may hold open at once. */

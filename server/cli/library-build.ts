@@ -49,8 +49,11 @@ export function parseLibraryBuildArgs(rest: string[]): LibraryBuildArgs {
   return { spec, out, threads };
 }
 
-/** `count` worker threads computing sweep atoms of `spec`; compute(index, lane) runs on worker `lane`. */
-function workerPool(spec: LibrarySpec, count: number) {
+/**
+ * `count` worker threads computing sweep atoms of `spec`; compute(index, lane) runs on worker `lane`. Also the
+ * lanes of a library build on the run workers (server/components/library-builds/library-build-task.ts).
+ */
+export function libraryWorkerPool(spec: LibrarySpec, count: number) {
   const pending = new Map<number, { resolve: (r: SweepAtom) => void; reject: (e: Error) => void }>();
   let nextId = 0;
   const workers = Array.from({ length: count }, () => {
@@ -116,7 +119,7 @@ export async function libraryBuildCommand(args: LibraryBuildArgs): Promise<numbe
   const h = resolved.spec.harmonics;
   const threads = Math.min(args.threads, n * n);
   process.stderr.write(`library build: ${n} × ${n} = ${n * n} atoms at ${h}×${h} harmonics, ${threads > 1 ? `${threads} worker threads` : 'one thread'}\n`);
-  const pool = threads > 1 ? workerPool(resolved.spec, threads) : undefined;
+  const pool = threads > 1 ? libraryWorkerPool(resolved.spec, threads) : undefined;
   let lastPercent = -100;
   let lastTime = 0;
   try {

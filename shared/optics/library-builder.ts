@@ -404,9 +404,8 @@ export async function buildAtomLibrary(r: ResolvedSpec, options: BuildOptions = 
   };
   await Promise.all(Array.from({ length: lanes }, (_, k) => lane(k)));
   options.signal?.throwIfAborted();
-  const nm = (v: number): string => `${Math.round(v * 1e10) / 10} nm`;
   const library: AtomLibrary = {
-    name: r.spec.name || `RCWA ${materialShort(r.spec.pillar)} pillars, ${nm(r.height)} tall, P = ${nm(r.period)}, λ = ${nm(r.lambda)}`,
+    name: libraryName(r),
     lambda: r.lambda,
     period: r.period,
     height: r.height,
@@ -421,6 +420,12 @@ export async function buildAtomLibrary(r: ResolvedSpec, options: BuildOptions = 
     warnings: specDiffraction(r).map((d) => d.message),
     secondsPerAtom: total > 0 ? (now() - start) / 1000 / total : 0,
   };
+}
+
+/** The library's name: the spec's, or one saying what was computed. */
+export function libraryName(r: ResolvedSpec): string {
+  const nm = (v: number): string => `${Math.round(v * 1e10) / 10} nm`;
+  return r.spec.name || `RCWA ${materialShort(r.spec.pillar)} pillars, ${nm(r.height)} tall, P = ${nm(r.period)}, λ = ${nm(r.lambda)}`;
 }
 
 function materialShort(m: SpecMaterial): string {
