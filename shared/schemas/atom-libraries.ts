@@ -45,6 +45,9 @@ export const ATOM_CSV_METADATA_DOCS = [
   { key: 'material', meaning: 'Material and platform note', example: 'Si₃N₄ on fused silica, in air' },
   { key: 'approximate', meaning: "'false' for full-wave or measured data; anything else (or no line) marks the library approximate", example: 'false' },
   { key: 'source', meaning: 'Where the numbers come from', example: 'RCWA sweep, 2026-11' },
+  { key: 'light_from', meaning: "'substrate' when the light entered through the substrate, 'superstrate' when it fell onto the pillars (optional)", example: 'substrate' },
+  { key: 'substrate_index', meaning: 'Substrate index n at the design wavelength (optional; for the lattice-diffraction note)', example: '1.457' },
+  { key: 'superstrate_index', meaning: 'Index above and around the pillars at the design wavelength (optional)', example: '1' },
 ] as const;
 
 /** A short valid-looking example of the format (header, metadata, two atoms). */
