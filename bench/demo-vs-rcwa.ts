@@ -19,7 +19,7 @@ const library = demoAtomLibrary();
 const f3 = (v: number): string => v.toFixed(3);
 const signed = (v: number): string => (v >= 0 ? '+' : '−') + Math.abs(v).toFixed(2);
 console.log(`Demo library against RCWA; light through the substrate; load ${loadavg().map((v) => v.toFixed(2)).join(', ')}, 2 cores`);
-console.log(`| atom | t_x demo / RCWA | t_y demo / RCWA | α_x demo / RCWA (Δ) | α_y demo / RCWA (Δ) | T₀ x, y | other orders x, y: from substrate / onto pillars | R x, y | Δt, Δα ${harmonics}→${finer} |`);
+console.log(`| atom | t_x demo / RCWA | t_y demo / RCWA | α_x demo / RCWA (Δ) | α_y demo / RCWA (Δ) | T₀ x, y | other orders x, y: from substrate / onto pillars | R x, y (zeroth order) | Δt, Δα ${harmonics}→${finer} |`);
 console.log('|---|---|---|---|---|---|---|---|---|');
 for (const id of finer > 0 ? IDS : []) {
   const atom = library.atoms.find((a) => a.id === id);
@@ -33,7 +33,7 @@ for (const id of finer > 0 ? IDS : []) {
   console.log(
     `| ${id} | ${f3(r.demo.tx)} / ${f3(r.rcwa.tx)} | ${f3(r.demo.ty)} / ${f3(r.rcwa.ty)} | ${f3(r.demo.alphaX)} / ${f3(r.rcwa.alphaX)} (${signed(r.difference.alphaX)}) | ` +
       `${f3(r.demo.alphaY)} / ${f3(r.rcwa.alphaY)} (${signed(r.difference.alphaY)}) | ${f3(r.x.zeroOrder)}, ${f3(r.y.zeroOrder)} | ` +
-      `${f3(r.x.otherOrders)}, ${f3(r.y.otherOrders)} / ${f3(top.x.otherOrders)}, ${f3(top.y.otherOrders)} | ${f3(r.x.reflected)}, ${f3(r.y.reflected)} | ${dt.toFixed(3)}, ${da.toFixed(3)} |`,
+      `${f3(r.x.otherOrders)}, ${f3(r.y.otherOrders)} / ${f3(top.x.otherOrders)}, ${f3(top.y.otherOrders)} | ${f3(r.x.reflected)}, ${f3(r.y.reflected)} (${f3(r.x.zeroOrderReflected)}, ${f3(r.y.zeroOrderReflected)}) | ${dt.toFixed(3)}, ${da.toFixed(3)} |`,
   );
 }
 

@@ -17,11 +17,18 @@ export interface DemoAgainstRcwa {
   rcwa: Pick<MetaAtom, 'tx' | 'ty' | 'alphaX' | 'alphaY'>;
   /** RCWA − demo. */
   difference: Pick<MetaAtom, 'tx' | 'ty' | 'alphaX' | 'alphaY'>;
-  /** RCWA powers for x and y input: zeroth-order and other-order transmittance, total reflectance. */
-  x: { zeroOrder: number; otherOrders: number; reflected: number };
-  y: { zeroOrder: number; otherOrders: number; reflected: number };
+  /** RCWA powers for x and y input: zeroth-order and other-order transmittance, total and zeroth-order reflectance. */
+  x: DemoRcwaPowers;
+  y: DemoRcwaPowers;
   harmonics: number;
   lightFrom: LightSide;
+}
+
+export interface DemoRcwaPowers {
+  zeroOrder: number;
+  otherOrders: number;
+  reflected: number;
+  zeroOrderReflected: number;
 }
 
 const wrapPi = (a: number): number => a - 2 * Math.PI * Math.round(a / (2 * Math.PI));
@@ -40,7 +47,12 @@ export function demoAgainstRcwa(library: AtomLibrary, atom: MetaAtom, harmonics:
   const r = computeAtom(cell, { lambda: library.lambda, harmonics, illumination: lightFrom });
   const demo = { tx: atom.tx, ty: atom.ty, alphaX: atom.alphaX, alphaY: atom.alphaY };
   const rcwa = { tx: r.tx, ty: r.ty, alphaX: r.alphaX, alphaY: r.alphaY };
-  const powers = (p: typeof r.x) => ({ zeroOrder: p.zeroOrderTransmitted, otherOrders: p.otherOrdersTransmitted, reflected: p.reflected });
+  const powers = (p: typeof r.x): DemoRcwaPowers => ({
+    zeroOrder: p.zeroOrderTransmitted,
+    otherOrders: p.otherOrdersTransmitted,
+    reflected: p.reflected,
+    zeroOrderReflected: p.zeroOrderReflected,
+  });
   return {
     id: atom.id,
     width: atom.width,
