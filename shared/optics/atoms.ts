@@ -6,6 +6,7 @@
  * device the pillar of a cell is rotated by the cell's θ (counter-clockwise, x towards y), so its
  * Jones matrix is R(θ)·diag(tx e^{iαx}, ty e^{iαy})·R(θ)ᵀ (exp(−iωt), radians, metres).
  */
+import { DESIGN_VALUE_WORDS } from '../design-values';
 import { LIGHT_SIDES } from '../schemas/design';
 import { float64Array, int32Array, type ArrayMemory } from './arrays';
 import type { CancelSignal, ComplexField, JonesField, ProgressCallback } from './types';
@@ -64,11 +65,8 @@ export interface AtomLibraryMeta {
 export type LightSide = (typeof LIGHT_SIDES)[number];
 export { LIGHT_SIDES };
 
-/** How a side is named to a person. */
-export const LIGHT_SIDE_LABELS: Readonly<Record<LightSide, string>> = {
-  substrate: 'through the substrate',
-  superstrate: 'onto the pillars (from the superstrate)',
-};
+/** How a side is named to a person (the design's words for setup.lightFrom). */
+export const LIGHT_SIDE_LABELS = DESIGN_VALUE_WORDS.lightFrom as Readonly<Record<LightSide, string>>;
 
 /** What a library says about its cell's media: the light's side and the half-spaces' indices, each when known. */
 export interface LibraryMedia {
