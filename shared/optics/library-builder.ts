@@ -647,8 +647,8 @@ export function designCellNotes(design: { wavelengthNm: number; periodNm: number
   const sideMismatch =
     media.lightFrom && media.lightFrom !== design.lightFrom
       ? `the design has the light entering ${LIGHT_SIDE_LABELS[design.lightFrom]}, the library was computed for light entering ${LIGHT_SIDE_LABELS[media.lightFrom]}: ` +
-        `a mirror-symmetric pillar's zeroth-order t and α are the same from both sides (reciprocity), but the light it loses goes elsewhere ` +
-        `(other transmitted orders instead of reflected ones, or the reverse), and the layout is drawn seen from the side the light goes to`
+        `for mirror-symmetric pillars the zeroth-order t and α are the same from both sides (reciprocity), but the light they lose goes elsewhere ` +
+        `(into other transmitted orders instead of reflected ones, or the reverse), so the library's powers and notes describe the other side`
       : null;
   if (media.substrateIndex === undefined || media.superstrateIndex === undefined) return { sideMismatch, diffraction: [], mediaUnknown: true };
   const diffraction = cellDiffraction(design.periodNm * 1e-9, design.wavelengthNm * 1e-9, {

@@ -77,7 +77,7 @@ export function SetupSection() {
           path={['setup', 'lightFrom']}
           label="Light enters"
           options={lightFromOptions}
-          hint="Through the substrate: it leaves from the pillars’ side. Onto the pillars: it leaves through the substrate. The atom library should be computed for the same side."
+          hint="Through the substrate: it leaves from the pillars’ side. Onto the pillars: it leaves through the substrate, and the layout files, drawn seen from the side the light goes to, are the mask mirrored. Compute the atom library for the same side."
           className="sm:col-span-2"
         />
         <DesignText
