@@ -7,13 +7,13 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { specProblems } from '../support/library-spec';
 import { parseAtomLibraryCsv, atomLibraryToCsv, libraryMedia, type LibraryIssue, type MetaAtom } from '../../shared/optics/atoms';
 import {
   buildAtomLibrary,
   coveringRadius,
   estimateBuildCost,
   LIBRARY_MATERIALS,
-  LibrarySpecError,
   parseLibrarySpec,
   proposeSubset,
   specCell,
@@ -44,15 +44,7 @@ const demoSpec = {
 const coverageIssue = (i: LibraryIssue): boolean =>
   i.row === 0 && ((['alphaX', 'alphaY'].includes(i.field) && /leave a gap/.test(i.message)) || (i.field === 'atoms' && /at least 8 are needed/.test(i.message)));
 
-function problemsOf(raw: unknown) {
-  try {
-    parseLibrarySpec(raw);
-  } catch (error) {
-    expect(error).toBeInstanceOf(LibrarySpecError);
-    return (error as LibrarySpecError).problems;
-  }
-  throw new Error('the spec was accepted');
-}
+const problemsOf = specProblems;
 
 describe('build spec validation', () => {
   it('accepts the demo spec and lays the sweep from the smallest feature to P − smallest gap', () => {

@@ -7,8 +7,9 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { specProblems } from '../support/library-spec';
 import { parseAtomLibraryCsv } from '../../shared/optics/atoms';
-import { computeSweepAtom, LibrarySpecError, parseLibrarySpec } from '../../shared/optics/library-builder';
+import { computeSweepAtom, parseLibrarySpec } from '../../shared/optics/library-builder';
 import { refractiveIndex, SILICON_NITRIDE } from '../../shared/optics/materials';
 import { NkTableError, parseNkTableCsv, tabulatedIndex, type NkPoint, type NkTable } from '../../shared/optics/nk-table';
 import { materialIndex } from '../../shared/optics/rcwa';
@@ -127,15 +128,7 @@ const spec = {
   harmonics: 5,
 };
 
-function problemsOf(raw: unknown, options = {}) {
-  try {
-    parseLibrarySpec(raw, options);
-  } catch (error) {
-    expect(error).toBeInstanceOf(LibrarySpecError);
-    return (error as LibrarySpecError).problems;
-  }
-  throw new Error('the spec was accepted');
-}
+const problemsOf = specProblems;
 
 describe('tabulated materials in a library spec', () => {
   it("a table made from Luke et al.'s fit gives computeAtom's results of the fit, to interpolation error", () => {
