@@ -216,6 +216,10 @@ function resolveMaterial(value: unknown, field: string, lambda: number, problems
     const memo = entry.fromMemory ? ', coefficients from memory' : '';
     return { kind: 'constant', n, k, name: `${entry.name} n = ${n.toFixed(4)} (${entry.source}${memo})` };
   }
+  if (value !== null && typeof value === 'object' && !Array.isArray(value) && 'nkCsv' in value) {
+    problems.push({ field: `${field}.nkCsv`, message: 'a file name is read by the command line only: give the rows here as "table": [[λ nm, n, k], …] with a "name"' });
+    return undefined;
+  }
   if (value !== null && typeof value === 'object' && !Array.isArray(value) && 'table' in value) {
     return resolveTable(value as Record<string, unknown>, field, lambda, problems, limits);
   }

@@ -157,6 +157,10 @@ describe('tabulated materials in a library spec', () => {
       message: 'each row is [wavelength nm, n, k], three numbers; got [700,"2",0]',
     });
     expect(problemsOf({ ...spec, pillar: { name: 'SiN', table: rows, colour: 'red' } })[0].message).toMatch(/unknown key colour/);
+    // A file name is for the command line; a spec that reaches parseLibrarySpec (e.g. from the browser) holds the rows.
+    expect(problemsOf({ ...spec, pillar: { nkCsv: 'sin.csv' } })).toEqual([
+      { field: 'pillar.nkCsv', message: 'a file name is read by the command line only: give the rows here as "table": [[λ nm, n, k], …] with a "name"' },
+    ]);
   });
 
   it('counts rows against the limit before reading them', () => {
