@@ -54,11 +54,6 @@ export interface AtomLibraryMeta {
   approximate: boolean;
   /** Where the numbers come from. */
   source?: string;
-  /** The side the light entered from when the transmissions were computed (undefined: not said). */
-  lightFrom?: LightSide;
-  /** Real parts of the substrate's and the superstrate's indices at λ (undefined: not said). */
-  substrateIndex?: number;
-  superstrateIndex?: number;
 }
 
 /** Where the light enters a cell: through the substrate (exiting into the superstrate), or onto the pillars from the superstrate. */
@@ -68,7 +63,7 @@ export { LIGHT_SIDES };
 /** How a side is named to a person (the design's words for setup.lightFrom). */
 export const LIGHT_SIDE_LABELS = DESIGN_VALUE_WORDS.lightFrom as Readonly<Record<LightSide, string>>;
 
-/** What a library says about its cell's media: the light's side and the half-spaces' indices, each when known. */
+/** What a library says about its cell: the light's side and the half-spaces' indices, each when known. */
 export interface LibraryMedia {
   lightFrom?: LightSide;
   substrateIndex?: number;
@@ -76,21 +71,31 @@ export interface LibraryMedia {
 }
 
 /**
- * The light's side and the half-spaces' indices a library records: its own fields, else the source line the
- * library builder writes ("… light from the substrate side (substrate n = 1.4570, superstrate n = 1.0000) …"),
- * which survives wherever the library's source text is kept. Example: libraryMedia({ source: 'RCWA …; light from
- * the superstrate side (substrate n = 1.4570, superstrate n = 1.0000)' }) → { lightFrom: 'superstrate',
+ * The words a library's source line uses for its cell, which `libraryMedia` reads back: the library's source is
+ * kept wherever the library goes (CSV, the server's library rows, a run's atoms.csv), so no other field is needed.
+ * Example: mediaPhrase({ lightFrom: 'substrate', substrateIndex: 1.457012, superstrateIndex: 1 }) →
+ * 'light from the substrate side (substrate n = 1.4570, superstrate n = 1.0000)'.
+ */
+export function mediaPhrase(media: Required<LibraryMedia>): string {
+  return `light from the ${media.lightFrom} side (substrate n = ${media.substrateIndex.toFixed(4)}, superstrate n = ${media.superstrateIndex.toFixed(4)})`;
+}
+
+/**
+ * The light's side and the half-spaces' indices a library's source line states in `mediaPhrase`'s words (the side
+ * alone when the indices are missing; nothing when the line does not say). Example: libraryMedia({ source: 'RCWA …;
+ * light from the superstrate side (substrate n = 1.4570, superstrate n = 1.0000)' }) → { lightFrom: 'superstrate',
  * substrateIndex: 1.457, superstrateIndex: 1 }.
  */
-export function libraryMedia(library: LibraryMedia & { source?: string | null }): LibraryMedia {
-  const out: LibraryMedia = {};
-  const m = /light from the (substrate|superstrate) side(?: \(substrate n = ([0-9.]+), superstrate n = ([0-9.]+)\))?/.exec(library.source ?? '');
-  const lightFrom = library.lightFrom ?? (m?.[1] as LightSide | undefined);
-  const substrateIndex = library.substrateIndex ?? (m?.[2] ? Number(m[2]) : undefined);
-  const superstrateIndex = library.superstrateIndex ?? (m?.[3] ? Number(m[3]) : undefined);
-  if (lightFrom) out.lightFrom = lightFrom;
-  if (substrateIndex !== undefined && Number.isFinite(substrateIndex)) out.substrateIndex = substrateIndex;
-  if (superstrateIndex !== undefined && Number.isFinite(superstrateIndex)) out.superstrateIndex = superstrateIndex;
+export function libraryMedia(library: { source?: string | null }): LibraryMedia {
+  const m = /light from the (substrate|superstrate) side(?: \(substrate n = ([0-9.]+), superstrate n = ([0-9.]+)\))?/i.exec(library.source ?? '');
+  if (!m) return {};
+  const out: LibraryMedia = { lightFrom: m[1].toLowerCase() as LightSide };
+  const sub = Number(m[2]);
+  const sup = Number(m[3]);
+  if (m[2] && Number.isFinite(sub) && sub > 0 && m[3] && Number.isFinite(sup) && sup > 0) {
+    out.substrateIndex = sub;
+    out.superstrateIndex = sup;
+  }
   return out;
 }
 
@@ -605,9 +610,6 @@ const META_KEYS = {
   material: 'material',
   approximate: 'approximate',
   source: 'source',
-  lightFrom: 'light_from',
-  substrateIndex: 'substrate_index',
-  superstrateIndex: 'superstrate_index',
 } as const;
 
 const CSV_COLUMN_OF_FIELD: Record<string, string> = {
@@ -640,8 +642,7 @@ function csvField(text: string): string {
 
 /**
  * CSV text of a library: the header row of ATOM_CSV_COLUMNS first, then `# key: value` metadata
- * lines (name, design_wavelength_nm, period_nm, height_nm, material, approximate, source, and light_from,
- * substrate_index, superstrate_index when known), then one
+ * lines (name, design_wavelength_nm, period_nm, height_nm, material, approximate, source), then one
  * row per atom. Lengths in nm (rounded to 1e-4 nm), phases in radians (shortest exact decimal).
  * The header comes first so that np.genfromtxt(path, delimiter=',', names=True, comments='#',
  * dtype=None) and pandas.read_csv(path, comment='#') both read it directly.
@@ -657,9 +658,6 @@ export function atomLibraryToCsv(library: AtomLibrary): string {
   lines.push(`# ${META_KEYS.material}: ${oneLine(library.material)}`);
   lines.push(`# ${META_KEYS.approximate}: ${library.approximate ? 'true' : 'false'}`);
   if (library.source) lines.push(`# ${META_KEYS.source}: ${oneLine(library.source)}`);
-  if (library.lightFrom) lines.push(`# ${META_KEYS.lightFrom}: ${library.lightFrom}`);
-  if (library.substrateIndex !== undefined) lines.push(`# ${META_KEYS.substrateIndex}: ${library.substrateIndex}`);
-  if (library.superstrateIndex !== undefined) lines.push(`# ${META_KEYS.superstrateIndex}: ${library.superstrateIndex}`);
   for (const a of library.atoms) {
     lines.push(
       [
@@ -864,17 +862,6 @@ export function parseAtomLibraryCsv(
   const source = meta.source ?? found[META_KEYS.source];
   if (source !== undefined) library.source = source;
   const done = () => ({ library, issues, issueCount, errorCount });
-  const lightFrom = meta.lightFrom ?? found[META_KEYS.lightFrom];
-  if (lightFrom !== undefined) {
-    if ((LIGHT_SIDES as readonly string[]).includes(lightFrom)) library.lightFrom = lightFrom as LightSide;
-    else add({ severity: 'error', row: 0, field: 'lightFrom', column: META_KEYS.lightFrom, message: `light_from must be 'substrate' or 'superstrate', got '${lightFrom.slice(0, 40)}'` });
-  }
-  for (const key of ['substrateIndex', 'superstrateIndex'] as const) {
-    const v = meta[key] ?? numberMeta(META_KEYS[key], 1);
-    if (v === undefined) continue;
-    if (Number.isFinite(v) && v > 0) library[key] = v;
-    else add({ severity: 'error', row: 0, field: key, column: META_KEYS[key], message: `${META_KEYS[key]} must be a positive number, got '${(found[META_KEYS[key]] ?? String(v)).slice(0, 40)}'` });
-  }
   if (!header) {
     add({ severity: 'error', row: 0, field: 'header', column: 'header', message: 'no header row found' });
     return done();

@@ -9,7 +9,7 @@
 import { FUSED_SILICA, refractiveIndex, SILICON_NITRIDE } from './materials';
 import { checkNkPoints, NK_TABLE_LIMITS, NK_TABLE_TEXT_LIMITS, NkTableError, tabulatedIndex, type NkPoint, type NkTableLimits } from './nk-table';
 import { computeAtom, latticeDiffraction, materialIndex, materialLabel, type LatticeDiffraction, type RcwaAtomResult, type RcwaCell, type RcwaIllumination, type RcwaMaterial } from './rcwa';
-import { LIGHT_SIDE_LABELS, libraryMedia, type AtomLibrary, type LibraryMedia, type LightSide, type MetaAtom } from './atoms';
+import { LIGHT_SIDE_LABELS, libraryMedia, mediaPhrase, type AtomLibrary, type LibraryMedia, type LightSide, type MetaAtom } from './atoms';
 
 // ---------------------------------------------------------------------------------------------------------
 // Materials by name
@@ -388,8 +388,7 @@ export function specSource(r: ResolvedSpec): string {
   const h = r.spec.harmonics;
   const m = specMedia(r);
   return (
-    `RCWA (Fourier modal method, Li 1997 factorization), ${h}×${h} harmonics; light from the ${m.lightFrom} side ` +
-    `(substrate n = ${m.substrateIndex.toFixed(4)}, superstrate n = ${m.superstrateIndex.toFixed(4)}); λ = ${nm(r.lambda)}, P = ${nm(r.period)}, ` +
+    `RCWA (Fourier modal method, Li 1997 factorization), ${h}×${h} harmonics; ${mediaPhrase(m)}; λ = ${nm(r.lambda)}, P = ${nm(r.period)}, ` +
     `height ${nm(r.height)}; pillar ${materialLabel(r.pillar)}, substrate ${materialLabel(r.substrate)}, superstrate ${materialLabel(r.superstrate)}; ` +
     `zeroth-order transmission`
   );
@@ -515,7 +514,6 @@ export async function buildAtomLibrary(r: ResolvedSpec, options: BuildOptions = 
     material: `${materialShort(r.spec.pillar)} pillars on ${materialShort(r.spec.substrate)} under ${materialShort(r.spec.superstrate)}`,
     approximate: false,
     source: specSource(r),
-    ...specMedia(r),
     atoms: results.map((x) => x.atom),
   };
   return {
@@ -646,7 +644,7 @@ export interface DesignCellNotes {
  * the side mismatch and `cellDiffraction` for the design's side. Used by the composer and by every run.
  * Example: designCellNotes({ wavelengthNm: 633, periodNm: 450, lightFrom: 'substrate' }, demo).diffraction[0].limit → 434.5e-9.
  */
-export function designCellNotes(design: { wavelengthNm: number; periodNm: number; lightFrom: LightSide }, library: LibraryMedia & { source?: string | null }): DesignCellNotes {
+export function designCellNotes(design: { wavelengthNm: number; periodNm: number; lightFrom: LightSide }, library: { source?: string | null }): DesignCellNotes {
   const media = libraryMedia(library);
   const sideMismatch =
     media.lightFrom && media.lightFrom !== design.lightFrom

@@ -99,8 +99,7 @@ describe('the sweep', () => {
     expect(built.library.source).toMatch(
       /^RCWA .*5×5 harmonics; light from the superstrate side \(substrate n = 1\.4570, superstrate n = 1\.0000\); λ = 633 nm, P = 450 nm, height 1200 nm; pillar silicon nitride .*Luke/,
     );
-    // The side and the indices, as fields and read back from the source line alone (what a stored library keeps).
-    expect(built.library).toMatchObject({ lightFrom: 'superstrate', superstrateIndex: 1 });
+    // The side and the indices, read back from the source line (what every copy of a library keeps).
     expect(libraryMedia({ source: built.library.source })).toEqual({ lightFrom: 'superstrate', substrateIndex: 1.457, superstrateIndex: 1 });
     expect(built.library.atoms).toHaveLength(4);
     const atom = built.library.atoms[1]; // w 100 nm, l 300 nm
@@ -117,7 +116,7 @@ describe('the sweep', () => {
     expect(read.issues.filter((i) => !coverageIssue(i))).toEqual([]);
     expect(read.library.approximate).toBe(false);
     expect(read.library.source).toBe(built.library.source);
-    expect(read.library).toMatchObject({ lightFrom: 'superstrate', substrateIndex: built.library.substrateIndex, superstrateIndex: 1 });
+    expect(libraryMedia(read.library).lightFrom).toBe('superstrate');
     expect(read.library.atoms.map((a) => a.alphaX)).toEqual(built.library.atoms.map((a) => a.alphaX));
     expect(read.library.atoms.map((a) => Math.round(a.width * 1e13) / 1e4)).toEqual([100, 100, 300, 300]);
   });

@@ -28,30 +28,26 @@ describe('the design field', () => {
 });
 
 describe('what a library records', () => {
-  it('the demo library: light through the substrate, fused silica below, air above', () => {
-    expect(demo).toMatchObject({ lightFrom: 'substrate', superstrateIndex: 1 });
-    expect(demo.substrateIndex).toBeCloseTo(1.457, 4);
-    expect(demo.source).toMatch(/P = 450 nm ≥ λ\/n = 434\.5 nm in the fused silica/);
+  it('the demo library: light through the substrate, fused silica below, air above, in its source line', () => {
+    expect(libraryMedia(demo)).toEqual({ lightFrom: 'substrate', substrateIndex: 1.457, superstrateIndex: 1 });
+    expect(demo.source).toMatch(/Computed for light from the substrate side \(substrate n = 1\.4570, superstrate n = 1\.0000\)\. P ≥ λ\/n = 434\.5 nm in the substrate/);
+    // A stored library keeps 500 characters of its source (server/components/atom-libraries/atom-library.model.ts).
+    expect(demo.source!.length).toBeLessThanOrEqual(500);
     // At P = 400 nm < 434.5 nm the library says nothing about lattice diffraction.
     expect(demoAtomLibrary({ period: 400e-9 }).source).not.toMatch(/diffracts/);
   });
 
-  it('round-trips light_from and the indices through the CSV, and refuses a bad side', () => {
-    const text = atomLibraryToCsv(demo);
-    expect(text).toMatch(/\n# light_from: substrate\n# substrate_index: 1\.457\d*\n# superstrate_index: 1\n/);
-    const read = parseAtomLibraryCsv(text).library;
-    expect(libraryMedia(read)).toEqual({ lightFrom: 'substrate', substrateIndex: demo.substrateIndex, superstrateIndex: 1 });
-    const bad = parseAtomLibraryCsv(text.replace('# light_from: substrate', '# light_from: top').replace('# superstrate_index: 1', '# superstrate_index: -2'));
-    expect(bad.issues.filter((i) => i.column === 'light_from').map((i) => i.message)).toEqual(["light_from must be 'substrate' or 'superstrate', got 'top'"]);
-    expect(bad.issues.filter((i) => i.column === 'superstrate_index')).toHaveLength(1);
+  it('the source line carries the side and the indices through the CSV', () => {
+    const read = parseAtomLibraryCsv(atomLibraryToCsv(demo)).library;
+    expect(libraryMedia(read)).toEqual(libraryMedia(demo));
   });
 
-  it('reads the side and indices from an RCWA source line when the library keeps only its text', () => {
+  it("reads the builder's words from any source line, and nothing from other text", () => {
     const source = 'RCWA (Fourier modal method, Li 1997 factorization), 11×11 harmonics; light from the superstrate side (substrate n = 1.4570, superstrate n = 1.0000); λ = 633 nm';
     expect(libraryMedia({ source })).toEqual({ lightFrom: 'superstrate', substrateIndex: 1.457, superstrateIndex: 1 });
+    expect(libraryMedia({ source: 'our lab; Light from the substrate side' })).toEqual({ lightFrom: 'substrate' });
     expect(libraryMedia({ source: 'measured in our lab' })).toEqual({});
-    // Fields win over the text.
-    expect(libraryMedia({ source, lightFrom: 'substrate' }).lightFrom).toBe('substrate');
+    expect(libraryMedia({ source: null })).toEqual({});
   });
 });
 

@@ -1,5 +1,5 @@
 import { useDeferredValue, useMemo } from 'react';
-import type { LibraryMedia, LightSide } from '@shared/optics/atoms';
+import type { LightSide } from '@shared/optics/atoms';
 import { demoAtomLibrary } from '@shared/optics/demo-library';
 import { designCellNotes } from '@shared/optics/library-builder';
 import { libraryMismatches, type AtomLibrarySummary } from '@shared/schemas/atom-libraries';
@@ -20,11 +20,10 @@ function describeLibrary(wavelengthNm: number, periodNm: number) {
       source: library.source ?? '',
       heightNm: Math.round(library.height * 1e9),
       pillars: library.atoms.filter((atom) => atom.shape !== 'empty').length,
-      media: { lightFrom: library.lightFrom, substrateIndex: library.substrateIndex, superstrateIndex: library.superstrateIndex } as LibraryMedia,
       error: null as string | null,
     };
   } catch (error) {
-    return { name: '', material: '', source: '', heightNm: 0, pillars: 0, media: {}, error: (error as Error).message };
+    return { name: '', material: '', source: '', heightNm: 0, pillars: 0, error: (error as Error).message };
   }
 }
 
@@ -35,7 +34,7 @@ interface DesignCell {
 }
 
 /** The light side against the library's and the lattice's own diffraction, with the numbers; non-blocking. */
-function CellNotes({ cell, library, demo = false }: { cell: DesignCell; library: LibraryMedia & { source?: string | null }; demo?: boolean }) {
+function CellNotes({ cell, library, demo = false }: { cell: DesignCell; library: { source?: string | null }; demo?: boolean }) {
   if (!(cell.wavelengthNm > 0 && cell.periodNm > 0)) return null;
   const notes = designCellNotes(cell, library);
   return (
@@ -62,8 +61,9 @@ function CellNotes({ cell, library, demo = false }: { cell: DesignCell; library:
       ) : null}
       {notes.mediaUnknown ? (
         <p className="text-ink-soft">
-          This library does not record its substrate and superstrate indices, so the lattice’s own diffraction is not checked here
-          (lines <code># substrate_index:</code> and <code># superstrate_index:</code> of its CSV give them).
+          This library does not record its substrate and superstrate indices, so the lattice’s own diffraction is not checked here. Its
+          source line gives them in the words the RCWA builder uses: “light from the substrate side (substrate n = 1.4570, superstrate n =
+          1.0000)”.
         </p>
       ) : null}
     </>
@@ -101,7 +101,7 @@ function DemoLibraryFacts({ wavelengthNm, periodNm, lightFrom }: DesignCell) {
       {library && !library.error && library.pillars === 0 ? (
         <Banner>At this period the demo library holds no pillars; use a larger period.</Banner>
       ) : null}
-      {library && !library.error ? <CellNotes cell={{ wavelengthNm: deferred.wavelengthNm, periodNm: deferred.periodNm, lightFrom }} library={library.media} demo /> : null}
+      {library && !library.error ? <CellNotes cell={{ wavelengthNm: deferred.wavelengthNm, periodNm: deferred.periodNm, lightFrom }} library={library} demo /> : null}
     </>
   );
 }
