@@ -9,7 +9,7 @@
 import { FUSED_SILICA, refractiveIndex, SILICON_NITRIDE } from './materials';
 import { checkNkPoints, NK_TABLE_LIMITS, NK_TABLE_TEXT_LIMITS, NkTableError, tabulatedIndex, type NkPoint, type NkTableLimits } from './nk-table';
 import { computeAtom, latticeDiffraction, materialIndex, materialLabel, type LatticeDiffraction, type RcwaAtomResult, type RcwaCell, type RcwaIllumination, type RcwaMaterial } from './rcwa';
-import { LIGHT_SIDE_LABELS, libraryMedia, mediaPhrase, type AtomLibrary, type LibraryMedia, type LightSide, type MetaAtom } from './atoms';
+import { LIGHT_SIDE_LABELS, libraryMedia, mediaPhrase, type AtomLibrary, type LightSide, type MetaAtom } from './atoms';
 
 // ---------------------------------------------------------------------------------------------------------
 // Materials by name

@@ -5,7 +5,7 @@
  */
 import { z } from 'zod';
 
-/** Where the light enters a cell (the same words as an RCWA library's `light_from`). */
+/** Where the light enters a cell (the same words as an RCWA library build spec's `illumination`). */
 export const LIGHT_SIDES = ['substrate', 'superstrate'] as const;
 
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, `${what} must be finite`);
