@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { ATOM_LIBRARY_LIMITS } from '../shared/schemas/atom-libraries';
+import { NK_TABLE_LIMITS } from '../shared/optics/nk-table';
 import { UPLOAD_LIMITS } from '../shared/schemas/uploads';
 
 const MIB = 1024 * 1024;
@@ -112,6 +113,9 @@ const envSchema = z.object({
   ATOM_CSV_MAX_COLUMNS: z.coerce.number().int().min(10).default(64),
   ATOM_CSV_MAX_LINE_CHARS: z.coerce.number().int().min(80).default(4_000),
   ATOM_CSV_MAX_PROBLEMS: z.coerce.number().int().min(1).default(200),
+  /** Rows of a tabulated n, k material in a library spec (parseLibrarySpec's nkLimits) and of an n, k CSV. */
+  NK_TABLE_MAX_ROWS: z.coerce.number().int().min(2).default(NK_TABLE_LIMITS.maxRows),
+  NK_TABLE_MAX_LINE_CHARS: z.coerce.number().int().min(40).default(NK_TABLE_LIMITS.maxLineChars),
   HEALTH_DB_TIMEOUT_MS: z.coerce.number().int().min(1).max(150, 'keep it under 150 ms: the health check answers within 200 ms').default(50),
 });
 
