@@ -264,6 +264,9 @@ export interface SpecOptions {
   nkLimits?: Partial<NkTableLimits>;
 }
 
+/** For a spec the server has checked against its configured limits already (its workers parse it again). */
+export const CHECKED_SPEC: SpecOptions = { nkLimits: { maxRows: Number.MAX_SAFE_INTEGER, maxLineChars: Number.MAX_SAFE_INTEGER } };
+
 /**
  * Checks a spec (parsed JSON) field by field; throws LibrarySpecError listing every problem with its field.
  * Example: parseLibrarySpec({ ...spec, periodNm: -1 }) throws "periodNm: must be a number from 50 to 5000 nm, got -1".

@@ -176,7 +176,7 @@ describe('library builds: validation, roles, personal libraries', () => {
   const base = () => `/api/projects/${projectId}/library-builds`;
 
   beforeAll(async () => {
-    t = await createTestApp();
+    t = await createTestApp({ NK_TABLE_MAX_ROWS: '5' });
     const ownerUser = await makeUser({ name: 'Owner' });
     ownerId = ownerUser.id;
     owner = await signedInClient(t.app, ownerUser);
@@ -216,6 +216,19 @@ describe('library builds: validation, roles, personal libraries', () => {
     expect(estimate.status).toBe(400);
     expect(estimate.body.details['spec.sweep.minFeatureNm']).toMatch(/no pillar fits/);
     expect((await owner.get(base())).body.builds).toEqual([]);
+  });
+
+  it('a tabulated n, k material within NK_TABLE_MAX_ROWS builds on the workers; a longer table gets 400 naming the limit', async () => {
+    // Rows near Si₃N₄'s index at 633 nm (n ≈ 2.02; Luke et al. 2015 — here only as plausible numbers).
+    const rows = (count: number) => Array.from({ length: count }, (_, i) => [560 + 40 * i, 2.03 - 0.002 * i, 0]);
+    const long = await owner.post(`${base()}/estimate`, { spec: { ...smallSpec(7, 5), pillar: { name: 'Lab nitride', source: 'ellipsometry', table: rows(6) } } });
+    expect(long.status).toBe(400);
+    expect(long.body.details['spec.pillar.table']).toMatch(/6 rows is more than 5/);
+    const started = await owner.post(base(), { spec: { ...smallSpec(7, 5, 'Tabulated nitride'), pillar: { name: 'Lab nitride', source: 'ellipsometry', table: rows(5) } }, scope: 'project' });
+    expect(started.status, JSON.stringify(started.body)).toBe(202);
+    const { build } = await waitForBuild(owner, projectId, started.body.build.id);
+    expect(build.status, build.error ?? '').toBe('succeeded');
+    expect(build.libraryId).not.toBeNull();
   });
 
   it('a build whose phases leave a gap larger than 2π/8 stores no library and says why; its atoms stay for the plots', async () => {

@@ -10,7 +10,7 @@ import type { MessagePort } from 'node:worker_threads';
 import { atomLibraryToCsv } from '../../../shared/optics/atoms';
 import {
   buildAtomLibrary,
-  parseLibrarySpec,
+  CHECKED_SPEC, parseLibrarySpec,
   proposeSubset,
   specCell,
   type BuiltLibrary,
@@ -85,7 +85,7 @@ export default async function libraryBuildTask(task: LibraryBuildTask): Promise<
   const { port } = task;
   const post = (message: LibraryBuildMessage) => port.postMessage(message);
   post({ type: 'started' });
-  const resolved = parseLibrarySpec(task.spec);
+  const resolved = parseLibrarySpec(task.spec, CHECKED_SPEC);
   const total = resolved.sizes.length ** 2;
   const lanes = Math.max(1, Math.min(task.lanes, total));
   const pool = lanes > 1 ? libraryWorkerPool(resolved.spec, lanes) : undefined;

@@ -43,10 +43,10 @@ function toBuild(build: LibraryBuildModel): LibraryBuild {
 }
 
 /** The spec checked by the builder's own parser; 400 naming every field at fault (`spec.<field>`). */
-function resolveSpec(raw: unknown): ResolvedSpec {
+function resolveSpec(ctx: AppContext, raw: unknown): ResolvedSpec {
   let resolved: ResolvedSpec;
   try {
-    resolved = parseLibrarySpec(raw);
+    resolved = parseLibrarySpec(raw, { nkLimits: { maxRows: ctx.config.NK_TABLE_MAX_ROWS, maxLineChars: ctx.config.NK_TABLE_MAX_LINE_CHARS } });
   } catch (error) {
     if (!(error instanceof LibrarySpecError)) throw error;
     const details: Record<string, string> = {};
@@ -109,7 +109,7 @@ function estimateOf(ctx: AppContext, r: ResolvedSpec): LibraryBuildEstimate {
 
 /** POST …/library-builds/estimate: cheap, on the request thread (parsing the spec and a formula). */
 export function estimateLibraryBuild(ctx: AppContext, rawSpec: unknown): LibraryBuildEstimate {
-  return estimateOf(ctx, resolveSpec(rawSpec));
+  return estimateOf(ctx, resolveSpec(ctx, rawSpec));
 }
 
 /**
@@ -117,7 +117,7 @@ export function estimateLibraryBuild(ctx: AppContext, rawSpec: unknown): Library
  * (a build counts as a run).
  */
 export async function startLibraryBuild(ctx: AppContext, projectId: number, userId: number, request: LibraryBuildRequest): Promise<LibraryBuild> {
-  const r = resolveSpec(request.spec);
+  const r = resolveSpec(ctx, request.spec);
   const atoms = r.sizes.length ** 2;
   if (atoms < MIN_LIBRARY_ATOMS) {
     throw new AppError(400, `The library spec has a problem — sweep: ${fewAtoms(r)}`, { 'spec.sweep.stepNm': fewAtoms(r) });
