@@ -84,7 +84,10 @@ describe.each(RUN_QUEUE_ENGINES)('library builds on the %s run queue', (engine) 
     const list = (await designer.get(`/api/projects/${projectId}/atom-libraries`)).body.atomLibraries as AtomLibrarySummary[];
     const summary = list.find((l) => l.id === build.libraryId)!;
     expect(summary).toMatchObject({ name: 'Test nitride pillars', scope: 'project', approximate: false, usable: true, atomCount: 49, wavelengthNm: 633, periodNm: 450, heightNm: 1200 });
-    expect(summary.source).toMatch(/^RCWA \(Fourier modal method, Li 1997 factorization\), 5×5 harmonics; pillar .*silicon nitride.*, substrate .*silica.*, superstrate air; λ = 633 nm, P = 450 nm, height 1200 nm; light from the substrate side/i);
+    expect(summary.source).toMatch(/^RCWA \(Fourier modal method, Li 1997 factorization\), 5×5 harmonics; /);
+    for (const part of [/pillar [^;,]*silicon nitride/i, /substrate [^;,]*silica/i, /superstrate air/, /λ = 633 nm, P = 450 nm, height 1200 nm/, /light from the substrate side/]) {
+      expect(summary.source).toMatch(part);
+    }
     const library = (await designer.get(`/api/projects/${projectId}/atom-libraries/${build.libraryId}`)).body.atomLibrary as AtomLibraryDetail;
 
     // Two atoms against computeAtom called here: the stored values are the engine's to the last digit.
