@@ -58,7 +58,7 @@ function derivedDesign(source: string, dir: string, name: string, edit: (design:
 }
 
 const fft = process.argv.includes('--end-to-end-only') ? null : await fftBench();
-if (!process.argv.includes('--end-to-end-only')) rcwaBench();
+if (!process.argv.includes('--end-to-end-only')) await rcwaBench();
 const scratch = mkdtempSync(join(tmpdir(), 'phasewright-bench-'));
 try {
   const twin = join(ROOT, 'demo-assets/designs/twin-image.json');

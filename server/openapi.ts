@@ -31,6 +31,7 @@ import { compareRevisionsQuerySchema, createRevisionSchema } from '../shared/sch
 import { comparePictureQuerySchema, compareRunsQuerySchema } from '../shared/schemas/run-comparison';
 import { listRunsQuerySchema } from '../shared/schemas/runs';
 import { toleranceRequestSchema } from '../shared/schemas/tolerance';
+import { libraryBuildRequestSchema, libraryEstimateRequestSchema } from '../shared/schemas/library-builds';
 import { createUploadSchema } from '../shared/schemas/uploads';
 
 /** Who may call a route: anyone, any signed-in user, a site admin, a session (not a token), or a project role. */
@@ -106,6 +107,12 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'delete', path: `${P}/atom-libraries/:libraryId`, summary: 'Delete an unused library (its uploader or an owner)', role: 'project:design', ok: [204, 'No content'] },
   { method: 'post', path: `${P}/atom-libraries/:libraryId/share`, summary: 'Share your personal library with the project (only its owner)', role: 'project:design', ok: [200, '`{ atomLibrary }`'] },
   { method: 'delete', path: `${P}/atom-libraries/:libraryId/share`, summary: 'Stop sharing your personal library with the project', role: 'project:design', ok: [200, '`{ atomLibrary }`'] },
+
+  { method: 'post', path: `${P}/library-builds/estimate`, summary: 'Cost of a library build (a formula: atoms × time per atom), with lattice-diffraction warnings', role: 'project:design', body: libraryEstimateRequestSchema, ok: [200, '`{ atoms, harmonics, secondsPerAtom, seconds, basis, warnings }`'] },
+  { method: 'post', path: `${P}/library-builds`, summary: 'Compute an atom library by RCWA on the run workers (counts as a run for the quotas)', role: 'project:design', body: libraryBuildRequestSchema, ok: [202, '`{ build: LibraryBuild }`'] },
+  { method: 'get', path: `${P}/library-builds`, summary: 'Library builds of the project (and your personal ones), newest first', role: 'project:read', ok: [200, '`{ builds: LibraryBuild[] }`'] },
+  { method: 'get', path: `${P}/library-builds/:buildId`, summary: 'One library build with its progress and, once done, its result for the plots', role: 'project:read', ok: [200, '`{ build: LibraryBuild, result: LibraryBuildResult | null }`'] },
+  { method: 'post', path: `${P}/library-builds/:buildId/cancel`, summary: 'Cancel a queued or running library build', role: 'project:design', ok: [200, '`{ build }`'] },
 
   { method: 'post', path: `${P}/revisions/:number/runs`, summary: 'Start a run of a revision', role: 'project:design', ok: [202, '`{ run: RunDetail }`'] },
   { method: 'get', path: `${P}/runs`, summary: 'Runs of the project', role: 'project:read', query: listRunsQuerySchema, ok: [200, '`{ runs: RunSummary[] }`'] },

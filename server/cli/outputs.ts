@@ -16,7 +16,7 @@
  */
 import { open, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { atomLibraryToCsv, type AtomLibrary } from '../../shared/optics/atoms';
+import { atomLibraryToCsv, LIGHT_SIDE_LABELS, type AtomLibrary } from '../../shared/optics/atoms';
 import { gdsiiChunks } from '../../shared/optics/gdsii';
 import { npyChunks, type NpyArray } from '../../shared/optics/npy';
 import { CHANNEL_IDS, type ChannelId, type DesignRun, type RunFarFields, type RunLayout } from '../../shared/optics/pipeline';
@@ -80,6 +80,7 @@ export function metricsRecord(run: DesignRun): Record<string, unknown> {
     'Far fields: fftshifted (zero order at pixel (N/2, N/2)), unitary (sum = power), direction-cosine step λ/(N·P), evanescent pixels zero.',
     'Pictures: x (u) to the right, y (v) up, seen facing the device from the side the light goes to; arrays are [iy, ix] with iy growing with y, so numpy shows them this way with imshow(origin="lower").',
   ];
+  notes.push(`Light enters ${LIGHT_SIDE_LABELS[run.design.setup.lightFrom]} (setup.lightFrom).`);
   if (run.library.approximate) notes.push(`The atom library "${run.library.name}" is APPROXIMATE: ${run.library.source ?? 'not from full-wave data'}.`);
   if (beamLike) {
     notes.push(
@@ -90,7 +91,7 @@ export function metricsRecord(run: DesignRun): Record<string, unknown> {
   return {
     format: 'phasewright-metrics/1',
     design: run.design.name,
-    grid: { cells: run.grid.n, periodM: run.grid.period, wavelengthM: run.grid.lambda },
+    grid: { cells: run.grid.n, periodM: run.grid.period, wavelengthM: run.grid.lambda, lightFrom: run.design.setup.lightFrom },
     library: { name: run.library.name, atoms: run.library.atoms.length, approximate: run.library.approximate, source: run.library.source ?? null },
     inputs: { a: run.inputs.a, b: run.inputs.b, extra: run.inputs.extra },
     inputsMeaning: 'unit Jones vectors [[x.re, x.im], [y.re, y.im]] of input A, its orthogonal partner B, and the extra preview input',

@@ -15,11 +15,12 @@ export interface DemoBrowser {
   signIn(page: Page, email: string): Promise<void>;
 }
 
-export function useDemoBrowser(): DemoBrowser {
+/** `env` and `options` go to startServerWithDemo (e.g. `{ RUN_QUEUE: 'redis' }, { worker: false }`). */
+export function useDemoBrowser(env: Record<string, string> = {}, options: { worker?: boolean } = {}): DemoBrowser {
   let server: RunningServer | undefined;
   let browser: Awaited<ReturnType<typeof launchBrowser>> | undefined;
   beforeAll(async () => {
-    server = await startServerWithDemo();
+    server = await startServerWithDemo(env, options);
     browser = await launchBrowser();
   });
   afterAll(async () => {

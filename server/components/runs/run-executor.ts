@@ -4,7 +4,7 @@
  * Loads a queued run from the database, hands it to a pool thread (run-worker.ts), writes its progress at
  * most every `progressIntervalMs`, enforces the run time limit, reserves the project's storage for the files
  * and stores them, then marks the run succeeded — so a run's files are only kept for a run that succeeds.
- * Tolerance studies run on the same pool (tolerance-executor.ts).
+ * Tolerance studies and library builds run on the same pool (tolerance-executor.ts, library-build-executor.ts).
  */
 import { mkdtemp, rm } from 'node:fs/promises';
 import { availableParallelism, tmpdir } from 'node:os';
@@ -22,6 +22,8 @@ import { reserveRunFiles, timeLimitMessage } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { UploadModel } from '../uploads/upload.model';
 import { createToleranceExecutor, type ToleranceExecutor } from '../tolerance/tolerance-executor';
+import { buildLanes } from '../library-builds/library-build-cost';
+import { createLibraryBuildExecutor, type LibraryBuildExecutor } from '../library-builds/library-build-executor';
 import { deleteArtifacts, storeArtifacts } from './run-artifacts';
 import { addEvent, markFailed, markStarted, markSucceeded, recordProgress } from './run-state';
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
@@ -37,8 +39,8 @@ export interface RunExecutorOptions {
   parallelWithinRuns?: boolean;
   /** Least time between two progress writes of one run, ms (default 500: at most 2 writes/s). */
   progressIntervalMs?: number;
-  /** The run time limit and the projects' storage quota (default: none). */
-  limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'>;
+  /** The run time limit, the projects' storage quota and the library builds' time limit (default: none). */
+  limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'> & Partial<Pick<AppConfig, 'LIBRARY_BUILD_TIME_LIMIT_MINUTES'>>;
   /** Nice value of the pool's threads (0–19, default 0): see `createRunPool`. */
   nice?: number;
 }
@@ -100,6 +102,8 @@ export interface RunExecutor {
   abort(runId: number): boolean;
   /** Tolerance studies, on the same pool. */
   tolerance: ToleranceExecutor;
+  /** Library builds, on the same pool. */
+  libraryBuilds: LibraryBuildExecutor;
   threads: number;
   running(): number;
   waiting(): number;
@@ -115,6 +119,13 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
   const timeLimitMs = limits ? limits.RUN_TIME_LIMIT_MINUTES * 60_000 : null;
   const nice = options.nice ?? 0;
   const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval, timeLimitMs });
+  const libraryBuilds = createLibraryBuildExecutor({
+    logger,
+    pool: () => (accepting ? pool : null),
+    progressIntervalMs: progressInterval,
+    timeLimitMinutes: limits?.LIBRARY_BUILD_TIME_LIMIT_MINUTES ?? null,
+    lanes: buildLanes(parallel),
+  });
   const active = new Map<number, ActiveRun>();
   let pool: Piscina<RunTask, RunTaskResult> | null = null;
   let accepting = false;
@@ -291,6 +302,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
   return {
     threads,
     tolerance,
+    libraryBuilds,
     execute,
     start() {
       if (accepting) return;
@@ -305,6 +317,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
       }
       await Promise.allSettled([...settling]);
       await tolerance.stop();
+      await libraryBuilds.stop();
       const closing = pool;
       pool = null;
       if (closing) await closing.destroy();

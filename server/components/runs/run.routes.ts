@@ -9,7 +9,7 @@ import { toleranceRoutes } from '../tolerance/tolerance.routes';
 import { streamArtifact } from './run-artifacts';
 import { runComparisonRoutes } from './run-comparison.routes';
 import { openRunEventStream } from './run-event-stream';
-import { artifactForDownload, cancelRun, deleteRunFiles, getRunJson, listRuns, startRun } from './run.service';
+import { artifactForDownload, cancelRun, deleteRunFiles, getRunAnswer, listRuns, startRun } from './run.service';
 
 /** Runs of a project, under `/api/projects/:projectId`. */
 export function runRoutes(ctx: AppContext) {
@@ -29,7 +29,7 @@ export function runRoutes(ctx: AppContext) {
 
   router.get('/runs/:runId', requireProject('read'), async (req, res) => {
     const runId = parseId(req.params.runId, 'runId');
-    res.type('application/json').send(`{"run":${await getRunJson(projectAccess(req).project.id, runId)}}`);
+    res.type('application/json').send(await getRunAnswer(projectAccess(req).project.id, runId));
   });
 
   router.post('/runs/:runId/cancel', requireProject('design'), async (req, res) => {
