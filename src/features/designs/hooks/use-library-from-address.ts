@@ -1,13 +1,15 @@
 import { useEffect } from 'react';
 import { useSearchParams } from 'react-router-dom';
+import { libraryMedia } from '@shared/optics/atoms';
 import { useDesignAtomLibraries } from '@/features/designs/api/get-atom-libraries';
 import { useDesignEditor } from '@/features/designs/stores/design-editor-store';
 import { focusField } from '@/features/designs/utils/focus-field';
 
 /**
  * `?library=7` in the composer's address (from a library build's "Use in a design"): once the design is open,
- * chooses stored library 7 and, when the project sees it, takes its wavelength and period (a design must match its library's), then drops
- * the parameter so a reload keeps the user's later edits; the library picker gets the focus.
+ * chooses stored library 7 and, when the project sees it, takes its wavelength and period (a design must match
+ * its library's) and the side its light came from (when its source line says), then drops the parameter so a
+ * reload keeps the user's later edits; the library picker gets the focus.
  */
 export function useLibraryFromAddress(projectId: number, sourceKey: string) {
   const [search, setSearch] = useSearchParams();
@@ -24,6 +26,8 @@ export function useLibraryFromAddress(projectId: number, sourceKey: string) {
     if (library) {
       setField(['setup', 'wavelengthNm'], library.wavelengthNm);
       setField(['setup', 'periodNm'], library.periodNm);
+      const { lightFrom } = libraryMedia(library);
+      if (lightFrom) setField(['setup', 'lightFrom'], lightFrom);
     }
     if (wanted !== null) window.requestAnimationFrame(() => focusField('atomLibrary'));
     setSearch(

@@ -1,5 +1,6 @@
-import { useMemo, type FormEvent, type ReactNode } from 'react';
+import { useId, useMemo, type FormEvent, type ReactNode } from 'react';
 import { LIBRARY_MATERIALS } from '@shared/optics/library-builder';
+import { NK_TABLE_HEADER, NK_TABLE_LIMITS, NK_TABLE_TEXT_LIMITS, nkTableRange, parseNkTableCsv, type NkTable } from '@shared/optics/nk-table';
 import type { LibraryBuild, LibraryBuildScope } from '@shared/schemas/library-builds';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
@@ -12,6 +13,7 @@ import { formatDuration } from '@/features/runs/components/format-run';
 import { useLibraryBuildEstimate, useStartLibraryBuild } from '@/features/library-builds/api/library-builds';
 import {
   CONSTANT_MATERIAL,
+  TABLE_MATERIAL,
   formSpec,
   needsIndex,
   useBuildForm,
@@ -43,12 +45,91 @@ function fieldErrors(error: unknown): FieldErrors {
   return out;
 }
 
-/** The problems no box shows (the whole spec, or a field the form does not have). */
+/** The fields a box of the form shows the problems of; others (the whole spec) are listed below the form. */
 const SHOWN_FIELDS = [
   'name', 'wavelengthNm', 'periodNm', 'heightNm', 'illumination', 'harmonics', 'scope', 'subsetSize',
   'sweep.minFeatureNm', 'sweep.minGapNm', 'sweep.stepNm',
-  ...['pillar', 'substrate', 'superstrate'].flatMap((m) => [m, `${m}.n`, `${m}.k`, `${m}.name`]),
+  ...['pillar', 'substrate', 'superstrate'].flatMap((m) => [m, `${m}.n`, `${m}.k`, `${m}.name`, `${m}.source`, `${m}.table`]),
 ];
+/** `pillar.table[3]` is shown with `pillar.table`. */
+const shownField = (key: string) => SHOWN_FIELDS.includes(key.replace(/\[\d+\]$/, ''));
+
+/** The first problem of a tabulated material's rows: the table as a whole, else its first row at fault. */
+function tableProblem(errors: FieldErrors, role: string): string | undefined {
+  if (errors[`${role}.table`]) return errors[`${role}.table`];
+  const row = Object.keys(errors).find((key) => key.startsWith(`${role}.table[`));
+  return row ? `row ${Number(/\[(\d+)\]/.exec(row)![1]) + 1} of the table: ${errors[row]}` : undefined;
+}
+
+/** Largest CSV read for a table: its rows times its longest line (the parser stops at either anyway). */
+const MAX_TABLE_BYTES = NK_TABLE_LIMITS.maxRows * NK_TABLE_LIMITS.maxLineChars;
+
+/** "12 rows, 400–800 nm, n 2.01–2.10, k 0–0.02". */
+function describeTable(table: NkTable): string {
+  const { minNm, maxNm } = nkTableRange(table);
+  const span = (i: 1 | 2) => {
+    const values = table.points.map((p) => p[i]);
+    const lo = Math.min(...values);
+    const hi = Math.max(...values);
+    return lo === hi ? `${lo}` : `${lo}–${hi}`;
+  };
+  return `${table.points.length} rows, ${minNm}–${maxNm} nm, n ${span(1)}, k ${span(2)}`;
+}
+
+function TableFields({ role, label, choice, errors, onChange }: { role: string; label: string; choice: MaterialChoice; errors: FieldErrors; onChange: (choice: MaterialChoice) => void }) {
+  const fileId = useId();
+  const hintId = `${fileId}-hint`;
+  const errorId = `${fileId}-error`;
+  const problem = choice.tableError ?? tableProblem(errors, role);
+  const read = async (file: File | undefined) => {
+    if (!file) return onChange({ ...choice, table: null, tableFile: '', tableError: null });
+    if (file.size > MAX_TABLE_BYTES) {
+      return onChange({ ...choice, table: null, tableFile: file.name, tableError: `${file.name} is larger than ${Math.round(MAX_TABLE_BYTES / 1000)} kB: thin the table` });
+    }
+    try {
+      const table = parseNkTableCsv(await file.text());
+      onChange({ ...choice, table, tableFile: file.name, tableError: null, label: choice.label.trim() || table.name || file.name.replace(/\.csv$/i, '').slice(0, NK_TABLE_TEXT_LIMITS.name) });
+    } catch (error) {
+      onChange({ ...choice, table: null, tableFile: file.name, tableError: `${file.name}: ${(error as Error).message}` });
+    }
+  };
+  return (
+    <div className="flex flex-col gap-3">
+      <div className="flex flex-col gap-1.5">
+        <label htmlFor={fileId} className="text-sm font-bold text-ink">
+          {label}: n, k table (CSV)
+        </label>
+        <input
+          id={fileId}
+          type="file"
+          accept=".csv,text/csv"
+          aria-invalid={problem ? true : undefined}
+          aria-describedby={[hintId, problem ? errorId : null].filter(Boolean).join(' ')}
+          className="text-sm file:mr-3 file:rounded-full file:border-0 file:bg-paper-deep file:px-4 file:py-2 file:font-bold file:text-ink"
+          onChange={(event) => void read(event.target.files?.[0])}
+        />
+        <p id={hintId} className="text-xs text-ink-soft">
+          {choice.table
+            ? `${choice.tableFile}: ${describeTable(choice.table)}${choice.table.source ? `; source: ${choice.table.source}` : ''}.`
+            : `Header ${NK_TABLE_HEADER.join(',')}, then one row per vacuum wavelength in nm, rising; # name: and # source: lines name the film and where the numbers come from. Interpolated linearly; the design wavelength must lie inside the table.`}
+        </p>
+        {problem ? (
+          <p id={errorId} className="flex items-start gap-1 text-sm font-semibold text-danger">
+            <span aria-hidden="true">▲</span>
+            {problem}
+          </p>
+        ) : null}
+      </div>
+      <TextField
+        label={`${label}: name`}
+        value={choice.label}
+        maxLength={NK_TABLE_TEXT_LIMITS.name}
+        onValueChange={(text) => onChange({ ...choice, label: text })}
+        error={errors[`${role}.name`] ?? errors[`${role}.source`]}
+      />
+    </div>
+  );
+}
 
 function MaterialFields({
   role,
@@ -68,6 +149,7 @@ function MaterialFields({
   const options = [
     ...LIBRARY_MATERIALS.filter((m) => includeAir || m.id !== 'air').map((m) => ({ value: m.id, label: m.name })),
     { value: CONSTANT_MATERIAL, label: 'Constant n + ik (your own film)' },
+    { value: TABLE_MATERIAL, label: 'n, k table (CSV)' },
   ];
   const entry = LIBRARY_MATERIALS.find((m) => m.id === choice.id);
   const hint: ReactNode = entry ? (
@@ -79,6 +161,8 @@ function MaterialFields({
         : ''}
       {entry.needsIndex ? '. Its index depends on how the film is made: give your film’s n and k.' : ''}
     </>
+  ) : choice.id === TABLE_MATERIAL ? (
+    'Your film’s measured n and k against wavelength.'
   ) : (
     'The same n + ik at every wavelength: your film’s measured index at the design wavelength.'
   );
@@ -86,6 +170,7 @@ function MaterialFields({
     <fieldset className="flex min-w-0 flex-col gap-3">
       <legend className="sr-only">{label}</legend>
       <SelectField label={label} value={choice.id} options={options} hint={hint} error={errors[role]} onValueChange={(id) => onChange({ ...choice, id })} />
+      {choice.id === TABLE_MATERIAL ? <TableFields role={role} label={label} choice={choice} errors={errors} onChange={onChange} /> : null}
       {needsIndex(choice) ? (
         <div className="grid grid-cols-2 gap-3">
           <NumberField label={`${label}: n`} value={choice.n} onValueChange={(n) => onChange({ ...choice, n })} error={errors[`${role}.n`]} />
@@ -175,7 +260,7 @@ export function ComputeLibraryForm({ projectId, onStarted }: { projectId: number
   const estimate = useLibraryBuildEstimate(projectId, debounced);
   // The start's problems while they are fresh, else the estimate's (both come from the server's spec check).
   const errors = start.error ? fieldErrors(start.error) : fieldErrors(estimate.error);
-  const otherProblems = Object.entries(errors).filter(([key]) => !SHOWN_FIELDS.includes(key));
+  const otherProblems = Object.entries(errors).filter(([key]) => !shownField(key));
   const change = (patch: Partial<BuildForm>) => {
     update(patch);
     start.reset();

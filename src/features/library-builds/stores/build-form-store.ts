@@ -1,17 +1,23 @@
 import { create } from 'zustand';
 import { LIBRARY_MATERIALS, type LibrarySpec, type SpecMaterial } from '@shared/optics/library-builder';
+import type { NkTable } from '@shared/optics/nk-table';
 import type { LibraryBuildScope } from '@shared/schemas/library-builds';
 
-/** 'constant': the user's own n + ik; any other value is a material id of LIBRARY_MATERIALS. */
+/** 'constant': the user's own n + ik; 'table': an n, k(λ) table from a CSV; any other value is a material id of LIBRARY_MATERIALS. */
 export const CONSTANT_MATERIAL = 'constant';
+export const TABLE_MATERIAL = 'table';
 
 export interface MaterialChoice {
   id: string;
   /** The film's own index, for 'constant' and for listed materials that need it (amorphous silicon). */
   n: number | undefined;
   k: number | undefined;
-  /** Name of a constant material (optional). */
+  /** Name of a constant material (optional) or of a tabulated one (required). */
   label: string;
+  /** The tabulated material read from the user's CSV (nk-table.ts), its file name and why it was refused. */
+  table: NkTable | null;
+  tableFile: string;
+  tableError: string | null;
 }
 
 export interface BuildForm {
@@ -32,7 +38,7 @@ export interface BuildForm {
   subsetSize: number | undefined;
 }
 
-const listed = (id: string): MaterialChoice => ({ id, n: undefined, k: undefined, label: '' });
+const listed = (id: string): MaterialChoice => ({ id, n: undefined, k: undefined, label: '', table: null, tableFile: '', tableError: null });
 
 /**
  * Si₃N₄ pillars 1200 nm tall on fused silica at 633 nm, in a 400 nm period: below λ/n of fused silica (434 nm),
@@ -61,6 +67,11 @@ export function needsIndex(choice: MaterialChoice): boolean {
 }
 
 function specMaterial(choice: MaterialChoice): SpecMaterial {
+  if (choice.id === TABLE_MATERIAL) {
+    // No table yet: an empty one, so the server's check says what is missing beside the file box.
+    const source = choice.table?.source;
+    return { name: choice.label.trim(), ...(source ? { source } : {}), table: choice.table ? [...choice.table.points] : [] };
+  }
   if (!needsIndex(choice)) return choice.id;
   const name = choice.id === CONSTANT_MATERIAL ? choice.label.trim() || undefined : choice.id;
   return { ...(name ? { name } : {}), n: choice.n as number, k: choice.k ?? 0 };

@@ -39,6 +39,11 @@ export const clientLoader =
 
 function materialText(material: SpecMaterial): string {
   if (typeof material === 'string') return LIBRARY_MATERIALS.find((m) => m.id === material)?.name ?? material;
+  if ('table' in material) {
+    const rows = material.table;
+    const range = rows.length ? `, ${rows[0][0]}–${rows[rows.length - 1][0]} nm` : '';
+    return `${material.name}: n, k table of ${rows.length} rows${range}${material.source ? ` (${material.source})` : ''}`;
+  }
   return `${material.name ? `${material.name}, ` : ''}n = ${material.n}${material.k ? ` + ${material.k}i` : ''}`;
 }
 
