@@ -44,6 +44,24 @@ describe('computing an atom library', () => {
     await form.getByLabel('Harmonics').selectOption('5');
     await form.getByLabel('Proposed subset size N').fill('4');
 
+    // A tabulated substrate from a CSV: read in the browser by the shared parser, checked by the server against λ.
+    const substrate = form.getByLabel('Substrate', { exact: true });
+    await substrate.selectOption('table');
+    const tableFile = form.getByLabel('Substrate: n, k table (CSV)');
+    const csv = (rows: string) => ({ name: 'film.csv', mimeType: 'text/csv', buffer: Buffer.from(`# name: Test oxide film\n# source: made up for this test\nwavelength_nm,n,k\n${rows}`) });
+    await tableFile.setInputFiles(csv('400,1.47,0\n600,1.46,0\n'));
+    await page.getByText('film.csv: 2 rows, 400–600 nm, n 1.46–1.47, k 0; source: made up for this test.').waitFor();
+    expect(await form.getByLabel('Substrate: name').inputValue()).toBe('Test oxide film');
+    // 633 nm lies outside 400–600 nm: the server's message stands under the file box.
+    await expect.poll(async () => tableFile.getAttribute('aria-invalid'), { timeout: 15_000 }).toBe('true');
+    expect(await page.getByText(/633 nm is outside the table's range 400–600 nm/).count()).toBe(1);
+    await tableFile.setInputFiles(csv('wavelength 500,1.46,0\n'));
+    await page.getByText(/film\.csv: line 4: .*wavelength/).waitFor();
+    await tableFile.setInputFiles(csv('500,1.462,0\n700,1.455,0\n'));
+    await expect.poll(async () => tableFile.getAttribute('aria-invalid'), { timeout: 15_000 }).toBeNull();
+    await screenshot(page, 'library-build-00-table');
+    await substrate.selectOption('fused-silica');
+
     // A step of 0 is refused by the server's spec check, with the message under the Step box.
     await form.getByLabel('Step', { exact: false }).fill('0');
     const stepBox = form.getByLabel('Step', { exact: false });
