@@ -11,6 +11,7 @@ import { useDebouncedValue } from '@/hooks/use-debounced-value';
 import { isApiError, type FieldErrors } from '@/lib/api-client';
 import { formatDuration } from '@/features/runs/components/format-run';
 import { useLibraryBuildEstimate, useStartLibraryBuild } from '@/features/library-builds/api/library-builds';
+import { BuildWarnings } from '@/features/library-builds/components/build-warnings';
 import {
   CONSTANT_MATERIAL,
   TABLE_MATERIAL,
@@ -32,9 +33,6 @@ const ILLUMINATION_OPTIONS: { value: BuildForm['illumination']; label: string }[
 ];
 
 const HARMONIC_OPTIONS = Array.from({ length: 14 }, (_, i) => 5 + 2 * i).map((h) => ({ value: String(h), label: `${h} × ${h}` }));
-
-/** Fewest atoms a stored library holds (the library check's default phase levels, shared/optics/atoms.ts). */
-const MIN_STORED_ATOMS = 8;
 
 /** Field path of a server problem, without the body's "spec." prefix. */
 const specPath = (key: string) => (key.startsWith('spec.') ? key.slice('spec.'.length) : key);
@@ -220,26 +218,13 @@ function EstimatePanel({ estimate, settling }: { estimate: ReturnType<typeof use
               at {data.harmonics} × {data.harmonics} harmonics ≈ <strong className="tabular-nums">{formatDuration(data.seconds * 1000)}</strong>
             </p>
             <p className="mt-1 text-xs text-ink-soft">{data.basis}</p>
-            {data.atoms < MIN_STORED_ATOMS ? (
-              <p className="mt-2 font-semibold text-ember-deep">
-                A stored library needs at least {MIN_STORED_ATOMS} atoms whose phases step by at most 2π/{MIN_STORED_ATOMS} on each axis: take a
-                smaller step, or this build will compute but not be stored.
-              </p>
-            ) : null}
           </>
         ) : (
           <p className="text-ink-soft">Working out the estimate…</p>
         )}
       </div>
       {data && data.warnings.length > 0 ? (
-        <Banner tone="warning" title="The lattice itself diffracts">
-          <ul className="list-disc pl-5">
-            {data.warnings.map((w) => (
-              <li key={w}>{w}</li>
-            ))}
-          </ul>
-          <p className="mt-1">The library keeps the zeroth order only; the light in the other orders is lost to the design. A smaller period avoids it.</p>
-        </Banner>
+        <BuildWarnings warnings={data.warnings} title="Before you start" />
       ) : null}
     </section>
   );

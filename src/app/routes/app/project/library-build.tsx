@@ -22,6 +22,7 @@ import {
   useLibraryBuild,
   useRefreshLibrariesWhenBuilt,
 } from '@/features/library-builds/api/library-builds';
+import { BuildWarnings } from '@/features/library-builds/components/build-warnings';
 import { BuildResults } from '@/features/library-builds/components/build-results';
 import { progressText } from '@/features/library-builds/components/library-builds-table';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
@@ -172,15 +173,7 @@ function BuildPage({ projectId, buildId, canDesign }: { projectId: number; build
               )}
             </p>
             {build.status === 'failed' && build.error ? <Banner title="What went wrong">{build.error}</Banner> : null}
-            {build.warnings.length > 0 ? (
-              <Banner tone="warning" title="The lattice itself diffracts">
-                <ul className="list-disc pl-5">
-                  {build.warnings.map((w) => (
-                    <li key={w}>{w}</li>
-                  ))}
-                </ul>
-              </Banner>
-            ) : null}
+            {build.warnings.length > 0 ? <BuildWarnings warnings={build.warnings} title="Remarks on this build" /> : null}
           </div>
         </Card>
         <Card title="What is computed">
