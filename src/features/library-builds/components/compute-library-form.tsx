@@ -1,10 +1,10 @@
-import { useId, useMemo, type FormEvent, type ReactNode } from 'react';
+import { useMemo, type FormEvent, type ReactNode } from 'react';
 import { LIBRARY_MATERIALS } from '@shared/optics/library-builder';
 import { NK_TABLE_HEADER, NK_TABLE_LIMITS, NK_TABLE_TEXT_LIMITS, nkTableRange, parseNkTableCsv, type NkTable } from '@shared/optics/nk-table';
 import type { LibraryBuild, LibraryBuildScope } from '@shared/schemas/library-builds';
 import { Banner } from '@/components/ui/banner';
 import { Button } from '@/components/ui/button';
-import { SelectField, TextField } from '@/components/ui/field';
+import { FieldShell, SelectField, TextField } from '@/components/ui/field';
 import { NumberField } from '@/components/ui/number-field';
 import { Spinner } from '@/components/ui/spinner';
 import { useDebouncedValue } from '@/hooks/use-debounced-value';
@@ -75,9 +75,6 @@ function describeTable(table: NkTable): string {
 }
 
 function TableFields({ role, label, choice, errors, onChange }: { role: string; label: string; choice: MaterialChoice; errors: FieldErrors; onChange: (choice: MaterialChoice) => void }) {
-  const fileId = useId();
-  const hintId = `${fileId}-hint`;
-  const errorId = `${fileId}-error`;
   const problem = choice.tableError ?? tableProblem(errors, role);
   const read = async (file: File | undefined) => {
     if (!file) return onChange({ ...choice, table: null, tableFile: '', tableError: null });
@@ -93,31 +90,27 @@ function TableFields({ role, label, choice, errors, onChange }: { role: string; 
   };
   return (
     <div className="flex flex-col gap-3">
-      <div className="flex flex-col gap-1.5">
-        <label htmlFor={fileId} className="text-sm font-bold text-ink">
-          {label}: n, k table (CSV)
-        </label>
-        <input
-          id={fileId}
-          type="file"
-          accept=".csv,text/csv"
-          aria-invalid={problem ? true : undefined}
-          aria-describedby={[hintId, problem ? errorId : null].filter(Boolean).join(' ')}
-          className="text-sm file:mr-3 file:rounded-full file:border-0 file:bg-paper-deep file:px-4 file:py-2 file:font-bold file:text-ink"
-          onChange={(event) => void read(event.target.files?.[0])}
-        />
-        <p id={hintId} className="text-xs text-ink-soft">
-          {choice.table
+      <FieldShell
+        label={`${label}: n, k table (CSV)`}
+        error={problem}
+        hint={
+          choice.table
             ? `${choice.tableFile}: ${describeTable(choice.table)}${choice.table.source ? `; source: ${choice.table.source}` : ''}.`
-            : `Header ${NK_TABLE_HEADER.join(',')}, then one row per vacuum wavelength in nm, rising; # name: and # source: lines name the film and where the numbers come from. Interpolated linearly; the design wavelength must lie inside the table.`}
-        </p>
-        {problem ? (
-          <p id={errorId} className="flex items-start gap-1 text-sm font-semibold text-danger">
-            <span aria-hidden="true">▲</span>
-            {problem}
-          </p>
-        ) : null}
-      </div>
+            : `Header ${NK_TABLE_HEADER.join(',')}, then one row per vacuum wavelength in nm, rising; # name: and # source: lines name the film and where the numbers come from. Interpolated linearly; the design wavelength must lie inside the table.`
+        }
+      >
+        {({ controlId, describedBy, invalid }) => (
+          <input
+            id={controlId}
+            type="file"
+            accept=".csv,text/csv"
+            aria-invalid={invalid || undefined}
+            aria-describedby={describedBy}
+            className="text-sm file:mr-3 file:rounded-full file:border-0 file:bg-paper-deep file:px-4 file:py-2 file:font-bold file:text-ink"
+            onChange={(event) => void read(event.target.files?.[0])}
+          />
+        )}
+      </FieldShell>
       <TextField
         label={`${label}: name`}
         value={choice.label}
