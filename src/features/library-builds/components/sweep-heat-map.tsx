@@ -4,6 +4,7 @@ import type { LibraryBuildAtom } from '@shared/schemas/library-builds';
 import type { PictureAxesSpec } from '@/components/ui/picture-axes';
 import { ZoomPanImage } from '@/components/ui/zoom-pan-image';
 import { CyclicLegend } from '@/features/runs/components/colour-legend';
+import { sweepMap } from '@/features/library-builds/utils/sweep';
 
 export type SweepQuantity = 'amplitude' | 'phase' | 'power';
 
@@ -16,23 +17,6 @@ interface SweepHeatMapProps {
   quantity: SweepQuantity;
   /** What the colours measure, with its unit: "|t_x|", "power in other orders (of the incident)". */
   measure: string;
-}
-
-/**
- * The sweep's values as an n × n map, row-major [il][iw]: w (the pillar's x size) along a row, l (its y size)
- * down the rows, so painted upright the picture has w to the right and l up. Cells no atom fills are NaN.
- * Example: sizes [100, 120], atoms w100-l100, w100-l120, w120-l100, w120-l120 → [v00, v10, v01, v11] by (iw, il).
- */
-export function sweepMap(atoms: LibraryBuildAtom[], sizesNm: number[], value: (atom: LibraryBuildAtom) => number): Float64Array {
-  const n = sizesNm.length;
-  const index = (size: number) => sizesNm.findIndex((s) => Math.abs(s - size) < 1e-6);
-  const map = new Float64Array(n * n).fill(NaN);
-  for (const atom of atoms) {
-    const iw = index(atom.widthNm);
-    const il = index(atom.lengthNm);
-    if (iw >= 0 && il >= 0) map[il * n + iw] = value(atom);
-  }
-  return map;
 }
 
 function pictureUrl(map: Float64Array, n: number, quantity: SweepQuantity): string {

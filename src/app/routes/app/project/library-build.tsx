@@ -24,6 +24,7 @@ import {
 } from '@/features/library-builds/api/library-builds';
 import { BuildWarnings } from '@/features/library-builds/components/build-warnings';
 import { BuildResults } from '@/features/library-builds/components/build-results';
+import { sweepSizes } from '@/features/library-builds/utils/sweep';
 import { progressText } from '@/features/library-builds/components/library-builds-table';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
 
@@ -55,15 +56,9 @@ function timeLeft(build: LibraryBuild): string | null {
   return formatDuration(Math.max(0, p.atoms - p.atom) * p.secondsPerAtom * 1000);
 }
 
-/**
- * The sweep's sizes as parseLibrarySpec makes them: from the smallest feature in whole steps up to P minus the
- * smallest gap. Example: 60 nm, step 50 nm, P 450 nm, gap 50 nm → "60 nm to 360 nm in steps of 50 nm (7 × 7 atoms)".
- */
 function sweepText(s: LibraryBuild['spec']): string {
-  const { minFeatureNm, minGapNm, stepNm } = s.sweep;
-  const count = Math.floor((s.periodNm - minGapNm - minFeatureNm) / stepNm + 1e-9) + 1;
-  const last = Math.round((minFeatureNm + (count - 1) * stepNm) * 1e4) / 1e4;
-  return `${minFeatureNm} nm to ${last} nm in steps of ${stepNm} nm (${count} × ${count} atoms)`;
+  const { count, firstNm, lastNm } = sweepSizes(s);
+  return `${firstNm} nm to ${lastNm} nm in steps of ${s.sweep.stepNm} nm (${count} × ${count} atoms)`;
 }
 
 function SpecFacts({ build }: { build: LibraryBuild }) {
