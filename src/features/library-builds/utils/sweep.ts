@@ -1,5 +1,5 @@
-import type { LibrarySpec } from '@shared/optics/library-builder';
-import type { LibraryBuildAtom } from '@shared/schemas/library-builds';
+import type { LibrarySpec } from '../../../../shared/optics/library-builder';
+import type { LibraryBuildAtom } from '../../../../shared/schemas/library-builds';
 
 /**
  * The sweep's values as an n × n map, row-major [il][iw]: w (the pillar's x size) along a row, l (its y size)
