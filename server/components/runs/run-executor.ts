@@ -14,7 +14,7 @@ import { Op, type Transaction } from 'sequelize';
 import { Piscina } from 'piscina';
 import type { Logger } from 'pino';
 import type { Design } from '../../../shared/schemas/design';
-import type { AppConfig } from '../../config';
+import { DEFAULT_TILES_MAX_SIDE, type AppConfig } from '../../config';
 import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { rulesForRun } from '../fab/design-rules.service';
 import { libraryForRun } from '../atom-libraries/atom-library.service';
@@ -38,7 +38,7 @@ export interface RunExecutorOptions {
   /** Least time between two progress writes of one run, ms (default 500: at most 2 writes/s). */
   progressIntervalMs?: number;
   /** The run time limit and the projects' storage quota (default: none). */
-  limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'>;
+  limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'> & Partial<Pick<AppConfig, 'PREVIEW_TILES_MAX_SIDE'>>;
   /** Nice value of the pool's threads (0–19, default 0): see `createRunPool`. */
   nice?: number;
 }
@@ -114,6 +114,8 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
   const limits = options.limits;
   const timeLimitMs = limits ? limits.RUN_TIME_LIMIT_MINUTES * 60_000 : null;
   const nice = options.nice ?? 0;
+  const tileSide = limits?.PREVIEW_TILES_MAX_SIDE ?? DEFAULT_TILES_MAX_SIDE;
+  const tiles = tileSide > 0 ? { maxSide: tileSide } : null;
   const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval, timeLimitMs });
   const active = new Map<number, ActiveRun>();
   let pool: Piscina<RunTask, RunTaskResult> | null = null;
@@ -236,7 +238,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
     const { port1, port2 } = new MessageChannel();
     const track = tracker(runId, entry);
     port1.on('message', (message: RunProgressMessage) => track.onMessage(message));
-    const running = pool.run({ ...loaded, workDir, port: port2, parallel }, { transferList: [port2], signal: controller.signal });
+    const running = pool.run({ ...loaded, workDir, port: port2, parallel, tiles }, { transferList: [port2], signal: controller.signal });
     const handled: Promise<void> = running
       .then(
         async (result) => {
