@@ -74,7 +74,7 @@ function tileNumber(value: unknown, name: string): number {
 }
 
 /** The PNG bytes of tile (x, y) of `level`; 400 for a number that is not one, 404 for a tile outside the pyramid. */
-export async function readTile(projectId: number, runId: number, picture: string, params: { level: unknown; x: unknown; y: unknown }): Promise<Buffer> {
+export async function readTile(projectId: number, runId: number, picture: string, params: Record<string, unknown>): Promise<Buffer> {
   const level = tileNumber(params.level, 'level');
   const x = tileNumber(params.x, 'x');
   const y = tileNumber(params.y, 'y');
