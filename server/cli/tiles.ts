@@ -40,7 +40,7 @@ export function tilesFileOf(picture: string): string {
 }
 
 /** A picture to cut into a pyramid: its name, its full side and how to paint it `factor` times smaller. */
-interface TiledPicture {
+export interface TiledPicture {
   picture: string;
   side: number;
   paint: (factor: number) => RgbaImage;
