@@ -62,7 +62,8 @@ describe('pictures on the run page', () => {
     expect(await phase.innerText()).toContain('y (µm)');
 
     // The mirror switch: the picture turns on screen, the x axis runs the other way, the file is untouched.
-    const image = first.locator('img').first();
+    // The element carrying the picture's zoom, pan and mirror: the picture itself, or the layer of its tiles.
+    const image = first.locator('[style*="translate("]').first();
     const before = await image.getAttribute('style');
     expect(before).not.toContain('scaleX(-1)');
     await page.getByLabel('Mirror previews left–right').check();

@@ -1,3 +1,4 @@
+import { useEffect, useState } from 'react';
 import type { TilePyramid } from '@shared/schemas/tiles';
 import type { VisibleRange } from '@/components/ui/picture-axes';
 
@@ -33,6 +34,13 @@ export function tilesInView(pyramid: TilePyramid, level: number, view: VisibleRa
   return tiles;
 }
 
+/**
+ * How long the view must stay still before the tiles it needs are asked for, ms: a wheel or pinch zoom passes
+ * through many views, and loading each one's tiles would fetch far more than the last one shows (common
+ * practice, no published source).
+ */
+const SETTLE_MS = 150;
+
 interface TileLayerProps {
   source: TileSource;
   /** The part of the picture in view, fractions of its width and height as drawn (unmirrored). */
@@ -48,10 +56,18 @@ interface TileLayerProps {
 
 /**
  * A tiled picture: the coarsest level (one tile) always, beneath the tiles in view of the level the zoom
- * needs — so the whole picture shows at once and only what is in view is loaded when zoomed or moved.
+ * needs — so the whole picture shows at once and only what is in view is loaded when zoomed or moved, once
+ * the view has settled.
  */
-export function TileLayer({ source, view, shownWidth, transform, pixelated, onFail }: TileLayerProps) {
+export function TileLayer({ source, view: current, shownWidth: currentWidth, transform, pixelated, onFail }: TileLayerProps) {
   const { pyramid, tile } = source;
+  const [settled, setSettled] = useState({ view: current, shownWidth: currentWidth });
+  useEffect(() => {
+    const timer = setTimeout(() => setSettled({ view: current, shownWidth: currentWidth }), SETTLE_MS);
+    return () => clearTimeout(timer);
+    // The view's numbers, not the object (made anew on every render).
+  }, [current.left, current.right, current.top, current.bottom, currentWidth]);
+  const { view, shownWidth } = settled;
   const coarsest = pyramid.levels.length - 1;
   const dpr = typeof window === 'undefined' ? 1 : window.devicePixelRatio || 1;
   const needed = shownWidth > 0 ? levelFor(pyramid, shownWidth * dpr) : coarsest;
