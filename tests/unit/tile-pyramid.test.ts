@@ -6,7 +6,7 @@
  * level of the preview's size must equal the single preview PNG.
  */
 import { execFileSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -15,6 +15,7 @@ import { CHANNEL_IDS, runDesign, type DesignRun } from '../../shared/optics/pipe
 import { designSchema } from '../../shared/schemas/design';
 import { loadDesignResources } from '../../server/cli/design-files';
 import { writeRunOutputs, type WrittenFile } from '../../server/cli/outputs';
+import { farFieldTiledPictures, TILES_TRAILER_BYTES, writeTilePyramids, type TileIndex } from '../../server/cli/tiles';
 import { TILE_SIZE } from '../../shared/schemas/tiles';
 import { twinImageDesign } from '../support/designs';
 import { PYTHON } from '../support/python';
@@ -104,6 +105,26 @@ describe('tile pyramids of a 2048² run', () => {
     for (const [picture, result] of Object.entries(checked)) {
       expect(result.previewSide, picture).toBe(1024);
       expect(result.previewMismatched, picture).toBe(0);
+    }
+  });
+
+  it('halves larger designs to PREVIEW_TILES_MAX_SIDE: level 0 is then the full pyramid\'s level 1, tile for tile', async () => {
+    const capped = join(dir, 'capped');
+    mkdirSync(capped);
+    const windows = { a: run.channels.a.window!, b: run.channels.b.window! };
+    const [farFieldA] = farFieldTiledPictures({ grid: run.grid, farFields: run.farFields, analyser: run.analyser, windows }, { maxSide: 1024 });
+    await writeTilePyramids(capped, [farFieldA], N);
+    const read = (path: string) => {
+      const bytes = readFileSync(path);
+      const length = bytes.readUInt32LE(bytes.length - TILES_TRAILER_BYTES);
+      const index = JSON.parse(bytes.subarray(bytes.length - TILES_TRAILER_BYTES - length, bytes.length - TILES_TRAILER_BYTES).toString()) as TileIndex;
+      return { index, tile: (level: number, k: number) => bytes.subarray(index.tiles[level][k][0], index.tiles[level][k][0] + index.tiles[level][k][1]) };
+    };
+    const full = read(join(dir, 'farfield_a.tiles'));
+    const small = read(join(capped, 'farfield_a.tiles'));
+    expect(small.index.levels.map((l) => l.width)).toEqual([1024, 512, 256]);
+    for (let level = 0; level < 3; level++) {
+      for (let k = 0; k < small.index.tiles[level].length; k++) expect(small.tile(level, k).equals(full.tile(level + 1, k)), `level ${level} tile ${k}`).toBe(true);
     }
   });
 });
