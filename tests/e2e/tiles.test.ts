@@ -12,7 +12,7 @@ import type { ReviewThread } from '../../shared/schemas/review';
 import type { TilePyramid } from '../../shared/schemas/tiles';
 import { expectAccessible } from '../support/axe';
 import { getJson, SCREENSHOT_DIR, screenshot } from '../support/browser';
-import { useDemoBrowser } from '../support/demo-browser';
+import { twinImageDemoRun, useDemoBrowser } from '../support/demo-browser';
 
 const TOMAS = 'tomas.reyes@harbourlight.example';
 const demo = useDemoBrowser();
@@ -27,24 +27,6 @@ async function post<T>(page: Page, path: string, body: unknown): Promise<T> {
     },
     { path, body },
   ) as Promise<T>;
-}
-
-/** The demo twin-image project's first succeeded run. */
-async function twinImageRun(page: Page): Promise<{ projectId: number; runId: number }> {
-  const { projects } = await getJson<{ projects: { id: number; name: string }[] }>(page, '/api/projects');
-  const project = projects.find((p) => /twin/i.test(p.name))!;
-  let runId = 0;
-  await expect
-    .poll(
-      async () => {
-        const { runs } = await getJson<{ runs: { id: number; status: string }[] }>(page, `/api/projects/${project.id}/runs`);
-        runId = runs.find((r) => r.status === 'succeeded')?.id ?? 0;
-        return runId;
-      },
-      { timeout: 300_000, interval: 1000 },
-    )
-    .toBeGreaterThan(0);
-  return { projectId: project.id, runId };
 }
 
 /** Tiles of `level` overlapping the picture fractions [from, to) across and down (picture drawn unmirrored). */
@@ -74,7 +56,7 @@ describe('previews that zoom by tiles', () => {
     // A frame under 512 px wide, so the whole view needs the 512² level and a zoom the full 1024² one.
     await page.setViewportSize({ width: 620, height: 1000 });
     await demo.signIn(page, TOMAS);
-    const { projectId, runId } = await twinImageRun(page);
+    const { projectId, runId } = await twinImageDemoRun(page, 300_000);
     const base = `/api/projects/${projectId}/runs/${runId}`;
     const { tiles: pyramid } = await getJson<{ tiles: TilePyramid }>(page, `${base}/tiles/farfield_a.png`);
     expect(pyramid.levels.map((l) => l.width)).toEqual([1024, 512, 256]);
