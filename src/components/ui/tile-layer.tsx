@@ -43,6 +43,8 @@ const SETTLE_MS = 150;
 
 interface TileLayerProps {
   source: TileSource;
+  /** What the picture shows, for screen readers (the tiles themselves are unnamed parts of it). */
+  alt: string;
   /** The part of the picture in view, fractions of its width and height as drawn (unmirrored). */
   view: VisibleRange;
   /** Width of the whole picture on screen, CSS pixels. */
@@ -59,7 +61,7 @@ interface TileLayerProps {
  * needs — so the whole picture shows at once and only what is in view is loaded when zoomed or moved, once
  * the view has settled.
  */
-export function TileLayer({ source, view: current, shownWidth: currentWidth, transform, pixelated, onFail }: TileLayerProps) {
+export function TileLayer({ source, alt, view: current, shownWidth: currentWidth, transform, pixelated, onFail }: TileLayerProps) {
   const { pyramid, tile } = source;
   const [settled, setSettled] = useState({ view: current, shownWidth: currentWidth });
   useEffect(() => {
@@ -74,7 +76,7 @@ export function TileLayer({ source, view: current, shownWidth: currentWidth, tra
   const whole = { left: 0, right: 1, top: 0, bottom: 1 };
   const layers = needed === coarsest ? [coarsest] : [coarsest, needed];
   return (
-    <div className="absolute top-0 left-0 h-full w-full origin-top-left" style={{ transform }} data-tile-level={needed}>
+    <div role="img" aria-label={alt} className="absolute top-0 left-0 h-full w-full origin-top-left" style={{ transform }} data-tile-level={needed}>
       {layers.map((level) => {
         const { width, height } = pyramid.levels[level];
         const size = pyramid.tileSize;

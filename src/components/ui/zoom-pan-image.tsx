@@ -229,6 +229,7 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
         ) : tiled ? (
           <TileLayer
             source={tiled}
+            alt={alt}
             // The part in view as the picture is drawn, before mirroring.
             view={mirrored ? { ...visible, left: 1 - visible.right, right: 1 - visible.left } : visible}
             shownWidth={frameWidth * view.scale}
