@@ -8,6 +8,8 @@
 import { join } from 'node:path';
 import type { Page, Request } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
+import { Op } from 'sequelize';
+import { RunArtifactModel } from '../../server/components/runs/run.model';
 import type { ReviewThread } from '../../shared/schemas/review';
 import type { TilePyramid } from '../../shared/schemas/tiles';
 import { expectAccessible } from '../support/axe';
@@ -16,6 +18,9 @@ import { twinImageDemoRun, useDemoBrowser } from '../support/demo-browser';
 
 const TOMAS = 'tomas.reyes@harbourlight.example';
 const demo = useDemoBrowser();
+let runPath = '';
+/** Where the review pin goes: 58 % across and 43 % down the far field under input A. */
+const PIN = { x: 0.58, y: 0.43 };
 
 async function post<T>(page: Page, path: string, body: unknown): Promise<T> {
   return page.evaluate(
@@ -56,14 +61,14 @@ describe('previews that zoom by tiles', () => {
     // A frame under 512 px wide, so the whole view needs the 512² level and a zoom the full 1024² one.
     await page.setViewportSize({ width: 620, height: 1000 });
     await demo.signIn(page, TOMAS);
-    const { projectId, runId } = await twinImageDemoRun(page, 300_000);
+    const { projectId, runId, path } = await twinImageDemoRun(page, 300_000);
+    runPath = path;
     const base = `/api/projects/${projectId}/runs/${runId}`;
     const { tiles: pyramid } = await getJson<{ tiles: TilePyramid }>(page, `${base}/tiles/farfield_a.png`);
     expect(pyramid.levels.map((l) => l.width)).toEqual([1024, 512, 256]);
     const coarsest = pyramid.levels.length - 1;
 
-    // A pin on the far field under input A, 58 % across and 43 % down the picture.
-    const pin = { x: 0.58, y: 0.43 };
+    const pin = PIN;
     await post(page, `${base}/threads`, { artifact: 'farfield_a.png', ...pin, body: 'Is this speckle or a real side lobe?' });
 
     const requested: string[] = [];
@@ -178,6 +183,32 @@ describe('previews that zoom by tiles', () => {
 
     const { threads } = await getJson<{ threads: ReviewThread[] }>(page, `${base}/threads`);
     expect(threads.find((t) => t.artifact === 'farfield_a.png')).toMatchObject(pin);
+    await page.close();
+  });
+
+  it('a run without tile pyramids (made before them) shows its single PNG, its pin in place', async () => {
+    const runId = Number(/runs\/(\d+)$/.exec(runPath)![1]);
+    await RunArtifactModel.destroy({ where: { runId, name: { [Op.like]: '%.tiles' } } });
+    const page = await demo.browser.context.newPage();
+    await page.setViewportSize({ width: 620, height: 1000 });
+    await demo.signIn(page, TOMAS);
+    const tileRequests: string[] = [];
+    page.on('request', (request: Request) => {
+      if (request.url().includes('/tiles/')) tileRequests.push(request.url());
+    });
+    await page.goto(`${demo.server.url}${runPath}`);
+    const figure = page.locator('figure', { has: page.locator('img[src$="/artifacts/farfield_a.png"]') }).first();
+    const image = figure.locator('img[src$="/artifacts/farfield_a.png"]');
+    await expect.poll(() => image.evaluate((img) => (img as unknown as { naturalWidth: number }).naturalWidth), { timeout: 30_000 }).toBe(1024);
+    const frame = figure.locator('[aria-roledescription="zoomable picture"]');
+    await frame.scrollIntoViewIfNeeded();
+    const box = (await frame.boundingBox())!;
+    const pin = figure.getByRole('button', { name: /^Thread \d+ at u = / });
+    const b = (await pin.boundingBox())!;
+    expect(Math.hypot(b.x - 6 - (box.x + box.width * PIN.x), b.y + b.height + 6 - (box.y + box.height * PIN.y))).toBeLessThan(1.5);
+    expect(await frame.locator('[data-tile]').count()).toBe(0);
+    expect(tileRequests).toEqual([]);
+    await screenshot(page, 'tiles-04-single-png');
     await page.close();
   });
 });
