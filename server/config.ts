@@ -5,6 +5,9 @@ import { UPLOAD_LIMITS } from '../shared/schemas/uploads';
 
 const MIB = 1024 * 1024;
 
+/** Default PREVIEW_TILES_MAX_SIDE: the full resolution of every design size up to 4096². */
+export const DEFAULT_TILES_MAX_SIDE = 4096;
+
 const flag = z
   .enum(['true', 'false', '1', '0', 'yes', 'no'])
   .transform((v) => v === 'true' || v === '1' || v === 'yes');
@@ -85,6 +88,16 @@ const envSchema = z.object({
   RUN_TIME_LIMIT_MINUTES: z.coerce.number().positive().default(60),
   /** A library build still running this long after it started is stopped and failed. */
   LIBRARY_BUILD_TIME_LIMIT_MINUTES: z.coerce.number().positive().default(30),
+  /**
+   * Largest side in pixels of level 0 of a run's tile pyramids (README "Tile pyramids"); larger designs are
+   * halved to it. 0: runs write no tile pyramids (the run page shows the single preview PNG).
+   */
+  PREVIEW_TILES_MAX_SIDE: z.coerce
+    .number()
+    .int()
+    .max(65_536)
+    .refine((v) => v === 0 || v >= 256, 'use 0 (no tile pyramids) or at least 256, the side of one tile')
+    .default(DEFAULT_TILES_MAX_SIDE),
   /** Bytes one project may store (uploads + run files), in MiB. */
   PROJECT_STORAGE_MB: z.coerce.number().positive().default(2048),
   /** Run event streams (Server-Sent Events) one person may hold open at once. */

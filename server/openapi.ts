@@ -75,6 +75,8 @@ export const API_ROUTES: ApiRoute[] = [
 
   { method: 'get', path: '/shared/:token', summary: 'The run behind a share link (no account needed)', role: 'public', ok: [200, '`{ projectName, expiresAt, run: RunDetail }`; 404 unknown, 410 revoked or expired'] },
   { method: 'get', path: '/shared/:token/artifacts/:name', summary: 'A file of the shared run', role: 'public', ok: [200, 'The file'] },
+  { method: 'get', path: '/shared/:token/tiles/:picture', summary: 'The tile pyramid of a preview of the shared run', role: 'public', ok: [200, '`{ tiles: TilePyramid }`; 404 without one'] },
+  { method: 'get', path: '/shared/:token/tiles/:picture/:level/:x/:y', summary: 'One tile of a preview of the shared run', role: 'public', ok: [200, 'PNG; 400 bad numbers, 404 outside the pyramid'] },
 
   { method: 'get', path: '/projects', summary: 'Your projects', role: 'user', query: listProjectsQuerySchema, ok: [200, '`{ projects: Project[] }`'] },
   { method: 'post', path: '/projects', summary: 'Create a project (you become its owner)', role: 'user', body: createProjectSchema, ok: [201, '`{ project }`'] },
@@ -122,6 +124,8 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'post', path: `${P}/runs/:runId/cancel`, summary: 'Cancel a queued or running run', role: 'project:design', ok: [200, '`{ run }`'] },
   { method: 'delete', path: `${P}/runs/:runId/files`, summary: 'Delete a finished run’s files (the run, its metrics and events stay)', role: 'project:design', ok: [200, '`{ run }` with filesDeletedAt'] },
   { method: 'get', path: `${P}/runs/:runId/artifacts/:name`, summary: 'A file of a run', role: 'project:read', ok: [200, 'The file'] },
+  { method: 'get', path: `${P}/runs/:runId/tiles/:picture`, summary: 'The tile pyramid of a preview (README "Tile pyramids"): size, tile size, levels', role: 'project:read', ok: [200, '`{ tiles: TilePyramid }`; 404 without one'] },
+  { method: 'get', path: `${P}/runs/:runId/tiles/:picture/:level/:x/:y`, summary: 'One 256-px tile of a preview (level 0 = full resolution; x, y from the top left)', role: 'project:read', ok: [200, 'PNG; 400 bad numbers, 404 outside the pyramid'] },
   { method: 'get', path: `${P}/runs/:runId/events`, summary: 'Server-Sent Events following a run (at most EVENT_STREAMS_PER_USER open per person)', role: 'project:read', ok: [200, 'text/event-stream of `update` events, and `end` when access was lost'] },
   { method: 'post', path: `${P}/runs/:runId/tolerance`, summary: 'Start a tolerance study of a finished run', role: 'project:design', body: toleranceRequestSchema, ok: [202, '`{ study }`'] },
   { method: 'get', path: `${P}/runs/:runId/tolerance`, summary: 'Tolerance studies of a run', role: 'project:read', ok: [200, '`{ studies }`'] },

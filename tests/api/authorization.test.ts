@@ -11,6 +11,8 @@ import { storeArtifacts } from '../../server/components/runs/run-artifacts';
 import { ReviewCommentModel, ReviewThreadModel } from '../../server/components/review/review.model';
 import { RunModel } from '../../server/components/runs/run.model';
 import { LibraryBuildModel } from '../../server/components/library-builds/library-build.model';
+import { writeTilePyramids } from '../../server/cli/tiles';
+import { paintPhase } from '../../shared/optics/colormap';
 import { encodeNpy } from '../../shared/optics/npy';
 import { eightAtomCsv, uploadAtomLibrary } from '../support/atom-libraries';
 import { apiRoutes } from '../support/app-routes';
@@ -43,7 +45,8 @@ interface Fixture {
 }
 /** Parts of the fixture a route needs beyond the project and its members (built only then: they cost time). */
 /** 'layout': the finished run gets a synthetic layout with design-rule violations and an owner's override. */
-type Need = 'revision' | 'upload' | 'runs' | 'library' | 'layout' | 'thread' | 'invite' | 'build';
+/** 'tiles': the finished run's far-field preview gets a 512-px tile pyramid. */
+type Need = 'revision' | 'upload' | 'runs' | 'library' | 'layout' | 'thread' | 'invite' | 'build' | 'tiles';
 interface RouteCase {
   name: string;
   needs?: Need[];
@@ -216,6 +219,18 @@ const ROUTES: RouteCase[] = [
     name: 'GET /projects/:id/runs/:runId/artifacts/:name',
     needs: ['runs'],
     send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/artifacts/design.json`),
+    expected: read,
+  },
+  {
+    name: 'GET /projects/:id/runs/:runId/tiles/:picture',
+    needs: ['runs', 'tiles'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/tiles/farfield_a.png`),
+    expected: read,
+  },
+  {
+    name: 'GET /projects/:id/runs/:runId/tiles/:picture/:level/:x/:y',
+    needs: ['runs', 'tiles'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/tiles/farfield_a.png/0/1/1`),
     expected: read,
   },
   {
@@ -416,7 +431,10 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs', 'libr
   const dir = await mkdtemp(join(tmpdir(), 'pw-matrix-'));
   await writeFile(join(dir, 'design.json'), JSON.stringify(revision.design));
   await writeFile(join(dir, 'farfield_a.png'), Buffer.from('89504e470d0a1a0a', 'hex'));
-  await storeArtifacts(finished.id, dir, [{ name: 'design.json', bytes: 0 }, { name: 'farfield_a.png', bytes: 8 }]);
+  const tiles = needs.includes('tiles')
+    ? await writeTilePyramids(dir, [{ picture: 'farfield_a.png', side: 512, paint: (f) => paintPhase(new Float64Array((512 / f) ** 2), 512 / f, 512 / f) }], 512)
+    : [];
+  await storeArtifacts(finished.id, dir, [{ name: 'design.json', bytes: 0 }, { name: 'farfield_a.png', bytes: 8 }, ...tiles]);
   await rm(dir, { recursive: true });
   if (needs.includes('layout')) await storeSyntheticLayout(finished.id, deflectorDesign());
   if (needs.includes('thread')) {

@@ -14,7 +14,7 @@ import { Op, type Transaction } from 'sequelize';
 import { Piscina } from 'piscina';
 import type { Logger } from 'pino';
 import type { Design } from '../../../shared/schemas/design';
-import type { AppConfig } from '../../config';
+import { DEFAULT_TILES_MAX_SIDE, type AppConfig } from '../../config';
 import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { rulesForRun } from '../fab/design-rules.service';
 import { libraryForRun } from '../atom-libraries/atom-library.service';
@@ -39,8 +39,8 @@ export interface RunExecutorOptions {
   parallelWithinRuns?: boolean;
   /** Least time between two progress writes of one run, ms (default 500: at most 2 writes/s). */
   progressIntervalMs?: number;
-  /** The run time limit, the projects' storage quota and the library builds' time limit (default: none). */
-  limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'> & Partial<Pick<AppConfig, 'LIBRARY_BUILD_TIME_LIMIT_MINUTES'>>;
+  /** The run time limit, the projects' storage quota, the library builds' time limit and the tile pyramids' size (default: none). */
+  limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'> & Partial<Pick<AppConfig, 'LIBRARY_BUILD_TIME_LIMIT_MINUTES' | 'PREVIEW_TILES_MAX_SIDE'>>;
   /** Nice value of the pool's threads (0–19, default 0): see `createRunPool`. */
   nice?: number;
 }
@@ -118,6 +118,8 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
   const limits = options.limits;
   const timeLimitMs = limits ? limits.RUN_TIME_LIMIT_MINUTES * 60_000 : null;
   const nice = options.nice ?? 0;
+  const tileSide = limits?.PREVIEW_TILES_MAX_SIDE ?? DEFAULT_TILES_MAX_SIDE;
+  const tiles = tileSide > 0 ? { maxSide: tileSide } : null;
   const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval, timeLimitMs });
   const libraryBuilds = createLibraryBuildExecutor({
     logger,
@@ -247,7 +249,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
     const { port1, port2 } = new MessageChannel();
     const track = tracker(runId, entry);
     port1.on('message', (message: RunProgressMessage) => track.onMessage(message));
-    const running = pool.run({ ...loaded, workDir, port: port2, parallel }, { transferList: [port2], signal: controller.signal });
+    const running = pool.run({ ...loaded, workDir, port: port2, parallel, tiles }, { transferList: [port2], signal: controller.signal });
     const handled: Promise<void> = running
       .then(
         async (result) => {
