@@ -277,7 +277,7 @@ export function ComputeLibraryForm({ projectId, onStarted }: { projectId: number
       <Section title="Sweep of widths w and lengths l">
         <div className="grid gap-4 sm:grid-cols-3">
           <NumberField label="Smallest feature" unit="nm" value={form.minFeatureNm} onValueChange={(minFeatureNm) => change({ minFeatureNm })} error={errors['sweep.minFeatureNm']} />
-          <NumberField label="Smallest gap" unit="nm" value={form.minGapNm} onValueChange={(minGapNm) => change({ minGapNm })} error={errors['sweep.minGapNm']} hint="Largest pillar: P minus this gap." />
+          <NumberField label="Smallest gap" unit="nm" value={form.minGapNm} onValueChange={(minGapNm) => change({ minGapNm })} error={errors['sweep.minGapNm']} hint="Largest pillar: at most P minus this gap." />
           <NumberField label="Step" unit="nm" value={form.stepNm} onValueChange={(stepNm) => change({ stepNm })} error={errors['sweep.stepNm']} />
         </div>
       </Section>
