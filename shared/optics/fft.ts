@@ -55,13 +55,29 @@ export interface FftInitOptions {
   simdBinary?: Uint8Array;
 }
 
-/** The engine's WebAssembly SIMD kernels (kernels.wat), working on FFT plan buffers in place. */
+/**
+ * The engine's WebAssembly SIMD kernels (kernels.wat), working in place on FFT plan buffers and on arrays
+ * from `allocateKernelArray`. Pointers are byte offsets into the backend's memory; counts are complex values.
+ */
 export interface FftKernels {
   /**
    * Device-plane modulus constraint: each of `count` (even) complex float32 values at byte `pointer` of the
    * backend's memory becomes amplitude·z/|z|, or (amplitude, 0) where z = 0.
    */
   normalizeUniform(pointer: number, count: number, amplitude: number): void;
+  /** The same with one float32 amplitude per value, at byte `amplitudes` (count a multiple of 4). */
+  normalize(pointer: number, count: number, amplitudes: number): void;
+  /**
+   * Image-plane modulus constraint of GS / weighted GS / MRAF with the iteration's error sums (kernels.wat
+   * states the codes, the weights' update and the seven float64 sums added at byte `sums`). `weights` 0: none.
+   */
+  imagePlane(pointer: number, count: number, codes: number, weights: number, mix: number, keep: number, meanRatio: number, sums: number): void;
+  /** z ← z·h (or z·conj h when `conjugate` is 1) with h the complex float32 values at byte `h`; count even. */
+  multiplyComplex(pointer: number, count: number, h: number, conjugate: number): void;
+  /** In-place transpose of an n×n complex float32 matrix, in tiles of `tile` (even, dividing n). */
+  transpose(pointer: number, n: number, tile: number): void;
+  /** Columns x … x + width − 1 of an n×n complex grid into rows of `columns` (toColumns 1) or back (0). */
+  copyColumns(grid: number, n: number, x: number, width: number, columns: number, toColumns: number): void;
 }
 
 /** The part of the WebAssembly API the kernels need (the engine is compiled without DOM or Node types). */
@@ -100,7 +116,9 @@ async function loadWithKernels(
   ]);
   if (!memory) throw new Error('The FFT backend exports no memory');
   const exports = new wasm.Instance(new wasm.Module(KERNELS_WASM), { env: { memory } }).exports;
-  return { module, kernels: { normalizeUniform: exports.normalizeUniform as FftKernels['normalizeUniform'] } };
+  const names = ['normalizeUniform', 'normalize', 'imagePlane', 'multiplyComplex', 'transpose', 'copyColumns'] as const;
+  const loaded = Object.fromEntries(names.map((name) => [name, exports[name]])) as unknown as FftKernels;
+  return { module, kernels: loaded };
 }
 
 /**
@@ -399,6 +417,12 @@ export class Fft2d {
     const view = this.columnsView!;
     const tile = TRANSPOSE_TILE;
     const copy = (toColumns: boolean) => {
+      if (kernels) {
+        for (let s = 0, k = 0; s < spans.length; k += spans[s + 1] - spans[s], s += 2) {
+          kernels.copyColumns(this.dataPointer, n, spans[s], spans[s + 1] - spans[s], this.columnsPointer + 8 * n * k, toColumns ? 1 : 0);
+        }
+        return;
+      }
       for (let y0 = 0; y0 < n; y0 += tile) {
         let k = 0;
         for (let s = 0; s < spans.length; s += 2) {
@@ -460,6 +484,10 @@ export class Fft2d {
 
   /** In-place transpose of the n×n complex matrix, moving each (re, im) float32 pair as one 8-byte word. */
   private transpose(): void {
+    if (kernels) {
+      kernels.transpose(this.dataPointer, this.n, TRANSPOSE_TILE);
+      return;
+    }
     this.refreshViews();
     const a = this.pairs;
     const n = this.n;
@@ -536,6 +564,49 @@ export function getFft2d(n: number): Fft2d {
     cachedPlans.set(n, plan);
   }
   return plan;
+}
+
+/**
+ * Memory of the engine in the FFT backend's own heap, where the SIMD kernels reach it by `pointer` (phase
+ * retrieval's target codes, weights and transfer function). Freed memory stays in that heap and is reused by
+ * the next allocation, already paged in. Views are re-created when the memory grew: take them after the last
+ * allocation. Example: `const a = allocateKernelArray(16); a.float64()[0] = 1; a.free();`
+ */
+export class KernelArray {
+  readonly bytes: number;
+  private address: number;
+  private readonly module: PffftModule;
+
+  constructor(bytes: number) {
+    this.module = requireModule();
+    this.bytes = bytes;
+    this.address = this.module._pffft_aligned_malloc(bytes);
+    if (!this.address) throw new RangeError(`Not enough WebAssembly memory for ${bytes} bytes of working arrays`);
+  }
+
+  /** Byte offset in the backend's memory (16-byte aligned). */
+  get pointer(): number {
+    if (this.address === 0) throw new Error('Kernel array used after free()');
+    return this.address;
+  }
+
+  float32(): Float32Array {
+    return new Float32Array(this.module.HEAPF32.buffer, this.pointer, this.bytes >> 2);
+  }
+
+  float64(): Float64Array {
+    return new Float64Array(this.module.HEAPF32.buffer, this.pointer, this.bytes >> 3);
+  }
+
+  free(): void {
+    if (this.address) this.module._pffft_aligned_free(this.address);
+    this.address = 0;
+  }
+}
+
+/** `bytes` of backend memory for kernel operands (see KernelArray). Requires `await initFft()` first. */
+export function allocateKernelArray(bytes: number): KernelArray {
+  return new KernelArray(bytes);
 }
 
 function fieldTransform(field: ComplexField, out: ComplexField | undefined, inverse: boolean): ComplexField {
