@@ -6,8 +6,10 @@
  * chosen by benchmark (bench/fft-bench.ts) over fft.js and ndarray-fft; it runs in Node and in browsers.
  * Data live in one interleaved float32 buffer (re, im, re, im…) inside the WebAssembly memory, allocated
  * once per plan. Rows are transformed one at a time and the square buffer is transposed in place
- * (8×8 tiles), so a 2-D transform is: rows, transpose, rows, transpose. A retrieval cycle limited to some
- * spectrum columns copies just those columns out (8×8 tiles) instead of transposing the whole buffer.
+ * (8×8 tiles), so a 2-D transform is: rows, transpose, rows, transpose. A retrieval cycle (`cycle`) instead
+ * copies the spectrum columns out in strips of 32 that stay in cache, transforms them there, applies the
+ * constraint and copies them back — no transposes; a cycle limited to some columns copies just those.
+ * With the SIMD kernels (kernels.wat) the transposes and column copies run as WebAssembly SIMD too.
  *
  * Conventions (same as numpy.fft.fft2 / ifft2):
  * - forward  F[ky, kx] = Σ f[y, x] · exp(−2πi (ky·y + kx·x)/N), unscaled;
@@ -30,11 +32,12 @@ const PFFFT_COMPLEX = 1;
 /** Tile edge of the in-place transpose, in complex elements (measured fastest on this engine's target CPUs). */
 const TRANSPOSE_TILE = 8;
 /**
- * A cycle limited to at most this share of the spectrum columns copies them out instead of transposing the
- * whole buffer twice (measured: the copy costs about as much per column as two transposes do per row; at
- * 1024² the 178 window columns of the demo take 7.2 ms per cycle against 11–12 ms for a full one).
+ * Spectrum columns a cycle copies out and transforms together (a strip of 32·N complex values: 256 KiB at
+ * 1024², 1 MiB at 4096², within a core's L2 cache). Measured on the 2-core build machine against transposing the
+ * whole buffer there and back: a GS iteration at 1024² 13.6 against 15.2 ms CPU time, at 2048² 58 against 67 ms
+ * (best of 15; strips of 16 were slower at 2048², of 64 no faster).
  */
-const COLUMN_COPY_SHARE = 0.5;
+const STRIP_COLUMNS = 32;
 
 export const MIN_FFT_SIZE = 64;
 export const MAX_FFT_SIZE = 4096;
@@ -209,7 +212,7 @@ export class Fft2d {
   private workPointer: number;
   private view: Float32Array;
   private pairs: Float64Array;
-  /** Buffer of the spectrum columns of a limited cycle, one per row (grown on demand), and its views. */
+  /** Strip buffer of a cycle's spectrum columns, one per row (allocated on first use), and its views. */
   private columnsPointer = 0;
   private columnsCapacity = 0;
   private columnsView: Float32Array | null = null;
@@ -338,8 +341,10 @@ export class Fft2d {
    * multiplied by N² unless `spectrumRow` divides), `fieldRow` on every field row.
    * The spectrum is seen transposed and unshifted: row r holds kx index r, element j of that row is
    * ky index j (frequency index m means m for m < N/2, m − N otherwise).
-   * `spectrumRows`: only these spectrum rows (kx indices) are transformed and passed to `spectrumRow` (possibly
-   * in a separate buffer: use the `data` and `offset` it receives); all others are set to zero, for a
+   * `spectrumRow` gets spectrum rows in the plan's strip buffer, not in `data`: use the `data` and `offset` it
+   * receives (the row argument is the kx index).
+   * `spectrumRows`: only these spectrum rows (kx indices) are transformed and passed to `spectrumRow`; all
+   * others are set to zero, for a
    * constraint that zeroes them anyway — far less work. null: every row.
    * With `chainForward`, the forward row transforms of the next cycle are done while each field row is
    * still in cache; the buffer is then half-transformed until a cycle with `chainForward = false`.
@@ -349,15 +354,9 @@ export class Fft2d {
     if (!this.chained) this.rowPass(PFFFT_FORWARD, null, -1, 1);
     const spans = spectrumRows ?? [0, this.n];
     assertSpans(spans, this.n);
-    if (spanLength(spans) <= this.n * COLUMN_COPY_SHARE) {
-      this.columnRoundTrip(spans, spectrumRow);
-      this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1, spans);
-    } else {
-      this.transpose();
-      this.spectrumRowPass(spans, spectrumRow);
-      this.transpose();
-      this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1);
-    }
+    this.columnRoundTrip(spans, spectrumRow);
+    const limited = spanLength(spans) < this.n;
+    this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1, limited ? spans : null);
     this.chained = chainForward;
   }
 
@@ -404,70 +403,48 @@ export class Fft2d {
   }
 
   /**
-   * The spectrum half of a limited cycle: copies the columns of `spans` (8×8 tiles) into rows of the column
-   * buffer, transforms each forward, applies `op` (row argument = column index), transforms it back and
-   * copies the columns home. The other columns keep stale values: the caller zeroes them.
+   * The spectrum half of a cycle, strip by strip: up to STRIP_COLUMNS columns of `spans` at a time are copied
+   * into rows of the strip buffer (small enough to stay in cache), each transformed forward, given to `op`
+   * (row argument = column index), transformed back, and the strip copied home. Columns outside `spans` keep
+   * stale values: the caller zeroes them.
    */
   private columnRoundTrip(spans: RowSpans, op: RowOperation | null): void {
     const n = this.n;
-    this.reserveColumns(spanLength(spans));
+    const strip = Math.min(STRIP_COLUMNS, n);
+    this.reserveColumns(strip);
     this.refreshViews();
-    const grid = this.pairs;
-    const columns = this.columnsPairs!;
     const view = this.columnsView!;
-    const tile = TRANSPOSE_TILE;
-    const copy = (toColumns: boolean) => {
-      if (kernels) {
-        for (let s = 0, k = 0; s < spans.length; k += spans[s + 1] - spans[s], s += 2) {
-          kernels.copyColumns(this.dataPointer, n, spans[s], spans[s + 1] - spans[s], this.columnsPointer + 8 * n * k, toColumns ? 1 : 0);
-        }
-        return;
-      }
-      for (let y0 = 0; y0 < n; y0 += tile) {
-        let k = 0;
-        for (let s = 0; s < spans.length; s += 2) {
-          for (let x = spans[s]; x < spans[s + 1]; x++, k++) {
-            const row = k * n + y0;
-            if (toColumns) for (let y = 0, p = y0 * n + x; y < tile; y++, p += n) columns[row + y] = grid[p];
-            else for (let y = 0, p = y0 * n + x; y < tile; y++, p += n) grid[p] = columns[row + y];
-          }
-        }
-      }
-    };
-    copy(true);
-    let k = 0;
     for (let s = 0; s < spans.length; s += 2) {
-      for (let x = spans[s]; x < spans[s + 1]; x++, k++) {
-        const pointer = this.columnsPointer + 8 * n * k;
-        this.transformAt(pointer, PFFFT_FORWARD);
-        if (op) op(view, 2 * n * k, x);
-        this.transformAt(pointer, PFFFT_BACKWARD);
+      for (let x = spans[s]; x < spans[s + 1]; x += strip) {
+        const width = Math.min(strip, spans[s + 1] - x);
+        this.copyColumns(x, width, true);
+        for (let k = 0; k < width; k++) {
+          const pointer = this.columnsPointer + 8 * n * k;
+          this.transformAt(pointer, PFFFT_FORWARD);
+          if (op) op(view, 2 * n * k, x + k);
+          this.transformAt(pointer, PFFFT_BACKWARD);
+        }
+        this.copyColumns(x, width, false);
       }
     }
-    copy(false);
   }
 
-  /**
-   * The spectrum half of a cycle on the transposed buffer: the rows of `spans` are transformed forward, given
-   * to `op` and transformed back; the rows between them are set to zero.
-   */
-  private spectrumRowPass(spans: RowSpans, op: RowOperation | null): void {
+  /** Columns x … x + width − 1 of the buffer into rows 0 … width − 1 of the strip buffer, or back. */
+  private copyColumns(x: number, width: number, toColumns: boolean): void {
     const n = this.n;
-    const rowBytes = 8 * n;
-    const data = this.data;
-    let done = 0;
-    for (let s = 0; s <= spans.length; s += 2) {
-      const start = s < spans.length ? spans[s] : n;
-      if (start > done) data.fill(0, 2 * n * done, 2 * n * start);
-      if (s === spans.length) break;
-      const end = spans[s + 1];
-      let pointer = this.dataPointer + rowBytes * start;
-      for (let row = start; row < end; row++, pointer += rowBytes) {
-        this.transformAt(pointer, PFFFT_FORWARD);
-        if (op) op(data, 2 * n * row, row);
-        this.transformAt(pointer, PFFFT_BACKWARD);
+    if (kernels) {
+      kernels.copyColumns(this.dataPointer, n, x, width, this.columnsPointer, toColumns ? 1 : 0);
+      return;
+    }
+    const grid = this.pairs;
+    const columns = this.columnsPairs!;
+    const tile = TRANSPOSE_TILE;
+    for (let y0 = 0; y0 < n; y0 += tile) {
+      for (let k = 0; k < width; k++) {
+        const row = k * n + y0;
+        if (toColumns) for (let y = 0, p = y0 * n + x + k; y < tile; y++, p += n) columns[row + y] = grid[p];
+        else for (let y = 0, p = y0 * n + x + k; y < tile; y++, p += n) grid[p] = columns[row + y];
       }
-      done = end;
     }
   }
 

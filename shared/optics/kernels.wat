@@ -1,110 +1,104 @@
-;; Hand-written WebAssembly SIMD kernels of the optics engine, run on the memory of the FFT backend
-;; (fft.ts) so they work in place on an FFT plan's buffer: every per-pixel step of a phase-retrieval
-;; iteration (gerchberg-saxton.ts) and the plan's transposes and column copies. Assembled by
-;; `npx tsx scripts/build-kernels.ts` into kernels-wasm.ts (tests/unit/kernels.test.ts checks the two agree).
+;; Hand-written WebAssembly SIMD kernels of the optics engine, run on the memory of the FFT backend (fft.ts) so
+;; they work in place on an FFT plan's buffer: every per-pixel step of a phase-retrieval iteration
+;; (gerchberg-saxton.ts) and the plan's transposes and column copies. Assembled by
+;; `npx tsx scripts/build-kernels.ts` into kernels-wasm.ts (tests/unit/kernels.test.ts checks the two agree and
+;; compares each kernel with a scalar reference).
 ;;
-;; Data: complex float32 values interleaved (re, im), two per 128-bit vector; pointers are byte offsets
-;; into the backend's memory. Counts of complex values are multiples of 4 unless a kernel says otherwise.
+;; Data: complex float32 values interleaved (re, im), two per 128-bit vector, four handled per step; pointers are
+;; byte offsets into the backend's memory; counts are complex values, multiples of 4 unless a kernel says
+;; otherwise. No helper functions inside the loops: the V8 of Node 20 does not inline WebAssembly calls, and a
+;; call passing vectors costs as much as the work.
 (module
   (import "env" "memory" (memory 1))
 
-  ;; Device-plane modulus constraint of phase retrieval with one amplitude a for every cell: each complex
-  ;; float32 value (re, im) at p … p + 8·count becomes a·(re, im)/|(re, im)|, or (a, 0) where it is zero.
-  ;; Two complex values per 128-bit vector; count must be even.
-  (func (export "normalizeUniform") (param $p i32) (param $count i32) (param $a f32)
-    (local $end i32) (local $v v128) (local $m v128) (local $amplitude v128) (local $fallback v128)
+  ;; Device-plane modulus constraint of phase retrieval with one amplitude for every cell: each complex value
+  ;; z at p … p + 8·count becomes amplitude·z/|z|, or (amplitude, 0) where z = 0.
+  (func (export "normalizeUniform") (param $p i32) (param $count i32) (param $value f32)
+    (local $end i32) (local $lo v128) (local $hi v128) (local $a v128) (local $b v128) (local $power v128)
+    (local $amplitude v128) (local $s v128) (local $zero v128)
     (local.set $end (i32.add (local.get $p) (i32.shl (local.get $count) (i32.const 3))))
-    (local.set $amplitude (f32x4.splat (local.get $a)))
-    (local.set $fallback
-      (f32x4.replace_lane 2 (f32x4.replace_lane 0 (v128.const f32x4 0 0 0 0) (local.get $a)) (local.get $a)))
+    (local.set $amplitude (f32x4.splat (local.get $value)))
     (block $done
       (loop $next
         (br_if $done (i32.ge_u (local.get $p) (local.get $end)))
-        (local.set $v (v128.load (local.get $p)))
-        (local.set $m (f32x4.mul (local.get $v) (local.get $v)))
-        ;; (re0² + im0², same, re1² + im1², same)
-        (local.set $m
-          (f32x4.add (local.get $m)
-            (i8x16.shuffle 4 5 6 7 0 1 2 3 12 13 14 15 8 9 10 11 (local.get $m) (local.get $m))))
+        (local.set $lo (v128.load (local.get $p)))
+        (local.set $hi (v128.load offset=16 (local.get $p)))
+        (local.set $a (f32x4.mul (local.get $lo) (local.get $lo)))
+        (local.set $b (f32x4.mul (local.get $hi) (local.get $hi)))
+        ;; |z|² of the four values (re0² + im0², re1² + im1², re2² + im2², re3² + im3²)
+        (local.set $power
+          (f32x4.add
+            (i8x16.shuffle 0 1 2 3 8 9 10 11 16 17 18 19 24 25 26 27 (local.get $a) (local.get $b))
+            (i8x16.shuffle 4 5 6 7 12 13 14 15 20 21 22 23 28 29 30 31 (local.get $a) (local.get $b))))
+        (local.set $s (f32x4.div (local.get $amplitude) (f32x4.sqrt (local.get $power))))
+        (local.set $zero (f32x4.eq (local.get $power) (v128.const f32x4 0 0 0 0)))
+        ;; z·s, or (amplitude, 0) where $zero
         (v128.store (local.get $p)
           (v128.bitselect
-            (local.get $fallback)
-            (f32x4.mul (local.get $v) (f32x4.div (local.get $amplitude) (f32x4.sqrt (local.get $m))))
-            (f32x4.eq (local.get $m) (v128.const f32x4 0 0 0 0))))
-        (local.set $p (i32.add (local.get $p) (i32.const 16)))
+            (i8x16.shuffle 0 1 2 3 16 17 18 19 4 5 6 7 16 17 18 19 (local.get $amplitude) (v128.const i32x4 0 0 0 0))
+            (f32x4.mul (local.get $lo) (i8x16.shuffle 0 1 2 3 0 1 2 3 4 5 6 7 4 5 6 7 (local.get $s) (local.get $s)))
+            (i8x16.shuffle 0 1 2 3 0 1 2 3 4 5 6 7 4 5 6 7 (local.get $zero) (local.get $zero))))
+        (v128.store offset=16 (local.get $p)
+          (v128.bitselect
+            (i8x16.shuffle 8 9 10 11 16 17 18 19 12 13 14 15 16 17 18 19 (local.get $amplitude) (v128.const i32x4 0 0 0 0))
+            (f32x4.mul (local.get $hi) (i8x16.shuffle 8 9 10 11 8 9 10 11 12 13 14 15 12 13 14 15 (local.get $s) (local.get $s)))
+            (i8x16.shuffle 8 9 10 11 8 9 10 11 12 13 14 15 12 13 14 15 (local.get $zero) (local.get $zero))))
+        (local.set $p (i32.add (local.get $p) (i32.const 32)))
         (br $next))))
 
-  ;; Device-plane modulus constraint with an amplitude per cell: value i (complex, at p + 8·i) becomes
-  ;; a_i·z/|z|, or (a_i, 0) where z = 0; a_i is the float32 at $a + 4·i. count: multiple of 4.
-  (func (export "normalize") (param $p i32) (param $count i32) (param $a i32)
-    (local $end i32) (local $lo v128) (local $hi v128) (local $power v128) (local $amplitude v128)
-    (local $s v128) (local $zero v128)
+  ;; The same with an amplitude per cell: value i becomes a_i·z/|z|, or (a_i, 0) where z = 0; a_i is the
+  ;; float32 at $amplitudes + 4·i.
+  (func (export "normalize") (param $p i32) (param $count i32) (param $amplitudes i32)
+    (local $end i32) (local $lo v128) (local $hi v128) (local $a v128) (local $b v128) (local $power v128)
+    (local $amplitude v128) (local $s v128) (local $zero v128)
     (local.set $end (i32.add (local.get $p) (i32.shl (local.get $count) (i32.const 3))))
     (block $done
       (loop $next
         (br_if $done (i32.ge_u (local.get $p) (local.get $end)))
         (local.set $lo (v128.load (local.get $p)))
         (local.set $hi (v128.load offset=16 (local.get $p)))
-        (local.set $power (call $power4 (local.get $lo) (local.get $hi)))
-        (local.set $amplitude (v128.load (local.get $a)))
+        (local.set $a (f32x4.mul (local.get $lo) (local.get $lo)))
+        (local.set $b (f32x4.mul (local.get $hi) (local.get $hi)))
+        ;; |z|² of the four values (re0² + im0², re1² + im1², re2² + im2², re3² + im3²)
+        (local.set $power
+          (f32x4.add
+            (i8x16.shuffle 0 1 2 3 8 9 10 11 16 17 18 19 24 25 26 27 (local.get $a) (local.get $b))
+            (i8x16.shuffle 4 5 6 7 12 13 14 15 20 21 22 23 28 29 30 31 (local.get $a) (local.get $b))))
+        (local.set $amplitude (v128.load (local.get $amplitudes)))
         (local.set $s (f32x4.div (local.get $amplitude) (f32x4.sqrt (local.get $power))))
         (local.set $zero (f32x4.eq (local.get $power) (v128.const f32x4 0 0 0 0)))
-        (call $scale4 (local.get $p) (local.get $lo) (local.get $hi) (local.get $s) (local.get $zero) (local.get $amplitude))
+        ;; z·s, or (amplitude, 0) where $zero
+        (v128.store (local.get $p)
+          (v128.bitselect
+            (i8x16.shuffle 0 1 2 3 16 17 18 19 4 5 6 7 16 17 18 19 (local.get $amplitude) (v128.const i32x4 0 0 0 0))
+            (f32x4.mul (local.get $lo) (i8x16.shuffle 0 1 2 3 0 1 2 3 4 5 6 7 4 5 6 7 (local.get $s) (local.get $s)))
+            (i8x16.shuffle 0 1 2 3 0 1 2 3 4 5 6 7 4 5 6 7 (local.get $zero) (local.get $zero))))
+        (v128.store offset=16 (local.get $p)
+          (v128.bitselect
+            (i8x16.shuffle 8 9 10 11 16 17 18 19 12 13 14 15 16 17 18 19 (local.get $amplitude) (v128.const i32x4 0 0 0 0))
+            (f32x4.mul (local.get $hi) (i8x16.shuffle 8 9 10 11 8 9 10 11 12 13 14 15 12 13 14 15 (local.get $s) (local.get $s)))
+            (i8x16.shuffle 8 9 10 11 8 9 10 11 12 13 14 15 12 13 14 15 (local.get $zero) (local.get $zero))))
         (local.set $p (i32.add (local.get $p) (i32.const 32)))
-        (local.set $a (i32.add (local.get $a) (i32.const 16)))
+        (local.set $amplitudes (i32.add (local.get $amplitudes) (i32.const 16)))
         (br $next))))
 
-  ;; |z|² of the four complex values in two vectors (re0, im0, re1, im1), (re2, im2, re3, im3).
-  (func $power4 (param $lo v128) (param $hi v128) (result v128)
-    (local $a v128) (local $b v128)
-    (local.set $a (f32x4.mul (local.get $lo) (local.get $lo)))
-    (local.set $b (f32x4.mul (local.get $hi) (local.get $hi)))
-    (f32x4.add
-      (i8x16.shuffle 0 1 2 3 8 9 10 11 16 17 18 19 24 25 26 27 (local.get $a) (local.get $b))
-      (i8x16.shuffle 4 5 6 7 12 13 14 15 20 21 22 23 28 29 30 31 (local.get $a) (local.get $b))))
-
-  ;; Stores the four complex values (lo, hi) at p scaled by the factors s (one per value), or (amplitude, 0)
-  ;; where the lane of `zero` is set.
-  (func $scale4 (param $p i32) (param $lo v128) (param $hi v128) (param $s v128) (param $zero v128) (param $amplitude v128)
-    (v128.store (local.get $p)
-      (v128.bitselect
-        (i8x16.shuffle 0 1 2 3 16 17 18 19 4 5 6 7 16 17 18 19 (local.get $amplitude) (v128.const i32x4 0 0 0 0))
-        (f32x4.mul (local.get $lo) (i8x16.shuffle 0 1 2 3 0 1 2 3 4 5 6 7 4 5 6 7 (local.get $s) (local.get $s)))
-        (i8x16.shuffle 0 1 2 3 0 1 2 3 4 5 6 7 4 5 6 7 (local.get $zero) (local.get $zero))))
-    (v128.store offset=16 (local.get $p)
-      (v128.bitselect
-        (i8x16.shuffle 8 9 10 11 16 17 18 19 12 13 14 15 16 17 18 19 (local.get $amplitude) (v128.const i32x4 0 0 0 0))
-        (f32x4.mul (local.get $hi) (i8x16.shuffle 8 9 10 11 8 9 10 11 12 13 14 15 12 13 14 15 (local.get $s) (local.get $s)))
-        (i8x16.shuffle 8 9 10 11 8 9 10 11 12 13 14 15 12 13 14 15 (local.get $zero) (local.get $zero)))))
-
-  ;; Sum of the four float32 lanes of x, as float64, added to the float64 at p.
-  (func $addLanes (param $p i32) (param $x v128)
-    (local $d v128)
-    (local.set $d
-      (f64x2.add
-        (f64x2.promote_low_f32x4 (local.get $x))
-        (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $x) (local.get $x)))))
-    (f64.store (local.get $p)
-      (f64.add (f64.load (local.get $p))
-        (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d))))))
-
-  ;; Image-plane modulus constraint of Gerchberg–Saxton, weighted GS and MRAF on `count` complex values G at
-  ;; p, with the error sums of the iteration. Code c_i (float32 at $t + 4·i): c ≥ 0 a pixel of the signal
-  ;; window with target amplitude T = c; c = −1 the noise region (rest of the propagating region); any other
-  ;; c < 0 a pixel whose field is dropped (evanescent).
-  ;;   signal:  G ← A·G/|G|, or (A, 0) where G = 0, with A = mix·T, or T·w with weights (w ≠ 0 pointer);
+  ;; Image-plane modulus constraint of Gerchberg–Saxton, weighted GS and MRAF on `count` complex values G at p,
+  ;; with the error sums of the iteration. Code c_i (float32 at $codes + 4·i): c ≥ 0 a pixel of the signal window
+  ;; with target amplitude T = c; c = −1 the noise region (rest of the propagating region); any other c < 0 a
+  ;; pixel whose field is dropped (evanescent). Outside the window T counts as 0.
+  ;;   signal:  G ← A·G/|G|, or (A, 0) where G = 0, with A = mix·T, or A = w·T with weights;
   ;;   noise:   G ← keep·G;   dropped: G ← 0.
-  ;; Weights ($w ≠ 0, float32 per value): where T > 0 and |G| > 0 ("bright"), w ← w·meanRatio/(|G|/T) when
-  ;; meanRatio > 0. Sums added (float64) to the slots at $acc + 8·k: 0 Σ(|G| − T)² over every value (T = 0
-  ;; outside the window), 1 Σ_win |G|·T, 2 Σ_win |G|², 3 Σ_win T², 4 Σ_bright |G|/T, 5 number of bright
-  ;; values, 6 Σ |G|² over every value. Partial sums are kept in float32 over blocks of 32 values.
-  (func (export "imagePlane") (param $p i32) (param $count i32) (param $t i32) (param $w i32)
+  ;; Weights ($weights ≠ 0, float32 per value): where T > 0 and |G| > 0 ("bright"), w ← w·meanRatio/(|G|/T) when
+  ;; meanRatio > 0. Sums added (float64) to the slots at $acc + 8·k: 0 Σ(|G| − T)² over every value, 1 Σ_win |G|·T,
+  ;; 2 Σ_win |G|², 3 Σ_win T², 4 Σ_bright |G|/T, 5 number of bright values, 6 Σ |G|² over every value. Partial
+  ;; sums are kept in float32 lanes over blocks of 32 values, then added in float64.
+  (func (export "imagePlane") (param $p i32) (param $count i32) (param $codes i32) (param $weights i32)
     (param $mix f32) (param $keep f32) (param $meanRatio f32) (param $acc i32)
     (local $end i32) (local $blockEnd i32)
-    (local $lo v128) (local $hi v128) (local $power v128) (local $magnitude v128) (local $code v128)
-    (local $inside v128) (local $target v128) (local $difference v128) (local $amplitude v128)
-    (local $bright v128) (local $ratio v128) (local $weight v128) (local $factor v128)
-    (local $mixes v128) (local $keeps v128) (local $means v128) (local $update v128)
+    (local $lo v128) (local $hi v128) (local $a v128) (local $b v128) (local $power v128) (local $magnitude v128)
+    (local $code v128) (local $inside v128) (local $target v128) (local $difference v128) (local $amplitude v128)
+    (local $bright v128) (local $inverse v128) (local $weight v128) (local $s v128) (local $zero v128)
+    (local $mixes v128) (local $keeps v128) (local $means v128) (local $update v128) (local $d v128)
     (local $fienup v128) (local $gt v128) (local $gg v128) (local $tt v128) (local $ratios v128)
     (local $brights v128) (local $computed v128)
     (local.set $end (i32.add (local.get $p) (i32.shl (local.get $count) (i32.const 3))))
@@ -127,9 +121,16 @@
         (loop $next
           (local.set $lo (v128.load (local.get $p)))
           (local.set $hi (v128.load offset=16 (local.get $p)))
-          (local.set $power (call $power4 (local.get $lo) (local.get $hi)))
+          (local.set $a (f32x4.mul (local.get $lo) (local.get $lo)))
+          (local.set $b (f32x4.mul (local.get $hi) (local.get $hi)))
+          ;; |z|² of the four values (re0² + im0², re1² + im1², re2² + im2², re3² + im3²)
+          (local.set $power
+            (f32x4.add
+              (i8x16.shuffle 0 1 2 3 8 9 10 11 16 17 18 19 24 25 26 27 (local.get $a) (local.get $b))
+              (i8x16.shuffle 4 5 6 7 12 13 14 15 20 21 22 23 28 29 30 31 (local.get $a) (local.get $b))))
           (local.set $magnitude (f32x4.sqrt (local.get $power)))
-          (local.set $code (v128.load (local.get $t)))
+          (local.set $inverse (f32x4.div (v128.const f32x4 1 1 1 1) (local.get $magnitude)))
+          (local.set $code (v128.load (local.get $codes)))
           (local.set $inside (f32x4.ge (local.get $code) (v128.const f32x4 0 0 0 0)))
           (local.set $target (v128.and (local.get $code) (local.get $inside)))
           (local.set $difference (f32x4.sub (local.get $magnitude) (local.get $target)))
@@ -139,48 +140,79 @@
           (local.set $gt (f32x4.add (local.get $gt) (f32x4.mul (local.get $magnitude) (local.get $target))))
           (local.set $gg (f32x4.add (local.get $gg) (v128.and (local.get $power) (local.get $inside))))
           (local.set $tt (f32x4.add (local.get $tt) (f32x4.mul (local.get $target) (local.get $target))))
-          (if (local.get $w)
+          (if (local.get $weights)
             (then
-              (local.set $weight (v128.load (local.get $w)))
+              (local.set $weight (v128.load (local.get $weights)))
               (local.set $bright
                 (v128.and
                   (f32x4.gt (local.get $code) (v128.const f32x4 0 0 0 0))
                   (f32x4.gt (local.get $magnitude) (v128.const f32x4 0 0 0 0))))
-              (local.set $ratio (f32x4.div (local.get $magnitude) (local.get $code)))
-              (local.set $ratios (f32x4.add (local.get $ratios) (v128.and (local.get $ratio) (local.get $bright))))
+              (local.set $ratios (f32x4.add (local.get $ratios)
+                (v128.and (f32x4.div (local.get $magnitude) (local.get $code)) (local.get $bright))))
               (local.set $brights (f32x4.add (local.get $brights) (v128.and (local.get $bright) (v128.const f32x4 1 1 1 1))))
+              ;; w·meanRatio/(|G|/T) = w·meanRatio·T/|G|
               (local.set $weight
                 (v128.bitselect
-                  (f32x4.mul (local.get $weight) (f32x4.div (local.get $means) (local.get $ratio)))
+                  (f32x4.mul (f32x4.mul (local.get $weight) (local.get $means)) (f32x4.mul (local.get $code) (local.get $inverse)))
                   (local.get $weight)
                   (v128.and (local.get $bright) (local.get $update))))
-              (v128.store (local.get $w) (local.get $weight))
+              (v128.store (local.get $weights) (local.get $weight))
               (local.set $amplitude (f32x4.mul (local.get $target) (local.get $weight)))
-              (local.set $w (i32.add (local.get $w) (i32.const 16))))
+              (local.set $weights (i32.add (local.get $weights) (i32.const 16))))
             (else
               (local.set $amplitude (f32x4.mul (local.get $target) (local.get $mixes)))))
-          (local.set $factor
+          (local.set $s
             (v128.bitselect
-              (f32x4.div (local.get $amplitude) (local.get $magnitude))
+              (f32x4.mul (local.get $amplitude) (local.get $inverse))
               (v128.and (local.get $keeps) (f32x4.eq (local.get $code) (v128.const f32x4 -1 -1 -1 -1)))
               (local.get $inside)))
-          (call $scale4 (local.get $p) (local.get $lo) (local.get $hi) (local.get $factor)
-            (v128.and (local.get $inside) (f32x4.eq (local.get $power) (v128.const f32x4 0 0 0 0)))
-            (local.get $amplitude))
+          (local.set $zero (v128.and (local.get $inside) (f32x4.eq (local.get $power) (v128.const f32x4 0 0 0 0))))
+          ;; z·s, or (amplitude, 0) where $zero
+          (v128.store (local.get $p)
+            (v128.bitselect
+              (i8x16.shuffle 0 1 2 3 16 17 18 19 4 5 6 7 16 17 18 19 (local.get $amplitude) (v128.const i32x4 0 0 0 0))
+              (f32x4.mul (local.get $lo) (i8x16.shuffle 0 1 2 3 0 1 2 3 4 5 6 7 4 5 6 7 (local.get $s) (local.get $s)))
+              (i8x16.shuffle 0 1 2 3 0 1 2 3 4 5 6 7 4 5 6 7 (local.get $zero) (local.get $zero))))
+          (v128.store offset=16 (local.get $p)
+            (v128.bitselect
+              (i8x16.shuffle 8 9 10 11 16 17 18 19 12 13 14 15 16 17 18 19 (local.get $amplitude) (v128.const i32x4 0 0 0 0))
+              (f32x4.mul (local.get $hi) (i8x16.shuffle 8 9 10 11 8 9 10 11 12 13 14 15 12 13 14 15 (local.get $s) (local.get $s)))
+              (i8x16.shuffle 8 9 10 11 8 9 10 11 12 13 14 15 12 13 14 15 (local.get $zero) (local.get $zero))))
           (local.set $p (i32.add (local.get $p) (i32.const 32)))
-          (local.set $t (i32.add (local.get $t) (i32.const 16)))
+          (local.set $codes (i32.add (local.get $codes) (i32.const 16)))
           (br_if $next (i32.lt_u (local.get $p) (local.get $blockEnd))))
-        (call $addLanes (local.get $acc) (local.get $fienup))
-        (call $addLanes (i32.add (local.get $acc) (i32.const 8)) (local.get $gt))
-        (call $addLanes (i32.add (local.get $acc) (i32.const 16)) (local.get $gg))
-        (call $addLanes (i32.add (local.get $acc) (i32.const 24)) (local.get $tt))
-        (call $addLanes (i32.add (local.get $acc) (i32.const 32)) (local.get $ratios))
-        (call $addLanes (i32.add (local.get $acc) (i32.const 40)) (local.get $brights))
-        (call $addLanes (i32.add (local.get $acc) (i32.const 48)) (local.get $computed))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $fienup))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $fienup) (local.get $fienup)))))
+        (f64.store (local.get $acc) (f64.add (f64.load (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $gt))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $gt) (local.get $gt)))))
+        (f64.store offset=8 (local.get $acc) (f64.add (f64.load offset=8 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $gg))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $gg) (local.get $gg)))))
+        (f64.store offset=16 (local.get $acc) (f64.add (f64.load offset=16 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $tt))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $tt) (local.get $tt)))))
+        (f64.store offset=24 (local.get $acc) (f64.add (f64.load offset=24 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $ratios))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $ratios) (local.get $ratios)))))
+        (f64.store offset=32 (local.get $acc) (f64.add (f64.load offset=32 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $brights))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $brights) (local.get $brights)))))
+        (f64.store offset=40 (local.get $acc) (f64.add (f64.load offset=40 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $computed))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $computed) (local.get $computed)))))
+        (f64.store offset=48 (local.get $acc) (f64.add (f64.load offset=48 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
         (br $block))))
 
-  ;; Complex product in place: value i at p becomes z_i·h_i, or z_i·conj(h_i) when $conjugate ≠ 0, with h_i
-  ;; the complex float32 at $h + 8·i (the propagation transfer function). count must be even.
+  ;; Complex product in place: value i at p becomes z_i·h_i, or z_i·conj(h_i) when $conjugate ≠ 0, with h_i the
+  ;; complex float32 at $h + 8·i (the propagation transfer function). count must be even.
   (func (export "multiplyComplex") (param $p i32) (param $count i32) (param $h i32) (param $conjugate i32)
     (local $end i32) (local $v v128) (local $f v128) (local $sign v128)
     (local.set $end (i32.add (local.get $p) (i32.shl (local.get $count) (i32.const 3))))
@@ -206,23 +238,11 @@
         (local.set $h (i32.add (local.get $h) (i32.const 16)))
         (br $next))))
 
-  ;; Swaps the 2×2 block of complex values at $a (rows of $stride bytes) with the transpose of the block at
-  ;; $b; with $a = $b it transposes that block in place.
-  (func $swap2x2 (param $a i32) (param $b i32) (param $stride i32)
-    (local $a0 v128) (local $a1 v128) (local $b0 v128) (local $b1 v128)
-    (local.set $a0 (v128.load (local.get $a)))
-    (local.set $a1 (v128.load (i32.add (local.get $a) (local.get $stride))))
-    (local.set $b0 (v128.load (local.get $b)))
-    (local.set $b1 (v128.load (i32.add (local.get $b) (local.get $stride))))
-    (v128.store (local.get $b) (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23 (local.get $a0) (local.get $a1)))
-    (v128.store (i32.add (local.get $b) (local.get $stride)) (i8x16.shuffle 8 9 10 11 12 13 14 15 24 25 26 27 28 29 30 31 (local.get $a0) (local.get $a1)))
-    (v128.store (local.get $a) (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23 (local.get $b0) (local.get $b1)))
-    (v128.store (i32.add (local.get $a) (local.get $stride)) (i8x16.shuffle 8 9 10 11 12 13 14 15 24 25 26 27 28 29 30 31 (local.get $b0) (local.get $b1))))
-
-  ;; In-place transpose of the n×n matrix of complex float32 values at p (n even, a multiple of $tile; $tile
-  ;; even), tile pair by tile pair, moving 2×2 blocks with vector shuffles.
+  ;; In-place transpose of the n×n matrix of complex values at p (n and $tile even, $tile dividing n), tile pair by
+  ;; tile pair: each 2×2 block at (i, j) is swapped with the transpose of the block at (j, i) by vector shuffles.
   (func (export "transpose") (param $p i32) (param $n i32) (param $tile i32)
     (local $stride i32) (local $i0 i32) (local $j0 i32) (local $i i32) (local $j i32) (local $iEnd i32) (local $jEnd i32)
+    (local $x i32) (local $y i32) (local $a0 v128) (local $a1 v128) (local $b0 v128) (local $b1 v128)
     (local.set $stride (i32.shl (local.get $n) (i32.const 3)))
     (block $rowsDone
       (loop $rows
@@ -237,10 +257,16 @@
             (loop $blockRows
               (local.set $j (select (local.get $i) (local.get $j0) (i32.eq (local.get $i0) (local.get $j0))))
               (loop $blocks
-                (call $swap2x2
-                  (i32.add (local.get $p) (i32.add (i32.mul (local.get $i) (local.get $stride)) (i32.shl (local.get $j) (i32.const 3))))
-                  (i32.add (local.get $p) (i32.add (i32.mul (local.get $j) (local.get $stride)) (i32.shl (local.get $i) (i32.const 3))))
-                  (local.get $stride))
+                (local.set $x (i32.add (local.get $p) (i32.add (i32.mul (local.get $i) (local.get $stride)) (i32.shl (local.get $j) (i32.const 3)))))
+                (local.set $y (i32.add (local.get $p) (i32.add (i32.mul (local.get $j) (local.get $stride)) (i32.shl (local.get $i) (i32.const 3)))))
+                (local.set $a0 (v128.load (local.get $x)))
+                (local.set $a1 (v128.load (i32.add (local.get $x) (local.get $stride))))
+                (local.set $b0 (v128.load (local.get $y)))
+                (local.set $b1 (v128.load (i32.add (local.get $y) (local.get $stride))))
+                (v128.store (local.get $y) (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23 (local.get $a0) (local.get $a1)))
+                (v128.store (i32.add (local.get $y) (local.get $stride)) (i8x16.shuffle 8 9 10 11 12 13 14 15 24 25 26 27 28 29 30 31 (local.get $a0) (local.get $a1)))
+                (v128.store (local.get $x) (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23 (local.get $b0) (local.get $b1)))
+                (v128.store (i32.add (local.get $x) (local.get $stride)) (i8x16.shuffle 8 9 10 11 12 13 14 15 24 25 26 27 28 29 30 31 (local.get $b0) (local.get $b1)))
                 (local.set $j (i32.add (local.get $j) (i32.const 2)))
                 (br_if $blocks (i32.lt_u (local.get $j) (local.get $jEnd))))
               (local.set $i (i32.add (local.get $i) (i32.const 2)))
@@ -250,20 +276,12 @@
         (local.set $i0 (local.get $iEnd))
         (br $rows))))
 
-  ;; Copies the complex values of one 2×2 block at $from (rows $stride bytes apart) transposed to $to.
-  (func $copy2x2 (param $from i32) (param $to i32) (param $stride i32)
-    (local $a0 v128) (local $a1 v128)
-    (local.set $a0 (v128.load (local.get $from)))
-    (local.set $a1 (v128.load (i32.add (local.get $from) (local.get $stride))))
-    (v128.store (local.get $to) (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23 (local.get $a0) (local.get $a1)))
-    (v128.store (i32.add (local.get $to) (local.get $stride))
-      (i8x16.shuffle 8 9 10 11 12 13 14 15 24 25 26 27 28 29 30 31 (local.get $a0) (local.get $a1))))
-
-  ;; Columns x … x + width − 1 of the n×n complex float32 grid at $grid (n even) copied into rows 0 … width − 1
-  ;; of $columns (n values each), or, with $toColumns = 0, copied back from there into the grid. Rows are
-  ;; taken 8 at a time so both sides stay in cache.
+  ;; Columns x … x + width − 1 of the n×n complex grid at $grid (n a multiple of 8) copied into rows 0 … width − 1
+  ;; of $columns (n values each), or, with $toColumns = 0, copied back from there into the grid; 2×2 blocks by
+  ;; vector shuffles, 8 grid rows at a time so both sides stay in cache.
   (func (export "copyColumns") (param $grid i32) (param $n i32) (param $x i32) (param $width i32) (param $columns i32) (param $toColumns i32)
     (local $stride i32) (local $y0 i32) (local $y i32) (local $k i32) (local $pairs i32) (local $g i32) (local $c i32)
+    (local $a0 v128) (local $a1 v128)
     (local.set $stride (i32.shl (local.get $n) (i32.const 3)))
     (local.set $pairs (i32.and (local.get $width) (i32.const -2)))
     (block $done
@@ -280,8 +298,16 @@
               (local.set $c (i32.add (local.get $columns)
                 (i32.add (i32.mul (local.get $k) (local.get $stride)) (i32.shl (local.get $y) (i32.const 3)))))
               (if (local.get $toColumns)
-                (then (call $copy2x2 (local.get $g) (local.get $c) (local.get $stride)))
-                (else (call $copy2x2 (local.get $c) (local.get $g) (local.get $stride))))
+                (then
+                  (local.set $a0 (v128.load (local.get $g)))
+                  (local.set $a1 (v128.load (i32.add (local.get $g) (local.get $stride))))
+                  (v128.store (local.get $c) (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23 (local.get $a0) (local.get $a1)))
+                  (v128.store (i32.add (local.get $c) (local.get $stride)) (i8x16.shuffle 8 9 10 11 12 13 14 15 24 25 26 27 28 29 30 31 (local.get $a0) (local.get $a1))))
+                (else
+                  (local.set $a0 (v128.load (local.get $c)))
+                  (local.set $a1 (v128.load (i32.add (local.get $c) (local.get $stride))))
+                  (v128.store (local.get $g) (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23 (local.get $a0) (local.get $a1)))
+                  (v128.store (i32.add (local.get $g) (local.get $stride)) (i8x16.shuffle 8 9 10 11 12 13 14 15 24 25 26 27 28 29 30 31 (local.get $a0) (local.get $a1)))))
               (local.set $y (i32.add (local.get $y) (i32.const 2)))
               (br_if $rows (i32.lt_u (local.get $y) (i32.add (local.get $y0) (i32.const 8)))))
             (local.set $k (i32.add (local.get $k) (i32.const 2)))
