@@ -64,11 +64,11 @@ export interface FftInitOptions {
  */
 export interface FftKernels {
   /**
-   * Device-plane modulus constraint: each of `count` (even) complex float32 values at byte `pointer` of the
-   * backend's memory becomes amplitude·z/|z|, or (amplitude, 0) where z = 0.
+   * Device-plane modulus constraint: each of `count` (a multiple of 4) complex float32 values at byte `pointer`
+   * of the backend's memory becomes amplitude·z/|z|, or (amplitude, 0) where z = 0.
    */
   normalizeUniform(pointer: number, count: number, amplitude: number): void;
-  /** The same with one float32 amplitude per value, at byte `amplitudes` (count a multiple of 4). */
+  /** The same with one float32 amplitude per value, at byte `amplitudes`. */
   normalize(pointer: number, count: number, amplitudes: number): void;
   /**
    * Image-plane modulus constraint of GS / weighted GS / MRAF with the iteration's error sums (kernels.wat

@@ -19,10 +19,14 @@ beforeAll(async () => {
   await initFftInNode();
 });
 
-/** Kernel operands in the backend's memory, freed after the test; views taken after the last allocation. */
-function operands(...bytes: number[]): { arrays: KernelArray[]; free: () => void } {
+/** Runs `check` with kernel operands of these sizes in the backend's memory (views: take them inside), then frees them. */
+function withOperands(bytes: number[], check: (arrays: KernelArray[]) => void): void {
   const arrays = bytes.map((b) => allocateKernelArray(b));
-  return { arrays, free: () => arrays.forEach((a) => a.free()) };
+  try {
+    check(arrays);
+  } finally {
+    arrays.forEach((a) => a.free());
+  }
 }
 
 /** Random complex values over six decades of magnitude, with some exact zeros (z = 0 has its own rule). */
@@ -147,8 +151,7 @@ describe('SIMD kernels', () => {
     ['MRAF with m = 0.4 (m·T·G/|G| in the window, (1 − m)·G in the noise region)', 0.4, 0.6],
   ] as const) {
     it(`imagePlane, ${name}: field and error sums as the scalar reference`, () => {
-      const { arrays, free } = operands(8 * count, 4 * count, 64);
-      try {
+      withOperands([8 * count, 4 * count, 64], (arrays) => {
         const [field, codes, sums] = [arrays[0].float32(), arrays[1].float32(), arrays[2].float64()];
         randomField(field, 5);
         imageCodes(codes);
@@ -160,15 +163,12 @@ describe('SIMD kernels', () => {
         for (let k = 0; k < 4; k++) expect(Math.abs(sums[k] - 0.5 - expected.sums[k])).toBeLessThan(1e-6 * expected.sums[k]);
         expect(Math.abs(sums[6] - 0.5 - expected.sums[6])).toBeLessThan(1e-6 * expected.sums[6]);
         expect(sums[4]).toBe(0.5);
-      } finally {
-        free();
-      }
+      });
     });
   }
 
   it('imagePlane with weights (weighted GS, Di Leonardo, Ianni & Ruocco 2007): weights, field and sums as the scalar reference', () => {
-    const { arrays, free } = operands(8 * count, 4 * count, 4 * count, 64);
-    try {
+    withOperands([8 * count, 4 * count, 4 * count, 64], (arrays) => {
       const [field, codes, weights, sums] = [arrays[0].float32(), arrays[1].float32(), arrays[2].float32(), arrays[3].float64()];
       randomField(field, 6);
       imageCodes(codes);
@@ -185,14 +185,11 @@ describe('SIMD kernels', () => {
         sums.fill(0);
         randomField(field, 7);
       }
-    } finally {
-      free();
-    }
+    });
   });
 
   it('normalize: a_i·z/|z| with an amplitude per value, (a_i, 0) where z = 0 (device-plane constraint)', () => {
-    const { arrays, free } = operands(8 * count, 4 * count);
-    try {
+    withOperands([8 * count, 4 * count], (arrays) => {
       const [field, amplitudes] = [arrays[0].float32(), arrays[1].float32()];
       randomField(field, 8);
       // A Gaussian-lit device in the middle of a zero-padded grid: zero amplitude around it.
@@ -205,14 +202,11 @@ describe('SIMD kernels', () => {
       }
       fftKernels()!.normalize(arrays[0].pointer, count, arrays[1].pointer);
       expect(relativeDifference(field, expected)).toBeLessThan(1e-6);
-    } finally {
-      free();
-    }
+    });
   });
 
   it('multiplyComplex: z·h and z·conj(h) (the angular-spectrum transfer function there and back)', () => {
-    const { arrays, free } = operands(8 * count, 8 * count);
-    try {
+    withOperands([8 * count, 8 * count], (arrays) => {
       const [field, h] = [arrays[0].float32(), arrays[1].float32()];
       randomField(h, 9);
       for (const conjugate of [0, 1]) {
@@ -232,15 +226,12 @@ describe('SIMD kernels', () => {
           expect(Math.abs(field[2 * i + 1] - expected[2 * i + 1])).toBeLessThanOrEqual(3e-7 * size);
         }
       }
-    } finally {
-      free();
-    }
+    });
   });
 
   it('transpose and copyColumns move complex values exactly (element (y, x) to (x, y); columns to rows and back)', () => {
     const n = 64;
-    const { arrays, free } = operands(8 * n * n, 8 * n * 7);
-    try {
+    withOperands([8 * n * n, 8 * n * 7], (arrays) => {
       const [grid, columns] = [arrays[0].float32(), arrays[1].float32()];
       const original = Float32Array.from({ length: 2 * n * n }, (_, i) => i);
       grid.set(original);
@@ -262,9 +253,7 @@ describe('SIMD kernels', () => {
         const x = i % n;
         expect(grid[2 * i]).toBe(x >= 5 && x < 12 ? -1 : original[2 * i]);
       }
-    } finally {
-      free();
-    }
+    });
   });
 
   // Independent reference: numpy complex128, the published update rules written out (target in the centred
