@@ -5,11 +5,12 @@
  * Backend: PFFFT compiled to WebAssembly with SIMD (`@echogarden/pffft-wasm/simd`, single precision),
  * chosen by benchmark (bench/fft-bench.ts) over fft.js and ndarray-fft; it runs in Node and in browsers.
  * Data live in one interleaved float32 buffer (re, im, re, im…) inside the WebAssembly memory, allocated
- * once per plan. Rows are transformed one at a time and the square buffer is transposed in place
- * (8×8 tiles), so a 2-D transform is: rows, transpose, rows, transpose. A retrieval cycle (`cycle`) instead
- * copies the spectrum columns out in strips of 32 that stay in cache, transforms them there, applies the
- * constraint and copies them back — no transposes; a cycle limited to some columns copies just those.
- * With the SIMD kernels (kernels.wat) the transposes and column copies run as WebAssembly SIMD too.
+ * once per plan. Rows are transformed one at a time; columns are copied out in strips of 32 that stay in cache
+ * (8-byte complex values, 2×2 blocks), transformed there and copied back, so a 2-D transform is: rows, column
+ * strips. A retrieval cycle (`cycle`) applies its constraints to the column strips and the rows while they are
+ * in cache; a cycle limited to some spectrum columns copies just those. `forwardTransposed` /
+ * `inverseTransposed` transpose the square buffer in place instead (8×8 tiles) and leave the spectrum
+ * transposed. With the SIMD kernels (kernels.wat) the copies, transposes and scaling run as WebAssembly SIMD too.
  *
  * Conventions (same as numpy.fft.fft2 / ifft2):
  * - forward  F[ky, kx] = Σ f[y, x] · exp(−2πi (ky·y + kx·x)/N), unscaled;
@@ -32,10 +33,11 @@ const PFFFT_COMPLEX = 1;
 /** Tile edge of the in-place transpose, in complex elements (measured fastest on this engine's target CPUs). */
 const TRANSPOSE_TILE = 8;
 /**
- * Spectrum columns a cycle copies out and transforms together (a strip of 32·N complex values: 256 KiB at
- * 1024², 1 MiB at 4096², within a core's L2 cache). Measured on the 2-core build machine against transposing the
- * whole buffer there and back: a GS iteration at 1024² 13.6 against 15.2 ms CPU time, at 2048² 58 against 67 ms
- * (best of 15; strips of 16 were slower at 2048², of 64 no faster).
+ * Columns transformed together (a strip of 32·N complex values: 256 KiB at 1024², 1 MiB at 4096², within a core's
+ * L2 cache). Measured on the 2-core build machine against transposing the whole buffer there and back (CPU time,
+ * medians): a GS iteration at 1024² 13.6 against 15.2 ms, at 2048² 58 against 67 ms (strips of 16 were slower at
+ * 2048², of 64 no faster); a forward FFT at 1024² 7.5 against 9.7 ms, at 2048² 39.5 against 45.9 ms, at 4096²
+ * 139 against 181 ms.
  */
 const STRIP_COLUMNS = 32;
 
@@ -77,6 +79,8 @@ export interface FftKernels {
   imagePlane(pointer: number, count: number, codes: number, weights: number, mix: number, keep: number, meanRatio: number, sums: number): void;
   /** z ← z·h (or z·conj h when `conjugate` is 1) with h the complex float32 values at byte `h`; count even. */
   multiplyComplex(pointer: number, count: number, h: number, conjugate: number): void;
+  /** Multiplies `count` (even) complex float32 values by a real factor. */
+  scale(pointer: number, count: number, factor: number): void;
   /** In-place transpose of an n×n complex float32 matrix, in tiles of `tile` (even, dividing n). */
   transpose(pointer: number, n: number, tile: number): void;
   /** Columns x … x + width − 1 of an n×n complex grid into rows of `columns` (toColumns 1) or back (0). */
@@ -119,7 +123,7 @@ async function loadWithKernels(
   ]);
   if (!memory) throw new Error('The FFT backend exports no memory');
   const exports = new wasm.Instance(new wasm.Module(KERNELS_WASM), { env: { memory } }).exports;
-  const names = ['normalizeUniform', 'normalize', 'imagePlane', 'multiplyComplex', 'transpose', 'copyColumns'] as const;
+  const names = ['normalizeUniform', 'normalize', 'imagePlane', 'multiplyComplex', 'scale', 'transpose', 'copyColumns'] as const;
   const loaded = Object.fromEntries(names.map((name) => [name, exports[name]])) as unknown as FftKernels;
   return { module, kernels: loaded };
 }
@@ -299,9 +303,7 @@ export class Fft2d {
   forward(): void {
     this.assertNotChained();
     this.rowPass(PFFFT_FORWARD, null, -1, 1);
-    this.transpose();
-    this.rowPass(PFFFT_FORWARD, null, -1, 1);
-    this.transpose();
+    this.columnPass([0, this.n], PFFFT_FORWARD, null, -1);
   }
 
   /**
@@ -310,10 +312,8 @@ export class Fft2d {
    */
   inverse(): void {
     this.assertNotChained();
-    this.rowPass(PFFFT_BACKWARD, null, -1, 1);
-    this.transpose();
     this.rowPass(PFFFT_BACKWARD, null, -1, 1 / (this.n * this.n));
-    this.transpose();
+    this.columnPass([0, this.n], PFFFT_BACKWARD, null, -1);
   }
 
   /**
@@ -354,7 +354,7 @@ export class Fft2d {
     if (!this.chained) this.rowPass(PFFFT_FORWARD, null, -1, 1);
     const spans = spectrumRows ?? [0, this.n];
     assertSpans(spans, this.n);
-    this.columnRoundTrip(spans, spectrumRow);
+    this.columnPass(spans, PFFFT_FORWARD, spectrumRow, PFFFT_BACKWARD);
     const limited = spanLength(spans) < this.n;
     this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1, limited ? spans : null);
     this.chained = chainForward;
@@ -393,7 +393,9 @@ export class Fft2d {
       const offset = 2 * n * row;
       if (keepColumns) zeroOutside(data, offset, n, keepColumns);
       this.transformAt(pointer, first);
-      if (scale !== 1) {
+      if (scale !== 1 && kernels) {
+        kernels.scale(pointer, n, scale);
+      } else if (scale !== 1) {
         const end = offset + 2 * n;
         for (let i = offset; i < end; i++) data[i] *= scale;
       }
@@ -403,12 +405,12 @@ export class Fft2d {
   }
 
   /**
-   * The spectrum half of a cycle, strip by strip: up to STRIP_COLUMNS columns of `spans` at a time are copied
-   * into rows of the strip buffer (small enough to stay in cache), each transformed forward, given to `op`
-   * (row argument = column index), transformed back, and the strip copied home. Columns outside `spans` keep
-   * stale values: the caller zeroes them.
+   * The column transforms, strip by strip: up to STRIP_COLUMNS columns of `spans` at a time are copied into rows
+   * of the strip buffer (small enough to stay in cache), each transformed (`first` direction), given to `op`
+   * (row argument = column index), optionally transformed again (`second`, −1 for none), and the strip is
+   * copied home. Columns outside `spans` are left as they are (a cycle's caller zeroes them).
    */
-  private columnRoundTrip(spans: RowSpans, op: RowOperation | null): void {
+  private columnPass(spans: RowSpans, first: number, op: RowOperation | null, second: number): void {
     const n = this.n;
     const strip = Math.min(STRIP_COLUMNS, n);
     this.reserveColumns(strip);
@@ -420,9 +422,9 @@ export class Fft2d {
         this.copyColumns(x, width, true);
         for (let k = 0; k < width; k++) {
           const pointer = this.columnsPointer + 8 * n * k;
-          this.transformAt(pointer, PFFFT_FORWARD);
+          this.transformAt(pointer, first);
           if (op) op(view, 2 * n * k, x + k);
-          this.transformAt(pointer, PFFFT_BACKWARD);
+          if (second >= 0) this.transformAt(pointer, second);
         }
         this.copyColumns(x, width, false);
       }

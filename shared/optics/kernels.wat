@@ -238,6 +238,18 @@
         (local.set $h (i32.add (local.get $h) (i32.const 16)))
         (br $next))))
 
+  ;; Multiplies the 2·count floats (count complex values, even) at p by $factor (the inverse FFT's 1/N²).
+  (func (export "scale") (param $p i32) (param $count i32) (param $factor f32)
+    (local $end i32) (local $f v128)
+    (local.set $end (i32.add (local.get $p) (i32.shl (local.get $count) (i32.const 3))))
+    (local.set $f (f32x4.splat (local.get $factor)))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_u (local.get $p) (local.get $end)))
+        (v128.store (local.get $p) (f32x4.mul (v128.load (local.get $p)) (local.get $f)))
+        (local.set $p (i32.add (local.get $p) (i32.const 16)))
+        (br $next))))
+
   ;; In-place transpose of the n×n matrix of complex values at p (n and $tile even, $tile dividing n), tile pair by
   ;; tile pair: each 2×2 block at (i, j) is swapped with the transpose of the block at (j, i) by vector shuffles.
   (func (export "transpose") (param $p i32) (param $n i32) (param $tile i32)

@@ -229,6 +229,17 @@ describe('SIMD kernels', () => {
     });
   });
 
+  it('scale: every float times the factor, rounded as float32 (the inverse FFT\'s 1/N²)', () => {
+    withOperands([8 * count], (arrays) => {
+      const field = arrays[0].float32();
+      randomField(field, 12);
+      const before = field.slice();
+      fftKernels()!.scale(arrays[0].pointer, count, 1 / 4096);
+      // A power-of-two factor: exact, so float32 products compare equal.
+      for (let i = 0; i < 2 * count; i++) expect(field[i]).toBe(Math.fround(before[i] / 4096));
+    });
+  });
+
   it('transpose and copyColumns move complex values exactly (element (y, x) to (x, y); columns to rows and back)', () => {
     const n = 64;
     withOperands([8 * n * n, 8 * n * 7], (arrays) => {
