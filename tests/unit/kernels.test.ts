@@ -5,8 +5,9 @@
  * checked to float32 precision); and phase retrieval running on them follows numpy step for step.
  */
 import { execFileSync } from 'node:child_process';
+import { readFileSync } from 'node:fs';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { allocateKernelArray, fftKernels, getFft2d, type KernelArray } from '../../shared/optics/fft';
+import { allocateKernelArray, fft2, fftKernels, getFft2d, ifft2, type KernelArray } from '../../shared/optics/fft';
 import { retrievePhase } from '../../shared/optics/gerchberg-saxton';
 import { KERNELS_WASM } from '../../shared/optics/kernels-wasm';
 import { mulberry32 } from '../../shared/optics/random';
@@ -238,6 +239,20 @@ describe('SIMD kernels', () => {
       // A power-of-two factor: exact, so float32 products compare equal.
       for (let i = 0; i < 2 * count; i++) expect(field[i]).toBe(Math.fround(before[i] / 4096));
     });
+  });
+
+  it('fft2 and ifft2 on the kernels (column strips, scaling) match numpy (fixtures of tests/fixtures/make-fft-fixtures.py)', () => {
+    for (const [name, transform] of [['fft-64-forward.json', fft2], ['fft-64-inverse.json', ifft2]] as const) {
+      const f = JSON.parse(readFileSync(new URL(`../fixtures/${name}`, import.meta.url), 'utf8')) as {
+        n: number;
+        input: { re: number[]; im: number[] };
+        expected: { re: number[]; im: number[] };
+        tolerance: { relativeToMax: number };
+      };
+      const out = transform({ n: f.n, re: Float64Array.from(f.input.re), im: Float64Array.from(f.input.im) });
+      // Source: numpy.fft.fft2 / ifft2 complex128; tolerance from the fixture (float32 engine).
+      expect(relativeDifference([...out.re, ...out.im], [...f.expected.re, ...f.expected.im])).toBeLessThan(f.tolerance.relativeToMax);
+    }
   });
 
   it('transpose and copyColumns move complex values exactly (element (y, x) to (x, y); columns to rows and back)', () => {
