@@ -143,9 +143,10 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
     for (let y = 0; y < n; y++) deviceAmplitude.set(illumination.subarray(y * n, y * n + n), (y + o) * m + o);
     const uniform = deviceAmplitude.every((a) => a === deviceAmplitude[0]);
 
-    // Image-plane codes in the layout the plan presents them (transposed and unshifted spectrum in the Fourier
-    // geometry, normal centred rows for the Fresnel image plane): target amplitude ≥ 0 in the window, NOISE_CODE
-    // in the rest of the propagating region, EVANESCENT_CODE where the field is dropped.
+    // Image-plane codes in the layout the plan presents them (Fourier geometry: transposed and unshifted spectrum,
+    // each row in the plan's spectrum order; Fresnel: normal centred rows of the image plane): target amplitude ≥ 0
+    // in the window, NOISE_CODE in the rest of the propagating region, EVANESCENT_CODE where the field is dropped.
+    const order = plan.spectrumOrder();
     const codes = held ? held.codes.float32() : new Float32Array(count);
     const { x0, y0, width, height } = target.window;
     let targetPower = 0;
@@ -158,25 +159,31 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
     const half = n / 2;
     const deltaU = grid.lambda / (n * grid.period);
     for (let r = 0; r < m; r++) {
-      for (let j = 0; j < m; j++) {
+      for (let q = 0; q < m; q++) {
+        const j = order && !fresnel ? order[q] : q;
         const ix = fresnel ? j - o : (r + half) % n;
         const iy = fresnel ? r - o : (j + half) % n;
         const u = (ix - half) * deltaU;
         const v = (iy - half) * deltaU;
         const inWindow = ix >= x0 && ix < x0 + width && iy >= y0 && iy < y0 + height;
-        codes[r * m + j] = inWindow ? target.amplitude[iy * n + ix] * scale : !fresnel && u * u + v * v > 1 ? EVANESCENT_CODE : NOISE_CODE;
+        codes[r * m + q] = inWindow ? target.amplitude[iy * n + ix] * scale : !fresnel && u * u + v * v > 1 ? EVANESCENT_CODE : NOISE_CODE;
       }
     }
     const weights = algorithm === 'weighted-gs' ? (held ? held.weights!.float32() : new Float32Array(count)).fill(1) : null;
     let transfer: Float32Array | null = null;
     if (fresnel) {
-      // H/M² interleaved (re, im): the transfer function with the inverse FFT's scaling folded in.
+      // H/M²: the transfer function with the inverse FFT's scaling folded in, interleaved (re, im), or in the plan's
+      // spectrum order (groups of four real parts, then four imaginary parts) when it has one.
       const h = transferFunction(m, grid.period, grid.lambda, z as number, true);
       const norm = 1 / count;
       transfer = held ? held.transfer!.float32() : new Float32Array(2 * count);
-      for (let i = 0; i < count; i++) {
-        transfer[2 * i] = h.re[i] * norm;
-        transfer[2 * i + 1] = h.im[i] * norm;
+      for (let r = 0; r < m; r++) {
+        for (let q = 0; q < m; q++) {
+          const i = r * m + (order ? order[q] : q);
+          const re = order ? 2 * r * m + 8 * (q >> 2) + (q & 3) : 2 * (r * m + q);
+          transfer[re] = h.re[i] * norm;
+          transfer[re + (order ? 4 : 1)] = h.im[i] * norm;
+        }
       }
     }
     let sumsView = held ? held.sums.float64().fill(0) : new Float64Array(SUM_SLOTS);
@@ -191,12 +198,13 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
     let forwardOp: RowOperation | null = null;
     let backwardOp: RowOperation | null = null;
     if (kernels && held) {
-      imagePlaneOp = kernelImagePlaneOp(kernels, m, held.codes.pointer, held.weights?.pointer ?? 0, held.sums.pointer, constraint);
+      imagePlaneOp = kernelImagePlaneOp(kernels, m, held.codes.pointer, held.weights?.pointer ?? 0, held.sums.pointer, constraint, !fresnel && order !== null);
       deviceOp = kernelDeviceOp(kernels, m, uniform ? null : held.amplitudes.pointer, deviceAmplitude[0]);
       if (held.transfer) {
         const h = held.transfer.pointer;
-        forwardOp = (data, offset, row) => kernels.multiplyComplex(data.byteOffset + 4 * offset, m, h + 8 * m * row, 0);
-        backwardOp = (data, offset, row) => kernels.multiplyComplex(data.byteOffset + 4 * offset, m, h + 8 * m * row, 1);
+        const multiply = order ? kernels.multiplyComplexSplit : kernels.multiplyComplex;
+        forwardOp = (data, offset, row) => multiply(data.byteOffset + 4 * offset, m, h + 8 * m * row, 0);
+        backwardOp = (data, offset, row) => multiply(data.byteOffset + 4 * offset, m, h + 8 * m * row, 1);
       }
     } else {
       imagePlaneOp = makeImagePlaneOp(m, codes, weights, sumsView, constraint);
@@ -300,12 +308,15 @@ interface Constraint {
   meanRatio: () => number;
 }
 
-/** The image-plane constraint and its sums on the SIMD kernel, in place on the row the plan hands over. */
-function kernelImagePlaneOp(kernels: FftKernels, n: number, codes: number, weights: number, sums: number, constraint: Constraint): RowOperation {
+/**
+ * The image-plane constraint and its sums on the SIMD kernel, in place on the row the plan hands over; `split`:
+ * the row is in the plan's spectrum order (fft.ts `spectrumOrder`).
+ */
+function kernelImagePlaneOp(kernels: FftKernels, n: number, codes: number, weights: number, sums: number, constraint: Constraint, split: boolean): RowOperation {
   const mix = constraint.algorithm === 'mraf' ? constraint.mixing : 1;
   const keep = constraint.algorithm === 'mraf' ? 1 - constraint.mixing : 0;
-  return (data, offset, row) =>
-    kernels.imagePlane(data.byteOffset + 4 * offset, n, codes + 4 * n * row, weights && weights + 4 * n * row, mix, keep, constraint.meanRatio(), sums);
+  const kernel = split ? kernels.imagePlaneSplit : kernels.imagePlane;
+  return (data, offset, row) => kernel(data.byteOffset + 4 * offset, n, codes + 4 * n * row, weights && weights + 4 * n * row, mix, keep, constraint.meanRatio(), sums);
 }
 
 /** The device-plane constraint on the SIMD kernel: one amplitude for all cells, or one per cell (`amplitudes`). */

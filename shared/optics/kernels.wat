@@ -211,6 +211,114 @@
           (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
         (br $block))))
 
+  ;; The same on values in the FFT backend's internal order (PFFFT's unordered transforms): each group of four
+  ;; values is stored as their four real parts, then their four imaginary parts; code i (and weight i) belongs to
+  ;; lane (i mod 4) of group (i div 4). No shuffles needed.
+  (func (export "imagePlaneSplit") (param $p i32) (param $count i32) (param $codes i32) (param $weights i32)
+    (param $mix f32) (param $keep f32) (param $meanRatio f32) (param $acc i32)
+    (local $end i32) (local $blockEnd i32)
+    (local $lo v128) (local $hi v128) (local $a v128) (local $b v128) (local $power v128) (local $magnitude v128)
+    (local $code v128) (local $inside v128) (local $target v128) (local $difference v128) (local $amplitude v128)
+    (local $bright v128) (local $inverse v128) (local $weight v128) (local $s v128) (local $zero v128)
+    (local $mixes v128) (local $keeps v128) (local $means v128) (local $update v128) (local $d v128)
+    (local $fienup v128) (local $gt v128) (local $gg v128) (local $tt v128) (local $ratios v128)
+    (local $brights v128) (local $computed v128)
+    (local.set $end (i32.add (local.get $p) (i32.shl (local.get $count) (i32.const 3))))
+    (local.set $mixes (f32x4.splat (local.get $mix)))
+    (local.set $keeps (f32x4.splat (local.get $keep)))
+    (local.set $means (f32x4.splat (local.get $meanRatio)))
+    (local.set $update (i32x4.splat (i32.sub (i32.const 0) (f32.gt (local.get $meanRatio) (f32.const 0)))))
+    (block $done
+      (loop $block
+        (br_if $done (i32.ge_u (local.get $p) (local.get $end)))
+        (local.set $blockEnd (i32.add (local.get $p) (i32.const 256)))
+        (if (i32.gt_u (local.get $blockEnd) (local.get $end)) (then (local.set $blockEnd (local.get $end))))
+        (local.set $fienup (v128.const i32x4 0 0 0 0))
+        (local.set $gt (v128.const i32x4 0 0 0 0))
+        (local.set $gg (v128.const i32x4 0 0 0 0))
+        (local.set $tt (v128.const i32x4 0 0 0 0))
+        (local.set $ratios (v128.const i32x4 0 0 0 0))
+        (local.set $brights (v128.const i32x4 0 0 0 0))
+        (local.set $computed (v128.const i32x4 0 0 0 0))
+        (loop $next
+          (local.set $lo (v128.load (local.get $p)))
+          (local.set $hi (v128.load offset=16 (local.get $p)))
+          (local.set $power (f32x4.add (f32x4.mul (local.get $lo) (local.get $lo)) (f32x4.mul (local.get $hi) (local.get $hi))))
+          (local.set $magnitude (f32x4.sqrt (local.get $power)))
+          (local.set $inverse (f32x4.div (v128.const f32x4 1 1 1 1) (local.get $magnitude)))
+          (local.set $code (v128.load (local.get $codes)))
+          (local.set $inside (f32x4.ge (local.get $code) (v128.const f32x4 0 0 0 0)))
+          (local.set $target (v128.and (local.get $code) (local.get $inside)))
+          (local.set $difference (f32x4.sub (local.get $magnitude) (local.get $target)))
+          (local.set $computed (f32x4.add (local.get $computed) (local.get $power)))
+          (local.set $fienup (f32x4.add (local.get $fienup)
+            (v128.bitselect (f32x4.mul (local.get $difference) (local.get $difference)) (local.get $power) (local.get $inside))))
+          (local.set $gt (f32x4.add (local.get $gt) (f32x4.mul (local.get $magnitude) (local.get $target))))
+          (local.set $gg (f32x4.add (local.get $gg) (v128.and (local.get $power) (local.get $inside))))
+          (local.set $tt (f32x4.add (local.get $tt) (f32x4.mul (local.get $target) (local.get $target))))
+          (if (local.get $weights)
+            (then
+              (local.set $weight (v128.load (local.get $weights)))
+              (local.set $bright
+                (v128.and
+                  (f32x4.gt (local.get $code) (v128.const f32x4 0 0 0 0))
+                  (f32x4.gt (local.get $magnitude) (v128.const f32x4 0 0 0 0))))
+              (local.set $ratios (f32x4.add (local.get $ratios)
+                (v128.and (f32x4.div (local.get $magnitude) (local.get $code)) (local.get $bright))))
+              (local.set $brights (f32x4.add (local.get $brights) (v128.and (local.get $bright) (v128.const f32x4 1 1 1 1))))
+              ;; w·meanRatio/(|G|/T) = w·meanRatio·T/|G|
+              (local.set $weight
+                (v128.bitselect
+                  (f32x4.mul (f32x4.mul (local.get $weight) (local.get $means)) (f32x4.mul (local.get $code) (local.get $inverse)))
+                  (local.get $weight)
+                  (v128.and (local.get $bright) (local.get $update))))
+              (v128.store (local.get $weights) (local.get $weight))
+              (local.set $amplitude (f32x4.mul (local.get $target) (local.get $weight)))
+              (local.set $weights (i32.add (local.get $weights) (i32.const 16))))
+            (else
+              (local.set $amplitude (f32x4.mul (local.get $target) (local.get $mixes)))))
+          (local.set $s
+            (v128.bitselect
+              (f32x4.mul (local.get $amplitude) (local.get $inverse))
+              (v128.and (local.get $keeps) (f32x4.eq (local.get $code) (v128.const f32x4 -1 -1 -1 -1)))
+              (local.get $inside)))
+          (local.set $zero (v128.and (local.get $inside) (f32x4.eq (local.get $power) (v128.const f32x4 0 0 0 0))))
+          ;; (re·s, im·s), or (amplitude, 0) where $zero
+          (v128.store (local.get $p) (v128.bitselect (local.get $amplitude) (f32x4.mul (local.get $lo) (local.get $s)) (local.get $zero)))
+          (v128.store offset=16 (local.get $p) (v128.andnot (f32x4.mul (local.get $hi) (local.get $s)) (local.get $zero)))
+          (local.set $p (i32.add (local.get $p) (i32.const 32)))
+          (local.set $codes (i32.add (local.get $codes) (i32.const 16)))
+          (br_if $next (i32.lt_u (local.get $p) (local.get $blockEnd))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $fienup))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $fienup) (local.get $fienup)))))
+        (f64.store (local.get $acc) (f64.add (f64.load (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $gt))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $gt) (local.get $gt)))))
+        (f64.store offset=8 (local.get $acc) (f64.add (f64.load offset=8 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $gg))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $gg) (local.get $gg)))))
+        (f64.store offset=16 (local.get $acc) (f64.add (f64.load offset=16 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $tt))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $tt) (local.get $tt)))))
+        (f64.store offset=24 (local.get $acc) (f64.add (f64.load offset=24 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $ratios))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $ratios) (local.get $ratios)))))
+        (f64.store offset=32 (local.get $acc) (f64.add (f64.load offset=32 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $brights))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $brights) (local.get $brights)))))
+        (f64.store offset=40 (local.get $acc) (f64.add (f64.load offset=40 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (local.set $d (f64x2.add (f64x2.promote_low_f32x4 (local.get $computed))
+          (f64x2.promote_low_f32x4 (i8x16.shuffle 8 9 10 11 12 13 14 15 0 1 2 3 4 5 6 7 (local.get $computed) (local.get $computed)))))
+        (f64.store offset=48 (local.get $acc) (f64.add (f64.load offset=48 (local.get $acc))
+          (f64.add (f64x2.extract_lane 0 (local.get $d)) (f64x2.extract_lane 1 (local.get $d)))))
+        (br $block))))
+
   ;; Complex product in place: value i at p becomes z_i·h_i, or z_i·conj(h_i) when $conjugate ≠ 0, with h_i the
   ;; complex float32 at $h + 8·i (the propagation transfer function). count must be even.
   (func (export "multiplyComplex") (param $p i32) (param $count i32) (param $h i32) (param $conjugate i32)
@@ -236,6 +344,25 @@
               (local.get $sign))))
         (local.set $p (i32.add (local.get $p) (i32.const 16)))
         (local.set $h (i32.add (local.get $h) (i32.const 16)))
+        (br $next))))
+
+  ;; The same on values in the FFT backend's internal order (groups of four real parts, then four imaginary parts;
+  ;; h in the same layout). count: multiple of 4.
+  (func (export "multiplyComplexSplit") (param $p i32) (param $count i32) (param $h i32) (param $conjugate i32)
+    (local $end i32) (local $re v128) (local $im v128) (local $c v128) (local $d v128)
+    (local.set $end (i32.add (local.get $p) (i32.shl (local.get $count) (i32.const 3))))
+    (block $done
+      (loop $next
+        (br_if $done (i32.ge_u (local.get $p) (local.get $end)))
+        (local.set $re (v128.load (local.get $p)))
+        (local.set $im (v128.load offset=16 (local.get $p)))
+        (local.set $c (v128.load (local.get $h)))
+        (local.set $d (v128.load offset=16 (local.get $h)))
+        (if (local.get $conjugate) (then (local.set $d (f32x4.neg (local.get $d)))))
+        (v128.store (local.get $p) (f32x4.sub (f32x4.mul (local.get $re) (local.get $c)) (f32x4.mul (local.get $im) (local.get $d))))
+        (v128.store offset=16 (local.get $p) (f32x4.add (f32x4.mul (local.get $re) (local.get $d)) (f32x4.mul (local.get $im) (local.get $c))))
+        (local.set $p (i32.add (local.get $p) (i32.const 32)))
+        (local.set $h (i32.add (local.get $h) (i32.const 32)))
         (br $next))))
 
   ;; Multiplies the 2·count floats (count complex values, even) at p by $factor (the inverse FFT's 1/N²).

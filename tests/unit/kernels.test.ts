@@ -189,6 +189,45 @@ describe('SIMD kernels', () => {
     });
   });
 
+  it('imagePlaneSplit and multiplyComplexSplit give the same bits as imagePlane and multiplyComplex on values in the backend\'s internal layout (groups of four real parts, then four imaginary parts)', () => {
+    const toSplit = (from: Float32Array, to: Float32Array) => {
+      for (let i = 0; i < count; i++) [to[8 * (i >> 2) + (i & 3)], to[8 * (i >> 2) + 4 + (i & 3)]] = [from[2 * i], from[2 * i + 1]];
+    };
+    withOperands([8 * count, 8 * count, 8 * count, 4 * count, 4 * count, 4 * count, 64, 64, 8 * count, 8 * count], (arrays) => {
+      const [interleaved, split, back, codes, weightsA, weightsB, sumsA, sumsB, h, hSplit] = [
+        arrays[0].float32(), arrays[1].float32(), arrays[2].float32(), arrays[3].float32(), arrays[4].float32(),
+        arrays[5].float32(), arrays[6].float64(), arrays[7].float64(), arrays[8].float32(), arrays[9].float32(),
+      ];
+      const k = fftKernels()!;
+      imageCodes(codes);
+      for (const [weighted, mix, keep] of [[false, 1, 0], [false, 0.4, 0.6], [true, 1, 0]] as const) {
+        randomField(interleaved, 13);
+        toSplit(interleaved, split);
+        weightsA.fill(1.25);
+        weightsB.fill(1.25);
+        sumsA.fill(0);
+        sumsB.fill(0);
+        const w = (array: KernelArray) => (weighted ? array.pointer : 0);
+        k.imagePlane(arrays[0].pointer, count, arrays[3].pointer, w(arrays[4]), mix, keep, 1.3, arrays[6].pointer);
+        k.imagePlaneSplit(arrays[1].pointer, count, arrays[3].pointer, w(arrays[5]), mix, keep, 1.3, arrays[7].pointer);
+        toSplit(interleaved, back);
+        expect(Array.from(split)).toEqual(Array.from(back));
+        expect(Array.from(weightsB)).toEqual(Array.from(weightsA));
+        expect(Array.from(sumsB)).toEqual(Array.from(sumsA));
+      }
+      randomField(h, 14);
+      toSplit(h, hSplit);
+      for (const conjugate of [0, 1]) {
+        randomField(interleaved, 15);
+        toSplit(interleaved, split);
+        k.multiplyComplex(arrays[0].pointer, count, arrays[8].pointer, conjugate);
+        k.multiplyComplexSplit(arrays[1].pointer, count, arrays[9].pointer, conjugate);
+        toSplit(interleaved, back);
+        expect(Array.from(split)).toEqual(Array.from(back));
+      }
+    });
+  });
+
   it('normalize: a_i·z/|z| with an amplitude per value, (a_i, 0) where z = 0 (device-plane constraint)', () => {
     withOperands([8 * count, 4 * count], (arrays) => {
       const [field, amplitudes] = [arrays[0].float32(), arrays[1].float32()];
