@@ -122,6 +122,8 @@ describe.each(RUN_QUEUE_ENGINES)('library builds on the %s run queue', (engine) 
     expect(run.status, run.error ?? '').toBe('succeeded');
     const metrics = JSON.parse((await download(designer, `/api/projects/${projectId}/runs/${run.id}/artifacts/metrics.json`)).body.toString('utf8'));
     expect(metrics.library).toMatchObject({ name: 'Test nitride pillars', atoms: 49, approximate: false, source: summary.source });
+    // The run page reads the same record from the run's plot data.
+    expect((run.plots as { library?: unknown }).library).toEqual(metrics.library);
     const report = (await designer.get(`/api/projects/${projectId}/runs/${run.id}/report`)).body.report;
     expect(report.library).toMatchObject({ approximate: false, source: summary.source });
     // The fab package's README says where the library comes from, not that an uploader vouched for it.

@@ -57,6 +57,7 @@ export function plotsOf(run: DesignRun): Record<string, unknown> {
     timingsMs: record.timingsMs,
     mappingReport: run.mappingReport,
     pictures: record.pictures,
+    library: record.library,
   };
 }
 

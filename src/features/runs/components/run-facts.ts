@@ -121,3 +121,15 @@ export function channelLayout(run: RunDetail, design: Design | null, plots: RunP
   const unplacedProfiles = plots.profiles.filter((p) => !beamChannels.some((c) => belongs(c, p.channel)));
   return { channels, channelNames, beamChannels, profilesOf, linesOf, unplacedProfiles };
 }
+
+/** The atom library a run used, as its plot data records it (runs since library records were kept), or null. */
+export function readRunLibrary(plots: unknown): { name: string; atoms: number; approximate: boolean; source: string | null } | null {
+  const library = (plots as { library?: unknown } | null)?.library as Record<string, unknown> | undefined;
+  if (!library || typeof library.name !== 'string') return null;
+  return {
+    name: library.name,
+    atoms: typeof library.atoms === 'number' ? library.atoms : 0,
+    approximate: library.approximate === true,
+    source: typeof library.source === 'string' && library.source ? library.source : null,
+  };
+}

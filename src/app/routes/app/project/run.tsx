@@ -26,7 +26,7 @@ import { MetricsTable } from '@/features/runs/components/metrics-table';
 import { RunDownloads } from '@/features/runs/components/run-downloads';
 import { RunFigures } from '@/features/runs/components/run-figures';
 import { RunEvents } from '@/features/runs/components/run-events';
-import { channelLayout, inputNames, usesApproximateLibrary } from '@/features/runs/components/run-facts';
+import { channelLayout, inputNames, readRunLibrary, usesApproximateLibrary } from '@/features/runs/components/run-facts';
 import { readDesignRules, readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusPanel } from '@/features/runs/components/run-status-panel';
 import { readPictureFrames, RunPictureView } from '@/features/runs/components/picture-view';
@@ -150,6 +150,7 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
   const layout = channelLayout(run, design, plots, groups.slices);
   const { channelNames } = layout;
   const approximate = usesApproximateLibrary(run, design);
+  const library = readRunLibrary(run.plots);
   const active = isRunActive(run.status);
   const filesDeleted = run.filesDeletedAt !== null;
 
@@ -174,6 +175,10 @@ function RunPage({ projectId, projectName, canRun, canManage, canComment, run }:
           This run used the demo atom library. Its pillars are modelled by the effective-index method, not by full-wave
           simulation, so efficiencies, crosstalk and zero order are indicative only. Map the design to your lab’s own
           library before committing to fabrication.
+        </Banner>
+      ) : library && !library.approximate ? (
+        <Banner tone="note" title={`Atom library: ${library.name} (${library.atoms} atoms, not approximate)`}>
+          {library.source ? <p>{library.source}</p> : <p>Its uploader marked it as not approximate and gave no source line.</p>}
         </Banner>
       ) : null}
 
