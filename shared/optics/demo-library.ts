@@ -73,6 +73,18 @@ export function demoLibraryRules(options: DemoLibraryOptions = {}): DemoLibraryR
 }
 
 /**
+ * Whether a width × length pillar keeps at least `minGap` to its neighbours in a lattice of period P at any
+ * rotation (the rule of `demoLibraryRules`): a square when width ≤ P − minGap (unrotated: squares need no
+ * rotation), another rectangle when its diagonal √(w² + l²) ≤ P − minGap. Lengths in metres.
+ * Example: fitsEveryRotation(300e-9, 250e-9, 450e-9, 50e-9) → true (diagonal 390.5 nm ≤ 400 nm).
+ */
+export function fitsEveryRotation(width: number, length: number, period: number, minGap: number): boolean {
+  const tolerance = 1e-15;
+  const bound = period - minGap + tolerance;
+  return Math.abs(width - length) < tolerance ? width <= bound : Math.hypot(width, length) <= bound;
+}
+
+/**
  * Generates the APPROXIMATE demo library (pure function): Si₃N₄ (Luke et al., Opt. Lett. 40, 4823
  * (2015)) pillars on fused silica (Malitson, JOSA 55, 1205 (1965)) in air, width × length swept on
  * a `step` grid within `demoLibraryRules`, transmissions from `pillarTransmission` (phase relative
@@ -99,8 +111,7 @@ export function demoAtomLibrary(options: DemoLibraryOptions = {}): AtomLibrary {
   const tolerance = 1e-15;
   for (const width of sizes) {
     for (const length of sizes) {
-      const square = Math.abs(width - length) < tolerance;
-      if (square ? width > rules.maxSquare + tolerance : Math.hypot(width, length) > rules.maxDiagonal + tolerance) continue;
+      if (!fitsEveryRotation(width, length, o.period, o.minGap)) continue;
       const t = pillarTransmission({ width, length, height: o.height, lambda: o.lambda, nPillar, nSubstrate, nAmbient });
       const wrap = (a: number): number => a - 2 * Math.PI * Math.floor(a / (2 * Math.PI));
       atoms.push({

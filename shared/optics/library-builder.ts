@@ -10,6 +10,7 @@ import { FUSED_SILICA, refractiveIndex, SILICON_NITRIDE } from './materials';
 import { checkNkPoints, NK_TABLE_LIMITS, NK_TABLE_TEXT_LIMITS, NkTableError, tabulatedIndex, type NkPoint, type NkTableLimits } from './nk-table';
 import { computeAtom, latticeDiffraction, materialIndex, materialLabel, type LatticeDiffraction, type RcwaAtomResult, type RcwaCell, type RcwaIllumination, type RcwaMaterial } from './rcwa';
 import { LIGHT_SIDE_LABELS, libraryMedia, mediaPhrase, type AtomLibrary, type LightSide, type MetaAtom } from './atoms';
+import { fitsEveryRotation } from './demo-library';
 
 // ---------------------------------------------------------------------------------------------------------
 // Materials by name
@@ -118,7 +119,12 @@ export interface LibrarySpec {
   /** Where the light comes from: 'substrate' (exits into the superstrate) or 'superstrate' (onto the pillars). */
   illumination: RcwaIllumination;
   /** Widths and lengths from minFeatureNm to periodNm − minGapNm in steps of stepNm. */
-  sweep: { minFeatureNm: number; minGapNm: number; stepNm: number };
+  /**
+   * `anyRotation`: the stored library keeps only the pillars that clear minGapNm to their neighbours at any
+   * rotation (`fitsEveryRotation`, the demo library's rule), so a layout from it passes the gap check; the whole
+   * grid is still computed and plotted. Default false: every swept pillar is stored.
+   */
+  sweep: { minFeatureNm: number; minGapNm: number; stepNm: number; anyRotation?: boolean };
   /** Harmonics per axis (odd), N for N × N. */
   harmonics: number;
 }
@@ -301,17 +307,19 @@ export function parseLibrarySpec(raw: unknown, options: SpecOptions = {}): Resol
   const pillar = resolveMaterial(o.pillar, 'pillar', lambda, problems, nkLimits);
   const substrate = resolveMaterial(o.substrate, 'substrate', lambda, problems, nkLimits);
   const superstrate = resolveMaterial(o.superstrate ?? 'air', 'superstrate', lambda, problems, nkLimits);
-  let sweep = { minFeatureNm: NaN, minGapNm: NaN, stepNm: NaN };
+  let sweep: LibrarySpec['sweep'] = { minFeatureNm: NaN, minGapNm: NaN, stepNm: NaN };
   let sizes: number[] = [];
   if (o.sweep === null || typeof o.sweep !== 'object' || Array.isArray(o.sweep)) {
     problems.push({ field: 'sweep', message: 'must be { "minFeatureNm": …, "minGapNm": …, "stepNm": … }' });
   } else {
     const s = o.sweep as Record<string, unknown>;
-    for (const key of Object.keys(s)) if (!['minFeatureNm', 'minGapNm', 'stepNm'].includes(key)) problems.push({ field: `sweep.${key}`, message: 'unknown key (the sweep has minFeatureNm, minGapNm, stepNm)' });
+    for (const key of Object.keys(s)) if (!['minFeatureNm', 'minGapNm', 'stepNm', 'anyRotation'].includes(key)) problems.push({ field: `sweep.${key}`, message: 'unknown key (the sweep has minFeatureNm, minGapNm, stepNm, anyRotation)' });
+    if (s.anyRotation !== undefined && typeof s.anyRotation !== 'boolean') problems.push({ field: 'sweep.anyRotation', message: 'must be true or false' });
     sweep = {
       minFeatureNm: num(s.minFeatureNm, 'sweep.minFeatureNm', 1, 5000),
       minGapNm: num(s.minGapNm, 'sweep.minGapNm', 0, 5000),
       stepNm: num(s.stepNm, 'sweep.stepNm', 0.5, 5000),
+      ...(s.anyRotation === true ? { anyRotation: true } : {}),
     };
     const largest = periodNm - sweep.minGapNm;
     if (Number.isFinite(largest) && Number.isFinite(sweep.minFeatureNm) && sweep.minFeatureNm > largest) {
@@ -667,4 +675,14 @@ export function designCellNotes(design: { wavelengthNm: number; periodNm: number
     superstrateIndex: media.superstrateIndex,
   });
   return { sideMismatch, diffraction, mediaUnknown: false };
+}
+
+/**
+ * The atoms a build stores: all of them, or with `sweep.anyRotation` only those that clear the smallest gap at
+ * any rotation (fitsEveryRotation). Example: storedAtoms(r, built.library.atoms).length ≤ sizes².
+ */
+export function storedAtoms(r: ResolvedSpec, atoms: readonly MetaAtom[]): MetaAtom[] {
+  if (!r.spec.sweep.anyRotation) return [...atoms];
+  const gap = r.spec.sweep.minGapNm * 1e-9;
+  return atoms.filter((a) => a.shape !== 'rect' || fitsEveryRotation(a.width, a.length, r.period, gap));
 }

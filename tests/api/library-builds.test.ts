@@ -236,6 +236,22 @@ describe('library builds: validation, roles, personal libraries', () => {
     expect(build.libraryId).not.toBeNull();
   });
 
+  it('with sweep.anyRotation the stored library keeps only the pillars that clear the smallest gap at any rotation; the plots keep the whole grid', async () => {
+    const spec = { ...smallSpec(9, 5, 'Rotation-safe nitride'), sweep: { minFeatureNm: 60, minGapNm: 50, stepNm: 40, anyRotation: true } };
+    const started = await owner.post(base(), { spec, scope: 'project' });
+    expect(started.status, JSON.stringify(started.body)).toBe(202);
+    const { build, result } = await waitForBuild(owner, projectId, started.body.build.id);
+    expect(result!.atoms).toHaveLength(81);
+    // Counted here from the geometry alone: squares up to P − gap = 400 nm; other rectangles with √(w² + l²) ≤ 400 nm.
+    const sizes = result!.sizesNm;
+    let fitting = 0;
+    for (const w of sizes) for (const l of sizes) if (w === l ? w <= 400 : Math.hypot(w, l) <= 400) fitting++;
+    expect(fitting).toBeLessThan(81);
+    expect(build.status, build.error ?? '').toBe('succeeded');
+    const stored = (await owner.get(`/api/projects/${projectId}/atom-libraries/${build.libraryId}`)).body.atomLibrary;
+    expect(stored.atomCount).toBe(fitting);
+  });
+
   it('a build whose phases leave a gap larger than 2π/8 stores no library and says why; its atoms stay for the plots', async () => {
     // 3 × 3 pillars (60, 110, 160 nm): the phases leave a gap of several radians on each axis.
     const started = await owner.post(base(), { spec: smallSpec(3, 5), scope: 'project' });

@@ -43,6 +43,8 @@ describe('computing an atom library', () => {
     await form.getByLabel('Smallest gap').fill('50');
     await form.getByLabel('Harmonics').selectOption('5');
     await form.getByLabel('Proposed subset size N').fill('4');
+    // Every swept pillar stored: seven sizes are the fewest whose phases cover 2π in eight steps.
+    await form.getByLabel('Store only rotation-safe pillars').uncheck();
 
     // A tabulated substrate from a CSV: read in the browser by the shared parser, checked by the server against λ.
     const substrate = form.getByLabel('Substrate', { exact: true });

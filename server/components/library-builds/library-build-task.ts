@@ -10,7 +10,7 @@ import type { MessagePort } from 'node:worker_threads';
 import { atomLibraryToCsv } from '../../../shared/optics/atoms';
 import {
   buildAtomLibrary,
-  CHECKED_SPEC, parseLibrarySpec,
+  CHECKED_SPEC, parseLibrarySpec, storedAtoms,
   proposeSubset,
   specCell,
   type BuiltLibrary,
@@ -76,7 +76,8 @@ function resultOf(r: ResolvedSpec, built: BuiltLibrary, subsetSize: number | nul
     ty: a.ty,
     alphaY: a.alphaY,
   }));
-  const subset = subsetSize === null ? null : proposeSubset(built.library.atoms, subsetSize).map((i) => built.library.atoms[i].id);
+  const stored = storedAtoms(r, built.library.atoms);
+  const subset = subsetSize === null ? null : proposeSubset(stored, subsetSize).map((i) => stored[i].id);
   return { sizesNm: r.sizes.map(nm), atoms, convergence: convergenceReport(r, built), subset };
 }
 
@@ -108,7 +109,8 @@ export default async function libraryBuildTask(task: LibraryBuildTask): Promise<
     });
     const result = resultOf(resolved, built, task.subsetSize);
     // Read back as an uploaded atoms.csv is: the stored library is the one a download of it gives back.
-    const reading = readAtomLibraryCsv(Buffer.from(atomLibraryToCsv(built.library), 'utf8'), { name: task.name, scope: task.scope, material: '', wavelengthNm: undefined, periodNm: undefined, heightNm: undefined }, OWN_FILE);
+    const stored = { ...built.library, atoms: storedAtoms(resolved, built.library.atoms) };
+    const reading = readAtomLibraryCsv(Buffer.from(atomLibraryToCsv(stored), 'utf8'), { name: task.name, scope: task.scope, material: '', wavelengthNm: undefined, periodNm: undefined, heightNm: undefined }, OWN_FILE);
     // Atoms whose phases leave a gap runs cannot fill: refused as the same file uploaded would be.
     const refusal = reading.library ? null : reading.problems.map((p) => p.message).join('; ') || 'the library could not be read back';
     return { ok: true, library: reading.library, refusal, result };

@@ -280,6 +280,22 @@ export function ComputeLibraryForm({ projectId, onStarted }: { projectId: number
           <NumberField label="Smallest gap" unit="nm" value={form.minGapNm} onValueChange={(minGapNm) => change({ minGapNm })} error={errors['sweep.minGapNm']} hint="Largest pillar: at most P minus this gap." />
           <NumberField label="Step" unit="nm" value={form.stepNm} onValueChange={(stepNm) => change({ stepNm })} error={errors['sweep.stepNm']} />
         </div>
+        <label className="mt-3 flex items-start gap-2 text-sm">
+          <input
+            type="checkbox"
+            className="mt-0.5 size-4 accent-[var(--color-teal)]"
+            checked={form.anyRotation}
+            onChange={(event) => change({ anyRotation: event.target.checked })}
+          />
+          <span>
+            <span className="font-bold">Store only rotation-safe pillars</span>
+            <span className="block text-ink-soft">
+              Pillars that clear the chosen gap to their neighbours however they turn: squares up to P minus the gap, other rectangles with a diagonal √(w² + l²) up to P minus the gap — as the
+              demo library — so a layout from the library passes the gap check however its cells turn. The whole grid is
+              still computed and plotted.
+            </span>
+          </span>
+        </label>
       </Section>
       <Section title="Computation and result">
         <div className="grid gap-4 sm:grid-cols-3">

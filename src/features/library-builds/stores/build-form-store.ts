@@ -32,6 +32,8 @@ export interface BuildForm {
   minFeatureNm: number | undefined;
   minGapNm: number | undefined;
   stepNm: number | undefined;
+  /** Store only the pillars that clear the smallest gap at any rotation (the demo library's rule). */
+  anyRotation: boolean;
   harmonics: number;
   scope: LibraryBuildScope;
   /** Proposed subset size N; undefined: no subset. */
@@ -56,6 +58,7 @@ export const DEFAULT_BUILD_FORM: BuildForm = {
   minFeatureNm: 80,
   minGapNm: 60,
   stepNm: 20,
+  anyRotation: true,
   harmonics: 11,
   scope: 'project',
   subsetSize: undefined,
@@ -88,7 +91,7 @@ export function formSpec(form: BuildForm): LibrarySpec {
     substrate: specMaterial(form.substrate),
     superstrate: specMaterial(form.superstrate),
     illumination: form.illumination,
-    sweep: { minFeatureNm: form.minFeatureNm as number, minGapNm: form.minGapNm as number, stepNm: form.stepNm as number },
+    sweep: { minFeatureNm: form.minFeatureNm as number, minGapNm: form.minGapNm as number, stepNm: form.stepNm as number, ...(form.anyRotation ? { anyRotation: true } : {}) },
     harmonics: form.harmonics,
   };
 }
