@@ -8,7 +8,7 @@
 import { readFile, writeFile, mkdir } from 'node:fs/promises';
 import { basename, dirname, extname, resolve } from 'node:path';
 import { atomLibraryToCsv, checkAtomLibrary } from '../../shared/optics/atoms';
-import { buildAtomLibrary, LibrarySpecError, parseLibrarySpec, type BuiltAtomPowers, type LibrarySpec, type SweepAtom } from '../../shared/optics/library-builder';
+import { buildAtomLibrary, LibrarySpecError, parseLibrarySpec, storedAtoms, type BuiltAtomPowers, type LibrarySpec, type SweepAtom } from '../../shared/optics/library-builder';
 import { NkTableError, parseNkTableCsv, type NkTable } from '../../shared/optics/nk-table';
 import { InputError } from './design-files';
 import { startTsWorker } from './ts-worker';
@@ -177,6 +177,8 @@ export async function libraryBuildCommand(args: LibraryBuildArgs): Promise<numbe
         }
       },
     });
+    // With sweep.anyRotation only the pillars that clear the gap at any rotation are written (powers: the whole grid).
+    built.library.atoms = storedAtoms(resolved, built.library.atoms);
     for (const w of built.warnings) process.stderr.write(`phasewright: warning: ${w}\n`);
     // The library's own checks (e.g. phase coverage of a coarse sweep): said, not fatal — the file is still written.
     for (const issue of checkAtomLibrary(built.library).issues) process.stderr.write(`phasewright: note: ${issue.message}\n`);
