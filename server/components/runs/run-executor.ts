@@ -18,7 +18,7 @@ import type { AppConfig } from '../../config';
 import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { rulesForRun } from '../fab/design-rules.service';
 import { libraryForRun } from '../atom-libraries/atom-library.service';
-import { reserveRunFiles, timeLimitMessage } from '../quotas/quota.service';
+import { memoryBudgetRefusal, reserveRunFiles, timeLimitMessage } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { UploadModel } from '../uploads/upload.model';
 import { createToleranceExecutor, type ToleranceExecutor } from '../tolerance/tolerance-executor';
@@ -41,6 +41,11 @@ export interface RunExecutorOptions {
   limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'>;
   /** Nice value of the pool's threads (0–19, default 0): see `createRunPool`. */
   nice?: number;
+  /**
+   * Memory one run may take, MiB (RUN_MEMORY_BUDGET_MB): a run whose estimate is larger fails before it starts,
+   * and it is the JavaScript heap limit of the pool's threads. Default: no check, V8's own heap limit.
+   */
+  memoryBudgetMb?: number;
 }
 
 const WORKER_FILE = workerFile('run-worker', import.meta.url);
@@ -64,9 +69,11 @@ export interface RunPoolThreadData {
  * lowers its own scheduling priority when it takes its first task (`lowerPoolThreadPriority`), so a computing
  * run takes the cores only while requests and the database leave them idle.
  */
-export function createRunPool(threads: number, nice = 0): Piscina<RunTask, RunTaskResult> {
+export function createRunPool(threads: number, nice = 0, memoryBudgetMb?: number): Piscina<RunTask, RunTaskResult> {
   const workerData: RunPoolThreadData = { nice };
   return new Piscina<RunTask, RunTaskResult>({
+    // The large arrays live outside the JavaScript heap; the heap limit only has to be no smaller than the budget.
+    ...(memoryBudgetMb ? { resourceLimits: { maxOldGenerationSizeMb: memoryBudgetMb } } : {}),
     filename: WORKER_FILE.href,
     maxThreads: threads,
     minThreads: 0,
@@ -114,6 +121,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
   const limits = options.limits;
   const timeLimitMs = limits ? limits.RUN_TIME_LIMIT_MINUTES * 60_000 : null;
   const nice = options.nice ?? 0;
+  const { memoryBudgetMb } = options;
   const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval, timeLimitMs });
   const active = new Map<number, ActiveRun>();
   let pool: Piscina<RunTask, RunTaskResult> | null = null;
@@ -224,6 +232,12 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
     if (!accepting || !pool || active.has(runId)) return null;
     const loaded = await loadTask(runId);
     if (!loaded || !accepting) return null;
+    // Checked again here: the run may have been queued under another budget, or by a server with another one.
+    const overBudget = memoryBudgetMb ? memoryBudgetRefusal(loaded.design, memoryBudgetMb) : null;
+    if (overBudget) {
+      if (await markFailed(runId, overBudget, ['queued'])) changed(runId);
+      return null;
+    }
     const workDir = await mkdtemp(join(tmpdir(), `phasewright-run-${runId}-`));
     if (!accepting || !pool || active.has(runId)) {
       await rm(workDir, { recursive: true, force: true });
@@ -294,7 +308,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
     execute,
     start() {
       if (accepting) return;
-      pool = createRunPool(threads, nice);
+      pool = createRunPool(threads, nice, memoryBudgetMb);
       accepting = true;
     },
     async stop() {
