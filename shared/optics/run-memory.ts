@@ -6,28 +6,26 @@
  * - the process: Node, the FFT backend, the helper threads (a constant);
  * - the run's results, per cell: channel phases, cell parameters, the layout, the far fields under three
  *   inputs with their components, the channels' output fields, the preview scratch and the files being
- *   written (about 190 bytes per cell);
- * - each image hologram, per cell: its target plane, its target intensity and what retrieval leaves behind;
- *   a hologram at a finite distance retrieves on the grid zero-padded by `simulation.padding`;
- * - propagation (axicon beams, lens foci, image planes of Fresnel holograms), per cell of the zero-padded
- *   grid (padding·N)²: the padded field, its spectrum and the transfer function.
- * Calibrated against measured peaks: the end-to-end benchmark (bench/run.ts, `npm run bench`) runs design
- * files at 1024², 2048² and 4096² in fresh processes, reads the resident-set high-water mark (VmHWM of
- * /proc/self/status) and prints it beside this estimate; the constants below are the per-cell slopes between
- * 2048² and 4096² with the constant raised until no measured peak was above the estimate (README
- * "Performance" lists the figures). The estimate is meant to err high at small sizes, where it does not matter.
+ *   written. An image hologram in the far field costs no more than an analytic channel here (its retrieval
+ *   runs before the results exist and stays below them: measured);
+ * - propagation (axicon beams, lens foci, Fresnel holograms' retrieval and image planes), per cell of the
+ *   zero-padded grid (padding·N)²: the padded spectrum, the transfer function, the FFT plan, the planes.
+ * Calibrated against measured peaks (DEVELOPERS.md "The memory of a run"): bench/design-run-child.ts runs a
+ * design file in a fresh process and reports the resident-set high-water mark (VmHWM of /proc/self/status);
+ * the per-cell constants are the slopes between 2048² and 4096² runs of the twin-image demo (2 iterations,
+ * helper threads on and off), a Bessel pair and a Fresnel twin hologram, the process constant raised until no
+ * measured peak from 1024² to 4096² lay above its estimate. `npm run bench` prints each run's peak beside its
+ * estimate. The estimate errs high for small designs, where it does not matter.
  */
 
 const MIB = 1024 * 1024;
 
 /** Node, the FFT backend and the run's helper threads, before any array of the design. */
-export const PROCESS_BYTES = 560 * MIB;
+export const PROCESS_BYTES = 232 * MIB;
 /** Results and outputs per cell (bytes). */
-export const RESULT_BYTES_PER_CELL = 190;
-/** One image hologram, per cell of its retrieval grid (bytes). */
-export const HOLOGRAM_BYTES_PER_CELL = 48;
+export const RESULT_BYTES_PER_CELL = 166;
 /** Angular-spectrum propagation, per cell of the zero-padded grid (bytes). */
-export const PROPAGATION_BYTES_PER_CELL = 40;
+export const PROPAGATION_BYTES_PER_CELL = 31;
 
 /** The parts of a design the estimate reads (a draft in the composer may lack defaults). */
 export interface MemoryDesign {
@@ -51,29 +49,20 @@ export interface RunMemoryEstimate {
 }
 
 /**
- * Estimated peak memory of running `design` (module comment). Example: the twin-image demo at 4096 cells
- * (two Fourier holograms, no propagation) → 560 MiB + 4096²·(190 + 2·48) bytes ≈ 5.1 GiB.
+ * Estimated peak memory of running `design` (module comment). Example: the twin-image demo at 4096 cells (two
+ * far-field holograms, no propagation) → 232 MiB + 4096²·166 bytes ≈ 2.8 GiB.
  */
 export function estimateRunMemory(design: MemoryDesign): RunMemoryEstimate {
   const n = design.setup.cells;
   const cells = n * n;
   const padding = design.simulation?.padding ?? 2;
-  const padded = cells * padding * padding;
   const terms = [...design.channels.a.terms, ...design.channels.b.terms];
-  const holograms = terms.filter((t) => t.kind === 'hologram');
-  const fresnel = holograms.filter((t) => t.fresnelDistanceUm !== undefined).length;
-  const propagates = fresnel > 0 || terms.some((t) => t.kind === 'axicon' || t.kind === 'lens');
+  const propagates = terms.some((t) => t.kind === 'axicon' || t.kind === 'lens' || (t.kind === 'hologram' && t.fresnelDistanceUm !== undefined));
   const parts: RunMemoryPart[] = [
     { what: 'process and helper threads', bytes: PROCESS_BYTES },
     { what: `results of ${n}² cells`, bytes: RESULT_BYTES_PER_CELL * cells },
   ];
-  if (holograms.length) {
-    parts.push({
-      what: `${holograms.length} image hologram${holograms.length === 1 ? '' : 's'}`,
-      bytes: HOLOGRAM_BYTES_PER_CELL * ((holograms.length - fresnel) * cells + fresnel * padded),
-    });
-  }
-  if (propagates) parts.push({ what: `propagation on ${n * padding}² cells`, bytes: PROPAGATION_BYTES_PER_CELL * padded });
+  if (propagates) parts.push({ what: `propagation on ${n * padding}² cells`, bytes: PROPAGATION_BYTES_PER_CELL * cells * padding * padding });
   const bytes = parts.reduce((sum, part) => sum + part.bytes, 0);
   return { bytes, mib: Math.ceil(bytes / MIB), parts };
 }
