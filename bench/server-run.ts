@@ -2,7 +2,9 @@
  * One design through the server's run path — the run queue's piscina pool and run worker
  * (server/components/runs/run-queue.ts, run-worker.ts) — without a database: the design file is validated
  * as a revision would be, handed to the pool as a RunTask, and the wall time from submission to result is
- * printed with the worker's stage timings. Default design: the twin-image demo (two 1024² hologram channels).
+ * printed with the worker's stage timings and the process's peak resident set (VmHWM). The pool threads get the
+ * configured run memory budget as their heap limit (RUN_MEMORY_BUDGET_MB, as the server's pool does).
+ * Default design: the twin-image demo (two 1024² hologram channels).
  * Usage: node --import tsx bench/server-run.ts [DESIGN.json] [--threads N] [--sequential | --parallel]
  * (helper threads inside the run: the queue's default for N pool threads unless forced; N defaults to 1).
  */
@@ -11,7 +13,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { MessageChannel } from 'node:worker_threads';
+import { readFileSync } from 'node:fs';
 import { loadDesignFile } from '../server/cli/design-files';
+import { loadConfig } from '../server/config';
 import { createRunPool, parallelWithinRuns } from '../server/components/runs/run-queue';
 
 const args = process.argv.slice(2);
@@ -22,7 +26,7 @@ const designPath =
   args.find((a, i) => !a.startsWith('--') && (threadsAt < 0 || i !== threadsAt + 1)) ?? fileURLToPath(new URL('../demo-assets/designs/twin-image.json', import.meta.url));
 
 const design = await loadDesignFile(designPath);
-const pool = createRunPool(threads);
+const pool = createRunPool(threads, 0, loadConfig().RUN_MEMORY_BUDGET_MB);
 const workDir = await mkdtemp(join(tmpdir(), 'phasewright-server-run-'));
 try {
   const { port1, port2 } = new MessageChannel();
@@ -42,6 +46,7 @@ try {
       stagesMs: Object.fromEntries(Object.entries(timings).map(([k, v]) => [k, Math.round(v)])),
       files: result.files.length,
       bytes: result.files.reduce((s, f) => s + f.bytes, 0),
+      peakRssMiB: Math.round(Number(/^VmHWM:\s+(\d+) kB/m.exec(readFileSync('/proc/self/status', 'utf8'))?.[1]) / 1024),
     }),
   );
 } finally {
