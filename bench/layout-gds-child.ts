@@ -14,8 +14,11 @@ const [dir] = process.argv.slice(2);
 if (!dir) throw new Error('usage: layout-gds-child.ts OUT_DIR');
 
 const statusKiB = (field: string) => Number(new RegExp(`^${field}:\\s+(\\d+) kB`, 'm').exec(readFileSync('/proc/self/status', 'utf8'))?.[1]);
-/** A file in a buffer of its own (as the server reads a stored artifact for the layout worker). */
-const own = (name: string) => new Uint8Array(readFileSync(join(dir, name)));
+/** A file in a buffer of its own (as the server reads a stored artifact for the layout worker), not copied again. */
+function own(name: string): Uint8Array {
+  const bytes = readFileSync(join(dir, name));
+  return new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+}
 
 const baseKiB = statusKiB('VmRSS');
 const data: LayoutData = {

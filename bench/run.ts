@@ -72,14 +72,14 @@ const load = () => loadavg().map((v) => v.toFixed(2)).join(', ');
 /** Per stage of one run: wall time, highest resident set during it, time per cell. */
 function printStages(row: Row) {
   console.log(`\n${row.label}: per stage (load average ${load()}, 2 cores)`);
-  console.log('stage              |  time s | ns/cell | peak RSS MiB');
-  const names = [...new Set([...Object.keys(row.report.stages), ...Object.keys(row.report.stagePeakKiB)])];
+  console.log('stage (design rules: + metrics) |  time s | ns/cell | peak RSS MiB');
+  const names = [...new Set([...Object.keys(row.report.stagePeakKiB), ...Object.keys(row.report.stages)])];
   for (const name of names) {
     const ms = row.report.stages[name];
     const peak = row.report.stagePeakKiB[name];
     const time = ms === undefined ? '' : (ms / 1000).toFixed(2);
     const perCell = ms === undefined ? '' : ((ms * 1e6) / row.cells).toFixed(0);
-    console.log(`${name.padEnd(18)} | ${time.padStart(7)} | ${perCell.padStart(7)} | ${peak === undefined ? '' : (peak / 1024).toFixed(0).padStart(12)}`);
+    console.log(`${name.padEnd(31)} | ${time.padStart(7)} | ${perCell.padStart(7)} | ${peak === undefined ? '' : (peak / 1024).toFixed(0).padStart(12)}`);
   }
 }
 
