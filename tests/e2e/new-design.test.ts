@@ -5,6 +5,7 @@
  */
 import { Jimp } from 'jimp';
 import { describe, expect, it } from 'vitest';
+import { expectAccessible } from '../support/axe';
 import { screenshot } from '../support/browser';
 import { useDemoBrowser } from '../support/demo-browser';
 
@@ -123,6 +124,8 @@ describe('a new design', () => {
     await page.getByLabel('Array size N × N').selectOption('4096');
     await estimate.filter({ hasText: /^\d+\.\d GiB$/ }).waitFor();
     await page.getByText('This server allows 8.0 GiB per run.').waitFor();
+    await screenshot(page, 'new-design-05-memory-estimate');
+    await expectAccessible(page, 'design composer with a 4096² memory estimate');
     // From the latest revision: a lens in channel A and a tilt in channel B instead of the two pictures, 128² cells.
     await page.getByLabel('Array size N × N').selectOption('128');
     await estimate.filter({ hasText: /^\d+ MiB$/ }).waitFor();
