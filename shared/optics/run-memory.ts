@@ -15,8 +15,9 @@
  * the per-cell constants are the slopes between 2048² and 4096² runs of the twin-image demo (2 iterations,
  * helper threads on and off), a Bessel pair and a Fresnel twin hologram, the constants raised until no measured
  * peak from 1024² to 4096² lay above its estimate. Measured / estimated, MiB: twin image 394 / 398, 880 / 896,
- * 2875 / 2888 (1024², 2048², 4096²); Bessel pair 641 / 674, 1412 / 1520, 4723 / 4904; Fresnel twin hologram
- * 511 / 674, 4455 / 4904. `npm run bench` prints each run's peak beside its estimate.
+ * 2812–2875 / 2888 (1024², 2048², 4096²); an MRAF hologram beside a tilt at 4096² 2711 / 2888; Bessel pair 641 / 674,
+ * 1412 / 1520, 4723–4831 / 4904; Fresnel twin hologram 511 / 674, 4455 / 4904 (a range: helper threads off and on,
+ * where both were measured). `npm run bench` prints each run's peak beside its estimate.
  */
 
 const MIB = 1024 * 1024;
