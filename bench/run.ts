@@ -6,10 +6,10 @@
  *   previews, GDSII), with the channels on two worker threads and, for comparison, one after the other;
  * - 2048² designs for peak memory: the twin image with 20 iterations, and a Bessel pair whose x–z slice
  *   needs 4096² zero-padded propagation;
- * - the twin image at 4096² with 2 iterations per channel, on one thread as the server's default pool runs it:
- *   peak memory (VmHWM of /proc) and, per stage, its time, the highest resident set seen during it and the time
- *   per cell (mapping, design rules and metrics are linear in the cells: their ns per cell should match the
- *   2048² run's); then its GDSII written again through the layout worker's code (bench/layout-gds-child.ts):
+ * - the twin image at 2048² and 4096² with 2 iterations per channel, on one thread as the server's default pool
+ *   runs it: peak memory (VmHWM of /proc) and, per stage, its time, the highest resident set seen during it and
+ *   the time per cell (mapping, design rules and metrics are linear in the cells: their ns per cell should match
+ *   between the two sizes); then the 4096² GDSII written again through the layout worker's code (bench/layout-gds-child.ts):
  *   memory above the two arrays it reads.
  * Every run's peak is printed beside the estimate of shared/optics/run-memory.ts (the calibration check).
  * Targets (issue): demo < 10 s; 2048² < 2 GB peak; 4096² ≤ 6 GB peak; GDSII regeneration ≤ 256 MB above the
@@ -113,19 +113,23 @@ function printRows(rows: Row[]) {
 }
 
 /**
- * The 4096² twin image (2 iterations per channel, one thread as the server's default pool runs a run), then its
- * GDSII written again through the layout worker's code. Prints both; returns the run's row.
+ * The twin image at 2048² and 4096² (2 iterations per channel, one thread as the server's default pool runs a
+ * run: the 2048² run is the per-cell reference of the 4096² one), then the 4096² GDSII written again through the
+ * layout worker's code. Prints them; returns the 4096² run's row.
  */
 function large(scratch: string): Row {
-  const design = derivedDesign('twin-image.json', scratch, 'twin-4096.json', (d) => {
-    d.setup.cells = 4096;
-    for (const c of ['a', 'b']) d.channels[c].terms[0].iterations = 2;
-  });
+  const [reference, design] = [2048, 4096].map((cells) =>
+    derivedDesign('twin-image.json', scratch, `twin-${cells}-2it.json`, (d) => {
+      d.setup.cells = cells;
+      for (const c of ['a', 'b']) d.channels[c].terms[0].iterations = 2;
+    }),
+  );
   const out = join(scratch, 'twin-4096');
-  console.log(`\nLoad average before the 4096² run: ${load()} (2 cores)`);
-  const row = runChild('twin image, 4096², 2×2 it, one thread', design, out, true);
-  printRows([row]);
-  printStages(row);
+  console.log(`\nLoad average before the 2048² and 4096² runs: ${load()} (2 cores)`);
+  const rows = [runChild('twin image, 2048², 2×2 it, one thread', reference, join(scratch, 'twin-2048-2it'), true), runChild('twin image, 4096², 2×2 it, one thread', design, out, true)];
+  printRows(rows);
+  for (const r of rows) printStages(r);
+  const row = rows[1];
   const gds = child<{ arrayBytes: number; baseKiB: number; withArraysKiB: number; peakKiB: number; gdsBytes: number; ms: number }>('GDSII regeneration', GDS_CHILD, [out]);
   const above = (gds.report.peakKiB * 1024 - gds.report.baseKiB * 1024 - gds.report.arrayBytes) / MIB;
   console.log(
