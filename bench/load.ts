@@ -20,22 +20,14 @@
  * The server's environment passes through (e.g. `RUN_WORKERS=1 npm run bench:load`).
  * Target (issue 10): p99 under 100 ms and no errors at 50 connections while a run computes.
  */
-import { spawn } from 'node:child_process';
-import { chmodSync, createWriteStream, existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { availableParallelism, tmpdir } from 'node:os';
+import { readFileSync } from 'node:fs';
 import path from 'node:path';
-import { fileURLToPath } from 'node:url';
+import { availableParallelism } from 'node:os';
 import autocannon from 'autocannon';
-import { loadConfig } from '../server/config';
-import { createSequelize, migrateUp } from '../server/db/database';
-import { DEMO_PASSWORD, DEMO_PEOPLE, seedDemo } from '../server/db/seed-demo';
-import { freePort } from '../scripts/lib/free-port';
-import { startMailFake } from '../scripts/lib/mail-fake';
-import { startMariaDb } from '../scripts/lib/mariadb';
-import { waitForHealth } from '../scripts/lib/wait-for-health';
+import { DEMO_PASSWORD, DEMO_PEOPLE } from '../server/db/seed-demo';
 import { FINISHED_STATUSES, type RunStatus } from '../shared/schemas/runs';
+import { loadAverage, runBenchmark, Session, sleep, startBenchStack } from './lib/stack';
 
-const ROOT = fileURLToPath(new URL('../', import.meta.url));
 const MAX_RUNS_PER_PHASE = 20;
 
 function option(name: string, fallback: string): string {
@@ -52,8 +44,6 @@ if (!(DURATION_S > 0 && DURATION_S <= 600) || !(CONNECTIONS >= 1 && CONNECTIONS 
   throw new RangeError('--duration must be in (0, 600] s and --connections in [1, 1000]');
 }
 
-const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-const loadAverage = () => readFileSync('/proc/loadavg', 'utf8').split(' ').slice(0, 3).join(' ');
 const TICK_MS = 10; // USER_HZ is 100 on Linux
 
 /**
@@ -64,65 +54,6 @@ function cpuMs(pid: number, tid?: number): number {
   const stat = readFileSync(tid === undefined ? `/proc/${pid}/stat` : `/proc/${pid}/task/${tid}/stat`, 'utf8');
   const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
   return (Number(fields[11]) + Number(fields[12])) * TICK_MS;
-}
-
-/** The server's output, shown when something fails (its folder is deleted on the way out). */
-let serverLog = '';
-function printServerLogTail() {
-  if (serverLog && existsSync(serverLog)) console.error(`The server's last lines:\n${readFileSync(serverLog, 'utf8').split('\n').slice(-20).join('\n')}`);
-}
-
-const cleanups: (() => Promise<void>)[] = [];
-let cleaning: Promise<void> | null = null;
-function cleanUp(): Promise<void> {
-  cleaning ??= (async () => {
-    for (const step of cleanups.reverse()) await step().catch((err: unknown) => console.error(err));
-  })();
-  return cleaning;
-}
-for (const signal of ['SIGINT', 'SIGTERM'] as const) {
-  process.on(signal, () => void cleanUp().then(() => process.exit(130)));
-}
-// Whatever goes wrong, stop what was started: MariaDB, the mail fake and the server would otherwise outlive us.
-for (const event of ['uncaughtException', 'unhandledRejection'] as const) {
-  process.on(event, (err: unknown) => {
-    console.error(err instanceof Error ? err.stack : err);
-    printServerLogTail();
-    void cleanUp().then(() => process.exit(1));
-  });
-}
-
-/** A signed-in session of the real server: its cookies (session, and the anonymous CSRF cookie) and CSRF token. */
-class Session {
-  readonly cookies = new Map<string, string>();
-  csrfToken = '';
-  constructor(readonly base: string) {}
-
-  get cookie(): string {
-    return [...this.cookies].map(([name, value]) => `${name}=${value}`).join('; ');
-  }
-
-  async call(method: string, url: string, body?: object) {
-    const res = await fetch(this.base + url, {
-      method,
-      headers: { cookie: this.cookie, 'content-type': 'application/json', 'x-csrf-token': this.csrfToken },
-      body: body ? JSON.stringify(body) : undefined,
-    });
-    for (const setCookie of res.headers.getSetCookie()) {
-      const [pair] = setCookie.split(';');
-      const at = pair.indexOf('=');
-      this.cookies.set(pair.slice(0, at), pair.slice(at + 1));
-    }
-    const json = (await res.json()) as Record<string, any>;
-    if (!res.ok) throw new Error(`${method} ${url}: ${res.status} ${JSON.stringify(json)}`);
-    if (typeof json.csrfToken === 'string') this.csrfToken = json.csrfToken;
-    return json;
-  }
-
-  async signIn(email: string, password: string) {
-    await this.call('GET', '/api/auth/csrf');
-    await this.call('POST', '/api/auth/sign-in', { email, password });
-  }
 }
 
 interface RunRow {
@@ -236,61 +167,8 @@ function printRow(r: PhaseResult) {
 }
 
 async function main() {
-  const dataDir = mkdtempSync(path.join(tmpdir(), 'pw-load-'));
-  // Reachable by the database's own system user (the data folder inside is closed to others by the start code).
-  chmodSync(dataDir, 0o755);
-  cleanups.push(async () => rmSync(dataDir, { recursive: true, force: true }));
-  const [dbPort, smtpPort, mailWebPort, appPort] = [await freePort(), await freePort(), await freePort(), await freePort()];
-  const env = {
-    NODE_ENV: 'production',
-    HOST: '127.0.0.1',
-    PORT: String(appPort),
-    PUBLIC_URL: `http://127.0.0.1:${appPort}`,
-    DB_PORT: String(dbPort),
-    DB_NAME: 'phasewright_load',
-    DB_USER: 'phasewright_load',
-    DB_PASSWORD: 'phasewright-load-password',
-    SMTP_PORT: String(smtpPort),
-    BCRYPT_COST: '4',
-    LOG_LEVEL: process.env.LOG_LEVEL ?? 'warn',
-    CLIENT_DIST: path.join(dataDir, 'no-client'),
-  };
-  const config = loadConfig({ ...process.env, ...env });
-
-  console.log(`Starting MariaDB on 127.0.0.1:${dbPort} and the mail fake (data in ${dataDir})`);
-  const db = await startMariaDb({ dataDir: path.join(dataDir, 'mariadb'), port: dbPort, user: config.DB_USER, password: config.DB_PASSWORD, databases: [config.DB_NAME] });
-  cleanups.push(() => db.stop());
-  const mail = await startMailFake(smtpPort, mailWebPort, ROOT);
-  cleanups.push(() => mail.stop());
-
-  const sequelize = createSequelize(config);
-  await migrateUp(sequelize);
-  await seedDemo(sequelize, config.BCRYPT_COST);
-  await sequelize.close();
-
-  serverLog = path.join(dataDir, 'server.log');
-  const logStream = createWriteStream(serverLog);
   const profiling = CPU_PROFILE_DIR ? ['--cpu-prof', `--cpu-prof-dir=${path.resolve(CPU_PROFILE_DIR)}`] : [];
-  const server = spawn(process.execPath, [...profiling, '--import', 'tsx', 'server/index.ts'], {
-    cwd: ROOT,
-    env: { ...process.env, ...env },
-    stdio: ['ignore', 'pipe', 'pipe'],
-    detached: true,
-  });
-  server.stdout.pipe(logStream);
-  server.stderr.pipe(logStream);
-  cleanups.push(async () => {
-    if (server.exitCode === null && server.signalCode === null) {
-      const exited = new Promise((r) => server.once('exit', r));
-      server.kill('SIGTERM');
-      await Promise.race([exited, sleep(15_000)]);
-      if (server.exitCode === null && server.signalCode === null) server.kill('SIGKILL');
-    }
-  });
-  const base = config.publicUrl;
-  await waitForHealth(`${base}/api/health`, server);
-
-  const dbPid = Number(readFileSync(path.join(dataDir, 'mariadb', 'run', 'mariadbd.pid'), 'utf8'));
+  const { base, config, server, dbPid } = await startBenchStack('load', {}, { serverArgs: profiling });
   const owner = DEMO_PEOPLE.find((p) => p.key === 'tomas')!;
   const session = new Session(base);
   await session.signIn(owner.email, DEMO_PASSWORD);
@@ -344,12 +222,4 @@ async function main() {
   }
 }
 
-main()
-  .then(() => cleanUp())
-  .then(() => process.exit(0))
-  .catch(async (err: unknown) => {
-    console.error(err instanceof Error ? err.stack : err);
-    printServerLogTail();
-    await cleanUp();
-    process.exit(1);
-  });
+runBenchmark(main);

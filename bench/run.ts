@@ -93,7 +93,7 @@ function derivedDesign(source: string, dir: string, name: string, edit: (design:
 
 const largeOnly = process.argv.includes('--large-only');
 const fft = process.argv.includes('--end-to-end-only') || largeOnly ? null : await fftBench();
-if (!process.argv.includes('--end-to-end-only') && !largeOnly) rcwaBench();
+if (!process.argv.includes('--end-to-end-only') && !largeOnly) await rcwaBench();
 const scratch = mkdtempSync(join(tmpdir(), 'phasewright-bench-'));
 try {
   if (largeOnly) large(scratch);

@@ -17,6 +17,7 @@ import { createPassport } from './components/auth/passport';
 import { createSessionStore } from './components/auth/session-store';
 import { fabRoutes } from './components/fab/fab.routes';
 import { healthRoutes } from './components/health/health.routes';
+import { libraryBuildRoutes } from './components/library-builds/library-build.routes';
 import { notificationRoutes } from './components/notifications/notification.routes';
 import { notifyRunFinished } from './components/notifications/notification.service';
 import { projectRoutes } from './components/projects/project.routes';
@@ -114,6 +115,7 @@ export function createApp(ctx: AppContext) {
   api.use('/projects/:projectId/revisions', revisionRoutes());
   api.use('/projects/:projectId/uploads', uploadRoutes(ctx, inputs));
   api.use('/projects/:projectId/atom-libraries', atomLibraryRoutes(config, inputs));
+  api.use('/projects/:projectId/library-builds', libraryBuildRoutes(ctx));
   api.use('/projects/:projectId', runRoutes(ctx));
   api.use('/projects/:projectId', fabRoutes(ctx));
   api.use('/projects/:projectId', reviewRoutes(ctx));

@@ -1,8 +1,12 @@
 import { z } from 'zod';
 import { ATOM_LIBRARY_LIMITS } from '../shared/schemas/atom-libraries';
+import { NK_TABLE_LIMITS } from '../shared/optics/nk-table';
 import { UPLOAD_LIMITS } from '../shared/schemas/uploads';
 
 const MIB = 1024 * 1024;
+
+/** Default PREVIEW_TILES_MAX_SIDE: the full resolution of every design size up to 4096². */
+export const DEFAULT_TILES_MAX_SIDE = 4096;
 
 const flag = z
   .enum(['true', 'false', '1', '0', 'yes', 'no'])
@@ -76,9 +80,9 @@ const envSchema = z.object({
   RUN_LOCK_SECONDS: z.coerce.number().min(0.2).max(3600).default(30),
   /** How often the server compares the queued and running runs with the jobs in Redis and gives any without one a job, s. */
   RUN_QUEUE_RECHECK_SECONDS: z.coerce.number().min(0).max(3600).default(30),
-  /** Queued + running runs (tolerance studies included) one person may have at once, over all projects. */
+  /** Queued + running runs (tolerance studies and library builds included) one person may have at once, over all projects. */
   RUNS_PER_USER: z.coerce.number().int().min(1).default(4),
-  /** Queued + running runs (tolerance studies included) of one project at once. */
+  /** Queued + running runs (tolerance studies and library builds included) of one project at once. */
   RUNS_PER_PROJECT: z.coerce.number().int().min(1).default(8),
   /** A run or tolerance study still running this long after it started is stopped and failed. */
   RUN_TIME_LIMIT_MINUTES: z.coerce.number().positive().default(60),
@@ -88,6 +92,18 @@ const envSchema = z.object({
    * machine running two runs at once beside the server and MariaDB.
    */
   RUN_MEMORY_BUDGET_MB: z.coerce.number().int().min(256, 'use at least 256').max(1_048_576).default(8192),
+  /** A library build still running this long after it started is stopped and failed. */
+  LIBRARY_BUILD_TIME_LIMIT_MINUTES: z.coerce.number().positive().default(30),
+  /**
+   * Largest side in pixels of level 0 of a run's tile pyramids (README "Tile pyramids"); larger designs are
+   * halved to it. 0: runs write no tile pyramids (the run page shows the single preview PNG).
+   */
+  PREVIEW_TILES_MAX_SIDE: z.coerce
+    .number()
+    .int()
+    .max(65_536)
+    .refine((v) => v === 0 || v >= 256, 'use 0 (no tile pyramids) or at least 256, the side of one tile')
+    .default(DEFAULT_TILES_MAX_SIDE),
   /** Bytes one project may store (uploads + run files), in MiB. */
   PROJECT_STORAGE_MB: z.coerce.number().positive().default(2048),
   /** Run event streams (Server-Sent Events) one person may hold open at once. */
@@ -116,6 +132,9 @@ const envSchema = z.object({
   ATOM_CSV_MAX_COLUMNS: z.coerce.number().int().min(10).default(64),
   ATOM_CSV_MAX_LINE_CHARS: z.coerce.number().int().min(80).default(4_000),
   ATOM_CSV_MAX_PROBLEMS: z.coerce.number().int().min(1).default(200),
+  /** Rows of a tabulated n, k material in a library spec (parseLibrarySpec's nkLimits) and of an n, k CSV. */
+  NK_TABLE_MAX_ROWS: z.coerce.number().int().min(2).default(NK_TABLE_LIMITS.maxRows),
+  NK_TABLE_MAX_LINE_CHARS: z.coerce.number().int().min(40).default(NK_TABLE_LIMITS.maxLineChars),
   HEALTH_DB_TIMEOUT_MS: z.coerce.number().int().min(1).max(150, 'keep it under 150 ms: the health check answers within 200 ms').default(50),
 });
 

@@ -31,6 +31,7 @@ import { compareRevisionsQuerySchema, createRevisionSchema } from '../shared/sch
 import { comparePictureQuerySchema, compareRunsQuerySchema } from '../shared/schemas/run-comparison';
 import { listRunsQuerySchema } from '../shared/schemas/runs';
 import { toleranceRequestSchema } from '../shared/schemas/tolerance';
+import { libraryBuildRequestSchema, libraryEstimateRequestSchema } from '../shared/schemas/library-builds';
 import { createUploadSchema } from '../shared/schemas/uploads';
 
 /** Who may call a route: anyone, any signed-in user, a site admin, a session (not a token), or a project role. */
@@ -74,6 +75,8 @@ export const API_ROUTES: ApiRoute[] = [
 
   { method: 'get', path: '/shared/:token', summary: 'The run behind a share link (no account needed)', role: 'public', ok: [200, '`{ projectName, expiresAt, run: RunDetail }`; 404 unknown, 410 revoked or expired'] },
   { method: 'get', path: '/shared/:token/artifacts/:name', summary: 'A file of the shared run', role: 'public', ok: [200, 'The file'] },
+  { method: 'get', path: '/shared/:token/tiles/:picture', summary: 'The tile pyramid of a preview of the shared run', role: 'public', ok: [200, '`{ tiles: TilePyramid }`; 404 without one'] },
+  { method: 'get', path: '/shared/:token/tiles/:picture/:level/:x/:y', summary: 'One tile of a preview of the shared run', role: 'public', ok: [200, 'PNG; 400 bad numbers, 404 outside the pyramid'] },
 
   { method: 'get', path: '/projects', summary: 'Your projects', role: 'user', query: listProjectsQuerySchema, ok: [200, '`{ projects: Project[] }`'] },
   { method: 'post', path: '/projects', summary: 'Create a project (you become its owner)', role: 'user', body: createProjectSchema, ok: [201, '`{ project }`'] },
@@ -107,6 +110,12 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'post', path: `${P}/atom-libraries/:libraryId/share`, summary: 'Share your personal library with the project (only its owner)', role: 'project:design', ok: [200, '`{ atomLibrary }`'] },
   { method: 'delete', path: `${P}/atom-libraries/:libraryId/share`, summary: 'Stop sharing your personal library with the project', role: 'project:design', ok: [200, '`{ atomLibrary }`'] },
 
+  { method: 'post', path: `${P}/library-builds/estimate`, summary: 'Cost of a library build (a formula: atoms × time per atom), with lattice-diffraction warnings', role: 'project:design', body: libraryEstimateRequestSchema, ok: [200, '`{ atoms, harmonics, secondsPerAtom, seconds, basis, warnings }`'] },
+  { method: 'post', path: `${P}/library-builds`, summary: 'Compute an atom library by RCWA on the run workers (counts as a run for the quotas)', role: 'project:design', body: libraryBuildRequestSchema, ok: [202, '`{ build: LibraryBuild }`'] },
+  { method: 'get', path: `${P}/library-builds`, summary: 'Library builds of the project (and your personal ones), newest first', role: 'project:read', ok: [200, '`{ builds: LibraryBuild[] }`'] },
+  { method: 'get', path: `${P}/library-builds/:buildId`, summary: 'One library build with its progress and, once done, its result for the plots', role: 'project:read', ok: [200, '`{ build: LibraryBuild, result: LibraryBuildResult | null }`'] },
+  { method: 'post', path: `${P}/library-builds/:buildId/cancel`, summary: 'Cancel a queued or running library build', role: 'project:design', ok: [200, '`{ build }`'] },
+
   { method: 'post', path: `${P}/revisions/:number/runs`, summary: 'Start a run of a revision', role: 'project:design', ok: [202, '`{ run: RunDetail }`'] },
   { method: 'get', path: `${P}/runs`, summary: 'Runs of the project', role: 'project:read', query: listRunsQuerySchema, ok: [200, '`{ runs: RunSummary[] }`'] },
   { method: 'get', path: `${P}/runs/compare`, summary: 'Two runs of the project side by side: summaries, every metric with Δ and %, the far fields’ common brightness scales', role: 'project:read', query: compareRunsQuerySchema, ok: [200, '`{ comparison: RunComparison }`'] },
@@ -115,6 +124,8 @@ export const API_ROUTES: ApiRoute[] = [
   { method: 'post', path: `${P}/runs/:runId/cancel`, summary: 'Cancel a queued or running run', role: 'project:design', ok: [200, '`{ run }`'] },
   { method: 'delete', path: `${P}/runs/:runId/files`, summary: 'Delete a finished run’s files (the run, its metrics and events stay)', role: 'project:design', ok: [200, '`{ run }` with filesDeletedAt'] },
   { method: 'get', path: `${P}/runs/:runId/artifacts/:name`, summary: 'A file of a run', role: 'project:read', ok: [200, 'The file'] },
+  { method: 'get', path: `${P}/runs/:runId/tiles/:picture`, summary: 'The tile pyramid of a preview (README "Tile pyramids"): size, tile size, levels', role: 'project:read', ok: [200, '`{ tiles: TilePyramid }`; 404 without one'] },
+  { method: 'get', path: `${P}/runs/:runId/tiles/:picture/:level/:x/:y`, summary: 'One 256-px tile of a preview (level 0 = full resolution; x, y from the top left)', role: 'project:read', ok: [200, 'PNG; 400 bad numbers, 404 outside the pyramid'] },
   { method: 'get', path: `${P}/runs/:runId/events`, summary: 'Server-Sent Events following a run (at most EVENT_STREAMS_PER_USER open per person)', role: 'project:read', ok: [200, 'text/event-stream of `update` events, and `end` when access was lost'] },
   { method: 'post', path: `${P}/runs/:runId/tolerance`, summary: 'Start a tolerance study of a finished run', role: 'project:design', body: toleranceRequestSchema, ok: [202, '`{ study }`'] },
   { method: 'get', path: `${P}/runs/:runId/tolerance`, summary: 'Tolerance studies of a run', role: 'project:read', ok: [200, '`{ studies }`'] },

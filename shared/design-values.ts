@@ -14,6 +14,7 @@ export const DESIGN_VALUE_WORDS: Readonly<Record<string, Readonly<Record<string,
   kind: { linear: 'linear', circular: 'circular', elliptical: 'elliptical', plane: 'plane wave', gaussian: 'Gaussian beam', ...PHASE_TERM_LABELS },
   handedness: { left: 'left-handed', right: 'right-handed' },
   source: { demo: 'demo', upload: 'uploaded file', file: 'file', library: 'project library' },
+  lightFrom: { substrate: 'through the substrate', superstrate: 'onto the pillars (from the superstrate)' },
 };
 
 /**

@@ -11,6 +11,7 @@ import { fileURLToPath } from 'node:url';
 import { DEMO_IMAGE_FILES } from '../../shared/demo-assets';
 import { parseAtomLibraryCsv, type AtomLibrary } from '../../shared/optics/atoms';
 import { demoAtomLibrary } from '../../shared/optics/demo-library';
+import { designCellNotes } from '../../shared/optics/library-builder';
 import { decodeNpy } from '../../shared/optics/npy-decode';
 import type { DesignResources } from '../../shared/optics/pipeline';
 import type { GrayImage } from '../../shared/optics/target';
@@ -149,7 +150,23 @@ async function readLibrary(design: Design, folder: string): Promise<{ library: A
     throw new InputError(`atomLibrary: library ${ref.id} lives on the Phasewright server; on the command line use { "source": "demo" } or { "source": "file", "path": … }`);
   }
   if (library.approximate) warnings.push(`atom library "${library.name}" is APPROXIMATE (${library.source ?? 'no full-wave data'})`);
+  warnings.push(...cellWarnings(design, library));
   return { library, warnings };
+}
+
+/** The light side against the library's, the lattice's own diffraction, and the layout's view for light onto the pillars. */
+export function cellWarnings(design: Design, library: AtomLibrary): string[] {
+  const warnings: string[] = [];
+  const notes = designCellNotes(design.setup, library);
+  if (notes.sideMismatch) warnings.push(`atom library "${library.name}": ${notes.sideMismatch}`);
+  for (const d of notes.diffraction) warnings.push(`lattice diffraction: ${d.message}`);
+  if (design.setup.lightFrom === 'superstrate') {
+    warnings.push(
+      'setup.lightFrom: the light falls onto the pillars, so the previews and the layout files are seen from the substrate side (where the light goes); ' +
+        'a mask is drawn seen from above the pillars: mirror the layout left–right (x → −x) for the mask, or the device projects its pictures mirrored (a circular pair also exchanges its two handednesses)',
+    );
+  }
+  return warnings;
 }
 
 /** Resolves every file a design refers to (relative to `designPath`'s folder) into engine resources. */

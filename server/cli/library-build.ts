@@ -6,9 +6,10 @@
  * Progress on stderr; exit codes as `run`.
  */
 import { readFile, writeFile, mkdir } from 'node:fs/promises';
-import { dirname, resolve } from 'node:path';
+import { basename, dirname, extname, resolve } from 'node:path';
 import { atomLibraryToCsv, checkAtomLibrary } from '../../shared/optics/atoms';
 import { buildAtomLibrary, LibrarySpecError, parseLibrarySpec, type BuiltAtomPowers, type LibrarySpec, type SweepAtom } from '../../shared/optics/library-builder';
+import { NkTableError, parseNkTableCsv, type NkTable } from '../../shared/optics/nk-table';
 import { InputError } from './design-files';
 import { startTsWorker } from './ts-worker';
 
@@ -49,8 +50,11 @@ export function parseLibraryBuildArgs(rest: string[]): LibraryBuildArgs {
   return { spec, out, threads };
 }
 
-/** `count` worker threads computing sweep atoms of `spec`; compute(index, lane) runs on worker `lane`. */
-function workerPool(spec: LibrarySpec, count: number) {
+/**
+ * `count` worker threads computing sweep atoms of `spec`; compute(index, lane) runs on worker `lane`. Also the
+ * lanes of a library build on the run workers (server/components/library-builds/library-build-task.ts).
+ */
+export function libraryWorkerPool(spec: LibrarySpec, count: number) {
   const pending = new Map<number, { resolve: (r: SweepAtom) => void; reject: (e: Error) => void }>();
   let nextId = 0;
   const workers = Array.from({ length: count }, () => {
@@ -78,6 +82,44 @@ function workerPool(spec: LibrarySpec, count: number) {
   };
 }
 
+/**
+ * Replaces each material given as { "nkCsv": "file.csv", "name"?: …, "source"?: … } (path relative to the spec's
+ * folder) by the tabulated material the spec format holds, { name, source, table }. Throws InputError naming the
+ * field and the file.
+ */
+export async function readNkCsvMaterials(json: unknown, folder: string): Promise<unknown> {
+  if (json === null || typeof json !== 'object' || Array.isArray(json)) return json;
+  const out: Record<string, unknown> = { ...(json as Record<string, unknown>) };
+  for (const field of ['pillar', 'substrate', 'superstrate']) {
+    const value = out[field];
+    if (value === null || typeof value !== 'object' || !('nkCsv' in value)) continue;
+    const o = value as Record<string, unknown>;
+    const extra = Object.keys(o).filter((key) => !['nkCsv', 'name', 'source'].includes(key));
+    if (extra.length > 0) throw new InputError(`${field}: unknown key ${extra.join(', ')} beside nkCsv (give nkCsv, and optionally name and source)`);
+    if (typeof o.nkCsv !== 'string' || o.nkCsv === '') throw new InputError(`${field}.nkCsv: give the path of an n, k table (CSV: wavelength_nm,n,k), relative to the spec`);
+    const file = resolve(folder, o.nkCsv);
+    let text: string;
+    try {
+      text = await readFile(file, 'utf8');
+    } catch (error) {
+      throw new InputError(`${field}.nkCsv: cannot read ${file} (${(error as NodeJS.ErrnoException).code ?? (error as Error).message})`);
+    }
+    let table: NkTable;
+    try {
+      table = parseNkTableCsv(text);
+    } catch (error) {
+      if (error instanceof NkTableError) throw new InputError(`${field}.nkCsv: ${file}, ${error.message}`);
+      throw error;
+    }
+    out[field] = {
+      name: typeof o.name === 'string' ? o.name : table.name || basename(file, extname(file)),
+      source: typeof o.source === 'string' ? o.source : table.source || `n, k table ${basename(file)}`,
+      table: table.points,
+    };
+  }
+  return out;
+}
+
 function powersCsv(powers: BuiltAtomPowers[]): string {
   const lines = ['atom_id,zero_order_T_x,zero_order_T_y,other_orders_T_x,other_orders_T_y,R_x,R_y'];
   for (const p of powers) lines.push([p.id, p.zeroOrderX, p.zeroOrderY, p.otherOrdersX, p.otherOrdersY, p.reflectedX, p.reflectedY].join(','));
@@ -100,7 +142,7 @@ export async function libraryBuildCommand(args: LibraryBuildArgs): Promise<numbe
     } catch (error) {
       throw new InputError(`${args.spec} is not valid JSON: ${(error as Error).message}`);
     }
-    resolved = parseLibrarySpec(json);
+    resolved = parseLibrarySpec(await readNkCsvMaterials(json, dirname(resolve(args.spec))));
   } catch (error) {
     if (error instanceof InputError) process.stderr.write(`phasewright: ${error.message}\n`);
     else if (error instanceof LibrarySpecError) {
@@ -116,7 +158,7 @@ export async function libraryBuildCommand(args: LibraryBuildArgs): Promise<numbe
   const h = resolved.spec.harmonics;
   const threads = Math.min(args.threads, n * n);
   process.stderr.write(`library build: ${n} × ${n} = ${n * n} atoms at ${h}×${h} harmonics, ${threads > 1 ? `${threads} worker threads` : 'one thread'}\n`);
-  const pool = threads > 1 ? workerPool(resolved.spec, threads) : undefined;
+  const pool = threads > 1 ? libraryWorkerPool(resolved.spec, threads) : undefined;
   let lastPercent = -100;
   let lastTime = 0;
   try {

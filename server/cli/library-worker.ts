@@ -4,11 +4,11 @@
  * { id, type: 'error', message }.
  */
 import { parentPort, workerData } from 'node:worker_threads';
-import { computeSweepAtom, parseLibrarySpec } from '../../shared/optics/library-builder';
+import { computeSweepAtom, CHECKED_SPEC, parseLibrarySpec } from '../../shared/optics/library-builder';
 
 if (!parentPort) throw new Error('library-worker.ts runs as a worker thread only');
 const port = parentPort;
-const resolved = parseLibrarySpec((workerData as { spec: unknown }).spec);
+const resolved = parseLibrarySpec((workerData as { spec: unknown }).spec, CHECKED_SPEC);
 
 port.on('message', ({ id, index }: { id: number; index: number }) => {
   try {

@@ -9,6 +9,7 @@ import type { LayoutFilesData, OutputHelper } from './outputs';
 import type { OutputJob } from './output-worker';
 import type { RunFarFields } from '../../shared/optics/pipeline';
 import type { WrittenFile } from './previews';
+import type { TileOptions } from './tiles';
 import { shareArrays } from './shared-copies';
 import { startTsWorker } from './ts-worker';
 
@@ -53,8 +54,8 @@ export function startOutputWorker(): OutputWorker {
       worker.postMessage({ ...job, data: shareArrays(job.data), id });
     });
   return {
-    writeLayout: (dir: string, data: LayoutFilesData) => send({ job: 'layout', dir, data }),
-    writeFarFieldPreviews: (dir: string, data: RunFarFields) => send({ job: 'far fields', dir, data }),
+    writeLayout: (dir: string, data: LayoutFilesData, tiles?: TileOptions | null) => send({ job: 'layout', dir, data, tiles }),
+    writeFarFieldPreviews: (dir: string, data: RunFarFields, tiles?: TileOptions | null) => send({ job: 'far fields', dir, data, tiles }),
     async close() {
       await worker.terminate();
     },

@@ -10,8 +10,9 @@ import type { RunFarFields } from '../../shared/optics/pipeline';
 import { writeFarFieldPreviews, writeLayoutFiles, type LayoutFilesData } from './outputs';
 import { encodePng } from './png';
 import type { WrittenFile } from './previews';
+import type { TileOptions } from './tiles';
 
-export type OutputJob = { id: number; dir: string } & ({ job: 'layout'; data: LayoutFilesData } | { job: 'far fields'; data: RunFarFields });
+export type OutputJob = { id: number; dir: string; tiles?: TileOptions | null } & ({ job: 'layout'; data: LayoutFilesData } | { job: 'far fields'; data: RunFarFields });
 
 // Load the PNG encoder now, while the engine still runs on the main thread.
 await encodePng({ width: 1, height: 1, data: new Uint8ClampedArray(4) });
@@ -21,7 +22,7 @@ const port = parentPort;
 let queue: Promise<void> = Promise.resolve();
 
 function perform(job: OutputJob): Promise<WrittenFile[]> {
-  return job.job === 'layout' ? writeLayoutFiles(job.dir, job.data) : writeFarFieldPreviews(job.dir, job.data);
+  return job.job === 'layout' ? writeLayoutFiles(job.dir, job.data, job.tiles) : writeFarFieldPreviews(job.dir, job.data, job.tiles);
 }
 
 port.on('message', (job: OutputJob) => {

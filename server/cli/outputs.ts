@@ -16,12 +16,13 @@
  */
 import { open, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
-import { atomLibraryToCsv, type AtomLibrary } from '../../shared/optics/atoms';
+import { atomLibraryToCsv, LIGHT_SIDE_LABELS, type AtomLibrary } from '../../shared/optics/atoms';
 import { gdsiiChunks } from '../../shared/optics/gdsii';
 import { npyChunks, type NpyArray } from '../../shared/optics/npy';
 import { CHANNEL_IDS, type ChannelId, type DesignRun, type RunFarFields, type RunLayout } from '../../shared/optics/pipeline';
 import { drcRecord } from './drc-record';
 import { beamPreviewDataOf, farFieldPreviewDataOf, mapPreviewPainters, resultPreviewPainters, pictureFramesOf, writePainted, type WrittenFile } from './previews';
+import { farFieldTiledPictures, mapTiledPictures, writeTilePyramids, type TileOptions } from './tiles';
 
 export type { WrittenFile } from './previews';
 
@@ -80,6 +81,7 @@ export function metricsRecord(run: DesignRun): Record<string, unknown> {
     'Far fields: fftshifted (zero order at pixel (N/2, N/2)), unitary (sum = power), direction-cosine step λ/(N·P), evanescent pixels zero.',
     'Pictures: x (u) to the right, y (v) up, seen facing the device from the side the light goes to; arrays are [iy, ix] with iy growing with y, so numpy shows them this way with imshow(origin="lower").',
   ];
+  notes.push(`Light enters ${LIGHT_SIDE_LABELS[run.design.setup.lightFrom]} (setup.lightFrom).`);
   if (run.library.approximate) notes.push(`The atom library "${run.library.name}" is APPROXIMATE: ${run.library.source ?? 'not from full-wave data'}.`);
   if (beamLike) {
     notes.push(
@@ -90,7 +92,7 @@ export function metricsRecord(run: DesignRun): Record<string, unknown> {
   return {
     format: 'phasewright-metrics/1',
     design: run.design.name,
-    grid: { cells: run.grid.n, periodM: run.grid.period, wavelengthM: run.grid.lambda },
+    grid: { cells: run.grid.n, periodM: run.grid.period, wavelengthM: run.grid.lambda, lightFrom: run.design.setup.lightFrom },
     library: { name: run.library.name, atoms: run.library.atoms.length, approximate: run.library.approximate, source: run.library.source ?? null },
     inputs: { a: run.inputs.a, b: run.inputs.b, extra: run.inputs.extra },
     inputsMeaning: 'unit Jones vectors [[x.re, x.im], [y.re, y.im]] of input A, its orthogonal partner B, and the extra preview input',
@@ -143,8 +145,8 @@ export function layoutFilesDataOf(layout: RunLayout): LayoutFilesData {
 
 /** Another thread that writes files of a run (output-helper.ts). */
 export interface OutputHelper {
-  writeLayout(dir: string, data: LayoutFilesData): Promise<WrittenFile[]>;
-  writeFarFieldPreviews(dir: string, result: RunFarFields): Promise<WrittenFile[]>;
+  writeLayout(dir: string, data: LayoutFilesData, tiles?: TileOptions | null): Promise<WrittenFile[]>;
+  writeFarFieldPreviews(dir: string, result: RunFarFields, tiles?: TileOptions | null): Promise<WrittenFile[]>;
 }
 
 function npyWriter(dir: string, n: number, files: WrittenFile[]) {
@@ -160,8 +162,11 @@ function textWriter(dir: string, files: WrittenFile[]) {
   };
 }
 
-/** Writes the layout files into `dir`: phase_a/b, delta_x/y, theta, atom_index (.npy), atoms.csv, layout.gds, the map previews. */
-export async function writeLayoutFiles(dir: string, data: LayoutFilesData): Promise<WrittenFile[]> {
+/**
+ * Writes the layout files into `dir`: phase_a/b, delta_x/y, theta, atom_index (.npy), atoms.csv, layout.gds, the
+ * map previews, and with `tiles` their tile pyramids (tiles.ts).
+ */
+export async function writeLayoutFiles(dir: string, data: LayoutFilesData, tiles?: TileOptions | null): Promise<WrittenFile[]> {
   const files: WrittenFile[] = [];
   const { n } = data;
   const npy = npyWriter(dir, n, files);
@@ -179,12 +184,15 @@ export async function writeLayoutFiles(dir: string, data: LayoutFilesData): Prom
   files.push({ name: 'layout.gds', bytes: gdsBytes });
   const maps = { n, phases: data.phases, atomIndex: data.atomIndex, atomCount: data.library.atoms.length, theta: data.theta };
   files.push(...(await writePainted(dir, mapPreviewPainters(maps))));
+  if (tiles) files.push(...(await writeTilePyramids(dir, mapTiledPictures(maps, tiles), n)));
   return files;
 }
 
-/** Paints the far-field previews into `dir`: the total and the output components under each input. */
-export function writeFarFieldPreviews(dir: string, result: RunFarFields): Promise<WrittenFile[]> {
-  return writePainted(dir, resultPreviewPainters(farFieldPreviewDataOf(result)));
+/** Paints the far-field previews into `dir`: the total and the output components under each input; with `tiles` the totals' pyramids. */
+export async function writeFarFieldPreviews(dir: string, result: RunFarFields, tiles?: TileOptions | null): Promise<WrittenFile[]> {
+  const files = await writePainted(dir, resultPreviewPainters(farFieldPreviewDataOf(result)));
+  if (tiles) files.push(...(await writeTilePyramids(dir, farFieldTiledPictures(result, tiles), result.grid.n)));
+  return files;
 }
 
 /** Files a helper thread is already writing: the layout files and the far-field previews. */
@@ -196,11 +204,12 @@ export interface EarlyFiles {
 /**
  * Writes every output of a run into `dir` (which must exist) and returns the files: the layout files, the
  * far-field previews, then farfield_a/b.npy, design.json, metrics.json, drc.json and the beam and image-plane
- * previews. What `early` holds is awaited instead of written here.
+ * previews; with `tiles` the pyramids of the far-field totals and maps. What `early` holds is awaited instead of
+ * written here.
  */
-export async function writeRunOutputs(run: DesignRun, dir: string, early: EarlyFiles = {}): Promise<WrittenFile[]> {
-  const layout = early.layout ?? writeLayoutFiles(dir, layoutFilesDataOf({ ...run, phases: { a: run.channels.a.phase, b: run.channels.b.phase } }));
-  const farFieldPreviews = early.farFieldPreviews ?? writeFarFieldPreviews(dir, { ...run, windows: fourierWindows(run) });
+export async function writeRunOutputs(run: DesignRun, dir: string, early: EarlyFiles = {}, tiles?: TileOptions | null): Promise<WrittenFile[]> {
+  const layout = early.layout ?? writeLayoutFiles(dir, layoutFilesDataOf({ ...run, phases: { a: run.channels.a.phase, b: run.channels.b.phase } }), tiles);
+  const farFieldPreviews = early.farFieldPreviews ?? writeFarFieldPreviews(dir, { ...run, windows: fourierWindows(run) }, tiles);
   // Settle both even if writing the files below fails, so no rejection goes unobserved.
   layout.catch(() => undefined);
   farFieldPreviews.catch(() => undefined);

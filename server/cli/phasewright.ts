@@ -11,6 +11,7 @@
 import { resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { formatMetricValue, INPUT_NAMES } from '../../shared/display-names';
+import { LIGHT_SIDE_LABELS } from '../../shared/optics/atoms';
 import { DesignUnitsError } from '../../shared/optics/design-units';
 import { CHANNEL_IDS } from '../../shared/optics/pipeline';
 import type { Metric, MetricGroup } from '../../shared/optics/run-metrics';
@@ -102,7 +103,7 @@ function formatBytes(bytes: number): string {
 export function summary(result: RunFileResult, outDir: string): string {
   const { run, files, timings } = result;
   const lines = [
-    `Phasewright run of "${run.design.name}": ${run.grid.n}×${run.grid.n} cells, P = ${(run.grid.period * 1e9).toFixed(1)} nm, λ = ${(run.grid.lambda * 1e9).toFixed(1)} nm, ${run.design.polarization.kind} pair`,
+    `Phasewright run of "${run.design.name}": ${run.grid.n}×${run.grid.n} cells, P = ${(run.grid.period * 1e9).toFixed(1)} nm, λ = ${(run.grid.lambda * 1e9).toFixed(1)} nm, ${run.design.polarization.kind} pair, light ${LIGHT_SIDE_LABELS[run.design.setup.lightFrom]}`,
     `Atom library: ${run.library.name} (${run.library.atoms.length} atoms${run.library.approximate ? ', APPROXIMATE' : ''})`,
     '',
   ];

@@ -117,13 +117,13 @@ export function beamPreviewDataOf(run: DesignRun): ResultPreviewData {
 }
 
 /** Power-of-two pooling factor that brings side n down to at most `maxSide`. Example: previewFactor(2048) → 2. */
-function previewFactor(n: number, maxSide = PREVIEW_MAX_SIDE): number {
+export function previewFactor(n: number, maxSide = PREVIEW_MAX_SIDE): number {
   let factor = 1;
   while (n / factor > maxSide) factor *= 2;
   return factor;
 }
 
-type OutlinedWindow = { window: PixelWindow; color: Rgb };
+export type OutlinedWindow = { window: PixelWindow; color: Rgb };
 
 /**
  * Full scale of a far-field preview (m×m map): its brightest pixel more than 2 px away from the zero order
@@ -211,16 +211,16 @@ export function screenPreview(view: ScreenView, color: Rgb): RgbaImage {
 /** A preview file name and the function that paints it (nothing is painted until it is called). */
 export type Painter = [name: string, paint: () => RgbaImage];
 
-/** Side of the map previews and the factor `small` subsamples an N×N map by to get there. */
-function mapPreviewSize(n: number) {
-  const factor = previewFactor(n);
-  const small = <T extends Float64Array | Int32Array>(values: T): T => (factor > 1 ? subsampleMap(values, n, factor) : values);
-  return { m: n / factor, small };
-}
-
 /** The map previews: phase_a.png, phase_b.png, atom_index.png, rotation.png. */
 export function mapPreviewPainters(data: MapPreviewData): Painter[] {
-  const { m, small } = mapPreviewSize(data.n);
+  return mapPainters(data, previewFactor(data.n));
+}
+
+/** The map pictures with every `factor`-th cell of the N×N maps (mapPreviewPainters: the preview's factor). */
+export function mapPainters(data: MapPreviewData, factor: number): Painter[] {
+  const { n } = data;
+  const m = n / factor;
+  const small = <T extends Float64Array | Int32Array>(values: T): T => (factor > 1 ? subsampleMap(values, n, factor) : values);
   return [
     ['phase_a.png', () => upright(paintPhase(small(data.phases.a), m, m))],
     ['phase_b.png', () => upright(paintPhase(small(data.phases.b), m, m))],
@@ -230,24 +230,24 @@ export function mapPreviewPainters(data: MapPreviewData): Painter[] {
   ];
 }
 
+/** The target windows outlined on the far field under `input`: its own channel's, both under the extra input. */
+export function outlinedWindows(windows: Partial<Record<ChannelId, PixelWindow>>, input: InputId): OutlinedWindow[] {
+  const ids: ChannelId[] = input === 'extra' ? ['a', 'b'] : [input];
+  return ids.flatMap((c) => (windows[c] ? [{ window: windows[c]!, color: WINDOW_COLORS[c] }] : []));
+}
+
 /** The result previews, in writing order: far fields of the inputs present, x–z slices, Fresnel image planes. */
 export function resultPreviewPainters(data: ResultPreviewData): Painter[] {
   const { n } = data;
-  const windowsOf = (ids: ChannelId[]) => ids.flatMap((c) => (data.windows[c] ? [{ window: data.windows[c]!, color: WINDOW_COLORS[c] }] : []));
-  const farFieldInputs: [InputId, ChannelId[]][] = [
-    ['a', ['a']],
-    ['b', ['b']],
-    ['extra', ['a', 'b']],
-  ];
   const factor = previewFactor(n);
   const m = n / factor;
   const painters: Painter[] = [];
   const componentFactor = previewFactor(n, COMPONENT_MAX_SIDE);
   const componentSide = n / componentFactor;
-  for (const [input, ids] of farFieldInputs) {
+  for (const input of INPUT_IDS) {
     const maps = data.farFields[input];
     if (!maps) continue;
-    const windows = windowsOf(ids);
+    const windows = outlinedWindows(data.windows, input);
     painters.push([`farfield_${input}.png`, () => paintFarField(maps.total, m, factor, windows, farFieldFullScale(maps.total, m))]);
     // Every component on the scale of the total, pooled like the component pictures.
     let scale: number | undefined;

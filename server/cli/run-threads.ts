@@ -9,6 +9,7 @@ import type { ChannelRetriever, DesignRun, RunOptions } from '../../shared/optic
 import { startOutputWorker, type OutputWorker } from './output-helper';
 import { layoutFilesDataOf, writeRunOutputs, type EarlyFiles, type WrittenFile } from './outputs';
 import { createWorkerRetriever } from './parallel-retrieval';
+import type { TileOptions } from './tiles';
 
 export interface RunThreads {
   /** For `resources.retrieveChannels`; undefined: retrieve on the caller's thread. */
@@ -29,8 +30,11 @@ export interface RunThreads {
 /** Retrieval workers started with the run's helpers (one per channel), loading while the inputs are read. */
 const WARM_RETRIEVAL_WORKERS = 2;
 
-/** Helper threads for one run when `parallel`; none otherwise. Create it before reading the inputs. */
-export function runThreads(parallel: boolean): RunThreads {
+/**
+ * Helper threads for one run when `parallel`; none otherwise. Create it before reading the inputs. With `tiles`
+ * the run also writes the tile pyramids of its far fields and maps (tiles.ts).
+ */
+export function runThreads(parallel: boolean, tiles?: TileOptions | null): RunThreads {
   let helper: OutputWorker | undefined;
   const early: EarlyFiles = {};
   // Observed at once so a run that fails later leaves no unhandled rejection; writeOutputs awaits them.
@@ -49,11 +53,11 @@ export function runThreads(parallel: boolean): RunThreads {
       parallel
         ? {
             memory: 'shared',
-            onLayout: (layout) => (early.layout = keep(startHelper().writeLayout(dir, layoutFilesDataOf(layout)))),
-            onFarFields: (result) => (early.farFieldPreviews = keep(startHelper().writeFarFieldPreviews(dir, result))),
+            onLayout: (layout) => (early.layout = keep(startHelper().writeLayout(dir, layoutFilesDataOf(layout), tiles))),
+            onFarFields: (result) => (early.farFieldPreviews = keep(startHelper().writeFarFieldPreviews(dir, result, tiles))),
           }
         : {},
-    writeOutputs: (run, dir) => writeRunOutputs(run, dir, early),
+    writeOutputs: (run, dir) => writeRunOutputs(run, dir, early, tiles),
     async close() {
       await Promise.all([helper?.close(), retriever?.close()]);
     },

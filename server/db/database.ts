@@ -17,6 +17,7 @@ import { ProjectActivityModel, ReviewCommentModel, ReviewThreadModel } from '../
 import { RevisionModel } from '../components/revisions/revision.model';
 import { ShareLinkModel } from '../components/share-links/share-link.model';
 import { RunArtifactChunkModel, RunArtifactModel, RunEventModel, RunModel } from '../components/runs/run.model';
+import { LibraryBuildModel } from '../components/library-builds/library-build.model';
 import { ToleranceStudyModel } from '../components/tolerance/tolerance.model';
 import { UploadModel } from '../components/uploads/upload.model';
 import { UserModel } from '../components/users/user.model';
@@ -63,6 +64,7 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
     ShareLinkModel,
     AuditEventModel,
     AtomLibraryShareModel,
+    LibraryBuildModel,
   ]) {
     model.initModel(sequelize);
   }
@@ -86,6 +88,7 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
   ProjectActivityModel.belongsTo(UserModel, { as: 'actor', foreignKey: 'actorId' });
   NotificationModel.belongsTo(UserModel, { as: 'actor', foreignKey: 'actorId' });
   NotificationModel.belongsTo(ProjectModel, { as: 'project', foreignKey: 'projectId' });
+  LibraryBuildModel.belongsTo(UserModel, { as: 'createdBy', foreignKey: 'createdById' });
   watchAccessWrites();
   watchRunDetailWrites();
   bindSelect(sequelize);

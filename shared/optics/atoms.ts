@@ -6,6 +6,8 @@
  * device the pillar of a cell is rotated by the cell's θ (counter-clockwise, x towards y), so its
  * Jones matrix is R(θ)·diag(tx e^{iαx}, ty e^{iαy})·R(θ)ᵀ (exp(−iωt), radians, metres).
  */
+import { DESIGN_VALUE_WORDS } from '../design-values';
+import { LIGHT_SIDES } from '../schemas/design';
 import { float64Array, int32Array, type ArrayMemory } from './arrays';
 import type { CancelSignal, ComplexField, JonesField, ProgressCallback } from './types';
 import type { JonesDecomposition } from './jones';
@@ -52,6 +54,49 @@ export interface AtomLibraryMeta {
   approximate: boolean;
   /** Where the numbers come from. */
   source?: string;
+}
+
+/** Where the light enters a cell: through the substrate (exiting into the superstrate), or onto the pillars from the superstrate. */
+export type LightSide = (typeof LIGHT_SIDES)[number];
+export { LIGHT_SIDES };
+
+/** How a side is named to a person (the design's words for setup.lightFrom). */
+export const LIGHT_SIDE_LABELS = DESIGN_VALUE_WORDS.lightFrom as Readonly<Record<LightSide, string>>;
+
+/** What a library says about its cell: the light's side and the half-spaces' indices, each when known. */
+export interface LibraryMedia {
+  lightFrom?: LightSide;
+  substrateIndex?: number;
+  superstrateIndex?: number;
+}
+
+/**
+ * The words a library's source line uses for its cell, which `libraryMedia` reads back: the library's source is
+ * kept wherever the library goes (CSV, the server's library rows, a run's atoms.csv), so no other field is needed.
+ * Example: mediaPhrase({ lightFrom: 'substrate', substrateIndex: 1.457012, superstrateIndex: 1 }) →
+ * 'light from the substrate side (substrate n = 1.4570, superstrate n = 1.0000)'.
+ */
+export function mediaPhrase(media: Required<LibraryMedia>): string {
+  return `light from the ${media.lightFrom} side (substrate n = ${media.substrateIndex.toFixed(4)}, superstrate n = ${media.superstrateIndex.toFixed(4)})`;
+}
+
+/**
+ * The light's side and the half-spaces' indices a library's source line states in `mediaPhrase`'s words (the side
+ * alone when the indices are missing; nothing when the line does not say). Example: libraryMedia({ source: 'RCWA …;
+ * light from the superstrate side (substrate n = 1.4570, superstrate n = 1.0000)' }) → { lightFrom: 'superstrate',
+ * substrateIndex: 1.457, superstrateIndex: 1 }.
+ */
+export function libraryMedia(library: { source?: string | null }): LibraryMedia {
+  const m = /light from the (substrate|superstrate) side(?: \(substrate n = ([0-9.]+), superstrate n = ([0-9.]+)\))?/i.exec(library.source ?? '');
+  if (!m) return {};
+  const out: LibraryMedia = { lightFrom: m[1].toLowerCase() as LightSide };
+  const sub = Number(m[2]);
+  const sup = Number(m[3]);
+  if (m[2] && Number.isFinite(sub) && sub > 0 && m[3] && Number.isFinite(sup) && sup > 0) {
+    out.substrateIndex = sub;
+    out.superstrateIndex = sup;
+  }
+  return out;
 }
 
 /** A typed library: metadata plus atoms. */

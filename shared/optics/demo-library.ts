@@ -12,7 +12,7 @@
  *   √(W² + L²) ≤ P − minGap (derivation in `demoLibraryRules`);
  * - height / smallest side ≤ height / minSize (10 with the defaults).
  */
-import type { AtomLibrary, MetaAtom } from './atoms';
+import { mediaPhrase, type AtomLibrary, type MetaAtom } from './atoms';
 import { pillarTransmission } from './effective-index';
 import { fusedSilicaIndex, siliconNitrideIndex } from './materials';
 
@@ -118,6 +118,13 @@ export function demoAtomLibrary(options: DemoLibraryOptions = {}): AtomLibrary {
     }
   }
   const nm = (m: number): string => `${Math.round(m * 1e9)} nm`;
+  // Light enters through the substrate (the model's Fresnel factors go substrate → pillar → air). When P ≥ λ/n_sub
+  // the substrate side diffracts the reflected light; the air side (P < λ) does not, so all transmitted light
+  // stays in the zeroth order, but RCWA gives less of it than this model (README "Demo library against RCWA").
+  // The source stays within the 500 characters a stored library keeps.
+  const limit = o.lambda / nSubstrate;
+  const cell = ` Computed for ${mediaPhrase({ lightFrom: 'substrate', substrateIndex: nSubstrate, superstrateIndex: nAmbient })}.`;
+  const lattice = o.period >= limit ? ` P ≥ λ/n = ${(limit * 1e9).toFixed(1)} nm in the substrate: reflected light diffracts there; RCWA transmits less (README).` : '';
   return {
     name: `Demo Si₃N₄ pillars, ${nm(o.lambda)} (approximate)`,
     lambda: o.lambda,
@@ -128,7 +135,9 @@ export function demoAtomLibrary(options: DemoLibraryOptions = {}): AtomLibrary {
     source:
       'APPROXIMATE model, not full-wave data: effective-index method for the fundamental mode of each ' +
       'polarization (Knox & Toulios 1970; Marcatili 1969), phase k·(n_eff − 1)·H relative to a bare cell, ' +
-      'single-pass Fresnel transmission. For demonstration only.',
+      'single-pass Fresnel transmission. For demonstration only.' +
+      cell +
+      lattice,
     atoms,
   };
 }

@@ -7,8 +7,9 @@
  * LibrarySpecError listing every problem with the field's path (e.g. `sweep.stepNm`).
  */
 import { FUSED_SILICA, refractiveIndex, SILICON_NITRIDE } from './materials';
-import { computeAtom, latticeDiffraction, materialIndex, materialLabel, type RcwaAtomResult, type RcwaCell, type RcwaIllumination, type RcwaMaterial } from './rcwa';
-import type { AtomLibrary, MetaAtom } from './atoms';
+import { checkNkPoints, NK_TABLE_LIMITS, NK_TABLE_TEXT_LIMITS, NkTableError, tabulatedIndex, type NkPoint, type NkTableLimits } from './nk-table';
+import { computeAtom, latticeDiffraction, materialIndex, materialLabel, type LatticeDiffraction, type RcwaAtomResult, type RcwaCell, type RcwaIllumination, type RcwaMaterial } from './rcwa';
+import { LIGHT_SIDE_LABELS, libraryMedia, mediaPhrase, type AtomLibrary, type LightSide, type MetaAtom } from './atoms';
 
 // ---------------------------------------------------------------------------------------------------------
 // Materials by name
@@ -86,8 +87,20 @@ export const LIBRARY_MATERIALS: readonly CatalogMaterial[] = [
   },
 ];
 
-/** A material in a spec: a name from LIBRARY_MATERIALS, or a constant n + ik (optionally named). */
-export type SpecMaterial = string | { name?: string; n: number; k?: number };
+/**
+ * A material in a spec: a name from LIBRARY_MATERIALS, a constant n + ik (optionally named), or a table of
+ * [wavelength nm, n, k] rows (ascending wavelength, linearly interpolated; nk-table.ts) with its name and source.
+ */
+export type SpecMaterial = string | { name?: string; n: number; k?: number } | SpecTableMaterial;
+
+/** A tabulated material in a spec, e.g. { "name": "PECVD SiN", "source": "ellipsometry 2026-10", "table": [[500, 2.02, 0], …] }. */
+export interface SpecTableMaterial {
+  name: string;
+  source?: string;
+  table: NkPoint[];
+}
+
+const isTableMaterial = (m: SpecMaterial): m is SpecTableMaterial => typeof m === 'object' && 'table' in m;
 
 // ---------------------------------------------------------------------------------------------------------
 // The spec
@@ -129,8 +142,54 @@ export const MAX_LIBRARY_ATOMS = 1600;
 
 const SPEC_KEYS = ['format', 'name', 'wavelengthNm', 'periodNm', 'heightNm', 'pillar', 'substrate', 'superstrate', 'illumination', 'sweep', 'harmonics'];
 
+/** Resolves a tabulated spec material (an object with `table`); pushes problems and returns undefined when it cannot. */
+function resolveTable(o: Record<string, unknown>, field: string, lambda: number, problems: SpecProblem[], limits: NkTableLimits): RcwaMaterial | undefined {
+  const before = problems.length;
+  const extra = Object.keys(o).filter((key) => !['name', 'source', 'table'].includes(key));
+  if (extra.length > 0) problems.push({ field, message: `unknown key${extra.length > 1 ? 's' : ''} ${extra.join(', ')} (a tabulated material has name, source, table)` });
+  if (typeof o.name !== 'string' || o.name.trim() === '' || o.name.length > NK_TABLE_TEXT_LIMITS.name) {
+    problems.push({ field: `${field}.name`, message: `a tabulated material needs a name of 1 to ${NK_TABLE_TEXT_LIMITS.name} characters` });
+  }
+  if (o.source !== undefined && (typeof o.source !== 'string' || o.source.length > NK_TABLE_TEXT_LIMITS.source)) {
+    problems.push({ field: `${field}.source`, message: `must be text of at most ${NK_TABLE_TEXT_LIMITS.source} characters (where the n, k values come from)` });
+  }
+  const table = o.table;
+  if (!Array.isArray(table)) {
+    problems.push({ field: `${field}.table`, message: 'must be a list of [wavelength nm, n, k] rows' });
+    return undefined;
+  }
+  // The row count first, before anything walks the rows.
+  if (table.length > limits.maxRows) {
+    problems.push({ field: `${field}.table`, message: `${table.length} rows is more than ${limits.maxRows}: thin the table` });
+    return undefined;
+  }
+  const bad = table.findIndex((row) => !Array.isArray(row) || row.length !== 3 || row.some((v) => typeof v !== 'number'));
+  if (bad >= 0) {
+    problems.push({ field: `${field}.table[${bad}]`, message: `each row is [wavelength nm, n, k], three numbers; got ${JSON.stringify(table[bad]).slice(0, 60)}` });
+    return undefined;
+  }
+  const points = table as NkPoint[];
+  try {
+    checkNkPoints(points, limits, (i) => i);
+  } catch (error) {
+    if (!(error instanceof NkTableError)) throw error;
+    problems.push({ field: error.line === undefined ? `${field}.table` : `${field}.table[${error.line}]`, message: error.message.replace(/^line \d+: /, '') });
+  }
+  if (problems.length > before) return undefined;
+  const nkTable = { name: (o.name as string).trim(), source: typeof o.source === 'string' ? o.source.trim() : '', points };
+  if (Number.isFinite(lambda)) {
+    try {
+      tabulatedIndex(nkTable, lambda);
+    } catch (error) {
+      problems.push({ field: `${field}.table`, message: (error as Error).message });
+      return undefined;
+    }
+  }
+  return { kind: 'table', table: nkTable };
+}
+
 /** Resolves a spec material at λ (metres) to an RcwaMaterial; pushes a problem and returns undefined when it cannot. */
-function resolveMaterial(value: unknown, field: string, lambda: number, problems: SpecProblem[]): RcwaMaterial | undefined {
+function resolveMaterial(value: unknown, field: string, lambda: number, problems: SpecProblem[], limits: NkTableLimits): RcwaMaterial | undefined {
   const names = LIBRARY_MATERIALS.map((m) => m.id).join(', ');
   if (typeof value === 'string') {
     const entry = LIBRARY_MATERIALS.find((m) => m.id === value);
@@ -157,6 +216,13 @@ function resolveMaterial(value: unknown, field: string, lambda: number, problems
     const memo = entry.fromMemory ? ', coefficients from memory' : '';
     return { kind: 'constant', n, k, name: `${entry.name} n = ${n.toFixed(4)} (${entry.source}${memo})` };
   }
+  if (value !== null && typeof value === 'object' && !Array.isArray(value) && 'nkCsv' in value) {
+    problems.push({ field: `${field}.nkCsv`, message: 'a file name is read by the command line only: give the rows here as "table": [[λ nm, n, k], …] with a "name"' });
+    return undefined;
+  }
+  if (value !== null && typeof value === 'object' && !Array.isArray(value) && 'table' in value) {
+    return resolveTable(value as Record<string, unknown>, field, lambda, problems, limits);
+  }
   if (value !== null && typeof value === 'object' && !Array.isArray(value)) {
     const o = value as Record<string, unknown>;
     const extra = Object.keys(o).filter((key) => !['name', 'n', 'k'].includes(key));
@@ -175,7 +241,7 @@ function resolveMaterial(value: unknown, field: string, lambda: number, problems
     const text = `${label ? label + ' ' : ''}n = ${o.n}${(k as number) > 0 ? ` + ${k}i` : ''} (constant, given in the spec)`;
     return { kind: 'constant', n: o.n as number, k: k as number, name: text };
   }
-  problems.push({ field, message: `must be a material name (${names}) or { "n": …, "k": … }` });
+  problems.push({ field, message: `must be a material name (${names}), { "n": …, "k": … } or { "name": …, "source": …, "table": [[λ nm, n, k], …] }` });
   return undefined;
 }
 
@@ -192,11 +258,21 @@ export interface ResolvedSpec {
   sizes: number[];
 }
 
+/** Options of `parseLibrarySpec`. */
+export interface SpecOptions {
+  /** Limits of tabulated materials (the server passes its configuration); default NK_TABLE_LIMITS. */
+  nkLimits?: Partial<NkTableLimits>;
+}
+
+/** For a spec the server has checked against its configured limits already (its workers parse it again). */
+export const CHECKED_SPEC: SpecOptions = { nkLimits: { maxRows: Number.MAX_SAFE_INTEGER, maxLineChars: Number.MAX_SAFE_INTEGER } };
+
 /**
  * Checks a spec (parsed JSON) field by field; throws LibrarySpecError listing every problem with its field.
  * Example: parseLibrarySpec({ ...spec, periodNm: -1 }) throws "periodNm: must be a number from 50 to 5000 nm, got -1".
  */
-export function parseLibrarySpec(raw: unknown): ResolvedSpec {
+export function parseLibrarySpec(raw: unknown, options: SpecOptions = {}): ResolvedSpec {
+  const nkLimits: NkTableLimits = { ...NK_TABLE_LIMITS, ...options.nkLimits };
   const problems: SpecProblem[] = [];
   if (raw === null || typeof raw !== 'object' || Array.isArray(raw)) throw new LibrarySpecError([{ field: 'spec', message: 'must be a JSON object' }]);
   const o = raw as Record<string, unknown>;
@@ -222,9 +298,9 @@ export function parseLibrarySpec(raw: unknown): ResolvedSpec {
     problems.push({ field: 'illumination', message: `must be 'substrate' (light enters through the substrate) or 'superstrate' (onto the pillars), got ${JSON.stringify(o.illumination)}` });
   }
   const lambda = wavelengthNm * 1e-9;
-  const pillar = resolveMaterial(o.pillar, 'pillar', lambda, problems);
-  const substrate = resolveMaterial(o.substrate, 'substrate', lambda, problems);
-  const superstrate = resolveMaterial(o.superstrate ?? 'air', 'superstrate', lambda, problems);
+  const pillar = resolveMaterial(o.pillar, 'pillar', lambda, problems, nkLimits);
+  const substrate = resolveMaterial(o.substrate, 'substrate', lambda, problems, nkLimits);
+  const superstrate = resolveMaterial(o.superstrate ?? 'air', 'superstrate', lambda, problems, nkLimits);
   let sweep = { minFeatureNm: NaN, minGapNm: NaN, stepNm: NaN };
   let sizes: number[] = [];
   if (o.sweep === null || typeof o.sweep !== 'object' || Array.isArray(o.sweep)) {
@@ -275,21 +351,49 @@ export function specCell(r: ResolvedSpec, width: number, length: number): RcwaCe
   };
 }
 
-/** Lattice diffraction of a resolved spec (P ≥ λ/n in the incident or exit medium), with the numbers. */
-export function specDiffraction(r: ResolvedSpec) {
-  const nTop = materialIndex(r.superstrate, r.lambda).re;
-  const nBottom = materialIndex(r.substrate, r.lambda).re;
-  return r.spec.illumination === 'superstrate' ? latticeDiffraction(r.period, r.lambda, nTop, nBottom) : latticeDiffraction(r.period, r.lambda, nBottom, nTop);
+/** A cell's two half-spaces and the side the light enters from. */
+export interface CellMedia {
+  lightFrom: LightSide;
+  substrateIndex: number;
+  superstrateIndex: number;
 }
 
-/** The library's source line: method, harmonics, materials, λ, P, height, illumination. */
+/**
+ * Lattice diffraction of a square lattice of period P (metres) at λ between a substrate and a superstrate lit from
+ * `media.lightFrom` (P ≥ λ/n in the incident or exit medium), each with a message naming the medium and the
+ * numbers. The one rule the builder, the composer and the runs use. Example: cellDiffraction(450e-9, 633e-9,
+ * { lightFrom: 'substrate', substrateIndex: 1.457, superstrateIndex: 1 }) → one entry, the substrate (incident).
+ */
+export function cellDiffraction(period: number, lambda: number, media: CellMedia) {
+  const sub = 'the substrate';
+  const top = media.superstrateIndex === 1 ? 'the air above the pillars' : 'the medium above the pillars';
+  return media.lightFrom === 'superstrate'
+    ? latticeDiffraction(period, lambda, media.superstrateIndex, media.substrateIndex, { incident: top, exit: sub })
+    : latticeDiffraction(period, lambda, media.substrateIndex, media.superstrateIndex, { incident: sub, exit: top });
+}
+
+/** The half-spaces' indices (real parts, at λ) and the light's side of a resolved spec. */
+export function specMedia(r: ResolvedSpec): CellMedia {
+  return { lightFrom: r.spec.illumination, substrateIndex: materialIndex(r.substrate, r.lambda).re, superstrateIndex: materialIndex(r.superstrate, r.lambda).re };
+}
+
+/** Lattice diffraction of a resolved spec (P ≥ λ/n in the incident or exit medium), with the numbers. */
+export function specDiffraction(r: ResolvedSpec) {
+  return cellDiffraction(r.period, r.lambda, specMedia(r));
+}
+
+/**
+ * The library's source line: method, harmonics, the light's side with the half-spaces' indices (in the form
+ * `libraryMedia` reads back, early in the line so that a shortened copy keeps it), λ, P, height, materials.
+ */
 export function specSource(r: ResolvedSpec): string {
   const nm = (v: number): string => `${Math.round(v * 1e13) / 1e4} nm`;
   const h = r.spec.harmonics;
+  const m = specMedia(r);
   return (
-    `RCWA (Fourier modal method, Li 1997 factorization), ${h}×${h} harmonics; pillar ${materialLabel(r.pillar)}, ` +
-    `substrate ${materialLabel(r.substrate)}, superstrate ${materialLabel(r.superstrate)}; λ = ${nm(r.lambda)}, P = ${nm(r.period)}, ` +
-    `height ${nm(r.height)}; light from the ${r.spec.illumination} side; zeroth-order transmission`
+    `RCWA (Fourier modal method, Li 1997 factorization), ${h}×${h} harmonics; ${mediaPhrase(m)}; λ = ${nm(r.lambda)}, P = ${nm(r.period)}, ` +
+    `height ${nm(r.height)}; pillar ${materialLabel(r.pillar)}, substrate ${materialLabel(r.substrate)}, superstrate ${materialLabel(r.superstrate)}; ` +
+    `zeroth-order transmission`
   );
 }
 
@@ -404,9 +508,8 @@ export async function buildAtomLibrary(r: ResolvedSpec, options: BuildOptions = 
   };
   await Promise.all(Array.from({ length: lanes }, (_, k) => lane(k)));
   options.signal?.throwIfAborted();
-  const nm = (v: number): string => `${Math.round(v * 1e10) / 10} nm`;
   const library: AtomLibrary = {
-    name: r.spec.name || `RCWA ${materialShort(r.spec.pillar)} pillars, ${nm(r.height)} tall, P = ${nm(r.period)}, λ = ${nm(r.lambda)}`,
+    name: libraryName(r),
     lambda: r.lambda,
     period: r.period,
     height: r.height,
@@ -423,8 +526,15 @@ export async function buildAtomLibrary(r: ResolvedSpec, options: BuildOptions = 
   };
 }
 
+/** The library's name: the spec's, or one saying what was computed. */
+export function libraryName(r: ResolvedSpec): string {
+  const nm = (v: number): string => `${Math.round(v * 1e10) / 10} nm`;
+  return r.spec.name || `RCWA ${materialShort(r.spec.pillar)} pillars, ${nm(r.height)} tall, P = ${nm(r.period)}, λ = ${nm(r.lambda)}`;
+}
+
 function materialShort(m: SpecMaterial): string {
   if (typeof m === 'string') return LIBRARY_MATERIALS.find((e) => e.id === m)?.name ?? m;
+  if (isTableMaterial(m)) return m.name;
   return m.name ?? `n = ${m.n}${m.k ? ` + ${m.k}i` : ''}`;
 }
 
@@ -522,4 +632,39 @@ export function coveringRadius(atoms: readonly MetaAtom[], subset: readonly numb
     worst = Math.max(worst, d);
   }
   return worst;
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// A design against its library's cell
+
+/** What a design's light side and lattice mean with its library: the side mismatch and the lattice diffraction. */
+export interface DesignCellNotes {
+  /** Both sides named when the library was computed for light from the other side; null when they agree or the library does not say. */
+  sideMismatch: string | null;
+  /** Lattice diffraction in the incident or exit medium for the design's side, with the numbers (P, λ, n, λ/n). */
+  diffraction: LatticeDiffraction[];
+  /** True when the library records no indices, so the diffraction cannot be checked. */
+  mediaUnknown: boolean;
+}
+
+/**
+ * The notes of a design (λ, P in nm, its light side) with a library's recorded side and indices (`libraryMedia`):
+ * the side mismatch and `cellDiffraction` for the design's side. Used by the composer and by every run.
+ * Example: designCellNotes({ wavelengthNm: 633, periodNm: 450, lightFrom: 'substrate' }, demo).diffraction[0].limit → 434.5e-9.
+ */
+export function designCellNotes(design: { wavelengthNm: number; periodNm: number; lightFrom: LightSide }, library: { source?: string | null }): DesignCellNotes {
+  const media = libraryMedia(library);
+  const sideMismatch =
+    media.lightFrom && media.lightFrom !== design.lightFrom
+      ? `the design has the light entering ${LIGHT_SIDE_LABELS[design.lightFrom]}, the library was computed for light entering ${LIGHT_SIDE_LABELS[media.lightFrom]}: ` +
+        `for mirror-symmetric pillars the zeroth-order t and α are the same from both sides (reciprocity), but the light they lose goes elsewhere ` +
+        `(into other transmitted orders instead of reflected ones, or the reverse), so the library's powers and notes describe the other side`
+      : null;
+  if (media.substrateIndex === undefined || media.superstrateIndex === undefined) return { sideMismatch, diffraction: [], mediaUnknown: true };
+  const diffraction = cellDiffraction(design.periodNm * 1e-9, design.wavelengthNm * 1e-9, {
+    lightFrom: design.lightFrom,
+    substrateIndex: media.substrateIndex,
+    superstrateIndex: media.superstrateIndex,
+  });
+  return { sideMismatch, diffraction, mediaUnknown: false };
 }

@@ -24,18 +24,24 @@
  */
 import { cEig, cIdentity, cInverse, cLu, cLuSolve, cMul, cZeros, type CMatrix, type Complex } from './complex-linalg';
 import { refractiveIndex, type SellmeierMaterial } from './materials';
+import { tabulatedIndex, type NkTable } from './nk-table';
 
 // ---------------------------------------------------------------------------------------------------------
 // Materials
 
-/** A material: a constant complex index n + ik (k ≥ 0 absorbs), or a published Sellmeier fit (materials.ts). */
+/** A material: a constant complex index n + ik (k ≥ 0 absorbs), a published Sellmeier fit (materials.ts), or a table of n, k(λ) (nk-table.ts). */
 export type RcwaMaterial =
   | { kind: 'constant'; n: number; k?: number; name?: string }
-  | { kind: 'sellmeier'; material: SellmeierMaterial };
+  | { kind: 'sellmeier'; material: SellmeierMaterial }
+  | { kind: 'table'; table: NkTable };
 
-/** Complex index n + ik of a material at vacuum wavelength λ (metres). Throws RangeError outside a fit's range. */
+/** Complex index n + ik of a material at vacuum wavelength λ (metres). Throws RangeError outside a fit's or a table's range. */
 export function materialIndex(material: RcwaMaterial, lambda: number): Complex {
   if (material.kind === 'sellmeier') return { re: refractiveIndex(material.material, lambda), im: 0 };
+  if (material.kind === 'table') {
+    const { n, k } = tabulatedIndex(material.table, lambda);
+    return { re: n, im: k };
+  }
   const k = material.k ?? 0;
   if (!Number.isFinite(material.n) || !(material.n > 0) || !Number.isFinite(k) || k < 0) {
     throw new RangeError(`material ${material.name ?? ''}: need n > 0 and k ≥ 0, got n = ${material.n}, k = ${k}`.replace('  ', ' '));
@@ -46,6 +52,10 @@ export function materialIndex(material: RcwaMaterial, lambda: number): Complex {
 /** Short description of a material for result notes. */
 export function materialLabel(material: RcwaMaterial): string {
   if (material.kind === 'sellmeier') return `${material.material.name} (${material.material.source})`;
+  if (material.kind === 'table') {
+    const { name, source, points } = material.table;
+    return `${name || 'tabulated material'} (n, k tabulated ${points[0][0]}–${points[points.length - 1][0]} nm${source ? `, ${source}` : ''})`;
+  }
   const k = material.k ?? 0;
   return material.name ?? (k > 0 ? `n = ${material.n} + ${k}i` : `n = ${material.n}`);
 }
@@ -817,9 +827,12 @@ export interface LatticeDiffraction {
 
 /**
  * Half-spaces in which the square lattice diffracts at normal incidence (P ≥ λ/n), with a message giving the
- * numbers. Example: latticeDiffraction(450e-9, 633e-9, 1, 1.457) → one entry for the exit medium (λ/n = 434 nm).
+ * numbers; `names` (e.g. { incident: 'substrate', exit: 'air above the pillars' }) are put beside the medium.
+ * In the exit medium the lattice sends transmitted light into orders other than the zeroth; in the incident medium
+ * only reflected light (the transmitted light stays in the zeroth order unless the exit medium diffracts too).
+ * Example: latticeDiffraction(450e-9, 633e-9, 1, 1.457) → one entry for the exit medium (λ/n = 434 nm).
  */
-export function latticeDiffraction(period: number, lambda: number, nIncident: number, nExit: number): LatticeDiffraction[] {
+export function latticeDiffraction(period: number, lambda: number, nIncident: number, nExit: number, names: { incident?: string; exit?: string } = {}): LatticeDiffraction[] {
   const out: LatticeDiffraction[] = [];
   for (const [medium, index] of [
     ['incident', nIncident],
@@ -828,13 +841,16 @@ export function latticeDiffraction(period: number, lambda: number, nIncident: nu
     const limit = lambda / index;
     if (period >= limit) {
       const nm = (v: number): string => `${(v * 1e9).toFixed(1)} nm`;
+      const name = names[medium] ? ` (${names[medium]})` : '';
       out.push({
         medium,
         index,
         limit,
         message:
-          `period ${nm(period)} ≥ λ/n = ${nm(lambda)}/${index.toFixed(4)} = ${nm(limit)} in the ${medium} medium: ` +
-          `the lattice itself diffracts there, and part of the light leaves the cell in orders other than the zeroth`,
+          `period ${nm(period)} ≥ λ/n = ${nm(lambda)}/${index.toFixed(4)} = ${nm(limit)} in the ${medium} medium${name}: ` +
+          (medium === 'exit'
+            ? 'the lattice itself diffracts there, and part of the light leaves the cell in orders other than the zeroth'
+            : 'the lattice itself diffracts there, so part of the reflected light goes into orders other than the zeroth (the transmitted light is not split by it)'),
       });
     }
   }

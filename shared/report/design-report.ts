@@ -3,6 +3,7 @@
  * standalone report.html inside the fab package (server) and as the print-friendly report page (client).
  * Pure data in, plain text out — no DOM, no Node API.
  */
+import { valueWords } from '../design-values';
 import { formatMetricValue, metricName, sectionName, termText } from '../display-names';
 import type { Design } from '../schemas/design';
 import type { RunDesignCheck } from '../schemas/fab';
@@ -87,6 +88,7 @@ export function buildReportModel(input: ReportInput): ReportModel {
       ['Lattice period P', `${num(design.setup.periodNm)} nm`],
       ['Cells', `${design.setup.cells} × ${design.setup.cells} (${num((design.setup.cells * design.setup.periodNm) / 1000)} µm a side)`],
       ['Illumination', design.setup.illumination.kind === 'plane' ? 'plane wave' : `Gaussian, waist ${num(design.setup.illumination.waistUm)} µm`],
+      ['Light enters', valueWords('lightFrom', design.setup.lightFrom) ?? design.setup.lightFrom],
       ...(design.setup.platform ? [['Platform', design.setup.platform] as [string, string]] : []),
     ],
     paragraphs: [],

@@ -44,7 +44,12 @@ export const ATOM_CSV_METADATA_DOCS = [
   { key: 'height_nm', meaning: 'Nominal pillar height, nm (default: the first pillar’s height)', example: '1200' },
   { key: 'material', meaning: 'Material and platform note', example: 'Si₃N₄ on fused silica, in air' },
   { key: 'approximate', meaning: "'false' for full-wave or measured data; anything else (or no line) marks the library approximate", example: 'false' },
-  { key: 'source', meaning: 'Where the numbers come from', example: 'RCWA sweep, 2026-11' },
+  {
+    key: 'source',
+    meaning:
+      'Where the numbers come from. Words “light from the substrate side (substrate n = 1.4570, superstrate n = 1.0000)”, as the RCWA builder writes them, tell the side the light entered and the indices (for the light-side and lattice-diffraction checks)',
+    example: 'RCWA sweep, 2026-11; light from the substrate side (substrate n = 1.4570, superstrate n = 1.0000)',
+  },
 ] as const;
 
 /** A short valid-looking example of the format (header, metadata, two atoms). */

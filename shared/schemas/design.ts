@@ -5,6 +5,9 @@
  */
 import { z } from 'zod';
 
+/** Where the light enters a cell (the same words as an RCWA library build spec's `illumination`). */
+export const LIGHT_SIDES = ['substrate', 'superstrate'] as const;
+
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, `${what} must be finite`);
 const positive = (what: string) => finite(what).refine((v) => v > 0, `${what} must be greater than 0`);
 
@@ -128,6 +131,13 @@ export const designSchema = z
         ])
         .default({ kind: 'plane' }),
       platform: z.string().trim().max(200).default(''),
+      /**
+       * Where the light enters: 'substrate' (through the substrate, leaving from the pillars' side into the
+       * superstrate) or 'superstrate' (onto the pillars, leaving through the substrate). Default 'substrate': the
+       * demo library's model assumes it (light arrives through the substrate), and the layout is drawn seen from
+       * above its pillars, the side the light goes to — designs saved before this field keep that meaning.
+       */
+      lightFrom: z.enum(LIGHT_SIDES, { error: "lightFrom must be 'substrate' (light enters through the substrate) or 'superstrate' (onto the pillars)" }).default('substrate'),
     }),
     polarization: polarizationStateSchema,
     channels: z.object({ a: channelRecipeSchema, b: channelRecipeSchema }),

@@ -61,6 +61,8 @@ export interface RunArtifact {
   size: number;
   /** What it is, for a person. */
   label: string;
+  /** A preview with a tile pyramid (README "Tile pyramids"): the run page loads it by tiles from the tile route. */
+  tiled?: boolean;
 }
 
 export interface RunDetail extends RunSummary {

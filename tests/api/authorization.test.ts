@@ -10,10 +10,14 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { storeArtifacts } from '../../server/components/runs/run-artifacts';
 import { ReviewCommentModel, ReviewThreadModel } from '../../server/components/review/review.model';
 import { RunModel } from '../../server/components/runs/run.model';
+import { LibraryBuildModel } from '../../server/components/library-builds/library-build.model';
+import { writeTilePyramids } from '../../server/cli/tiles';
+import { paintPhase } from '../../shared/optics/colormap';
 import { encodeNpy } from '../../shared/optics/npy';
 import { eightAtomCsv, uploadAtomLibrary } from '../support/atom-libraries';
 import { apiRoutes } from '../support/app-routes';
 import { deflectorDesign } from '../support/designs';
+import { smallSpec } from '../support/library-builds';
 import { storeSyntheticLayout } from '../support/fab-fixture';
 import { ApiClient, createTestApp, makeUser, signedInClient, type TestApp } from '../support/test-app';
 
@@ -36,10 +40,13 @@ interface Fixture {
   commentId: number;
   /** 'invite': a member a site admin invited by e-mail into the project, who has not accepted yet. */
   inviteeUserId: number;
+  /** 'build': a project library build waiting in the queue (never handed to a worker), to read and cancel. */
+  buildId: number;
 }
 /** Parts of the fixture a route needs beyond the project and its members (built only then: they cost time). */
 /** 'layout': the finished run gets a synthetic layout with design-rule violations and an owner's override. */
-type Need = 'revision' | 'upload' | 'runs' | 'library' | 'layout' | 'thread' | 'invite';
+/** 'tiles': the finished run's far-field preview gets a 512-px tile pyramid. */
+type Need = 'revision' | 'upload' | 'runs' | 'library' | 'layout' | 'thread' | 'invite' | 'build' | 'tiles';
 interface RouteCase {
   name: string;
   needs?: Need[];
@@ -60,6 +67,9 @@ function uploadPhaseMap(c: ApiClient, projectId: number) {
     .field('kind', 'phase-map')
     .attach('file', phaseMap, { filename: 'map.npy', contentType: 'application/octet-stream' });
 }
+
+/** Nine pillars at 1×1 harmonics: a build of a few milliseconds (its library may be refused; the status is what counts). */
+const tinySpec = () => smallSpec(3, 1);
 
 const ROUTES: RouteCase[] = [
   { name: 'GET /projects', send: (c) => c.get('/api/projects'), expected: { ...read, outsider: 200 } },
@@ -212,6 +222,18 @@ const ROUTES: RouteCase[] = [
     expected: read,
   },
   {
+    name: 'GET /projects/:id/runs/:runId/tiles/:picture',
+    needs: ['runs', 'tiles'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/tiles/farfield_a.png`),
+    expected: read,
+  },
+  {
+    name: 'GET /projects/:id/runs/:runId/tiles/:picture/:level/:x/:y',
+    needs: ['runs', 'tiles'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/tiles/farfield_a.png/0/1/1`),
+    expected: read,
+  },
+  {
     name: 'GET /projects/:id/runs/:runId/events',
     needs: ['runs'],
     send: (c, f) => c.get(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/events`),
@@ -222,6 +244,29 @@ const ROUTES: RouteCase[] = [
     needs: ['runs'],
     send: (c, f) => c.post(`/api/projects/${f.projectId}/runs/${f.finishedRunId}/tolerance`, { widthBiasNm: [0], detuneNm: [] }),
     expected: design(202),
+  },
+  {
+    name: 'POST /projects/:id/library-builds/estimate',
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/library-builds/estimate`, { spec: tinySpec() }),
+    expected: design(200),
+  },
+  {
+    name: 'POST /projects/:id/library-builds',
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/library-builds`, { spec: tinySpec(), scope: 'project' }),
+    expected: design(202),
+  },
+  { name: 'GET /projects/:id/library-builds', send: (c, f) => c.get(`/api/projects/${f.projectId}/library-builds`), expected: read },
+  {
+    name: 'GET /projects/:id/library-builds/:buildId',
+    needs: ['build'],
+    send: (c, f) => c.get(`/api/projects/${f.projectId}/library-builds/${f.buildId}`),
+    expected: read,
+  },
+  {
+    name: 'POST /projects/:id/library-builds/:buildId/cancel',
+    needs: ['build'],
+    send: (c, f) => c.post(`/api/projects/${f.projectId}/library-builds/${f.buildId}/cancel`),
+    expected: design(200),
   },
   {
     name: 'GET /projects/:id/runs/:runId/tolerance',
@@ -362,7 +407,7 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs', 'libr
   }
   const target = await makeUser({ name: 'Matrix target' });
   await owner.post(`/api/projects/${project.id}/members`, { email: target.email, role: 'viewer' });
-  const fixture: Fixture = { projectId: project.id, targetUserId: target.id, revisionNumber: 0, uploadId: 0, libraryId: 0, queuedRunId: 0, finishedRunId: 0, threadId: 0, commentId: 0, inviteeUserId: 0 };
+  const fixture: Fixture = { projectId: project.id, targetUserId: target.id, revisionNumber: 0, uploadId: 0, libraryId: 0, queuedRunId: 0, finishedRunId: 0, threadId: 0, commentId: 0, inviteeUserId: 0, buildId: 0 };
   if (needs.includes('invite')) {
     const email = `matrix.invitee.${project.id}@partner-lab.example`;
     // With sign-up closed only a site admin brings a new account in; the owner then manages the invitation.
@@ -370,6 +415,11 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs', 'libr
   }
   if (needs.includes('upload')) fixture.uploadId = (await uploadPhaseMap(owner, project.id)).body.upload.id;
   if (needs.includes('library')) fixture.libraryId = (await uploadAtomLibrary(owner, project.id, eightAtomCsv())).body.atomLibrary.id;
+  if (needs.includes('build')) {
+    const row = { projectId: project.id, scope: 'project' as const, name: 'Matrix build', spec: tinySpec(), subsetSize: null, estimateSeconds: 0, warnings: [] };
+    // Started by the fixture's own member, so the queued row takes none of the owner's run slots.
+    fixture.buildId = (await LibraryBuildModel.create({ ...row, createdById: target.id, queuedAt: new Date() })).id;
+  }
   if (!needs.includes('revision') && !needs.includes('runs')) return fixture;
   const revision = (await owner.post(`/api/projects/${project.id}/revisions`, { design: deflectorDesign() })).body.revision;
   fixture.revisionNumber = revision.number;
@@ -381,7 +431,10 @@ async function freshProject(needs: Need[] = ['revision', 'upload', 'runs', 'libr
   const dir = await mkdtemp(join(tmpdir(), 'pw-matrix-'));
   await writeFile(join(dir, 'design.json'), JSON.stringify(revision.design));
   await writeFile(join(dir, 'farfield_a.png'), Buffer.from('89504e470d0a1a0a', 'hex'));
-  await storeArtifacts(finished.id, dir, [{ name: 'design.json', bytes: 0 }, { name: 'farfield_a.png', bytes: 8 }]);
+  const tiles = needs.includes('tiles')
+    ? await writeTilePyramids(dir, [{ picture: 'farfield_a.png', side: 512, paint: (f) => paintPhase(new Float64Array((512 / f) ** 2), 512 / f, 512 / f) }], 512)
+    : [];
+  await storeArtifacts(finished.id, dir, [{ name: 'design.json', bytes: 0 }, { name: 'farfield_a.png', bytes: 8 }, ...tiles]);
   await rm(dir, { recursive: true });
   if (needs.includes('layout')) await storeSyntheticLayout(finished.id, deflectorDesign());
   if (needs.includes('thread')) {
@@ -421,7 +474,7 @@ describe('authorization matrix', () => {
   }
 
   it('a viewer gets 403 on every project write', async () => {
-    const fixture = await freshProject();
+    const fixture = await freshProject(['revision', 'upload', 'runs', 'library', 'build']);
     const viewer = clients.viewer;
     const writes = [
       await viewer.patch(`/api/projects/${fixture.projectId}`, { description: 'x' }),
@@ -435,12 +488,14 @@ describe('authorization matrix', () => {
       await viewer.post(`/api/projects/${fixture.projectId}/runs/${fixture.queuedRunId}/cancel`),
       await uploadAtomLibrary(viewer, fixture.projectId, eightAtomCsv()),
       await viewer.delete(`/api/projects/${fixture.projectId}/atom-libraries/${fixture.libraryId}`),
+      await viewer.post(`/api/projects/${fixture.projectId}/library-builds`, { spec: tinySpec(), scope: 'personal' }),
+      await viewer.post(`/api/projects/${fixture.projectId}/library-builds/${fixture.buildId}/cancel`),
     ];
-    expect(writes.map((r) => r.status)).toEqual([403, 403, 403, 403, 403, 403, 403, 403, 403, 403, 403]);
+    expect(writes.map((r) => r.status)).toEqual([403, 403, 403, 403, 403, 403, 403, 403, 403, 403, 403, 403, 403]);
   });
 
   it('an archived project refuses every write with 409 naming the archive, to its owner and a site admin; unarchiving works', async () => {
-    const fixture = await freshProject();
+    const fixture = await freshProject(['revision', 'upload', 'runs', 'library', 'build']);
     const p = `/api/projects/${fixture.projectId}`;
     expect((await clients.owner.post(`${p}/archive`)).status).toBe(200);
     for (const who of ['owner', 'admin'] as const) {
@@ -457,6 +512,8 @@ describe('authorization matrix', () => {
         tolerance: await c.post(`${p}/runs/${fixture.finishedRunId}/tolerance`, { widthBiasNm: [0], detuneNm: [] }),
         uploadLibrary: await uploadAtomLibrary(c, fixture.projectId, eightAtomCsv()),
         deleteLibrary: await c.delete(`${p}/atom-libraries/${fixture.libraryId}`),
+        buildLibrary: await c.post(`${p}/library-builds`, { spec: tinySpec(), scope: 'project' }),
+        cancelBuild: await c.post(`${p}/library-builds/${fixture.buildId}/cancel`),
         thread: await c.post(`${p}/runs/${fixture.finishedRunId}/threads`, { artifact: 'farfield_a.png', x: 0.5, y: 0.5, body: 'On an archive' }),
         shareLink: await c.post(`${p}/runs/${fixture.finishedRunId}/share-links`, {}),
         designRules: await c.agent.put(`${p}/design-rules`).set('x-csrf-token', c.csrfToken).send({ minGapNm: 60, minFeatureNm: 100, maxAspectRatio: 10 }),

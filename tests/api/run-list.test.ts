@@ -92,5 +92,10 @@ describe('runs list and run detail', () => {
     const metrics = { ...row.metrics!, note: { marker: { value: 1, unit: '', meaning: 'written after the run' } } };
     await RunModel.update({ metrics }, { where: { id: run.id } });
     expect((await designer.get(`/api/projects/${projectId}/runs/${run.id}`)).body.run.metrics.note.marker.meaning).toBe('written after the run');
+    // The rest of the detail too: a new event of the run, and a new name of the person who started it.
+    await RunEventModel.create({ runId: run.id, status: 'succeeded', stage: 'done', message: 'noted after the run', at: new Date() });
+    expect((await designer.get(`/api/projects/${projectId}/runs/${run.id}`)).body.run.events.at(-1).message).toBe('noted after the run');
+    expect((await designer.patch('/api/auth/profile', { name: 'Renamed Designer' })).status).toBe(200);
+    expect((await designer.get(`/api/projects/${projectId}/runs/${run.id}`)).body.run.startedBy.name).toBe('Renamed Designer');
   });
 });

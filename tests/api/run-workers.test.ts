@@ -4,19 +4,14 @@
  * a run held by a worker process; a worker killed with SIGKILL mid-run loses nothing — BullMQ finds its job
  * stalled and another worker finishes the run as attempt 2.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { RunArtifactModel, RunModel } from '../../server/components/runs/run.model';
+import { ToleranceStudyModel } from '../../server/components/tolerance/tolerance.model';
+import type { ToleranceStudy } from '../../shared/schemas/tolerance';
 import type { RunDetail } from '../../shared/schemas/runs';
 import { download, twinImageDesign, waitForRun } from '../support/designs';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
-
-interface WorkerProcess {
-  child: ChildProcess;
-  /** Run ids this worker took, in order (its "run taken" log lines). */
-  taken: number[];
-  cancelledAt: Map<number, number>;
-}
+import { startWorkerProcess, stopWorkerProcess, workerAlive, type WorkerProcess } from '../support/worker-process';
 
 let t: TestApp;
 let designer: ApiClient;
@@ -24,57 +19,15 @@ let projectId: number;
 const workers: WorkerProcess[] = [];
 
 function startWorker(): WorkerProcess {
-  const c = t.ctx.config;
-  const child = spawn(process.execPath, ['--import', 'tsx', 'server/worker-main.ts'], {
-    stdio: ['ignore', 'pipe', 'inherit'],
-    env: {
-      PATH: process.env.PATH,
-      NODE_ENV: 'test',
-      // What a worker needs: the database and Redis; one thread each so runs spread over both.
-      DB_HOST: c.DB_HOST,
-      DB_PORT: String(c.DB_PORT),
-      DB_NAME: c.DB_NAME,
-      DB_USER: c.DB_USER,
-      DB_PASSWORD: c.DB_PASSWORD,
-      REDIS_URL: c.REDIS_URL,
-      REDIS_PREFIX: c.REDIS_PREFIX,
-      RUN_WORKERS: '1',
-      RUN_WORKER_NICE: '0',
-      RUN_STALLED_CHECK_SECONDS: String(c.RUN_STALLED_CHECK_SECONDS),
-      RUN_LOCK_SECONDS: String(c.RUN_LOCK_SECONDS),
-      LOG_LEVEL: 'info',
-    },
-  });
-  const worker: WorkerProcess = { child, taken: [], cancelledAt: new Map() };
-  let buffered = '';
-  child.stdout!.setEncoding('utf8');
-  child.stdout!.on('data', (chunk: string) => {
-    buffered += chunk;
-    const lines = buffered.split('\n');
-    buffered = lines.pop()!;
-    for (const line of lines) {
-      const entry = JSON.parse(line) as { msg: string; runId?: number };
-      if (entry.msg === 'run taken') worker.taken.push(entry.runId!);
-      if (entry.msg === 'run cancelled') worker.cancelledAt.set(entry.runId!, Date.now());
-    }
-  });
+  const worker = startWorkerProcess(t.ctx.config);
   workers.push(worker);
   return worker;
 }
 
-const alive = (worker: WorkerProcess) => worker.child.exitCode === null && worker.child.signalCode === null;
-
 /** Two live worker processes (each test may also run alone). */
 function twoWorkers(): WorkerProcess[] {
-  while (workers.filter(alive).length < 2) startWorker();
-  return workers.filter(alive);
-}
-
-async function stopWorker(worker: WorkerProcess) {
-  if (worker.child.exitCode !== null || worker.child.signalCode !== null) return;
-  const exited = new Promise((resolve) => worker.child.once('exit', resolve));
-  worker.child.kill('SIGTERM');
-  await exited;
+  while (workers.filter(workerAlive).length < 2) startWorker();
+  return workers.filter(workerAlive);
 }
 
 const SHARED_DESIGN = twinImageDesign({ cells: 128, iterations: 40, name: 'Shared tag' });
@@ -103,7 +56,7 @@ beforeAll(async () => {
 }, 150_000);
 
 afterAll(async () => {
-  await Promise.all(workers.map(stopWorker));
+  await Promise.all(workers.map(stopWorkerProcess));
   await t?.close();
 }, 30_000);
 
@@ -186,7 +139,7 @@ describe('worker processes on one Redis queue', () => {
     const id = await startRun(designer, projectId, twinImageDesign({ cells: 256, iterations: 400, name: 'Killed twin' }));
     await waitForRun(designer, projectId, id, (run) => run.status === 'running' && run.stage === 'phase retrieval', 60_000);
     const holder = workers.find((w) => w.taken.includes(id))!;
-    const other = workers.find((w) => w !== holder && alive(w))!;
+    const other = workers.find((w) => w !== holder && workerAlive(w))!;
     holder.child.kill('SIGKILL');
     const run = await waitForRun(designer, projectId, id, undefined, 120_000);
     expect(run.status, run.error ?? '').toBe('succeeded');
@@ -197,4 +150,32 @@ describe('worker processes on one Redis queue', () => {
     expect(new Set(names).size).toBe(names.length);
     expect(await RunArtifactModel.count({ where: { runId: id } })).toBe(names.length);
   }, 150_000);
+
+  it('a worker killed with SIGKILL during a fabrication sweep: another worker finishes the study as attempt 2', async () => {
+    twoWorkers();
+    const runId = await startRun(designer, projectId, twinImageDesign({ cells: 512, iterations: 20, name: 'Swept twin' }));
+    expect((await waitForRun(designer, projectId, runId, undefined, 120_000)).status).toBe('succeeded');
+    const points = Array.from({ length: 21 }, (_, i) => (i - 10) * 5);
+    const started = await designer.post(`/api/projects/${projectId}/runs/${runId}/tolerance`, { widthBiasNm: points, detuneNm: points });
+    expect(started.status, JSON.stringify(started.body)).toBe(202);
+    const studyId = started.body.study.id as number;
+    const studyOf = async () => (await designer.get(`/api/projects/${projectId}/runs/${runId}/tolerance`)).body.study as ToleranceStudy;
+    const until = async (done: (s: ToleranceStudy) => boolean, timeoutMs: number) => {
+      const deadline = Date.now() + timeoutMs;
+      for (let s = await studyOf(); ; s = await studyOf()) {
+        if (done(s)) return s;
+        if (Date.now() > deadline) throw new Error(`study ${studyId}: last seen ${JSON.stringify(s)}`);
+        await new Promise((r) => setTimeout(r, 50));
+      }
+    };
+    await until((s) => s.status === 'running' && s.progress > 0, 60_000);
+    const holder = workers.find((w) => workerAlive(w) && w.takenStudies.includes(studyId))!;
+    expect(holder, 'a worker process logged taking the study').toBeDefined();
+    holder.child.kill('SIGKILL');
+    const study = await until((s) => s.status === 'succeeded' || s.status === 'failed', 120_000);
+    expect(study.status, study.error ?? '').toBe('succeeded');
+    expect(study.results!.widthBias).toHaveLength(21);
+    expect((await ToleranceStudyModel.findByPk(studyId))!.attempts).toBe(2);
+    expect(workers.some((w) => w !== holder && w.takenStudies.includes(studyId))).toBe(true);
+  }, 240_000);
 });

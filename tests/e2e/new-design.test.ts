@@ -35,6 +35,21 @@ describe('a new design', () => {
     await notes.waitFor();
     expect(await notes.innerText()).toMatch(/Channel A’s window: its copies are evanescent \(the nearest at u = −1\.\d\d…−\d\.\d\d\): no effect here/);
 
+    // Light through the substrate (the default): the fused silica (Malitson 1965, n = 1.4570 at 633 nm) diffracts, the air does not.
+    const lattice = page.getByTestId('lattice-diffraction-notes');
+    await lattice.waitFor();
+    expect(await lattice.innerText()).toMatch(/^Period 450\.0 nm ≥ λ\/n = 633\.0 nm\/1\.4570 = 434\.5 nm in the incident medium \(the substrate\)/);
+    expect(await lattice.locator('li').count()).toBe(1);
+    // Onto the pillars: the substrate becomes the exit medium, and the demo library (light through the substrate) no longer fits the side.
+    await page.getByLabel('Light enters').selectOption('superstrate');
+    await expect.poll(() => lattice.innerText()).toMatch(/434\.5 nm in the exit medium \(the substrate\)/);
+    const side = page.getByRole('status').filter({ hasText: 'The library was computed for light from the other side' });
+    expect(await side.innerText()).toMatch(/light entering onto the pillars \(from the superstrate\), the library was computed for light entering through the substrate/);
+    await screenshot(page, 'new-design-00-light-side');
+    await expectAccessible(page, 'composer with the light-side and lattice notes');
+    await page.getByLabel('Light enters').selectOption('substrate');
+    await expect.poll(() => side.count()).toBe(0);
+
     // The label came with the demo picture; removing the picture's term takes it along.
     const labelA = page.getByLabel('Channel A label');
     expect(await labelA.inputValue()).toBe('Lighthouse');

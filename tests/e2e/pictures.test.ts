@@ -4,33 +4,13 @@
  * key; maps carry x and y in µm; the mirror switch flips the previews left to right on screen only; a run
  * made before the convention says so instead of drawing axes it does not have.
  */
-import type { Page } from 'playwright-core';
 import { describe, expect, it } from 'vitest';
 import { RunModel } from '../../server/components/runs/run.model';
-import { getJson, screenshot } from '../support/browser';
-import { useDemoBrowser } from '../support/demo-browser';
+import { screenshot } from '../support/browser';
+import { twinImageDemoRun, useDemoBrowser } from '../support/demo-browser';
 
 const TOMAS = 'tomas.reyes@harbourlight.example';
 const demo = useDemoBrowser();
-
-
-/** The finished run of the demo's twin-image project (two picture holograms). */
-async function twinImageRun(page: Page): Promise<string> {
-  const { projects } = await getJson<{ projects: { id: number; name: string }[] }>(page, '/api/projects');
-  const project = projects.find((p) => /twin/i.test(p.name)) ?? projects[0];
-  let runId = 0;
-  await expect
-    .poll(
-      async () => {
-        const { runs } = await getJson<{ runs: { id: number; status: string }[] }>(page, `/api/projects/${project.id}/runs`);
-        runId = runs.find((r) => r.status === 'succeeded')?.id ?? 0;
-        return runId;
-      },
-      { timeout: 240_000, interval: 1000 },
-    )
-    .toBeGreaterThan(0);
-  return `/projects/${project.id}/runs/${runId}`;
-}
 
 describe('pictures on the run page', () => {
   let runPath = '';
@@ -39,7 +19,7 @@ describe('pictures on the run page', () => {
     const page = await demo.browser.context.newPage();
     await page.setViewportSize({ width: 1400, height: 1000 });
     await demo.signIn(page, TOMAS);
-    runPath = await twinImageRun(page);
+    runPath = (await twinImageDemoRun(page)).path;
     await page.goto(`${demo.server.url}${runPath}`);
 
     const farFields = page.locator('section', { has: page.getByRole('heading', { name: 'Far-field previews' }) });
@@ -62,7 +42,8 @@ describe('pictures on the run page', () => {
     expect(await phase.innerText()).toContain('y (µm)');
 
     // The mirror switch: the picture turns on screen, the x axis runs the other way, the file is untouched.
-    const image = first.locator('img').first();
+    // The element carrying the picture's zoom, pan and mirror: the picture itself, or the layer of its tiles.
+    const image = first.locator('[style*="translate("]').first();
     const before = await image.getAttribute('style');
     expect(before).not.toContain('scaleX(-1)');
     await page.getByLabel('Mirror previews left–right').check();

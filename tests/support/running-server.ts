@@ -9,13 +9,14 @@ export interface RunningServer extends TestApp {
   url: string;
 }
 
-export async function startServerWithDemo(): Promise<RunningServer> {
+/** `env` overrides the app's settings (e.g. RUN_QUEUE); `options` as createTestApp's. */
+export async function startServerWithDemo(env: Record<string, string> = {}, options: { worker?: boolean } = {}): Promise<RunningServer> {
   if (!existsSync('dist/index.html')) {
     throw new Error('The client is not built: run `npx vite build` first (npm test does it for you)');
   }
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
-  const t = await createTestApp({ CLIENT_DIST: 'dist', PUBLIC_URL: url, PORT: String(port), RUN_WORKERS: '2' });
+  const t = await createTestApp({ CLIENT_DIST: 'dist', PUBLIC_URL: url, PORT: String(port), RUN_WORKERS: '2', ...env }, options);
   await seedDemo(t.ctx.sequelize, 4);
   // As at a real start: the seeded demo runs are picked up by the queue.
   await t.ctx.runQueue.recover();

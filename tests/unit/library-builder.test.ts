@@ -7,13 +7,13 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { parseAtomLibraryCsv, atomLibraryToCsv, type LibraryIssue, type MetaAtom } from '../../shared/optics/atoms';
+import { specProblems } from '../support/library-spec';
+import { parseAtomLibraryCsv, atomLibraryToCsv, libraryMedia, type LibraryIssue, type MetaAtom } from '../../shared/optics/atoms';
 import {
   buildAtomLibrary,
   coveringRadius,
   estimateBuildCost,
   LIBRARY_MATERIALS,
-  LibrarySpecError,
   parseLibrarySpec,
   proposeSubset,
   specCell,
@@ -44,15 +44,7 @@ const demoSpec = {
 const coverageIssue = (i: LibraryIssue): boolean =>
   i.row === 0 && ((['alphaX', 'alphaY'].includes(i.field) && /leave a gap/.test(i.message)) || (i.field === 'atoms' && /at least 8 are needed/.test(i.message)));
 
-function problemsOf(raw: unknown) {
-  try {
-    parseLibrarySpec(raw);
-  } catch (error) {
-    expect(error).toBeInstanceOf(LibrarySpecError);
-    return (error as LibrarySpecError).problems;
-  }
-  throw new Error('the spec was accepted');
-}
+const problemsOf = specProblems;
 
 describe('build spec validation', () => {
   it('accepts the demo spec and lays the sweep from the smallest feature to P − smallest gap', () => {
@@ -104,7 +96,11 @@ describe('the sweep', () => {
     const built = await buildAtomLibrary(r, { onProgress: (f) => seen.push(f) });
     expect(seen).toEqual([0.25, 0.5, 0.75, 1]);
     expect(built.library.approximate).toBe(false);
-    expect(built.library.source).toMatch(/^RCWA .*5×5 harmonics; pillar silicon nitride .*Luke.*λ = 633 nm, P = 450 nm, height 1200 nm; light from the superstrate side/);
+    expect(built.library.source).toMatch(
+      /^RCWA .*5×5 harmonics; light from the superstrate side \(substrate n = 1\.4570, superstrate n = 1\.0000\); λ = 633 nm, P = 450 nm, height 1200 nm; pillar silicon nitride .*Luke/,
+    );
+    // The side and the indices, read back from the source line (what every copy of a library keeps).
+    expect(libraryMedia({ source: built.library.source })).toEqual({ lightFrom: 'superstrate', substrateIndex: 1.457, superstrateIndex: 1 });
     expect(built.library.atoms).toHaveLength(4);
     const atom = built.library.atoms[1]; // w 100 nm, l 300 nm
     expect([atom.width, atom.length]).toEqual([100e-9, 300e-9]);
@@ -120,6 +116,7 @@ describe('the sweep', () => {
     expect(read.issues.filter((i) => !coverageIssue(i))).toEqual([]);
     expect(read.library.approximate).toBe(false);
     expect(read.library.source).toBe(built.library.source);
+    expect(libraryMedia(read.library).lightFrom).toBe('superstrate');
     expect(read.library.atoms.map((a) => a.alphaX)).toEqual(built.library.atoms.map((a) => a.alphaX));
     expect(read.library.atoms.map((a) => Math.round(a.width * 1e13) / 1e4)).toEqual([100, 100, 300, 300]);
   });
@@ -129,7 +126,7 @@ describe('the sweep', () => {
     const built = await buildAtomLibrary(r);
     // Malitson 1965: n(633 nm) = 1.4570; λ/n = 434.5 nm < 450 nm, in the exit medium for light from the air side.
     expect(built.warnings).toEqual([
-      'period 450.0 nm ≥ λ/n = 633.0 nm/1.4570 = 434.5 nm in the exit medium: the lattice itself diffracts there, and part of the light leaves the cell in orders other than the zeroth',
+      'period 450.0 nm ≥ λ/n = 633.0 nm/1.4570 = 434.5 nm in the exit medium (the substrate): the lattice itself diffracts there, and part of the light leaves the cell in orders other than the zeroth',
     ]);
     expect(built.powers[0].otherOrdersX).toBeGreaterThan(1e-3);
     // Below the limit (P = 400 nm) there is no warning and no power in other orders.

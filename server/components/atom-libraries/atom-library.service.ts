@@ -1,4 +1,4 @@
-import { literal, Op, type WhereOptions } from 'sequelize';
+import { literal, Op, type Transaction, type WhereOptions } from 'sequelize';
 import { atomLibraryToCsv, type AtomLibrary, type MetaAtom } from '../../../shared/optics/atoms';
 import { demoAtomLibrary } from '../../../shared/optics/demo-library';
 import { projectRoleAllows, type ProjectRole } from '../../../shared/roles';
@@ -210,27 +210,44 @@ export async function deleteAtomLibrary(projectId: number, id: number, viewer: L
   await library.destroy();
 }
 
-/** Stores a library that `readAtomLibraryCsv` accepted. */
+/**
+ * Stores a library that `readAtomLibraryCsv` accepted (an upload, or a library build's result), owned by
+ * `ownerId`: the project's when `scope` is 'project', else the owner's personal one.
+ */
+export async function insertAtomLibrary(
+  projectId: number,
+  ownerId: number,
+  library: StorableLibrary,
+  scope: AtomLibraryScope,
+  transaction?: Transaction,
+): Promise<AtomLibraryModel> {
+  return AtomLibraryModel.create(
+    {
+      name: library.name.trim(),
+      material: library.material.slice(0, 300),
+      source: library.source ? library.source.slice(0, 500) : null,
+      wavelengthNm: nm(library.lambda),
+      periodNm: nm(library.period),
+      heightNm: nm(library.height),
+      approximate: library.approximate,
+      atomCount: library.atomCount,
+      atoms: library.atomsJson,
+      scope,
+      ownerId,
+      projectId: scope === 'project' ? projectId : null,
+    },
+    { transaction },
+  );
+}
+
+/** Stores an uploaded library that `readAtomLibraryCsv` accepted. */
 export async function createAtomLibrary(
   projectId: number,
   viewer: LibraryViewer,
   library: StorableLibrary,
   scope: AtomLibraryScope,
 ): Promise<AtomLibraryDetail> {
-  const created = await AtomLibraryModel.create({
-    name: library.name.trim(),
-    material: library.material.slice(0, 300),
-    source: library.source ? library.source.slice(0, 500) : null,
-    wavelengthNm: nm(library.lambda),
-    periodNm: nm(library.period),
-    heightNm: nm(library.height),
-    approximate: library.approximate,
-    atomCount: library.atomCount,
-    atoms: library.atomsJson,
-    scope,
-    ownerId: viewer.userId,
-    projectId: scope === 'project' ? projectId : null,
-  });
+  const created = await insertAtomLibrary(projectId, viewer.userId, library, scope);
   return getAtomLibrary(projectId, created.id, viewer);
 }
 

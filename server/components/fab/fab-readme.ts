@@ -84,7 +84,9 @@ export function fabReadme(input: FabReadmeInput): string {
   lines.push(
     input.library.approximate
       ? 'APPROXIMATE: its transmissions come from a simple model, not from full-wave simulations of your process. Check the design against your own data before fabrication.'
-      : 'Marked by its uploader as not approximate; it is only as good as the simulations or measurements behind it.',
+      : /^RCWA /.test(input.library.source ?? '')
+        ? 'Not approximate: computed in Phasewright by rigorous coupled-wave analysis with the parameters in its source line above; it is only as good as the material indices and the number of harmonics it was computed with.'
+        : 'Marked by its uploader as not approximate; it is only as good as the simulations or measurements behind it.',
   );
   lines.push('', 'CAUTIONS', '');
   lines.push(`Laser safety: ${LASER_SAFETY_CAUTION}`);

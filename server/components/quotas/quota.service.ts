@@ -1,7 +1,7 @@
 /**
- * What one person and one project may make the server do: queued + running runs and tolerance studies
- * (RUNS_PER_USER, RUNS_PER_PROJECT), stored bytes (PROJECT_STORAGE_MB: uploads + run files) and the memory
- * one run may take (RUN_MEMORY_BUDGET_MB).
+ * What one person and one project may make the server do: queued + running runs, tolerance studies and
+ * library builds (RUNS_PER_USER, RUNS_PER_PROJECT), stored bytes (PROJECT_STORAGE_MB: uploads + run files) and
+ * the memory one run may take (RUN_MEMORY_BUDGET_MB).
  *
  * Counting and inserting happen in one transaction that first locks the person's row and then the project's
  * (always in that order, so two such transactions never wait on each other crosswise) and reads at READ
@@ -42,14 +42,16 @@ async function lockOwners(userId: number | null, projectId: number, transaction:
 
 const ACTIVE = `('queued', 'running')`;
 
-/** Queued + running runs and tolerance studies of a person (over all projects) and of a project. */
+/** Queued + running runs, tolerance studies and library builds of a person (over all projects) and of a project. */
 async function activeWork(userId: number, projectId: number, transaction?: Transaction): Promise<{ user: number; project: number }> {
   const [row] = await ProjectModel.sequelize!.query<{ user: number | string; project: number | string }>(
     `SELECT
        (SELECT COUNT(*) FROM runs WHERE started_by_id = :userId AND status IN ${ACTIVE})
-     + (SELECT COUNT(*) FROM tolerance_studies WHERE started_by_id = :userId AND status IN ${ACTIVE}) AS user,
+     + (SELECT COUNT(*) FROM tolerance_studies WHERE started_by_id = :userId AND status IN ${ACTIVE})
+     + (SELECT COUNT(*) FROM library_builds WHERE created_by_id = :userId AND status IN ${ACTIVE}) AS user,
        (SELECT COUNT(*) FROM runs WHERE project_id = :projectId AND status IN ${ACTIVE})
-     + (SELECT COUNT(*) FROM tolerance_studies s JOIN runs r ON r.id = s.run_id WHERE r.project_id = :projectId AND s.status IN ${ACTIVE}) AS project`,
+     + (SELECT COUNT(*) FROM tolerance_studies s JOIN runs r ON r.id = s.run_id WHERE r.project_id = :projectId AND s.status IN ${ACTIVE})
+     + (SELECT COUNT(*) FROM library_builds WHERE project_id = :projectId AND status IN ${ACTIVE}) AS project`,
     { replacements: { userId, projectId }, type: QueryTypes.SELECT, transaction },
   );
   return { user: Number(row.user), project: Number(row.project) };
@@ -120,7 +122,7 @@ export async function withStorage<T>(ctx: AppContext, projectId: number, bytes: 
 }
 
 /**
- * Runs `insert` (which queues one run or tolerance study for the person in the project) only while both
+ * Runs `insert` (which queues one run, tolerance study or library build for the person in the project) only while both
  * stay under their limits; 429 naming the limit and its variable otherwise. `needsStorage`: a run, which
  * stores files, is refused (413) while the project's storage quota is already used up.
  */
@@ -136,13 +138,13 @@ export async function withRunSlot<T>(
     if (active.user >= config.RUNS_PER_USER) {
       throw new AppError(
         429,
-        `You already have ${active.user} runs and tolerance studies queued or running, the most one person may have at once (RUNS_PER_USER = ${config.RUNS_PER_USER}). Wait for one to finish or cancel one, then start again.`,
+        `You already have ${active.user} runs, tolerance studies and library builds queued or running, the most one person may have at once (RUNS_PER_USER = ${config.RUNS_PER_USER}). Wait for one to finish or cancel one, then start again.`,
       );
     }
     if (active.project >= config.RUNS_PER_PROJECT) {
       throw new AppError(
         429,
-        `This project already has ${active.project} runs and tolerance studies queued or running, the most one project may have at once (RUNS_PER_PROJECT = ${config.RUNS_PER_PROJECT}). Wait for one to finish or cancel one, then start again.`,
+        `This project already has ${active.project} runs, tolerance studies and library builds queued or running, the most one project may have at once (RUNS_PER_PROJECT = ${config.RUNS_PER_PROJECT}). Wait for one to finish or cancel one, then start again.`,
       );
     }
     if (slot.needsStorage) requireRoom(config, await storedBytes(slot.projectId, transaction), 1, 'a new run’s files');

@@ -8,6 +8,7 @@ import { join } from 'node:path';
 import type { Writable } from 'node:stream';
 import type { Transaction } from 'sequelize';
 import type { RunArtifact } from '../../../shared/schemas/runs';
+import { select } from '../../db/select';
 import { describeArtifact } from './run-outcome';
 import type { RunOutputFile } from './run-task';
 import { RunArtifactChunkModel, RunArtifactModel } from './run.model';
@@ -85,10 +86,16 @@ export async function deleteArtifacts(runId: number): Promise<void> {
   await RunArtifactModel.destroy({ where: { runId } });
 }
 
-/** The files of a run, in the order they were stored (plain rows: a run has dozens, read on every detail view). */
+/**
+ * The files of a run, in the order they were stored (plain rows: a run has dozens, read on every detail view).
+ * Tile pyramids (`.tiles`, run-tiles.ts) are not listed: the preview they belong to says `tiled` instead.
+ */
 export async function listArtifacts(runId: number): Promise<RunArtifact[]> {
-  const artifacts = await RunArtifactModel.findAll({ where: { runId }, attributes: ['name', 'mime', 'size', 'label'], order: [['id', 'ASC']], raw: true });
-  return artifacts.map((a) => ({ name: a.name, mime: a.mime, size: a.size, label: a.label }));
+  const artifacts = await select<RunArtifact>('SELECT name, mime, size, label FROM run_artifacts WHERE run_id = ? ORDER BY id ASC', [runId]);
+  const tiled = new Set(artifacts.filter((a) => a.name.endsWith('.tiles')).map((a) => a.name.replace(/\.tiles$/, '.png')));
+  return artifacts
+    .filter((a) => !a.name.endsWith('.tiles'))
+    .map((a) => ({ name: a.name, mime: a.mime, size: Number(a.size), label: a.label, ...(tiled.has(a.name) ? { tiled: true } : {}) }));
 }
 
 export async function findArtifact(runId: number, name: string): Promise<RunArtifactModel | null> {

@@ -4,7 +4,7 @@
  * Loads a queued run from the database, hands it to a pool thread (run-worker.ts), writes its progress at
  * most every `progressIntervalMs`, enforces the run time limit, reserves the project's storage for the files
  * and stores them, then marks the run succeeded — so a run's files are only kept for a run that succeeds.
- * Tolerance studies run on the same pool (tolerance-executor.ts).
+ * Tolerance studies and library builds run on the same pool (tolerance-executor.ts, library-build-executor.ts).
  */
 import { mkdtemp, rm } from 'node:fs/promises';
 import { availableParallelism, tmpdir } from 'node:os';
@@ -14,7 +14,7 @@ import { Op, type Transaction } from 'sequelize';
 import { Piscina } from 'piscina';
 import type { Logger } from 'pino';
 import type { Design } from '../../../shared/schemas/design';
-import type { AppConfig } from '../../config';
+import { DEFAULT_TILES_MAX_SIDE, type AppConfig } from '../../config';
 import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { rulesForRun } from '../fab/design-rules.service';
 import { libraryForRun } from '../atom-libraries/atom-library.service';
@@ -22,6 +22,8 @@ import { memoryBudgetRefusal, reserveRunFiles, timeLimitMessage } from '../quota
 import { uploadIdsOf } from '../revisions/design-assets';
 import { UploadModel } from '../uploads/upload.model';
 import { createToleranceExecutor, type ToleranceExecutor } from '../tolerance/tolerance-executor';
+import { buildLanes } from '../library-builds/library-build-cost';
+import { createLibraryBuildExecutor, type LibraryBuildExecutor } from '../library-builds/library-build-executor';
 import { deleteArtifacts, storeArtifacts } from './run-artifacts';
 import { addEvent, markFailed, markStarted, markSucceeded, recordProgress } from './run-state';
 import type { RunProgressMessage, RunTask, RunTaskResult } from './run-task';
@@ -37,8 +39,8 @@ export interface RunExecutorOptions {
   parallelWithinRuns?: boolean;
   /** Least time between two progress writes of one run, ms (default 500: at most 2 writes/s). */
   progressIntervalMs?: number;
-  /** The run time limit and the projects' storage quota (default: none). */
-  limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'>;
+  /** The run time limit, the projects' storage quota, the library builds' time limit and the tile pyramids' size (default: none). */
+  limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'> & Partial<Pick<AppConfig, 'LIBRARY_BUILD_TIME_LIMIT_MINUTES' | 'PREVIEW_TILES_MAX_SIDE'>>;
   /** Nice value of the pool's threads (0–19, default 0): see `createRunPool`. */
   nice?: number;
   /**
@@ -107,6 +109,8 @@ export interface RunExecutor {
   abort(runId: number): boolean;
   /** Tolerance studies, on the same pool. */
   tolerance: ToleranceExecutor;
+  /** Library builds, on the same pool. */
+  libraryBuilds: LibraryBuildExecutor;
   threads: number;
   running(): number;
   waiting(): number;
@@ -122,7 +126,16 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
   const timeLimitMs = limits ? limits.RUN_TIME_LIMIT_MINUTES * 60_000 : null;
   const nice = options.nice ?? 0;
   const { memoryBudgetMb } = options;
+  const tileSide = limits?.PREVIEW_TILES_MAX_SIDE ?? DEFAULT_TILES_MAX_SIDE;
+  const tiles = tileSide > 0 ? { maxSide: tileSide } : null;
   const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval, timeLimitMs });
+  const libraryBuilds = createLibraryBuildExecutor({
+    logger,
+    pool: () => (accepting ? pool : null),
+    progressIntervalMs: progressInterval,
+    timeLimitMinutes: limits?.LIBRARY_BUILD_TIME_LIMIT_MINUTES ?? null,
+    lanes: buildLanes(parallel),
+  });
   const active = new Map<number, ActiveRun>();
   let pool: Piscina<RunTask, RunTaskResult> | null = null;
   let accepting = false;
@@ -250,7 +263,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
     const { port1, port2 } = new MessageChannel();
     const track = tracker(runId, entry);
     port1.on('message', (message: RunProgressMessage) => track.onMessage(message));
-    const running = pool.run({ ...loaded, workDir, port: port2, parallel }, { transferList: [port2], signal: controller.signal });
+    const running = pool.run({ ...loaded, workDir, port: port2, parallel, tiles }, { transferList: [port2], signal: controller.signal });
     const handled: Promise<void> = running
       .then(
         async (result) => {
@@ -305,6 +318,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
   return {
     threads,
     tolerance,
+    libraryBuilds,
     execute,
     start() {
       if (accepting) return;
@@ -319,6 +333,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
       }
       await Promise.allSettled([...settling]);
       await tolerance.stop();
+      await libraryBuilds.stop();
       const closing = pool;
       pool = null;
       if (closing) await closing.destroy();

@@ -92,6 +92,7 @@ const ARTIFACTS: [RegExp, string, (m: RegExpExecArray) => string][] = [
   [/^rotation\.png$/, 'image/png', () => 'Rotation map (2θ in cyclic colours)'],
   [/^xz_([ab])\.png$/, 'image/png', (m) => `x–z intensity slice of channel ${m[1].toUpperCase()}`],
   [/^image_plane_([ab])\.png$/, 'image/png', (m) => `Image plane of channel ${m[1].toUpperCase()} (Fresnel hologram)`],
+  [/^([a-z0-9_-]+)\.tiles$/, 'application/octet-stream', (m) => `Tile pyramid of ${m[1]}.png: 256-px PNG tiles at every level, for the run page`],
   [
     /^screen_([ab])\.png$/,
     'image/png',

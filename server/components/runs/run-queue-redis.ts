@@ -13,6 +13,8 @@
  *   MAX_ATTEMPTS, as after server stops);
  * - at start and whenever the Redis connection comes back, the server gives every queued row without a live
  *   job a new one (and a running row without one is queued again), so a Redis that lost its data loses no run.
+ * Tolerance studies and library builds travel the same way as jobs of their own kind; a build's cancel message
+ * on the cancel channel is `library-build:<id>`.
  */
 import { EventEmitter } from 'node:events';
 import { Queue, Worker, type Job } from 'bullmq';
@@ -21,6 +23,8 @@ import type { Logger } from 'pino';
 import { ConnectionError, Op } from 'sequelize';
 import type { AppConfig } from '../../config';
 import { ToleranceStudyModel } from '../tolerance/tolerance.model';
+import { markBuildCancelled, requeueInterruptedBuild } from '../library-builds/library-build-executor';
+import { LibraryBuildModel } from '../library-builds/library-build.model';
 import { createRunExecutor, type RunExecutorOptions } from './run-executor';
 import type { RunQueue, RunQueueState } from './run-queue';
 import { MAX_ATTEMPTS, markCancelled, requeueInterrupted } from './run-state';
@@ -31,9 +35,12 @@ const QUEUE_NAME = 'runs';
 export type RedisSettings = Pick<AppConfig, 'REDIS_URL' | 'REDIS_PREFIX'>;
 
 interface QueueJob {
-  kind: 'run' | 'tolerance';
+  kind: 'run' | 'tolerance' | 'library-build';
   id: number;
 }
+
+/** The cancel channel's message for a library build (a run's is its bare id). */
+const BUILD_CANCEL = 'library-build:';
 
 /** Counts of the queue's jobs per BullMQ state, for the admin page. */
 export type RunQueueCounts = Record<'waiting' | 'active' | 'delayed' | 'completed' | 'failed' | 'paused', number>;
@@ -186,11 +193,30 @@ export function createRedisRunQueue(options: {
       }
       const studies = await ToleranceStudyModel.findAll({ where: { status: 'queued' }, attributes: ['id'], order: [['id', 'ASC']] });
       for (const study of studies) await ensureJob({ kind: 'tolerance', id: study.id });
+      const builds = await LibraryBuildModel.findAll({ where: { status: { [Op.in]: ['queued', 'running'] } }, attributes: ['id', 'status', 'attempts'], order: [['id', 'ASC']] });
+      for (const build of builds) {
+        const job: QueueJob = { kind: 'library-build', id: build.id };
+        const existing = await queue.getJob(jobIdOf(job));
+        if (existing && LIVE_STATES.has(await existing.getState())) continue;
+        if (build.status === 'running' && (await requeueInterruptedBuild(build, 'a worker')) !== 'queued') continue;
+        await ensureJob(job);
+      }
       return { requeued, failed };
     },
 
     enqueueTolerance(studyId) {
       add({ kind: 'tolerance', id: studyId }).catch((err: unknown) => logger.error({ err, studyId }, 'tolerance study could not be queued in Redis'));
+    },
+
+    enqueueLibraryBuild(buildId) {
+      add({ kind: 'library-build', id: buildId }).catch((err: unknown) => logger.error({ err, buildId }, 'library build could not be queued in Redis (it is queued again when Redis answers)'));
+    },
+
+    async cancelLibraryBuild(buildId) {
+      if (!(await markBuildCancelled(buildId))) return false;
+      await publisher?.publish(names.cancel, `${BUILD_CANCEL}${buildId}`).catch((err: unknown) => logger.warn({ err, buildId }, 'cancel message not sent'));
+      await queue?.remove(jobIdOf({ kind: 'library-build', id: buildId })).catch(() => undefined);
+      return true;
     },
 
     state(): RunQueueState {
@@ -283,6 +309,7 @@ export function createRedisRunWorker(options: RedisRunWorkerOptions): RedisRunWo
   async function toleranceJob(studyId: number) {
     const study = await ToleranceStudyModel.findByPk(studyId, { attributes: ['id', 'status', 'attempts'] });
     if (!study) return;
+    logger.info({ studyId, status: study.status }, 'tolerance study taken');
     if (study.status === 'running') {
       const values = study.attempts >= MAX_ATTEMPTS
         ? { status: 'failed' as const, error: `a worker stopped during this study ${study.attempts} times; start a smaller one`, finishedAt: new Date() }
@@ -291,10 +318,25 @@ export function createRedisRunWorker(options: RedisRunWorkerOptions): RedisRunWo
     }
     executor.tolerance.enqueue(studyId);
     // The tolerance executor stores the result itself; the job lasts until the study's row has ended.
+    await untilEnded(() => ToleranceStudyModel.findByPk(studyId, { attributes: ['status'] }));
+  }
+
+  async function libraryBuildJob(buildId: number) {
+    const build = await LibraryBuildModel.findByPk(buildId, { attributes: ['id', 'status', 'attempts'] });
+    if (!build) return;
+    logger.info({ buildId, status: build.status }, 'library build taken');
+    // Running: the job was stalled, the worker that held it stopped mid-build.
+    if (build.status === 'running' && (await requeueInterruptedBuild(build, 'a worker')) !== 'queued') return;
+    executor.libraryBuilds.enqueue(buildId);
+    await untilEnded(() => LibraryBuildModel.findByPk(buildId, { attributes: ['status'] }));
+  }
+
+  /** Waits until the row `read` gives is no longer queued or running (the executors store results themselves). */
+  async function untilEnded(read: () => Promise<{ status: string } | null>) {
     for (;;) {
       await new Promise((resolve) => setTimeout(resolve, 250));
       if (stopping) await abandon();
-      const now = await ToleranceStudyModel.findByPk(studyId, { attributes: ['status'] });
+      const now = await read();
       if (!now || (now.status !== 'queued' && now.status !== 'running')) return;
     }
   }
@@ -305,13 +347,19 @@ export function createRedisRunWorker(options: RedisRunWorkerOptions): RedisRunWo
       publisher = connect(url, logger, 'publisher');
       subscriber = connect(url, logger, 'subscriber');
       subscriber.on('message', (_channel: string, message: string) => {
+        if (message.startsWith(BUILD_CANCEL)) {
+          const buildId = Number(message.slice(BUILD_CANCEL.length));
+          if (Number.isInteger(buildId) && executor.libraryBuilds.abort(buildId)) logger.info({ buildId }, 'library build cancelled');
+          return;
+        }
         const runId = Number(message);
         if (Number.isInteger(runId) && executor.abort(runId)) logger.info({ runId }, 'run cancelled');
       });
       await subscriber.subscribe(names.cancel);
       worker = new Worker<QueueJob>(
         QUEUE_NAME,
-        async (job: Job<QueueJob>) => withDatabase(() => (job.data.kind === 'run' ? runJob(job.data.id) : toleranceJob(job.data.id))),
+        async (job: Job<QueueJob>) =>
+          withDatabase(() => (job.data.kind === 'run' ? runJob(job.data.id) : job.data.kind === 'tolerance' ? toleranceJob(job.data.id) : libraryBuildJob(job.data.id))),
         {
           connection: connect(url, logger, 'worker'),
           prefix,

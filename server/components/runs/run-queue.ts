@@ -10,6 +10,7 @@
 import { EventEmitter } from 'node:events';
 import { createRunExecutor, type RunExecutorOptions } from './run-executor';
 import { markCancelled, recoverInterrupted } from './run-state';
+import { markBuildCancelled } from '../library-builds/library-build-executor';
 
 export { createRunPool, parallelWithinRuns, type RunPoolThreadData } from './run-executor';
 
@@ -28,6 +29,10 @@ export interface RunQueue {
   onUpdate(listener: (runId: number) => void): () => void;
   /** Queues a tolerance study (row in status 'queued') on the same worker pool. */
   enqueueTolerance(studyId: number): void;
+  /** Queues a library build (row in status 'queued') on the same worker pool. */
+  enqueueLibraryBuild(buildId: number): void;
+  /** Cancels a queued or running library build and stops its thread; false when it had already ended. */
+  cancelLibraryBuild(buildId: number): Promise<boolean>;
   /** What the queue is doing now, for the health check; answers at once (no database). */
   state(): RunQueueState;
   /** A distributed engine's own job counts per state (BullMQ's getJobCounts), for the admin page. */
@@ -39,7 +44,7 @@ export interface RunQueueState {
   threads: number;
   /** Runs on a worker thread now. */
   running: number;
-  /** Tasks (runs and tolerance studies) waiting for a thread. */
+  /** Tasks (runs, tolerance studies and library builds) waiting for a thread. */
   waiting: number;
 }
 
@@ -60,6 +65,7 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
       executor.start();
       const { requeued, failed } = await queue.recover();
       await executor.tolerance.recover();
+      await executor.libraryBuilds.recover();
       if (requeued.length || failed.length) logger.info({ requeued, failed }, 'runs interrupted by the last stop');
     },
 
@@ -91,6 +97,16 @@ export function createEmbeddedRunQueue(options: EmbeddedRunQueueOptions): RunQue
 
     enqueueTolerance(studyId) {
       executor.tolerance.enqueue(studyId);
+    },
+
+    enqueueLibraryBuild(buildId) {
+      executor.libraryBuilds.enqueue(buildId);
+    },
+
+    async cancelLibraryBuild(buildId) {
+      const cancelled = await markBuildCancelled(buildId);
+      if (cancelled) executor.libraryBuilds.abort(buildId);
+      return cancelled;
     },
 
     state() {

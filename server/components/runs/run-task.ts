@@ -3,6 +3,7 @@ import type { MessagePort } from 'node:worker_threads';
 import type { AtomLibrary } from '../../../shared/optics/atoms';
 import type { Design } from '../../../shared/schemas/design';
 import type { RunHeadline } from '../../../shared/schemas/runs';
+import type { TileOptions } from '../../cli/tiles';
 import type { MetricSections } from './run-outcome';
 
 export interface RunTaskUpload {
@@ -23,6 +24,8 @@ export interface RunTask {
   workDir: string;
   /** Use helper threads inside the run (two channels' retrieval in parallel, previews painted alongside). */
   parallel: boolean;
+  /** Write the tile pyramids of the far fields and maps (server/cli/tiles.ts); null or omitted: none. */
+  tiles?: TileOptions | null;
   /** Where the worker posts RunProgressMessage. */
   port: MessagePort;
 }

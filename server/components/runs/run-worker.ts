@@ -83,7 +83,7 @@ export default async function runTask(task: RunTask): Promise<RunTaskResult> {
   const post = (message: RunProgressMessage) => port.postMessage(message);
   post({ type: 'started' });
   let replacements: [string, string][] = [];
-  const threads = runThreads(task.parallel);
+  const threads = runThreads(task.parallel, task.tiles);
   try {
     await initFftInNode();
     const inputs = join(task.workDir, 'inputs');

@@ -9,7 +9,11 @@ import { toleranceRoutes } from '../tolerance/tolerance.routes';
 import { streamArtifact } from './run-artifacts';
 import { runComparisonRoutes } from './run-comparison.routes';
 import { openRunEventStream } from './run-event-stream';
-import { artifactForDownload, cancelRun, deleteRunFiles, getRunJson, listRuns, startRun } from './run.service';
+import { readTile, sendTile, tileManifest } from './run-tiles';
+import { artifactForDownload, cancelRun, deleteRunFiles, getRunAnswer, listRuns, startRun } from './run.service';
+
+/** A succeeded run's files never change (a new run gets a new id): browsers keep them a day without asking again. */
+const IMMUTABLE = 'private, max-age=86400, immutable';
 
 /** Runs of a project, under `/api/projects/:projectId`. */
 export function runRoutes(ctx: AppContext) {
@@ -29,7 +33,7 @@ export function runRoutes(ctx: AppContext) {
 
   router.get('/runs/:runId', requireProject('read'), async (req, res) => {
     const runId = parseId(req.params.runId, 'runId');
-    res.type('application/json').send(`{"run":${await getRunJson(projectAccess(req).project.id, runId)}}`);
+    res.type('application/json').send(await getRunAnswer(projectAccess(req).project.id, runId));
   });
 
   router.post('/runs/:runId/cancel', requireProject('design'), async (req, res) => {
@@ -51,10 +55,22 @@ export function runRoutes(ctx: AppContext) {
       'Content-Length': String(artifact.size),
       'Content-Disposition': contentDisposition('attachment', fileName),
       'X-Content-Type-Options': 'nosniff',
-      'Cache-Control': 'private, max-age=86400, immutable',
+      'Cache-Control': IMMUTABLE,
     });
     await streamArtifact(artifact.id, res);
     res.end();
+  });
+
+  /** Tile pyramids of the large previews (run-tiles.ts): a picture's manifest, then single 256-px tiles. */
+  router.get('/runs/:runId/tiles/:picture', requireProject('read'), async (req, res) => {
+    const runId = parseId(req.params.runId, 'runId');
+    const tiles = await tileManifest(projectAccess(req).project.id, runId, String(req.params.picture));
+    res.set('Cache-Control', IMMUTABLE).json({ tiles });
+  });
+
+  router.get('/runs/:runId/tiles/:picture/:level/:x/:y', requireProject('read'), async (req, res) => {
+    const runId = parseId(req.params.runId, 'runId');
+    sendTile(res, await readTile(projectAccess(req).project.id, runId, String(req.params.picture), req.params), IMMUTABLE);
   });
 
   /** Server-Sent Events of one run (run-event-stream.ts): `update` events until it finishes, capped per person. */

@@ -11,7 +11,7 @@ import { touchProject } from '../projects/project.model';
 import { UploadModel } from '../uploads/upload.model';
 import { UserModel } from '../users/user.model';
 import { findArtifact, listArtifacts } from './run-artifacts';
-import { keepLargeColumns, keptLargeColumns } from './run-detail-cache';
+import { keepRunDetail, keptRunAnswer, keptRunDetail } from './run-detail-cache';
 import { RunArtifactModel, RunEventModel, RunModel } from './run.model';
 import { runStatusName, runStatusPhrase } from '../../../shared/display-names';
 
@@ -77,21 +77,34 @@ export async function findRun(projectId: number, runId: number): Promise<RunMode
   return run;
 }
 
+/** The run's `updated_at` (ms) and whether it has finished; 404 when the project has no such run. */
+async function runStamp(projectId: number, runId: number): Promise<{ stamp: number; finished: boolean }> {
+  const [row] = await select<{ status: RunSummary['status']; updatedAt: Date }>('SELECT status, updated_at AS updatedAt FROM runs WHERE id = ? AND project_id = ?', [runId, projectId]);
+  if (!row) throw new AppError(404, `This project has no run ${runId}`);
+  return { stamp: row.updatedAt.getTime(), finished: FINISHED_STATUSES.includes(row.status) };
+}
+
 /** A run's detail (RunDetail) as JSON text, for the routes that send it as it is. */
 export async function getRunJson(projectId: number, runId: number): Promise<string> {
+  const { stamp, finished } = await runStamp(projectId, runId);
+  return (finished && keptRunDetail(runId, stamp)) || readRunJson(projectId, runId);
+}
+
+/** The run route's answer `{"run":…}` as bytes: a finished run's from memory after its first read. */
+export async function getRunAnswer(projectId: number, runId: number): Promise<Buffer> {
+  const { stamp, finished } = await runStamp(projectId, runId);
+  const answer = finished ? keptRunAnswer(runId, stamp) : null;
+  return answer ?? Buffer.from(`{"run":${await readRunJson(projectId, runId)}}`);
+}
+
+/** Reads a run's detail from the database; a finished run's is kept (run-detail-cache.ts) under the `updated_at` read with it. */
+async function readRunJson(projectId: number, runId: number): Promise<string> {
   const [run] = await select<RunSummaryRow & { updatedAt: Date }>(`${SUMMARY_SELECT}, r.updated_at AS updatedAt ${SUMMARY_FROM} WHERE r.id = ? AND r.project_id = ?`, [runId, projectId]);
   if (!run) throw new AppError(404, `This project has no run ${runId}`);
-  const finished = FINISHED_STATUSES.includes(run.status);
-  const stamp = run.updatedAt.getTime();
-  const kept = finished ? keptLargeColumns(runId, stamp) : null;
   const [large, events, artifacts] = await Promise.all([
-    kept !== null
-      ? kept
-      : select<{ convergence: unknown; metrics: unknown; plots: unknown }>('SELECT convergence, metrics, plots FROM runs WHERE id = ?', [runId]).then(([row]) => {
-          const text = `"convergence":${jsonColumnText(row?.convergence, '{"a":[],"b":[]}')},"metrics":${jsonColumnText(row?.metrics, 'null')},"plots":${jsonColumnText(row?.plots, 'null')}`;
-          if (finished) keepLargeColumns(runId, stamp, text);
-          return text;
-        }),
+    select<{ convergence: unknown; metrics: unknown; plots: unknown }>('SELECT convergence, metrics, plots FROM runs WHERE id = ?', [runId]).then(
+      ([row]) => `"convergence":${jsonColumnText(row?.convergence, '{"a":[],"b":[]}')},"metrics":${jsonColumnText(row?.metrics, 'null')},"plots":${jsonColumnText(row?.plots, 'null')}`,
+    ),
     select<{ at: Date; status: RunSummary['status']; stage: string; message: string }>('SELECT at, status, stage, message FROM run_events WHERE run_id = ? ORDER BY at ASC, id ASC', [runId]),
     // A run's files are shown only once it succeeded: never a partial set of a run still going or cut short.
     run.status === 'succeeded' ? listArtifacts(runId) : [],
@@ -101,7 +114,9 @@ export async function getRunJson(projectId: number, runId: number): Promise<stri
     events: events.map((e) => ({ at: e.at.toISOString(), status: e.status, stage: e.stage, message: e.message })),
     artifacts,
   });
-  return `${small.slice(0, -1)},${large}}`;
+  const text = `${small.slice(0, -1)},${large}}`;
+  if (FINISHED_STATUSES.includes(run.status)) keepRunDetail(runId, run.updatedAt.getTime(), text);
+  return text;
 }
 
 export async function getRun(projectId: number, runId: number): Promise<RunDetail> {

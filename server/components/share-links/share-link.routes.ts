@@ -6,6 +6,7 @@ import { parseId, parseInput } from '../../lib/validate';
 import { currentUser } from '../auth/auth.middleware';
 import { projectAccess, requireProject } from '../projects/project-access';
 import { streamArtifact } from '../runs/run-artifacts';
+import { readTile, sendTile, tileManifest } from '../runs/run-tiles';
 import { artifactForDownload } from '../runs/run.service';
 import { createShareLink, getSharedRun, listShareLinks, resolveShareLink, revokeShareLink } from './share-link.service';
 
@@ -57,6 +58,18 @@ export function sharedRoutes() {
     });
     await streamArtifact(artifact.id, res);
     res.end();
+  });
+
+  router.get('/:token/tiles/:picture', async (req, res) => {
+    noStore(res);
+    const { link, project } = await resolveShareLink(String(req.params.token));
+    res.json({ tiles: await tileManifest(project.id, link.runId, String(req.params.picture)) });
+  });
+
+  router.get('/:token/tiles/:picture/:level/:x/:y', async (req, res) => {
+    noStore(res);
+    const { link, project } = await resolveShareLink(String(req.params.token));
+    sendTile(res, await readTile(project.id, link.runId, String(req.params.picture), req.params), 'no-store');
   });
 
   return router;

@@ -9,6 +9,7 @@ import * as runFilesAndQuotas from './20261203-0020-run-files-and-quotas';
 import * as accountBoundaries from './20261203-0030-account-boundaries';
 import * as atomLibraryShares from './20261203-0031-atom-library-shares';
 import * as auditEvents from './20261203-0040-audit-events';
+import * as libraryBuilds from './20261203-0050-library-builds';
 
 /** Every migration in order. Add a new file `YYYYMMDD-NNNN-what.ts` and list it here. */
 export const migrations = [
@@ -23,4 +24,5 @@ export const migrations = [
   { name: '20261203-0030-account-boundaries', ...accountBoundaries },
   { name: '20261203-0031-atom-library-shares', ...atomLibraryShares },
   { name: '20261203-0040-audit-events', ...auditEvents },
+  { name: '20261203-0050-library-builds', ...libraryBuilds },
 ];

@@ -1,5 +1,6 @@
 import { useCallback, useEffect, useId, useRef, useState, type KeyboardEvent, type PointerEvent, type ReactNode } from 'react';
 import { PictureAxes, type PictureAxesSpec } from '@/components/ui/picture-axes';
+import { TileLayer, type TileSource } from '@/components/ui/tile-layer';
 
 interface View {
   scale: number;
@@ -37,6 +38,8 @@ interface ZoomPanImageProps {
   axes?: PictureAxesSpec;
   /** Shows the picture mirrored left to right (display only); marks and picks keep the picture's own coordinates. */
   mirrored?: boolean;
+  /** The picture as a tile pyramid: drawn from tiles instead of `src` (which stays the fallback if they fail). */
+  tiles?: TileSource;
 }
 
 const START: View = { scale: 1, x: 0, y: 0 };
@@ -47,7 +50,7 @@ const STEP = 1.5;
  * click to zoom in, buttons for +, − and fit. Keyboard: + and − zoom, arrows pan, 0 fits. Once a picture
  * pixel covers more than a screen pixel it is drawn as crisp squares, so single cells stay visible.
  */
-export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = '', overlay, onPick, axes, mirrored = false }: ZoomPanImageProps) {
+export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = '', overlay, onPick, axes, mirrored = false, tiles }: ZoomPanImageProps) {
   const frameRef = useRef<HTMLDivElement>(null);
   const pointers = useRef(new Map<number, { x: number; y: number }>());
   const pressedAt = useRef<{ x: number; y: number } | null>(null);
@@ -55,11 +58,15 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
   const [natural, setNatural] = useState<{ width: number; height: number } | null>(null);
   const [frameWidth, setFrameWidth] = useState(0);
   const [failed, setFailed] = useState(false);
+  const [tilesFailed, setTilesFailed] = useState(false);
   const hintId = useId();
+  const tiled = tiles && !tilesFailed ? tiles : undefined;
+  const size = tiled ? { width: tiled.pyramid.width, height: tiled.pyramid.height } : natural;
 
   useEffect(() => {
     setView(START);
     setFailed(false);
+    setTilesFailed(false);
   }, [src]);
 
   useEffect(() => {
@@ -179,8 +186,9 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
     action();
   };
 
-  const ratio = natural ? natural.height / natural.width : aspect;
-  const magnification = natural && frameWidth > 0 ? (frameWidth * view.scale) / natural.width : 0;
+  const ratio = size ? size.height / size.width : aspect;
+  const magnification = size && frameWidth > 0 ? (frameWidth * view.scale) / size.width : 0;
+  const transform = `translate(${view.x}px, ${view.y}px) scale(${view.scale})${mirrored ? ' translateX(100%) scaleX(-1)' : ''}`;
   const zoomed = view.scale > 1;
   const frameHeight = frameWidth * ratio;
   // The part of the picture in view, as fractions of its width and height.
@@ -218,6 +226,17 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
           <p className="absolute inset-0 flex items-center justify-center p-4 text-center text-sm text-ink-mist">
             The picture did not load. Try the download link, or reload the page.
           </p>
+        ) : tiled ? (
+          <TileLayer
+            source={tiled}
+            alt={alt}
+            // The part in view as the picture is drawn, before mirroring.
+            view={mirrored ? { ...visible, left: 1 - visible.right, right: 1 - visible.left } : visible}
+            shownWidth={frameWidth * view.scale}
+            transform={transform}
+            pixelated={magnification > 1}
+            onFail={() => setTilesFailed(true)}
+          />
         ) : (
           <img
             src={src}
@@ -227,7 +246,7 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
             onError={() => setFailed(true)}
             className="absolute top-0 left-0 h-full w-full origin-top-left"
             style={{
-              transform: `translate(${view.x}px, ${view.y}px) scale(${view.scale})${mirrored ? ' translateX(100%) scaleX(-1)' : ''}`,
+              transform,
               imageRendering: magnification > 1 ? 'pixelated' : 'auto',
             }}
           />
@@ -284,7 +303,7 @@ export function ZoomPanImage({ src, alt, aspect = 1, maxScale = 32, className = 
         </div>
         <p id={hintId} className="text-xs text-ink-soft">
           Wheel, pinch or + / − to zoom; drag or arrow keys to move; 0 or the percent button to fit.
-          {natural ? ` ${natural.width} × ${natural.height} px.` : ''}
+          {size ? ` ${size.width} × ${size.height} px${tiled ? ', loaded in tiles as you zoom' : ''}.` : ''}
         </p>
       </div>
     </div>

@@ -16,7 +16,7 @@ import { channelLayout, inputNames } from '@/features/runs/components/run-facts'
 import { readNotes, readRunPlots } from '@/features/runs/components/run-plots';
 import { RunStatusBadge } from '@/features/runs/components/run-status-badge';
 import { RunPictureView } from '@/features/runs/components/picture-view';
-import { sharedArtifactHref, useSharedRun } from '@/features/sharing/api/share-links';
+import { sharedArtifactHref, sharedTilesHref, useSharedRun } from '@/features/sharing/api/share-links';
 
 /** Share links never reveal the project id; the run components only use it for addresses, which the context replaces. */
 const NO_PROJECT = 0;
@@ -29,6 +29,7 @@ export default function SharedRunRoute() {
     () => ({
       href: (name) => sharedArtifactHref(token, name),
       fileName: (name) => `phasewright-shared-run-${name}`,
+      tiles: (name) => sharedTilesHref(token, name),
     }),
     [token],
   );

@@ -1,5 +1,7 @@
 import { useDeferredValue, useMemo } from 'react';
+import type { LightSide } from '@shared/optics/atoms';
 import { demoAtomLibrary } from '@shared/optics/demo-library';
+import { designCellNotes } from '@shared/optics/library-builder';
 import { libraryMismatches, type AtomLibrarySummary } from '@shared/schemas/atom-libraries';
 import { Badge } from '@/components/ui/badge';
 import { Banner } from '@/components/ui/banner';
@@ -25,7 +27,50 @@ function describeLibrary(wavelengthNm: number, periodNm: number) {
   }
 }
 
-function DemoLibraryFacts({ wavelengthNm, periodNm }: { wavelengthNm: number; periodNm: number }) {
+interface DesignCell {
+  wavelengthNm: number;
+  periodNm: number;
+  lightFrom: LightSide;
+}
+
+/** The light side against the library's and the lattice's own diffraction, with the numbers; non-blocking. */
+function CellNotes({ cell, library, demo = false }: { cell: DesignCell; library: { source?: string | null }; demo?: boolean }) {
+  if (!(cell.wavelengthNm > 0 && cell.periodNm > 0)) return null;
+  const notes = designCellNotes(cell, library);
+  return (
+    <>
+      {notes.sideMismatch ? (
+        <Banner tone="warning" title="The library was computed for light from the other side">
+          <p>{notes.sideMismatch[0].toUpperCase() + notes.sideMismatch.slice(1)}.</p>
+        </Banner>
+      ) : null}
+      {notes.diffraction.length > 0 ? (
+        <Banner tone="note" title="The lattice itself diffracts (runs are not blocked)">
+          <ul className="list-disc pl-5" data-testid="lattice-diffraction-notes">
+            {notes.diffraction.map((d) => (
+              <li key={d.medium}>{d.message[0].toUpperCase() + d.message.slice(1)}.</li>
+            ))}
+          </ul>
+          <p className="mt-1">
+            Choose P below {Math.min(...notes.diffraction.map((d) => d.limit * 1e9)).toFixed(1)} nm to avoid it.{' '}
+            {demo
+              ? 'The demo library’s waveguide model does not see this loss: full-wave (RCWA) results transmit less of the zeroth order (README, “Demo library against RCWA”).'
+              : 'A library computed here by RCWA keeps the zeroth order only, so its transmissions already count the light that goes elsewhere.'}
+          </p>
+        </Banner>
+      ) : null}
+      {notes.mediaUnknown ? (
+        <p className="text-ink-soft">
+          This library does not record its substrate and superstrate indices, so the lattice’s own diffraction is not checked here. Its
+          source line gives them in the words the RCWA builder uses: “light from the substrate side (substrate n = 1.4570, superstrate n =
+          1.0000)”.
+        </p>
+      ) : null}
+    </>
+  );
+}
+
+function DemoLibraryFacts({ wavelengthNm, periodNm, lightFrom }: DesignCell) {
   const deferred = useDeferredValue({ wavelengthNm, periodNm });
   const library = useMemo(() => describeLibrary(deferred.wavelengthNm, deferred.periodNm), [deferred.wavelengthNm, deferred.periodNm]);
   return (
@@ -56,11 +101,12 @@ function DemoLibraryFacts({ wavelengthNm, periodNm }: { wavelengthNm: number; pe
       {library && !library.error && library.pillars === 0 ? (
         <Banner>At this period the demo library holds no pillars; use a larger period.</Banner>
       ) : null}
+      {library && !library.error ? <CellNotes cell={{ wavelengthNm: deferred.wavelengthNm, periodNm: deferred.periodNm, lightFrom }} library={library} demo /> : null}
     </>
   );
 }
 
-function StoredLibraryFacts({ library, wavelengthNm, periodNm }: { library: AtomLibrarySummary; wavelengthNm: number; periodNm: number }) {
+function StoredLibraryFacts({ library, wavelengthNm, periodNm, lightFrom }: DesignCell & { library: AtomLibrarySummary }) {
   const mismatches = libraryMismatches({ wavelengthNm, periodNm }, library);
   return (
     <>
@@ -81,7 +127,9 @@ function StoredLibraryFacts({ library, wavelengthNm, periodNm }: { library: Atom
         <Banner tone="error" title="This library does not fit the design">
           <p>{mismatches.join('; ')}. Saving is refused until the wavelength and period match the library’s (within 0.1 %).</p>
         </Banner>
-      ) : null}
+      ) : (
+        <CellNotes cell={{ wavelengthNm, periodNm, lightFrom }} library={library} />
+      )}
     </>
   );
 }
@@ -89,6 +137,7 @@ function StoredLibraryFacts({ library, wavelengthNm, periodNm }: { library: Atom
 export function AtomLibrarySection({ projectId }: { projectId: number }) {
   const wavelengthNm = useDesignEditor((state) => state.draft?.setup.wavelengthNm ?? 0);
   const periodNm = useDesignEditor((state) => state.draft?.setup.periodNm ?? 0);
+  const lightFrom = useDesignEditor((state) => state.draft?.setup.lightFrom ?? 'substrate');
   const ref = useDesignEditor((state) => state.draft?.atomLibrary);
   const setField = useDesignEditor((state) => state.setField);
   const libraries = useDesignAtomLibraries(projectId);
@@ -122,9 +171,9 @@ export function AtomLibrarySection({ projectId }: { projectId: number }) {
           hint={libraries.isError ? `The uploaded libraries did not load: ${libraries.error.message}` : 'Upload your own on the Atom libraries tab.'}
         />
         {selectedId === null ? (
-          <DemoLibraryFacts wavelengthNm={wavelengthNm} periodNm={periodNm} />
+          <DemoLibraryFacts wavelengthNm={wavelengthNm} periodNm={periodNm} lightFrom={lightFrom} />
         ) : selected ? (
-          <StoredLibraryFacts library={selected} wavelengthNm={wavelengthNm} periodNm={periodNm} />
+          <StoredLibraryFacts library={selected} wavelengthNm={wavelengthNm} periodNm={periodNm} lightFrom={lightFrom} />
         ) : libraries.isPending ? (
           <p className="text-ink-soft">Loading the library’s facts…</p>
         ) : (

@@ -14,6 +14,11 @@ const illuminationOptions = [
   { value: 'gaussian', label: 'Gaussian beam' },
 ] as const;
 
+const lightFromOptions = [
+  { value: 'substrate', label: 'Through the substrate' },
+  { value: 'superstrate', label: 'Onto the pillars' },
+] as const;
+
 const fixed = (value: number, digits: number) => value.toLocaleString(undefined, { maximumFractionDigits: digits, minimumFractionDigits: digits });
 
 function Figure({ term, value, note }: { term: string; value: string; note?: string }) {
@@ -100,6 +105,13 @@ export function SetupSection() {
         ) : (
           <div aria-hidden="true" className="hidden sm:block" />
         )}
+        <DesignSelect
+          path={['setup', 'lightFrom']}
+          label="Light enters"
+          options={lightFromOptions}
+          hint="Through the substrate: it leaves from the pillars’ side. Onto the pillars: it leaves through the substrate, and the layout files, drawn seen from the side the light goes to, are the mask mirrored. Compute the atom library for the same side."
+          className="sm:col-span-2"
+        />
         <DesignText
           path={['setup', 'platform']}
           label="Platform note"

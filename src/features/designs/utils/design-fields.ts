@@ -18,6 +18,7 @@ const TOP_FIELDS: Record<string, FieldLabel> = {
   'setup.illumination.kind': { label: 'Illumination' },
   'setup.illumination.waistUm': { label: 'Gaussian waist w', unit: 'µm' },
   'setup.platform': { label: 'Platform note' },
+  'setup.lightFrom': { label: 'Light enters' },
   polarization: { label: 'Polarization pair' },
   'polarization.kind': { label: 'Kind of polarization pair' },
   'polarization.angleDeg': { label: 'Angle ψ of state A', unit: '°' },

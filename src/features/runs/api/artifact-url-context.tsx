@@ -1,10 +1,12 @@
 import { createContext, useContext, useMemo } from 'react';
-import { artifactFileName, artifactHref } from '@/features/runs/api/artifact-href';
+import { artifactFileName, artifactHref, tilesHref } from '@/features/runs/api/artifact-href';
 
 /** Where the files of the run on screen are fetched from, and the name offered when one is saved. */
 export interface ArtifactAddress {
   href: (name: string) => string;
   fileName: (name: string) => string;
+  /** Where a preview's tile pyramid is (artifact-href.ts `tilesHref`). */
+  tiles: (name: string) => string;
 }
 
 /**
@@ -20,6 +22,7 @@ export function useArtifactAddress(projectId: number, runId: number): ArtifactAd
       override ?? {
         href: (name: string) => artifactHref(projectId, runId, name),
         fileName: (name: string) => artifactFileName(projectId, runId, name),
+        tiles: (name: string) => tilesHref(projectId, runId, name),
       },
     [override, projectId, runId],
   );

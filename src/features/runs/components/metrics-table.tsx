@@ -16,7 +16,8 @@ export function MetricsTable({ metrics, circularPair = true }: { metrics: NonNul
     >
       <div role="region" aria-labelledby={headingId} className="flex flex-col gap-6">
         {sections.map(([section, group]) => (
-          <div key={section} className="overflow-x-auto">
+          // Focusable, so a narrow screen's sideways scrolling of the table works from the keyboard too.
+          <div key={section} className="overflow-x-auto" tabIndex={0} role="group" aria-label={sectionName(section)}>
             <table className="w-full min-w-[40rem] table-fixed text-sm">
               <caption className="mb-2 text-left font-extrabold text-ink">{sectionName(section)}</caption>
               <thead className="border-b border-line text-ink-soft">

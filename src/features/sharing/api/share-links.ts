@@ -42,3 +42,8 @@ export function useSharedRun(token: string) {
 export function sharedArtifactHref(token: string, name: string) {
   return apiUrl(`/shared/${encodeURIComponent(token)}/artifacts/${encodeURIComponent(name)}`);
 }
+
+/** A preview's tile pyramid through the share link (artifact-href.ts `tilesHref`). */
+export function sharedTilesHref(token: string, name: string) {
+  return apiUrl(`/shared/${encodeURIComponent(token)}/tiles/${encodeURIComponent(name)}`);
+}
