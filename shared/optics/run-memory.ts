@@ -9,13 +9,15 @@
  *   written. An image hologram in the far field costs no more than an analytic channel here (its retrieval
  *   runs before the results exist and stays below them: measured);
  * - propagation (axicon beams, lens foci, Fresnel holograms' retrieval and image planes), per cell of the
- *   zero-padded grid (padding·N)²: the padded spectrum, the transfer function, the FFT plan, the planes.
+ *   zero-padded grid (padding·N)²: the padded spectrum, the transfer function, the FFT plan, the planes;
+ * - the previews' tile pyramids the server's runs paint (PREVIEW_TILES_MAX_SIDE; the command line paints none),
+ *   per pixel of their level 0.
  * Calibrated against measured peaks (DEVELOPERS.md "The memory of a run"): bench/design-run-child.ts runs a
  * design file in a fresh process and reports the resident-set high-water mark (VmHWM of /proc/self/status);
  * the per-cell constants are the slopes between 2048² and 4096² runs of the twin-image demo (2 iterations,
  * helper threads on and off), a Bessel pair and a Fresnel twin hologram, the constants raised until no measured
  * peak from 1024² to 4096² lay above its estimate. Measured / estimated, MiB: twin image 394 / 398, 880 / 896,
- * 2812–2875 / 2888 (1024², 2048², 4096²); an MRAF hologram beside a tilt at 4096² 2711 / 2888; Bessel pair 641 / 674,
+ * 2812–2875 / 2888 (1024², 2048², 4096²), through the server's run pool with tile pyramids 919 / 960 and 3104 / 3144 (2048², 4096²); an MRAF hologram beside a tilt at 4096² 2711 / 2888; Bessel pair 641 / 674,
  * 1412 / 1520, 4723–4831 / 4904; Fresnel twin hologram 511 / 674, 4455 / 4904 (a range: helper threads off and on,
  * where both were measured). `npm run bench` prints each run's peak beside its estimate.
  */
@@ -30,6 +32,10 @@ export const RESULT_BYTES_PER_CELL = 166;
 export const PROPAGATION_BYTES = 160 * MIB;
 /** …and per cell of the zero-padded grid (bytes). */
 export const PROPAGATION_BYTES_PER_CELL = 29;
+/** Tile pyramids of the previews, per pixel of level 0 (bytes). */
+export const TILE_BYTES_PER_PIXEL = 16;
+/** Level 0's largest side when the caller does not say: the server's default PREVIEW_TILES_MAX_SIDE. */
+export const DEFAULT_TILES_SIDE = 4096;
 
 /** The parts of a design the estimate reads (a draft in the composer may lack defaults). */
 export interface MemoryDesign {
@@ -53,10 +59,12 @@ export interface RunMemoryEstimate {
 }
 
 /**
- * Estimated peak memory of running `design` (module comment). Example: the twin-image demo at 4096 cells (two
- * far-field holograms, no propagation) → 232 MiB + 4096²·166 bytes ≈ 2.8 GiB.
+ * Estimated peak memory of running `design` (module comment). `tilesMaxSide`: the largest side of the tile
+ * pyramids' level 0 (the server's PREVIEW_TILES_MAX_SIDE; 0 for none, as on the command line). Example: the
+ * twin-image demo at 4096 cells (two far-field holograms, no propagation) without tiles → 232 MiB + 4096²·166
+ * bytes ≈ 2.8 GiB; with the server's tiles 256 MiB more.
  */
-export function estimateRunMemory(design: MemoryDesign): RunMemoryEstimate {
+export function estimateRunMemory(design: MemoryDesign, options: { tilesMaxSide?: number } = {}): RunMemoryEstimate {
   const n = design.setup.cells;
   const cells = n * n;
   const padding = design.simulation?.padding ?? 2;
@@ -67,6 +75,8 @@ export function estimateRunMemory(design: MemoryDesign): RunMemoryEstimate {
     { what: `results of ${n}² cells`, bytes: RESULT_BYTES_PER_CELL * cells },
   ];
   if (propagates) parts.push({ what: `propagation on ${n * padding}² cells`, bytes: PROPAGATION_BYTES + PROPAGATION_BYTES_PER_CELL * cells * padding * padding });
+  const tileSide = Math.min(n, options.tilesMaxSide ?? DEFAULT_TILES_SIDE);
+  if (tileSide > 0) parts.push({ what: `preview tiles of ${tileSide}² pixels`, bytes: TILE_BYTES_PER_PIXEL * tileSide * tileSide });
   const bytes = parts.reduce((sum, part) => sum + part.bytes, 0);
   return { bytes, mib: Math.ceil(bytes / MIB), parts };
 }

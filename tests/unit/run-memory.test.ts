@@ -1,7 +1,7 @@
 /**
  * The run memory estimate (shared/optics/run-memory.ts) against the peaks measured on this project's 2-core
- * build machine with bench/design-run-child.ts (VmHWM of /proc/self/status, fresh process per run, helper
- * threads off and on, the higher kept; 2026-12-03): the estimate must never fall below a measured peak, and not
+ * build machine with bench/design-run-child.ts (the command line's code path: VmHWM of /proc/self/status, fresh
+ * process per run, helper threads off and on, the higher kept; 2026-12-03) and bench/server-run.ts (the server's): the estimate must never fall below a measured peak, and not
  * exceed the larger ones by more than 15 %, so that the budget check neither lets a run through that would not
  * fit nor refuses runs that would.
  */
@@ -46,19 +46,31 @@ const MEASURED: [string, DesignInput, number][] = [
   ['Fresnel twin hologram 4096²', fresnelTwin(4096), 4455],
 ];
 
+/** Through the server's run pool (bench/server-run.ts: helper threads, tile pyramids up to 4096 px). */
+const MEASURED_ON_THE_SERVER: [string, DesignInput, number][] = [
+  ['twin image 2048²', twin(2048), 919],
+  ['twin image 4096²', twin(4096), 3104],
+];
+
 describe('run memory estimate', () => {
+  it.each(MEASURED_ON_THE_SERVER)('%s on the server with tile pyramids: at or above the measured peak, within 15 %', (_name, input, measuredMiB) => {
+    const { mib } = estimateRunMemory(designSchema.parse(input), { tilesMaxSide: 4096 });
+    expect(mib).toBeGreaterThanOrEqual(measuredMiB);
+    expect(mib).toBeLessThanOrEqual(measuredMiB * 1.15);
+  });
+
   it.each(MEASURED)('%s: at or above the measured peak, within 15 % of it from 2048² up', (_name, input, measuredMiB) => {
     const design = designSchema.parse(input);
-    const { mib } = estimateRunMemory(design);
+    const { mib } = estimateRunMemory(design, { tilesMaxSide: 0 });
     expect(mib).toBeGreaterThanOrEqual(measuredMiB);
     if (design.setup.cells >= 2048) expect(mib).toBeLessThanOrEqual(measuredMiB * 1.15);
   });
 
   it('counts propagation only for designs that propagate, on the zero-padded grid', () => {
-    const far = estimateRunMemory(designSchema.parse(twin(1024)));
+    const far = estimateRunMemory(designSchema.parse(twin(1024)), { tilesMaxSide: 0 });
     expect(far.parts.map((p) => p.what)).toEqual(['process and helper threads', 'results of 1024² cells']);
-    const padded = estimateRunMemory(designSchema.parse(bessel(1024)));
-    const unpadded = estimateRunMemory(designSchema.parse({ ...bessel(1024), simulation: { padding: 1 } }));
+    const padded = estimateRunMemory(designSchema.parse(bessel(1024)), { tilesMaxSide: 0 });
+    const unpadded = estimateRunMemory(designSchema.parse({ ...bessel(1024), simulation: { padding: 1 } }), { tilesMaxSide: 0 });
     expect(padded.parts.at(-1)!.what).toBe('propagation on 2048² cells');
     expect(unpadded.parts.at(-1)!.what).toBe('propagation on 1024² cells');
     expect(padded.bytes).toBeGreaterThan(unpadded.bytes);

@@ -162,10 +162,10 @@ export function timeLimitMessage(what: 'run' | 'study', minutes: number): string
 
 /**
  * Why a design may not run under a memory budget of `budgetMb` MiB (RUN_MEMORY_BUDGET_MB), naming its estimated
- * peak (shared/optics/run-memory.ts) and the budget; null when it fits.
+ * peak (shared/optics/run-memory.ts, with tile pyramids up to `tilesMaxSide`) and the budget; null when it fits.
  */
-export function memoryBudgetRefusal(design: MemoryDesign, budgetMb: number): string | null {
-  const estimate = estimateRunMemory(design);
+export function memoryBudgetRefusal(design: MemoryDesign, budgetMb: number, tilesMaxSide: number): string | null {
+  const estimate = estimateRunMemory(design, { tilesMaxSide });
   if (estimate.mib <= budgetMb) return null;
   return (
     `This design needs an estimated ${estimate.mib} MiB of memory to run (${estimate.parts.map((p) => `${p.what} ${Math.ceil(p.bytes / MIB)} MiB`).join(', ')}), ` +
@@ -175,9 +175,10 @@ export function memoryBudgetRefusal(design: MemoryDesign, budgetMb: number): str
 }
 
 /** 413 naming the estimate and the budget when the design does not fit RUN_MEMORY_BUDGET_MB. */
-export function requireMemoryBudget(config: Pick<AppConfig, 'RUN_MEMORY_BUDGET_MB'>, design: MemoryDesign): void {
-  const refusal = memoryBudgetRefusal(design, config.RUN_MEMORY_BUDGET_MB);
+export function requireMemoryBudget(config: Pick<AppConfig, 'RUN_MEMORY_BUDGET_MB' | 'PREVIEW_TILES_MAX_SIDE'>, design: MemoryDesign): void {
+  const tilesMaxSide = config.PREVIEW_TILES_MAX_SIDE;
+  const refusal = memoryBudgetRefusal(design, config.RUN_MEMORY_BUDGET_MB, tilesMaxSide);
   if (refusal) {
-    throw new AppError(413, refusal, { estimatedMiB: String(estimateRunMemory(design).mib), budgetMiB: String(config.RUN_MEMORY_BUDGET_MB) });
+    throw new AppError(413, refusal, { estimatedMiB: String(estimateRunMemory(design, { tilesMaxSide }).mib), budgetMiB: String(config.RUN_MEMORY_BUDGET_MB) });
   }
 }

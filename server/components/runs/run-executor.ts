@@ -246,7 +246,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
     const loaded = await loadTask(runId);
     if (!loaded || !accepting) return null;
     // Checked again here: the run may have been queued under another budget, or by a server with another one.
-    const overBudget = memoryBudgetMb ? memoryBudgetRefusal(loaded.design, memoryBudgetMb) : null;
+    const overBudget = memoryBudgetMb ? memoryBudgetRefusal(loaded.design, memoryBudgetMb, tileSide) : null;
     if (overBudget) {
       if (await markFailed(runId, overBudget, ['queued'])) changed(runId);
       return null;
