@@ -50,7 +50,7 @@ function MemoryEstimate() {
       </output>
       <span className="text-xs text-ink-soft">
         {budgetMb === undefined
-          ? 'Peak memory of the run, from cells, holograms and propagation.'
+          ? 'Peak memory of the run, from its cells, propagation and previews.'
           : over
             ? `More than the ${formatMemory(budgetMb * 1024 * 1024)} a run may use on this server: the run would be refused. Choose fewer cells.`
             : `This server allows ${formatMemory(budgetMb * 1024 * 1024)} per run.`}
