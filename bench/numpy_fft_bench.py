@@ -1,10 +1,12 @@
 #!/usr/bin/env python3
 """Reference timings for bench/fft-bench.ts: numpy complex128 and scipy.fft complex64 (workers=1).
 
-Usage: python3 bench/numpy_fft_bench.py 256 512 1024 2048
+Usage: python3 bench/numpy_fft_bench.py 512 1024 2048 4096
 Prints one JSON object: {"numpy": ..., "scipy": ..., "sizes": {"N": {numpy_fft_ms, numpy_gs_ms, scipy_fft_ms,
-scipy_gs_ms}}}. Median of several runs; buffers allocated once per size and reused where the API allows
-(numpy ≥ 2 accepts out=; scipy.fft runs with overwrite_x=True).
+scipy_gs_ms, and the same keys ending in _cpu_ms}}}. Median of several runs: wall time, and the calling
+thread's CPU time (time.thread_time; every call here runs on that one thread), which a shared machine's load
+disturbs far less. Buffers allocated once per size and reused where the API allows (numpy ≥ 2 accepts out=;
+scipy.fft runs with overwrite_x=True).
 GS iteration = forward FFT, amplitude swap (target amplitude, keep phase), inverse FFT, phase-only constraint.
 """
 import json
@@ -17,18 +19,27 @@ import scipy.fft
 
 
 def median_ms(fn, reps):
+    """(median wall ms, median thread CPU ms) of reps calls after one warm-up call."""
     fn()
-    times = []
+    wall = []
+    cpu = []
     for _ in range(reps):
         t0 = time.perf_counter()
+        c0 = time.thread_time()
         fn()
-        times.append((time.perf_counter() - t0) * 1e3)
-    times.sort()
-    return times[len(times) // 2]
+        cpu.append((time.thread_time() - c0) * 1e3)
+        wall.append((time.perf_counter() - t0) * 1e3)
+    wall.sort()
+    cpu.sort()
+    return wall[len(wall) // 2], cpu[len(cpu) // 2]
 
 
 def reps_for(n):
-    return {256: 20, 512: 10, 1024: 6}.get(n, 3)
+    return {256: 20, 512: 10, 1024: 7, 2048: 5}.get(n, 3)
+
+
+def record(result, key, fn, reps):
+    result[key + "_ms"], result[key + "_cpu_ms"] = median_ms(fn, reps)
 
 
 def bench(n):
@@ -41,7 +52,7 @@ def bench(n):
     g = np.exp(2j * np.pi * rng.random((n, n)))
     spectrum = np.empty_like(g)
     magnitude = np.empty((n, n))
-    result["numpy_fft_ms"] = median_ms(lambda: np.fft.fft2(g, out=spectrum), reps)
+    record(result, "numpy_fft", lambda: np.fft.fft2(g, out=spectrum), reps)
 
     def numpy_gs():
         np.fft.fft2(g, out=spectrum)
@@ -55,14 +66,14 @@ def bench(n):
         np.reciprocal(magnitude, out=magnitude)
         g.__imul__(magnitude)
 
-    result["numpy_gs_ms"] = median_ms(numpy_gs, reps)
+    record(result, "numpy_gs", numpy_gs, reps)
 
     # scipy.fft complex64, one worker
     g32 = np.exp(2j * np.pi * rng.random((n, n))).astype(np.complex64)
     target32 = target.astype(np.float32)
     magnitude32 = np.empty((n, n), dtype=np.float32)
     work = g32.copy()
-    result["scipy_fft_ms"] = median_ms(lambda: scipy.fft.fft2(work, workers=1, overwrite_x=True), reps)
+    record(result, "scipy_fft", lambda: scipy.fft.fft2(work, workers=1, overwrite_x=True), reps)
     state = {"g": g32}
 
     def scipy_gs():
@@ -78,12 +89,12 @@ def bench(n):
         field *= magnitude32
         state["g"] = field
 
-    result["scipy_gs_ms"] = median_ms(scipy_gs, reps)
+    record(result, "scipy_gs", scipy_gs, reps)
     return result
 
 
 def main():
-    sizes = [int(a) for a in sys.argv[1:]] or [256, 512, 1024, 2048]
+    sizes = [int(a) for a in sys.argv[1:]] or [512, 1024, 2048, 4096]
     out = {"numpy": np.__version__, "scipy": scipy.__version__, "sizes": {str(n): bench(n) for n in sizes}}
     print(json.dumps(out))
 

@@ -5,9 +5,12 @@
  * Backend: PFFFT compiled to WebAssembly with SIMD (`@echogarden/pffft-wasm/simd`, single precision),
  * chosen by benchmark (bench/fft-bench.ts) over fft.js and ndarray-fft; it runs in Node and in browsers.
  * Data live in one interleaved float32 buffer (re, im, re, im…) inside the WebAssembly memory, allocated
- * once per plan. Rows are transformed one at a time and the square buffer is transposed in place
- * (8×8 tiles), so a 2-D transform is: rows, transpose, rows, transpose. A retrieval cycle limited to some
- * spectrum columns copies just those columns out (8×8 tiles) instead of transposing the whole buffer.
+ * once per plan. Rows are transformed one at a time; columns are copied out in strips of 32 that stay in cache
+ * (8-byte complex values, 2×2 blocks), transformed there and copied back, so a 2-D transform is: rows, column
+ * strips. A retrieval cycle (`cycle`) applies its constraints to the column strips and the rows while they are
+ * in cache; a cycle limited to some spectrum columns copies just those. `forwardTransposed` /
+ * `inverseTransposed` transpose the square buffer in place instead (8×8 tiles) and leave the spectrum
+ * transposed. With the SIMD kernels (kernels.wat) the copies, transposes and scaling run as WebAssembly SIMD too.
  *
  * Conventions (same as numpy.fft.fft2 / ifft2):
  * - forward  F[ky, kx] = Σ f[y, x] · exp(−2πi (ky·y + kx·x)/N), unscaled;
@@ -30,11 +33,13 @@ const PFFFT_COMPLEX = 1;
 /** Tile edge of the in-place transpose, in complex elements (measured fastest on this engine's target CPUs). */
 const TRANSPOSE_TILE = 8;
 /**
- * A cycle limited to at most this share of the spectrum columns copies them out instead of transposing the
- * whole buffer twice (measured: the copy costs about as much per column as two transposes do per row; at
- * 1024² the 178 window columns of the demo take 7.2 ms per cycle against 11–12 ms for a full one).
+ * Columns transformed together (a strip of 32·N complex values: 256 KiB at 1024², 1 MiB at 4096², within a core's
+ * L2 cache). Measured on the 2-core build machine against transposing the whole buffer there and back (CPU time,
+ * medians): a GS iteration at 1024² 13.6 against 15.2 ms, at 2048² 58 against 67 ms (strips of 16 were slower at
+ * 2048², of 64 no faster); a forward FFT at 1024² 7.5 against 9.7 ms, at 2048² 39.5 against 45.9 ms, at 4096²
+ * 139 against 181 ms.
  */
-const COLUMN_COPY_SHARE = 0.5;
+const STRIP_COLUMNS = 32;
 
 export const MIN_FFT_SIZE = 64;
 export const MAX_FFT_SIZE = 8192;
@@ -55,13 +60,35 @@ export interface FftInitOptions {
   simdBinary?: Uint8Array;
 }
 
-/** The engine's WebAssembly SIMD kernels (kernels.wat), working on FFT plan buffers in place. */
+/**
+ * The engine's WebAssembly SIMD kernels (kernels.wat), working in place on FFT plan buffers and on arrays
+ * from `allocateKernelArray`. Pointers are byte offsets into the backend's memory; counts are complex values.
+ */
 export interface FftKernels {
   /**
-   * Device-plane modulus constraint: each of `count` (even) complex float32 values at byte `pointer` of the
-   * backend's memory becomes amplitude·z/|z|, or (amplitude, 0) where z = 0.
+   * Device-plane modulus constraint: each of `count` (a multiple of 4) complex float32 values at byte `pointer`
+   * of the backend's memory becomes amplitude·z/|z|, or (amplitude, 0) where z = 0.
    */
   normalizeUniform(pointer: number, count: number, amplitude: number): void;
+  /** The same with one float32 amplitude per value, at byte `amplitudes`. */
+  normalize(pointer: number, count: number, amplitudes: number): void;
+  /**
+   * Image-plane modulus constraint of GS / weighted GS / MRAF with the iteration's error sums (kernels.wat
+   * states the codes, the weights' update and the seven float64 sums added at byte `sums`). `weights` 0: none.
+   */
+  imagePlane(pointer: number, count: number, codes: number, weights: number, mix: number, keep: number, meanRatio: number, sums: number): void;
+  /** z ← z·h (or z·conj h when `conjugate` is 1) with h the complex float32 values at byte `h`; count even. */
+  multiplyComplex(pointer: number, count: number, h: number, conjugate: number): void;
+  /** `imagePlane` on values in the backend's internal order (groups of 4 real parts, then 4 imaginary parts). */
+  imagePlaneSplit(pointer: number, count: number, codes: number, weights: number, mix: number, keep: number, meanRatio: number, sums: number): void;
+  /** `multiplyComplex` on values (and h) in the backend's internal order. */
+  multiplyComplexSplit(pointer: number, count: number, h: number, conjugate: number): void;
+  /** Multiplies `count` (even) complex float32 values by a real factor. */
+  scale(pointer: number, count: number, factor: number): void;
+  /** In-place transpose of an n×n complex float32 matrix, in tiles of `tile` (even, dividing n). */
+  transpose(pointer: number, n: number, tile: number): void;
+  /** Columns x … x + width − 1 of an n×n complex grid into rows of `columns` (toColumns 1) or back (0). */
+  copyColumns(grid: number, n: number, x: number, width: number, columns: number, toColumns: number): void;
 }
 
 /** The part of the WebAssembly API the kernels need (the engine is compiled without DOM or Node types). */
@@ -100,7 +127,9 @@ async function loadWithKernels(
   ]);
   if (!memory) throw new Error('The FFT backend exports no memory');
   const exports = new wasm.Instance(new wasm.Module(KERNELS_WASM), { env: { memory } }).exports;
-  return { module, kernels: { normalizeUniform: exports.normalizeUniform as FftKernels['normalizeUniform'] } };
+  const names = ['normalizeUniform', 'normalize', 'imagePlane', 'imagePlaneSplit', 'multiplyComplex', 'multiplyComplexSplit', 'scale', 'transpose', 'copyColumns'] as const;
+  const loaded = Object.fromEntries(names.map((name) => [name, exports[name]])) as unknown as FftKernels;
+  return { module, kernels: loaded };
 }
 
 /**
@@ -191,12 +220,14 @@ export class Fft2d {
   private workPointer: number;
   private view: Float32Array;
   private pairs: Float64Array;
-  /** Buffer of the spectrum columns of a limited cycle, one per row (grown on demand), and its views. */
+  /** Strip buffer of a cycle's spectrum columns, one per row (allocated on first use), and its views. */
   private columnsPointer = 0;
   private columnsCapacity = 0;
   private columnsView: Float32Array | null = null;
   private columnsPairs: Float64Array | null = null;
   private chained = false;
+  /** With the SIMD kernels: the frequency index at each position of a cycle's spectrum rows (internal order). */
+  private readonly order: Int32Array | null;
 
   constructor(n: number) {
     assertFftSize(n);
@@ -211,6 +242,31 @@ export class Fft2d {
     }
     this.view = new Float32Array(module.HEAPF32.buffer, this.dataPointer, 2 * n * n);
     this.pairs = new Float64Array(module.HEAPF32.buffer, this.dataPointer, n * n);
+    this.order = kernels ? this.internalOrder() : null;
+  }
+
+  /** Frequency index at each position of PFFFT's internal order: the indices 0…n−1 reordered (buffer clobbered). */
+  private internalOrder(): Int32Array {
+    const n = this.n;
+    const data = this.data;
+    for (let k = 0; k < n; k++) {
+      data[2 * k] = k;
+      data[2 * k + 1] = 0;
+    }
+    this.module._pffft_zreorder(this.setup, this.dataPointer, this.workPointer, PFFFT_BACKWARD);
+    const internal = new Float32Array(this.module.HEAPF32.buffer, this.workPointer, 2 * n);
+    // Groups of four values: four real parts, then four imaginary parts.
+    return Int32Array.from({ length: n }, (_, p) => internal[8 * (p >> 2) + (p & 3)]);
+  }
+
+  /**
+   * The order of the values in the spectrum rows a cycle hands to its spectrum operation: null — natural order,
+   * interleaved (re, im) (without the SIMD kernels); otherwise PFFFT's internal order, which saves the reordering
+   * (10–30 % of a row transform): value p of a row is frequency index order[p] and each group of four values is
+   * stored as four real parts, then four imaginary parts (the kernels' `…Split` variants work on it).
+   */
+  spectrumOrder(): Int32Array | null {
+    return this.order;
   }
 
   /**
@@ -278,9 +334,7 @@ export class Fft2d {
   forward(): void {
     this.assertNotChained();
     this.rowPass(PFFFT_FORWARD, null, -1, 1);
-    this.transpose();
-    this.rowPass(PFFFT_FORWARD, null, -1, 1);
-    this.transpose();
+    this.columnPass([0, this.n], PFFFT_FORWARD, null, -1);
   }
 
   /**
@@ -289,10 +343,8 @@ export class Fft2d {
    */
   inverse(): void {
     this.assertNotChained();
-    this.rowPass(PFFFT_BACKWARD, null, -1, 1);
-    this.transpose();
     this.rowPass(PFFFT_BACKWARD, null, -1, 1 / (this.n * this.n));
-    this.transpose();
+    this.columnPass([0, this.n], PFFFT_BACKWARD, null, -1);
   }
 
   /**
@@ -320,8 +372,11 @@ export class Fft2d {
    * multiplied by N² unless `spectrumRow` divides), `fieldRow` on every field row.
    * The spectrum is seen transposed and unshifted: row r holds kx index r, element j of that row is
    * ky index j (frequency index m means m for m < N/2, m − N otherwise).
-   * `spectrumRows`: only these spectrum rows (kx indices) are transformed and passed to `spectrumRow` (possibly
-   * in a separate buffer: use the `data` and `offset` it receives); all others are set to zero, for a
+   * `spectrumRow` gets spectrum rows in the plan's strip buffer, not in `data`: use the `data` and `offset` it
+   * receives (the row argument is the kx index); with the SIMD kernels the values of a row are in the order
+   * `spectrumOrder()` gives.
+   * `spectrumRows`: only these spectrum rows (kx indices) are transformed and passed to `spectrumRow`; all
+   * others are set to zero, for a
    * constraint that zeroes them anyway — far less work. null: every row.
    * With `chainForward`, the forward row transforms of the next cycle are done while each field row is
    * still in cache; the buffer is then half-transformed until a cycle with `chainForward = false`.
@@ -331,15 +386,9 @@ export class Fft2d {
     if (!this.chained) this.rowPass(PFFFT_FORWARD, null, -1, 1);
     const spans = spectrumRows ?? [0, this.n];
     assertSpans(spans, this.n);
-    if (spanLength(spans) <= this.n * COLUMN_COPY_SHARE) {
-      this.columnRoundTrip(spans, spectrumRow);
-      this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1, spans);
-    } else {
-      this.transpose();
-      this.spectrumRowPass(spans, spectrumRow);
-      this.transpose();
-      this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1);
-    }
+    this.columnPass(spans, PFFFT_FORWARD, spectrumRow, PFFFT_BACKWARD, this.order !== null);
+    const limited = spanLength(spans) < this.n;
+    this.rowPass(PFFFT_BACKWARD, fieldRow, chainForward ? PFFFT_FORWARD : -1, 1, limited ? spans : null);
     this.chained = chainForward;
   }
 
@@ -359,8 +408,9 @@ export class Fft2d {
   }
 
   /** One in-place 1-D transform of the n complex values at byte `pointer` of the backend's memory. */
-  private transformAt(pointer: number, direction: number): void {
-    this.module._pffft_transform_ordered(this.setup, pointer, pointer, this.workPointer, direction);
+  private transformAt(pointer: number, direction: number, internal = false): void {
+    if (internal) this.module._pffft_transform(this.setup, pointer, pointer, this.workPointer, direction);
+    else this.module._pffft_transform_ordered(this.setup, pointer, pointer, this.workPointer, direction);
   }
 
   /**
@@ -376,7 +426,9 @@ export class Fft2d {
       const offset = 2 * n * row;
       if (keepColumns) zeroOutside(data, offset, n, keepColumns);
       this.transformAt(pointer, first);
-      if (scale !== 1) {
+      if (scale !== 1 && kernels) {
+        kernels.scale(pointer, n, scale);
+      } else if (scale !== 1) {
         const end = offset + 2 * n;
         for (let i = offset; i < end; i++) data[i] *= scale;
       }
@@ -386,64 +438,49 @@ export class Fft2d {
   }
 
   /**
-   * The spectrum half of a limited cycle: copies the columns of `spans` (8×8 tiles) into rows of the column
-   * buffer, transforms each forward, applies `op` (row argument = column index), transforms it back and
-   * copies the columns home. The other columns keep stale values: the caller zeroes them.
+   * The column transforms, strip by strip: up to STRIP_COLUMNS columns of `spans` at a time are copied into rows
+   * of the strip buffer (small enough to stay in cache), each transformed (`first` direction), given to `op`
+   * (row argument = column index), optionally transformed again (`second`, −1 for none), and the strip is
+   * copied home. Columns outside `spans` are left as they are (a cycle's caller zeroes them). `internal`: the
+   * frequency side in PFFFT's internal order (`spectrumOrder`), for a round trip.
    */
-  private columnRoundTrip(spans: RowSpans, op: RowOperation | null): void {
+  private columnPass(spans: RowSpans, first: number, op: RowOperation | null, second: number, internal = false): void {
     const n = this.n;
-    this.reserveColumns(spanLength(spans));
+    const strip = Math.min(STRIP_COLUMNS, n);
+    this.reserveColumns(strip);
     this.refreshViews();
-    const grid = this.pairs;
-    const columns = this.columnsPairs!;
     const view = this.columnsView!;
-    const tile = TRANSPOSE_TILE;
-    const copy = (toColumns: boolean) => {
-      for (let y0 = 0; y0 < n; y0 += tile) {
-        let k = 0;
-        for (let s = 0; s < spans.length; s += 2) {
-          for (let x = spans[s]; x < spans[s + 1]; x++, k++) {
-            const row = k * n + y0;
-            if (toColumns) for (let y = 0, p = y0 * n + x; y < tile; y++, p += n) columns[row + y] = grid[p];
-            else for (let y = 0, p = y0 * n + x; y < tile; y++, p += n) grid[p] = columns[row + y];
-          }
-        }
-      }
-    };
-    copy(true);
-    let k = 0;
     for (let s = 0; s < spans.length; s += 2) {
-      for (let x = spans[s]; x < spans[s + 1]; x++, k++) {
-        const pointer = this.columnsPointer + 8 * n * k;
-        this.transformAt(pointer, PFFFT_FORWARD);
-        if (op) op(view, 2 * n * k, x);
-        this.transformAt(pointer, PFFFT_BACKWARD);
+      for (let x = spans[s]; x < spans[s + 1]; x += strip) {
+        const width = Math.min(strip, spans[s + 1] - x);
+        this.copyColumns(x, width, true);
+        for (let k = 0; k < width; k++) {
+          const pointer = this.columnsPointer + 8 * n * k;
+          this.transformAt(pointer, first, internal);
+          if (op) op(view, 2 * n * k, x + k);
+          if (second >= 0) this.transformAt(pointer, second, internal);
+        }
+        this.copyColumns(x, width, false);
       }
     }
-    copy(false);
   }
 
-  /**
-   * The spectrum half of a cycle on the transposed buffer: the rows of `spans` are transformed forward, given
-   * to `op` and transformed back; the rows between them are set to zero.
-   */
-  private spectrumRowPass(spans: RowSpans, op: RowOperation | null): void {
+  /** Columns x … x + width − 1 of the buffer into rows 0 … width − 1 of the strip buffer, or back. */
+  private copyColumns(x: number, width: number, toColumns: boolean): void {
     const n = this.n;
-    const rowBytes = 8 * n;
-    const data = this.data;
-    let done = 0;
-    for (let s = 0; s <= spans.length; s += 2) {
-      const start = s < spans.length ? spans[s] : n;
-      if (start > done) data.fill(0, 2 * n * done, 2 * n * start);
-      if (s === spans.length) break;
-      const end = spans[s + 1];
-      let pointer = this.dataPointer + rowBytes * start;
-      for (let row = start; row < end; row++, pointer += rowBytes) {
-        this.transformAt(pointer, PFFFT_FORWARD);
-        if (op) op(data, 2 * n * row, row);
-        this.transformAt(pointer, PFFFT_BACKWARD);
+    if (kernels) {
+      kernels.copyColumns(this.dataPointer, n, x, width, this.columnsPointer, toColumns ? 1 : 0);
+      return;
+    }
+    const grid = this.pairs;
+    const columns = this.columnsPairs!;
+    const tile = TRANSPOSE_TILE;
+    for (let y0 = 0; y0 < n; y0 += tile) {
+      for (let k = 0; k < width; k++) {
+        const row = k * n + y0;
+        if (toColumns) for (let y = 0, p = y0 * n + x + k; y < tile; y++, p += n) columns[row + y] = grid[p];
+        else for (let y = 0, p = y0 * n + x + k; y < tile; y++, p += n) grid[p] = columns[row + y];
       }
-      done = end;
     }
   }
 
@@ -460,6 +497,10 @@ export class Fft2d {
 
   /** In-place transpose of the n×n complex matrix, moving each (re, im) float32 pair as one 8-byte word. */
   private transpose(): void {
+    if (kernels) {
+      kernels.transpose(this.dataPointer, this.n, TRANSPOSE_TILE);
+      return;
+    }
     this.refreshViews();
     const a = this.pairs;
     const n = this.n;
@@ -536,6 +577,49 @@ export function getFft2d(n: number): Fft2d {
     cachedPlans.set(n, plan);
   }
   return plan;
+}
+
+/**
+ * Memory of the engine in the FFT backend's own heap, where the SIMD kernels reach it by `pointer` (phase
+ * retrieval's target codes, weights and transfer function). Freed memory stays in that heap and is reused by
+ * the next allocation, already paged in. Views are re-created when the memory grew: take them after the last
+ * allocation. Example: `const a = allocateKernelArray(16); a.float64()[0] = 1; a.free();`
+ */
+export class KernelArray {
+  readonly bytes: number;
+  private address: number;
+  private readonly module: PffftModule;
+
+  constructor(bytes: number) {
+    this.module = requireModule();
+    this.bytes = bytes;
+    this.address = this.module._pffft_aligned_malloc(bytes);
+    if (!this.address) throw new RangeError(`Not enough WebAssembly memory for ${bytes} bytes of working arrays`);
+  }
+
+  /** Byte offset in the backend's memory (16-byte aligned). */
+  get pointer(): number {
+    if (this.address === 0) throw new Error('Kernel array used after free()');
+    return this.address;
+  }
+
+  float32(): Float32Array {
+    return new Float32Array(this.module.HEAPF32.buffer, this.pointer, this.bytes >> 2);
+  }
+
+  float64(): Float64Array {
+    return new Float64Array(this.module.HEAPF32.buffer, this.pointer, this.bytes >> 3);
+  }
+
+  free(): void {
+    if (this.address) this.module._pffft_aligned_free(this.address);
+    this.address = 0;
+  }
+}
+
+/** `bytes` of backend memory for kernel operands (see KernelArray). Requires `await initFft()` first. */
+export function allocateKernelArray(bytes: number): KernelArray {
+  return new KernelArray(bytes);
 }
 
 function fieldTransform(field: ComplexField, out: ComplexField | undefined, inverse: boolean): ComplexField {

@@ -32,7 +32,7 @@
  * - windowEfficiency η_k = Σ_win |G_k|² / Σ a², fraction of incident power in the window.
  */
 import { float64Array, type ArrayMemory } from './arrays';
-import { fftKernels, getFft2d, type Fft2d, type RowOperation, type RowSpans } from './fft';
+import { allocateKernelArray, fftKernels, getFft2d, type Fft2d, type FftKernels, type RowOperation, type RowSpans } from './fft';
 import { illuminationAmplitude, incidentPower, type Illumination } from './illumination';
 import { transferFunction } from './propagation';
 import { mulberry32 } from './random';
@@ -76,12 +76,11 @@ export interface RetrievalResult {
   iterations: number;
 }
 
-/** Region codes of image-plane pixels. */
-const EVANESCENT = 0;
-const NOISE = 1;
-const SIGNAL = 2;
+/** Image-plane codes below zero (a code ≥ 0 is a window pixel's target amplitude): kept ×(1 − m) by MRAF, or dropped. */
+const NOISE_CODE = -1;
+const EVANESCENT_CODE = -2;
 
-/** Accumulator slots of one iteration's image-plane pass. */
+/** Slots of one iteration's sums (the order kernels.wat's imagePlane adds them in). */
 const ACC_FIENUP = 0;
 const ACC_GT = 1;
 const ACC_GG = 2;
@@ -90,6 +89,7 @@ const ACC_RATIO = 4;
 const ACC_BRIGHT = 5;
 /** Σ |G|² over every spectrum pixel the plan computed. */
 const ACC_COMPUTED = 6;
+const SUM_SLOTS = 8;
 
 /**
  * Runs GS / weighted GS / MRAF and returns the device phase with the per-iteration error history.
@@ -116,64 +116,111 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
   const m = n * padding;
   const o = (m - n) / 2;
   const plan = getFft2d(m);
-  const illumination = illuminationAmplitude(grid, options.illumination);
-  const power = incidentPower(illumination);
-  const deviceAmplitude = new Float32Array(m * m);
-  for (let y = 0; y < n; y++) deviceAmplitude.set(illumination.subarray(y * n, y * n + n), (y + o) * m + o);
-
-  // Image-plane arrays in the layout the plan presents them: transposed and unshifted spectrum (Fourier),
-  // normal centred rows (Fresnel image plane).
-  const targetScaled = new Float32Array(m * m);
-  const region = new Uint8Array(m * m);
-  const { x0, y0, width, height } = target.window;
-  let targetPower = 0;
-  for (let iy = y0; iy < y0 + height; iy++) {
-    for (let ix = x0; ix < x0 + width; ix++) targetPower += target.amplitude[iy * n + ix] ** 2;
-  }
-  if (!(targetPower > 0)) throw new RangeError('Target is dark: no pixel of the window has a positive value');
-  // Fourier: FFT units (unscaled transform, Σ|G|² = N²·Σ a²); Fresnel: the propagated field is unitary.
-  const scale = Math.sqrt(power / targetPower) * (fresnel ? 1 : n);
-  const half = n / 2;
-  const deltaU = grid.lambda / (n * grid.period);
-  for (let r = 0; r < m; r++) {
-    for (let j = 0; j < m; j++) {
-      const ix = fresnel ? j - o : (r + half) % n;
-      const iy = fresnel ? r - o : (j + half) % n;
-      const u = (ix - half) * deltaU;
-      const v = (iy - half) * deltaU;
-      const inWindow = ix >= x0 && ix < x0 + width && iy >= y0 && iy < y0 + height;
-      const index = r * m + j;
-      targetScaled[index] = inWindow ? target.amplitude[iy * n + ix] * scale : 0;
-      region[index] = inWindow ? SIGNAL : !fresnel && u * u + v * v > 1 ? EVANESCENT : NOISE;
-    }
-  }
-  const weights = algorithm === 'weighted-gs' ? new Float32Array(m * m).fill(1) : null;
-  const accumulator = new Float64Array(7);
-  let previousMeanRatio = 0;
-  const spectrumRows = !fresnel && algorithm !== 'mraf' ? windowSpectrumRows(target.window, n) : null;
-
-  const imagePlaneOp = makeImagePlaneOp(algorithm, m, targetScaled, region, weights, accumulator, mixing, () => previousMeanRatio);
-  const deviceOp = makeDeviceOp(m, deviceAmplitude);
-
-  let forwardOp: RowOperation | null = null;
-  let backwardOp: RowOperation | null = null;
-  if (fresnel) {
-    const h = transferFunction(m, grid.period, grid.lambda, z as number, true);
-    const norm = 1 / (m * m);
-    forwardOp = (data, offset, row) => multiplyRow(data, offset, h.re, h.im, row * m, m, norm, 1);
-    backwardOp = (data, offset, row) => multiplyRow(data, offset, h.re, h.im, row * m, m, norm, -1);
-  }
-
-  loadStartField(plan, n, o, deviceAmplitude, options.initialPhase, options.seed ?? 1);
   const fourierError = new Float64Array(iterations);
   const windowError = new Float64Array(iterations);
   const windowEfficiency = new Float64Array(iterations);
-  const fftUnits = fresnel ? 1 : n * n;
 
+  // Working arrays. With the SIMD kernels they live in the FFT backend's memory, where the kernels reach them by
+  // pointer beside the plan's buffer, and where memory freed by one retrieval is reused by the next one already
+  // paged in (a first touch of fresh memory costs ≈ 13 µs per 4 KiB page on the build machine); views are taken
+  // after the last allocation. Otherwise plain arrays.
+  const count = m * m;
+  const kernels = fftKernels();
+  const held = kernels
+    ? {
+        illumination: allocateKernelArray(8 * n * n),
+        amplitudes: allocateKernelArray(4 * count),
+        codes: allocateKernelArray(4 * count),
+        weights: algorithm === 'weighted-gs' ? allocateKernelArray(4 * count) : null,
+        transfer: fresnel ? allocateKernelArray(8 * count) : null,
+        sums: allocateKernelArray(8 * SUM_SLOTS),
+      }
+    : null;
   try {
+    const illumination = illuminationAmplitude(grid, options.illumination, held?.illumination.float64());
+    const power = incidentPower(illumination);
+    const deviceAmplitude = held ? held.amplitudes.float32().fill(0) : new Float32Array(count);
+    for (let y = 0; y < n; y++) deviceAmplitude.set(illumination.subarray(y * n, y * n + n), (y + o) * m + o);
+    const uniform = deviceAmplitude.every((a) => a === deviceAmplitude[0]);
+
+    // Image-plane codes in the layout the plan presents them (Fourier geometry: transposed and unshifted spectrum,
+    // each row in the plan's spectrum order; Fresnel: normal centred rows of the image plane): target amplitude ≥ 0
+    // in the window, NOISE_CODE in the rest of the propagating region, EVANESCENT_CODE where the field is dropped.
+    const order = plan.spectrumOrder();
+    const codes = held ? held.codes.float32() : new Float32Array(count);
+    const { x0, y0, width, height } = target.window;
+    let targetPower = 0;
+    for (let iy = y0; iy < y0 + height; iy++) {
+      for (let ix = x0; ix < x0 + width; ix++) targetPower += target.amplitude[iy * n + ix] ** 2;
+    }
+    if (!(targetPower > 0)) throw new RangeError('Target is dark: no pixel of the window has a positive value');
+    // Fourier: FFT units (unscaled transform, Σ|G|² = N²·Σ a²); Fresnel: the propagated field is unitary.
+    const scale = Math.sqrt(power / targetPower) * (fresnel ? 1 : n);
+    const half = n / 2;
+    const deltaU = grid.lambda / (n * grid.period);
+    for (let r = 0; r < m; r++) {
+      for (let q = 0; q < m; q++) {
+        const j = order && !fresnel ? order[q] : q;
+        const ix = fresnel ? j - o : (r + half) % n;
+        const iy = fresnel ? r - o : (j + half) % n;
+        const u = (ix - half) * deltaU;
+        const v = (iy - half) * deltaU;
+        const inWindow = ix >= x0 && ix < x0 + width && iy >= y0 && iy < y0 + height;
+        codes[r * m + q] = inWindow ? target.amplitude[iy * n + ix] * scale : !fresnel && u * u + v * v > 1 ? EVANESCENT_CODE : NOISE_CODE;
+      }
+    }
+    const weights = algorithm === 'weighted-gs' ? (held ? held.weights!.float32() : new Float32Array(count)).fill(1) : null;
+    let transfer: Float32Array | null = null;
+    if (fresnel) {
+      // H/M²: the transfer function with the inverse FFT's scaling folded in, interleaved (re, im), or in the plan's
+      // spectrum order (groups of four real parts, then four imaginary parts) when it has one.
+      const h = transferFunction(m, grid.period, grid.lambda, z as number, true);
+      const norm = 1 / count;
+      transfer = held ? held.transfer!.float32() : new Float32Array(2 * count);
+      for (let r = 0; r < m; r++) {
+        for (let q = 0; q < m; q++) {
+          const i = r * m + (order ? order[q] : q);
+          const re = order ? 2 * r * m + 8 * (q >> 2) + (q & 3) : 2 * (r * m + q);
+          transfer[re] = h.re[i] * norm;
+          transfer[re + (order ? 4 : 1)] = h.im[i] * norm;
+        }
+      }
+    }
+    let sumsView = held ? held.sums.float64().fill(0) : new Float64Array(SUM_SLOTS);
+    // A view of the backend's memory is detached when the memory grows (the plan's column buffer, first cycle).
+    const sums = () => (sumsView.buffer.byteLength > 0 ? sumsView : (sumsView = held!.sums.float64()));
+    let previousMeanRatio = 0;
+    const constraint = { algorithm, mixing, meanRatio: () => previousMeanRatio };
+    const spectrumRows = !fresnel && algorithm !== 'mraf' ? windowSpectrumRows(target.window, n) : null;
+
+    let imagePlaneOp: RowOperation;
+    let deviceOp: RowOperation;
+    let forwardOp: RowOperation | null = null;
+    let backwardOp: RowOperation | null = null;
+    if (kernels && held) {
+      imagePlaneOp = kernelImagePlaneOp(kernels, m, held.codes.pointer, held.weights?.pointer ?? 0, held.sums.pointer, constraint, !fresnel && order !== null);
+      deviceOp = kernelDeviceOp(kernels, m, uniform ? null : held.amplitudes.pointer, deviceAmplitude[0]);
+      if (held.transfer) {
+        const h = held.transfer.pointer;
+        const multiply = order ? kernels.multiplyComplexSplit : kernels.multiplyComplex;
+        forwardOp = (data, offset, row) => multiply(data.byteOffset + 4 * offset, m, h + 8 * m * row, 0);
+        backwardOp = (data, offset, row) => multiply(data.byteOffset + 4 * offset, m, h + 8 * m * row, 1);
+      }
+    } else {
+      imagePlaneOp = makeImagePlaneOp(m, codes, weights, sumsView, constraint);
+      deviceOp = makeDeviceOp(m, deviceAmplitude, uniform);
+      if (transfer) {
+        const h = transfer;
+        forwardOp = (data, offset, row) => multiplyRow(data, offset, h, row * m, m, 1);
+        backwardOp = (data, offset, row) => multiplyRow(data, offset, h, row * m, m, -1);
+      }
+    }
+
+    loadStartField(plan, n, o, deviceAmplitude, options.initialPhase, options.seed ?? 1);
+    const fftUnits = fresnel ? 1 : n * n;
     for (let k = 0; k < iterations; k++) {
       options.signal?.throwIfAborted();
-      accumulator.fill(0);
+      sums().fill(0);
       const last = k === iterations - 1;
       if (fresnel) {
         plan.cycle(forwardOp, imagePlaneOp, true);
@@ -181,14 +228,15 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
       } else {
         plan.cycle(imagePlaneOp, deviceOp, !last, spectrumRows);
       }
-      const skipped = spectrumRows ? Math.max(0, power * fftUnits - accumulator[ACC_COMPUTED]) : 0;
-      fourierError[k] = Math.sqrt((accumulator[ACC_FIENUP] + skipped) / (power * fftUnits));
-      const tt = accumulator[ACC_TT];
-      const gg = accumulator[ACC_GG];
-      const residual = gg > 0 ? Math.max(0, tt - (accumulator[ACC_GT] * accumulator[ACC_GT]) / gg) : tt;
+      const acc = sums();
+      const skipped = spectrumRows ? Math.max(0, power * fftUnits - acc[ACC_COMPUTED]) : 0;
+      fourierError[k] = Math.sqrt((acc[ACC_FIENUP] + skipped) / (power * fftUnits));
+      const tt = acc[ACC_TT];
+      const gg = acc[ACC_GG];
+      const residual = gg > 0 ? Math.max(0, tt - (acc[ACC_GT] * acc[ACC_GT]) / gg) : tt;
       windowError[k] = tt > 0 ? Math.sqrt(residual / tt) : 0;
       windowEfficiency[k] = gg / (power * fftUnits);
-      previousMeanRatio = accumulator[ACC_BRIGHT] > 0 ? accumulator[ACC_RATIO] / accumulator[ACC_BRIGHT] : 0;
+      previousMeanRatio = acc[ACC_BRIGHT] > 0 ? acc[ACC_RATIO] / acc[ACC_BRIGHT] : 0;
       options.onProgress?.((k + 1) / iterations, 'phase retrieval', {
         iteration: k + 1,
         fourierError: fourierError[k],
@@ -197,8 +245,11 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
       });
     }
   } catch (error) {
-    plan.load(deviceAmplitude);
+    // Leaves the shared plan usable (a cycle may have been left half-way).
+    plan.load(new Float32Array(count));
     throw error;
+  } finally {
+    if (held) for (const array of Object.values(held)) array?.free();
   }
 
   const data = plan.data;
@@ -249,16 +300,35 @@ export function windowSpectrumRows(window: PixelWindow, n: number): RowSpans {
   return spans;
 }
 
+/** What the image-plane constraint needs besides the arrays: the algorithm, MRAF's m, weighted GS's ⟨|G|/T⟩. */
+interface Constraint {
+  algorithm: RetrievalAlgorithm;
+  mixing: number;
+  /** Mean |G|/T over the bright window pixels of the previous iteration (0 in the first). */
+  meanRatio: () => number;
+}
+
 /**
- * Device-plane modulus constraint: every field value gets the illumination amplitude, its phase kept. With
- * one amplitude for all cells and the SIMD kernels loaded, the kernel does it in place (≈ 3× faster).
+ * The image-plane constraint and its sums on the SIMD kernel, in place on the row the plan hands over; `split`:
+ * the row is in the plan's spectrum order (fft.ts `spectrumOrder`).
  */
-function makeDeviceOp(n: number, amplitude: Float32Array): RowOperation {
-  const uniform = amplitude.every((a) => a === amplitude[0]);
-  const a0 = amplitude[0];
-  const kernels = fftKernels();
+function kernelImagePlaneOp(kernels: FftKernels, n: number, codes: number, weights: number, sums: number, constraint: Constraint, split: boolean): RowOperation {
+  const mix = constraint.algorithm === 'mraf' ? constraint.mixing : 1;
+  const keep = constraint.algorithm === 'mraf' ? 1 - constraint.mixing : 0;
+  const kernel = split ? kernels.imagePlaneSplit : kernels.imagePlane;
+  return (data, offset, row) => kernel(data.byteOffset + 4 * offset, n, codes + 4 * n * row, weights && weights + 4 * n * row, mix, keep, constraint.meanRatio(), sums);
+}
+
+/** The device-plane constraint on the SIMD kernel: one amplitude for all cells, or one per cell (`amplitudes`). */
+function kernelDeviceOp(kernels: FftKernels, n: number, amplitudes: number | null, uniformAmplitude: number): RowOperation {
   // The plan's buffers live in the backend's memory: a view's byteOffset is the kernel's pointer.
-  if (uniform && kernels) return (data, offset) => kernels.normalizeUniform(data.byteOffset + 4 * offset, n, a0);
+  if (amplitudes === null) return (data, offset) => kernels.normalizeUniform(data.byteOffset + 4 * offset, n, uniformAmplitude);
+  return (data, offset, row) => kernels.normalize(data.byteOffset + 4 * offset, n, amplitudes + 4 * n * row);
+}
+
+/** Device-plane modulus constraint without the kernels: every field value gets the illumination amplitude, its phase kept. */
+function makeDeviceOp(n: number, amplitude: Float32Array, uniform: boolean): RowOperation {
+  const a0 = amplitude[0];
   return (data, offset, row) => {
     const base = row * n;
     for (let j = 0; j < n; j++) {
@@ -279,34 +349,27 @@ function makeDeviceOp(n: number, amplitude: Float32Array): RowOperation {
   };
 }
 
-/** data[row] ← data[row]·norm·H (sign 1) or ·norm·H* (sign −1). */
-function multiplyRow(data: Float32Array, offset: number, hRe: Float32Array, hIm: Float32Array, base: number, n: number, norm: number, sign: number): void {
+/** data[row] ← data[row]·h (sign 1) or ·h* (sign −1), h interleaved complex from index `base`. */
+function multiplyRow(data: Float32Array, offset: number, h: Float32Array, base: number, n: number, sign: number): void {
   for (let j = 0; j < n; j++) {
     const q = offset + 2 * j;
     const a = data[q];
     const b = data[q + 1];
-    const c = hRe[base + j] * norm;
-    const d = hIm[base + j] * norm * sign;
+    const c = h[2 * (base + j)];
+    const d = h[2 * (base + j) + 1] * sign;
     data[q] = a * c - b * d;
     data[q + 1] = a * d + b * c;
   }
 }
 
-/** Image-plane modulus constraint of each algorithm, also accumulating the error sums of the iteration. */
-function makeImagePlaneOp(
-  algorithm: RetrievalAlgorithm,
-  n: number,
-  target: Float32Array,
-  region: Uint8Array,
-  weights: Float32Array | null,
-  acc: Float64Array,
-  mixing: number,
-  previousMeanRatio: () => number,
-): RowOperation {
+/** Image-plane modulus constraint of each algorithm without the kernels, also adding the iteration's sums to `acc`. */
+function makeImagePlaneOp(n: number, codes: Float32Array, weights: Float32Array | null, acc: Float64Array, constraint: Constraint): RowOperation {
+  const mraf = constraint.algorithm === 'mraf';
+  const mixing = constraint.mixing;
+  const keep = mraf ? 1 - mixing : 0;
   return (data, offset, row) => {
     const base = row * n;
-    const meanRatio = previousMeanRatio();
-    const keep = algorithm === 'mraf' ? 1 - mixing : 0;
+    const meanRatio = constraint.meanRatio();
     let fienup = 0;
     let computed = 0;
     let gt = 0;
@@ -321,16 +384,15 @@ function makeImagePlaneOp(
       const index = base + j;
       const power = re * re + im * im;
       computed += power;
-      const code = region[index];
-      if (code !== SIGNAL) {
+      const t = codes[index];
+      if (t < 0) {
         // Outside the window the target is zero: (|G| − 0)².
         fienup += power;
-        const factor = code === NOISE ? keep : 0;
+        const factor = t === NOISE_CODE ? keep : 0;
         data[q] = re * factor;
         data[q + 1] = im * factor;
         continue;
       }
-      const t = target[index];
       const magnitude = Math.sqrt(power);
       const difference = magnitude - t;
       fienup += difference * difference;
@@ -346,7 +408,7 @@ function makeImagePlaneOp(
           if (meanRatio > 0) weights[index] *= meanRatio / ratio;
         }
         amplitude = t * weights[index];
-      } else if (algorithm === 'mraf') {
+      } else if (mraf) {
         amplitude = mixing * t;
       }
       if (magnitude > 0) {

@@ -8,13 +8,14 @@ import { assertCellGrid, cellCoordinates } from './phase-terms';
 export type Illumination = { kind: 'flat' } | { kind: 'gaussian'; waist: number };
 
 /**
- * Incident amplitude per cell, row-major N×N. Example: Gaussian with w = P·√2 on N = 2 → every cell at
- * r² = P²/2 has amplitude exp(−1/4) ≈ 0.7788.
+ * Incident amplitude per cell, row-major N×N, written into `out` when given (length N²). Example: Gaussian with
+ * w = P·√2 on N = 2 → every cell at r² = P²/2 has amplitude exp(−1/4) ≈ 0.7788.
  */
-export function illuminationAmplitude(grid: CellGrid, illumination: Illumination = { kind: 'flat' }): Float64Array {
+export function illuminationAmplitude(grid: CellGrid, illumination: Illumination = { kind: 'flat' }, out?: Float64Array): Float64Array {
   assertCellGrid(grid);
   const { n } = grid;
-  const amplitude = new Float64Array(n * n);
+  if (out && out.length !== n * n) throw new RangeError(`Illumination output must have ${n * n} values, got ${out.length}`);
+  const amplitude = out ?? new Float64Array(n * n);
   if (illumination.kind === 'flat') return amplitude.fill(1);
   const w = illumination.waist;
   if (!(w > 0) || !Number.isFinite(w)) throw new RangeError(`Gaussian waist must be positive, got ${w}`);

@@ -17,6 +17,10 @@ declare module '@echogarden/pffft-wasm' {
     _pffft_destroy_setup(setup: number): void;
     /** `direction`: 0 forward (exp(−2πi kn/N)), 1 backward (exp(+2πi kn/N)); both unscaled. */
     _pffft_transform_ordered(setup: number, input: number, output: number, work: number, direction: number): void;
+    /** The same with the frequency-domain side in PFFFT's internal order (forward output, backward input). */
+    _pffft_transform(setup: number, input: number, output: number, work: number, direction: number): void;
+    /** Canonical ↔ internal order (`direction` 0: internal → canonical, 1: canonical → internal); input ≠ output. */
+    _pffft_zreorder(setup: number, input: number, output: number, direction: number): void;
     _pffft_aligned_malloc(bytes: number): number;
     _pffft_aligned_free(pointer: number): void;
     _pffft_simd_size(): number;

@@ -42,6 +42,7 @@ export function createAppRouter(queryClient: QueryClient) {
                 { path: 'runs/:runId', lazy: () => import('@/app/routes/app/project/run').then(convert) },
                 { path: 'runs/:runId/layout', lazy: () => import('@/app/routes/app/project/run-layout').then(convert) },
                 { path: 'atom-libraries', lazy: () => import('@/app/routes/app/project/atom-libraries').then(convert) },
+                { path: 'atom-libraries/builds/:buildId', lazy: () => import('@/app/routes/app/project/library-build').then(convert) },
                 { path: 'atom-libraries/:libraryId', lazy: () => import('@/app/routes/app/project/atom-library').then(convert) },
               ],
             },

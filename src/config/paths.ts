@@ -85,6 +85,10 @@ export const paths = {
       path: '/projects/:projectId/atom-libraries/:libraryId',
       getHref: (projectId: number | string, libraryId: number | string) => `/projects/${projectId}/atom-libraries/${libraryId}`,
     },
+    libraryBuild: {
+      path: '/projects/:projectId/atom-libraries/builds/:buildId',
+      getHref: (projectId: number | string, buildId: number | string) => `/projects/${projectId}/atom-libraries/builds/${buildId}`,
+    },
   },
   shared: {
     path: '/shared/:token',

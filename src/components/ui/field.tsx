@@ -17,7 +17,8 @@ interface FieldShellProps {
   children: (ids: { controlId: string; describedBy: string | undefined; invalid: boolean }) => ReactNode;
 }
 
-function FieldShell({ label, hint, error, className = '', children }: FieldShellProps) {
+/** A label, a control made by `children` with the ids to wire, a hint and an error: the frame of every field. */
+export function FieldShell({ label, hint, error, className = '', children }: FieldShellProps) {
   const controlId = useId();
   const hintId = `${controlId}-hint`;
   const errorId = `${controlId}-error`;

@@ -43,7 +43,7 @@ export function PhaseCoverageChart({ atoms }: { atoms: AtomRow[] }) {
         />
         <Scatter data={points} isAnimationActive={false}>
           {points.map((p) => (
-            <Cell key={p.id} fill={rgb(sequentialColor(Math.min(1, Math.max(0, p.t))))} />
+            <Cell key={p.id} fill={rgb(sequentialColor(Math.min(1, Math.max(0, p.t))))} stroke="#5e4d6e" strokeWidth={0.75} />
           ))}
         </Scatter>
       </ScatterChart>

@@ -11,6 +11,7 @@ import { atomLibrariesQueryOptions, useAtomLibraries } from '@/features/atom-lib
 import { AtomLibrariesTable } from '@/features/atom-libraries/components/atom-libraries-table';
 import { CsvFormatGuide } from '@/features/atom-libraries/components/csv-format-guide';
 import { UploadAtomLibraryForm } from '@/features/atom-libraries/components/upload-atom-library-form';
+import { LibraryBuildsSection } from '@/features/library-builds/components/library-builds-section';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
 
 export const clientLoader =
@@ -34,8 +35,9 @@ export default function ProjectAtomLibrariesRoute() {
       <div className="mb-6 min-w-0">
         <h2 className="text-xl font-extrabold">Atom libraries</h2>
         <p className="mt-1 max-w-2xl text-sm text-ink-soft">
-          A run maps every cell to the best meta-atom of the design’s library. The built-in demo library is approximate; upload your
-          lab’s own simulated or measured library as CSV to design for fabrication.
+          A run maps every cell to the best meta-atom of the design’s library. The built-in demo library is approximate; compute a
+          library by rigorous coupled-wave analysis below, or upload your lab’s own simulated or measured library as CSV, to design
+          for fabrication.
         </p>
       </div>
       {warnings.length > 0 ? (
@@ -60,6 +62,7 @@ export default function ProjectAtomLibrariesRoute() {
         ) : (
           <AtomLibrariesTable libraries={libraries.data} libraryHref={(id) => paths.projects.atomLibrary.getHref(project.id, id)} />
         )}
+        <LibraryBuildsSection projectId={project.id} canStart={canUpload} />
         {canUpload ? (
           <Card title="Upload a library" description="A CSV with the columns below. A personal library is yours alone, in every project, until you share it with one from its page.">
             <UploadAtomLibraryForm

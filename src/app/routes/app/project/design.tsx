@@ -10,6 +10,7 @@ import { revisionQueryOptions, useRevision } from '@/features/designs/api/get-re
 import { revisionsQueryOptions, useRevisions } from '@/features/designs/api/get-revisions';
 import { useCurrentUser } from '@/features/auth/api/get-me';
 import { DesignComposer } from '@/features/designs/components/design-composer';
+import { useLibraryFromAddress } from '@/features/designs/hooks/use-library-from-address';
 import { useStartRun } from '@/features/runs/api/start-run';
 import { designSourceKey } from '@/features/designs/stores/design-editor-store';
 import { designTemplate, type DesignDraft } from '@/features/designs/utils/design-draft';
@@ -45,6 +46,7 @@ export default function ProjectDesignRoute() {
   const number = from ?? latest;
   const revision = useRevision(project.id, number);
   const template = useMemo(() => designTemplate(project.name), [project.name]);
+  useLibraryFromAddress(project.id, designSourceKey(user.id, project.id, number));
   const startRun = useStartRun(project.id);
   const runStarter = useMemo(
     () => ({ mutateAsync: (revisionNumber: number) => startRun.mutateAsync({ revisionNumber }), isPending: startRun.isPending }),
