@@ -16,10 +16,11 @@
  * design file in a fresh process and reports the resident-set high-water mark (VmHWM of /proc/self/status);
  * the per-cell constants are the slopes between 2048² and 4096² runs of the twin-image demo (2 iterations,
  * helper threads on and off), a Bessel pair and a Fresnel twin hologram, the constants raised until no measured
- * peak from 1024² to 4096² lay above its estimate. Measured / estimated, MiB: twin image 394 / 398, 880 / 896,
- * 2812–2875 / 2888 (1024², 2048², 4096²), through the server's run pool with tile pyramids 919 / 960 and 3104 / 3144 (2048², 4096²); an MRAF hologram beside a tilt at 4096² 2711 / 2888; Bessel pair 641 / 674,
- * 1412 / 1520, 4723–4831 / 4904; Fresnel twin hologram 511 / 674, 4455 / 4904 (a range: helper threads off and on,
- * where both were measured). `npm run bench` prints each run's peak beside its estimate.
+ * peak from 1024² to 4096² lay above its estimate. Measured / estimated, MiB (the highest of helper threads off
+ * and on where both were measured): twin image 394 / 417, 880 / 972, 3118 / 3192 (1024², 2048², 4096²); through
+ * the server's run pool with tile pyramids 919 / 1036 and 3104 / 3448 (2048², 4096²); an MRAF hologram beside a
+ * tilt at 4096² 2711 / 3192; Bessel pair 641 / 693, 1431 / 1596, 4831 / 5208; Fresnel twin hologram 526 / 733,
+ * 5746 / 5848. `npm run bench` prints each run's peak beside its estimate.
  */
 
 const MIB = 1024 * 1024;
@@ -27,11 +28,16 @@ const MIB = 1024 * 1024;
 /** Node, the FFT backend and the run's helper threads, before any array of the design. */
 export const PROCESS_BYTES = 232 * MIB;
 /** Results and outputs per cell (bytes). */
-export const RESULT_BYTES_PER_CELL = 166;
+export const RESULT_BYTES_PER_CELL = 185;
 /** Angular-spectrum propagation: a constant (its FFT plan and helpers)… */
 export const PROPAGATION_BYTES = 160 * MIB;
 /** …and per cell of the zero-padded grid (bytes). */
 export const PROPAGATION_BYTES_PER_CELL = 29;
+/**
+ * A hologram at a finite distance retrieves on the zero-padded grid: what that leaves in the FFT backend's
+ * WebAssembly memory, which never shrinks, per cell of that grid (bytes; once, however many such holograms).
+ */
+export const FRESNEL_RETRIEVAL_BYTES_PER_CELL = 10;
 /** Tile pyramids of the previews, per pixel of level 0 (bytes). */
 export const TILE_BYTES_PER_PIXEL = 16;
 /** Level 0's largest side when the caller does not say: the server's default PREVIEW_TILES_MAX_SIDE. */
@@ -61,20 +67,22 @@ export interface RunMemoryEstimate {
 /**
  * Estimated peak memory of running `design` (module comment). `tilesMaxSide`: the largest side of the tile
  * pyramids' level 0 (the server's PREVIEW_TILES_MAX_SIDE; 0 for none, as on the command line). Example: the
- * twin-image demo at 4096 cells (two far-field holograms, no propagation) without tiles → 232 MiB + 4096²·166
- * bytes ≈ 2.8 GiB; with the server's tiles 256 MiB more.
+ * twin-image demo at 4096 cells (two far-field holograms, no propagation) without tiles → 232 MiB + 4096²·185
+ * bytes ≈ 3.1 GiB; with the server's tiles 256 MiB more.
  */
 export function estimateRunMemory(design: MemoryDesign, options: { tilesMaxSide?: number } = {}): RunMemoryEstimate {
   const n = design.setup.cells;
   const cells = n * n;
   const padding = design.simulation?.padding ?? 2;
   const terms = [...design.channels.a.terms, ...design.channels.b.terms];
-  const propagates = terms.some((t) => t.kind === 'axicon' || t.kind === 'lens' || (t.kind === 'hologram' && t.fresnelDistanceUm !== undefined));
+  const fresnel = terms.some((t) => t.kind === 'hologram' && t.fresnelDistanceUm !== undefined);
+  const propagates = fresnel || terms.some((t) => t.kind === 'axicon' || t.kind === 'lens');
   const parts: RunMemoryPart[] = [
     { what: 'process and helper threads', bytes: PROCESS_BYTES },
     { what: `results of ${n}² cells`, bytes: RESULT_BYTES_PER_CELL * cells },
   ];
   if (propagates) parts.push({ what: `propagation on ${n * padding}² cells`, bytes: PROPAGATION_BYTES + PROPAGATION_BYTES_PER_CELL * cells * padding * padding });
+  if (fresnel) parts.push({ what: `retrieval at a distance on ${n * padding}² cells`, bytes: FRESNEL_RETRIEVAL_BYTES_PER_CELL * cells * padding * padding });
   const tileSide = Math.min(n, options.tilesMaxSide ?? DEFAULT_TILES_SIDE);
   if (tileSide > 0) parts.push({ what: `preview tiles of ${tileSide}² pixels`, bytes: TILE_BYTES_PER_PIXEL * tileSide * tileSide });
   const bytes = parts.reduce((sum, part) => sum + part.bytes, 0);

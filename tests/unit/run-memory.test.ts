@@ -38,12 +38,12 @@ function bessel(cells: number) {
 const MEASURED: [string, DesignInput, number][] = [
   ['twin image 1024²', twin(1024), 394],
   ['twin image 2048²', twin(2048), 880],
-  ['twin image 4096²', twin(4096), 2875],
+  ['twin image 4096²', twin(4096), 3118],
   ['Bessel pair 1024²', bessel(1024), 641],
   ['Bessel pair 2048²', bessel(2048), 1431],
   ['Bessel pair 4096² (8192² propagation)', bessel(4096), 4831],
   ['Fresnel twin hologram 1024²', fresnelTwin(1024), 526],
-  ['Fresnel twin hologram 4096²', fresnelTwin(4096), 4455],
+  ['Fresnel twin hologram 4096²', fresnelTwin(4096), 5746],
 ];
 
 /** Through the server's run pool (bench/server-run.ts: helper threads, tile pyramids up to 4096 px). */
