@@ -86,6 +86,12 @@ const envSchema = z.object({
   RUNS_PER_PROJECT: z.coerce.number().int().min(1).default(8),
   /** A run or tolerance study still running this long after it started is stopped and failed. */
   RUN_TIME_LIMIT_MINUTES: z.coerce.number().positive().default(60),
+  /**
+   * Memory one run may take on a run worker, MiB: a run whose estimated peak (shared/optics/run-memory.ts) is
+   * larger is refused before it starts; also the JavaScript heap limit of the run threads. Default for a 24 GB
+   * machine running two runs at once beside the server and MariaDB.
+   */
+  RUN_MEMORY_BUDGET_MB: z.coerce.number().int().min(256, 'use at least 256').max(1_048_576).default(8192),
   /** A library build still running this long after it started is stopped and failed. */
   LIBRARY_BUILD_TIME_LIMIT_MINUTES: z.coerce.number().positive().default(30),
   /**

@@ -51,6 +51,7 @@ export async function runDesignFile(designPath: string, options: RunFileOptions)
     const t1 = performance.now();
     const run = await runDesign(design, resources, { onProgress, ...threads.earlyOutputs(options.outDir), signal: options.signal });
     const t2 = performance.now();
+    onProgress(1, 'writing files');
     const files = await threads.writeOutputs(run, options.outDir);
     const t3 = performance.now();
     return { run, files, timings: { inputs: t1 - t0, engine: t2 - t1, outputs: t3 - t2, total: t3 - t0 } };

@@ -1,6 +1,6 @@
 /**
- * Two-dimensional complex FFT of the optics engine, on square power-of-two grids (N = 64…4096;
- * 64…2048 for designs, 4096 for zero-padded propagation of the largest designs).
+ * Two-dimensional complex FFT of the optics engine, on square power-of-two grids (N = 64…8192;
+ * 64…4096 for designs, 8192 for zero-padded propagation of the largest designs).
  *
  * Backend: PFFFT compiled to WebAssembly with SIMD (`@echogarden/pffft-wasm/simd`, single precision),
  * chosen by benchmark (bench/fft-bench.ts) over fft.js and ndarray-fft; it runs in Node and in browsers.
@@ -42,7 +42,7 @@ const TRANSPOSE_TILE = 8;
 const STRIP_COLUMNS = 32;
 
 export const MIN_FFT_SIZE = 64;
-export const MAX_FFT_SIZE = 4096;
+export const MAX_FFT_SIZE = 8192;
 
 let pffft: PffftModule | null = null;
 let loading: Promise<{ module: PffftModule; kernels: FftKernels | null }> | null = null;
@@ -562,7 +562,7 @@ function zeroOutside(data: Float32Array, offset: number, n: number, spans: RowSp
   if (from < n) data.fill(0, offset + 2 * from, offset + 2 * n);
 }
 
-/** Creates a new plan of size n (power of two, 64…4096). Requires `await initFft()` first. */
+/** Creates a new plan of size n (power of two, 64…8192). Requires `await initFft()` first. */
 export function createFft2d(n: number): Fft2d {
   return new Fft2d(n);
 }

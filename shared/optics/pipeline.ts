@@ -617,7 +617,7 @@ export async function runDesign(design: Design, resources: DesignResources, opti
     };
     const hologram = plan.hologram;
     if (hologram) {
-      const target = Float32Array.from(hologram.target.amplitude, (v) => v * v);
+      const target = squared32(hologram.target.amplitude);
       outcome.targetIntensity = target;
       outcome.window = hologram.target.window;
       const retrieval = retrievals[c]!;
@@ -737,6 +737,16 @@ export async function runDesign(design: Design, resources: DesignResources, opti
     mappingReport: mappingDetail,
     timings,
   };
+}
+
+/**
+ * a² per value as float32, in a plain loop: `Float32Array.from(a, (v) => v * v)` first lists every value in a
+ * JavaScript array, ≈ 730 MiB passing through the heap for a 4096² plane. Example: squared32([2, 3]) → [4, 9].
+ */
+function squared32(values: ArrayLike<number>): Float32Array {
+  const out = new Float32Array(values.length);
+  for (let i = 0; i < out.length; i++) out[i] = values[i] * values[i];
+  return out;
 }
 
 function intensity32(field: ComplexField): Float32Array {

@@ -157,13 +157,15 @@ export class AngularSpectrumPropagator {
     this.size = m;
     const plan = getFft2d(m);
     const offset = (m - n) / 2;
-    const re = new Float64Array(m * m);
-    const im = new Float64Array(m * m);
+    // Straight into the plan's buffer, zero-padded: no padded float64 planes (1 GiB at m = 8192).
+    const data = plan.data;
+    data.fill(0);
     for (let iy = 0; iy < n; iy++) {
-      re.set(field.re.subarray(iy * n, iy * n + n), (iy + offset) * m + offset);
-      im.set(field.im.subarray(iy * n, iy * n + n), (iy + offset) * m + offset);
+      for (let ix = 0, j = 2 * ((iy + offset) * m + offset); ix < n; ix++, j += 2) {
+        data[j] = field.re[iy * n + ix];
+        data[j + 1] = field.im[iy * n + ix];
+      }
     }
-    plan.load(re, im);
     plan.forwardTransposed();
     this.spectrum = plan.data.slice();
   }

@@ -11,7 +11,7 @@ export const LIGHT_SIDES = ['substrate', 'superstrate'] as const;
 const finite = (what: string) => z.number({ error: `${what} must be a number` }).refine(Number.isFinite, `${what} must be finite`);
 const positive = (what: string) => finite(what).refine((v) => v > 0, `${what} must be greater than 0`);
 
-export const CELL_COUNTS = [64, 128, 256, 512, 1024, 2048] as const;
+export const CELL_COUNTS = [64, 128, 256, 512, 1024, 2048, 4096] as const;
 
 export const polarizationStateSchema = z.discriminatedUnion('kind', [
   z.object({ kind: z.literal('linear'), angleDeg: finite('angleDeg').default(0) }),

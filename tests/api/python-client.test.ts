@@ -280,9 +280,9 @@ describe('the Python client’s errors', () => {
     expect(out.readOnly).toMatchObject({ type: 'NotAllowed', status: 403 });
     expect(out.readOnly.message).toMatch(/read-only scope "read"; POST needs a token with the "write" scope/);
     expect(out.badDesign).toMatchObject({ type: 'BadRequest', status: 400 });
-    expect(out.badDesign.details['design.setup.cells']).toMatch(/64, 128, 256, 512, 1024, 2048/);
+    expect(out.badDesign.details['design.setup.cells']).toMatch(/64, 128, 256, 512, 1024, 2048, 4096/);
     // The server's message names the field already; the exception does not repeat it.
-    expect(out.badDesign.text).toMatch(/^Invalid body — design\.setup\.cells: cells must be one of 64, 128, 256, 512, 1024, 2048 \(400 on POST \/api\/projects\/\d+\/revisions\)$/);
+    expect(out.badDesign.text).toMatch(/^Invalid body — design\.setup\.cells: cells must be one of 64, 128, 256, 512, 1024, 2048, 4096 \(400 on POST \/api\/projects\/\d+\/revisions\)$/);
     expect(out.noRun).toMatchObject({ type: 'NotFound', status: 404, message: 'This project has no run 999999' });
     expect(out.noServer).toMatchObject({ type: 'ServerUnreachable', isRefusal: false });
     expect(out.noServer.text).toMatch(/^No answer from http:\/\/127\.0\.0\.1:9 /);

@@ -15,7 +15,7 @@ afterAll(async () => {
 
 it('tells the client the limits set by UPLOAD_MAX_MIB and UPLOAD_MAX_SIDE, and enforces exactly those', async () => {
   const { limits } = (await designer.get('/api/auth/me')).body;
-  expect(limits).toEqual({ uploadMaxBytes: 262_144, uploadMaxSide: 300 });
+  expect(limits).toEqual({ uploadMaxBytes: 262_144, uploadMaxSide: 300, runMemoryBudgetMb: 8192 });
   const projectId = (await designer.post('/api/projects', { name: 'Limits' })).body.project.id as number;
   const send = (bytes: Buffer, name: string) =>
     designer.agent.post(`/api/projects/${projectId}/uploads`).set('x-csrf-token', designer.csrfToken).field('kind', 'phase-map').attach('file', bytes, name);

@@ -134,8 +134,16 @@ describe('a new design', () => {
     await page.getByRole('table', { name: 'Projects' }).getByText('Bold F beside a lens').click();
     await page.getByRole('link', { name: 'Design', exact: true }).click();
     await page.getByRole('heading', { name: /^Revision \d+/ }).waitFor();
+    // The run's memory estimate follows the size as it is chosen, against this server's budget (RUN_MEMORY_BUDGET_MB).
+    const estimate = page.getByTestId('memory-estimate');
+    await page.getByLabel('Array size N × N').selectOption('4096');
+    await estimate.filter({ hasText: /^\d+\.\d GiB$/ }).waitFor();
+    await page.getByText('This server allows 8.0 GiB per run.').waitFor();
+    await screenshot(page, 'new-design-05-memory-estimate');
+    await expectAccessible(page, 'design composer with a 4096² memory estimate');
     // From the latest revision: a lens in channel A and a tilt in channel B instead of the two pictures, 128² cells.
     await page.getByLabel('Array size N × N').selectOption('128');
+    await estimate.filter({ hasText: /^\d+ MiB$/ }).waitFor();
     for (const [channel, kind] of [['A', 'Lens'], ['B', 'Tilt']] as const) {
       await page.getByRole('list', { name: `Channel ${channel} terms` }).getByRole('button', { name: /^Remove/ }).first().click();
       await page.getByRole('button', { name: `Add term to Channel ${channel}` }).click();

@@ -232,7 +232,7 @@ describe('phasewright run (command line, end to end)', () => {
     writeFileSync(join(dir, 'bad.json'), JSON.stringify(bad));
     const result = cli(['run', 'bad.json', '--out', 'bad-out']);
     expect(result.status).toBe(2);
-    expect(result.stderr).toMatch(/setup\.cells: cells must be one of 64, 128, 256, 512, 1024, 2048/);
+    expect(result.stderr).toMatch(/setup\.cells: cells must be one of 64, 128, 256, 512, 1024, 2048, 4096/);
     expect(result.stderr).not.toMatch(/\n\s+at /);
     expect(existsSync(join(dir, 'bad-out'))).toBe(false);
 

@@ -86,8 +86,12 @@ export function authRoutes(ctx: AppContext, passport: PassportStatic, csrfToken:
   });
 
   router.get('/me', (req, res) => {
-    // The server's own upload limits (UPLOAD_MAX_MIB, UPLOAD_MAX_SIDE), so the client checks and shows these, not defaults.
-    const limits = { uploadMaxBytes: Math.floor(ctx.config.UPLOAD_MAX_MIB * 1024 * 1024), uploadMaxSide: ctx.config.UPLOAD_MAX_SIDE };
+    // The server's own upload limits (UPLOAD_MAX_MIB, UPLOAD_MAX_SIDE) and run memory budget (RUN_MEMORY_BUDGET_MB), so the client checks and shows these, not defaults.
+    const limits = {
+      uploadMaxBytes: Math.floor(ctx.config.UPLOAD_MAX_MIB * 1024 * 1024),
+      uploadMaxSide: ctx.config.UPLOAD_MAX_SIDE,
+      runMemoryBudgetMb: ctx.config.RUN_MEMORY_BUDGET_MB,
+    };
     res.json({ user: req.user ? toUserDto(req.user) : null, signupOpen: ctx.config.ALLOW_SIGNUP, limits });
   });
 

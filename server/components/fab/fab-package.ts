@@ -1,6 +1,6 @@
 /**
  * The fab package of a run: one zip, streamed with archiver while it is written — never the whole zip, and
- * never the whole GDSII, in memory. Contents (under one folder named after the run):
+ * never the whole GDSII, in memory: the stored files go in one after the other, a chunk at a time. Contents (under one folder named after the run):
  * - layout.gds — the stored file when the options equal the run's own (layer/datatype of the design,
  *   database unit 1 nm); otherwise regenerated with gdsii.ts from the stored atom_index/theta, on the layout
  *   worker (layout-jobs.ts, with its time limit) into a temporary file that is removed once sent;
@@ -14,7 +14,8 @@ import { createReadStream } from 'node:fs';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
-import type { Writable } from 'node:stream';
+import { once } from 'node:events';
+import type { Readable, Writable } from 'node:stream';
 import { ZipArchive } from 'archiver';
 import { buildReportModel, type ReportInput } from '../../../shared/report/design-report';
 import type { FabPackageQuery, RunDesignCheck } from '../../../shared/schemas/fab';
@@ -117,65 +118,79 @@ export async function prepareFabPackage(config: AppConfig, run: RunModel, projec
         resolve();
       }),
     );
-    zip.pipe(out);
-    const date = run.finishedAt ?? new Date();
-    const name = (file: string) => ({ name: `${folder}/${file}`, date });
-    zip.append(gdsFile ? createReadStream(gdsFile) : artifactStream(storedGds!.id), name('layout.gds'));
-    const previews: { file: string; caption: string }[] = [];
-    const placed: { place: string; label: string }[] = [{ place: 'layout.gds', label: '' }];
-    for (const a of artifacts) {
-      if (a.name === 'layout.gds') continue;
-      const ids = await findArtifact(run.id, a.name);
-      if (!ids) continue;
-      const place = a.name.endsWith('.npy') ? `arrays/${a.name}` : a.name.endsWith('.png') ? `previews/${a.name}` : a.name;
-      if (a.name.endsWith('.png')) {
-        // README "Picture convention": each preview's axes in words (the report shows the PNG as it is).
-        const frame = pictureFrameText((run.plots as Record<string, unknown> | null)?.pictures, a.name);
-        previews.push({ file: place, caption: frame ? `${a.label} — ${frame}` : a.label });
-      }
-      placed.push({ place, label: a.label });
-      zip.append(artifactStream(ids.id), { ...name(place), store: a.name.endsWith('.png') });
-    }
-    const overrideNote = check.total > 0 && check.overrides.length ? ` Exported under the owner’s override of ${check.total} design-rule violations.` : '';
-    const exportNote = `Fab package exported ${record.at.toISOString().slice(0, 16).replace('T', ' ')} UTC: GDSII layer ${options.layer}, datatype ${options.datatype}, database unit ${options.dbUnitNm} nm.${overrideNote}`;
-    zip.append(reportHtml(buildReportModel(reportInput), previews, exportNote), name('report.html'));
-    placed.push({ place: 'report.html', label: '' }, { place: 'export.json', label: '' });
-    const { design } = reportInput;
-    zip.append(
-      fabReadme({
-        folder,
-        projectName,
-        designName: design.name,
-        revisionNumber: reportInput.revisionNumber,
-        runId: run.id,
-        files: placed,
-        cells: design.setup.cells,
-        periodNm: design.setup.periodNm,
-        wavelengthNm: design.setup.wavelengthNm,
-        gds: { ...options, regenerated },
-        library: reportInput.library,
-        exportNote,
-      }),
-      name('README.txt'),
-    );
-    zip.append(
-      JSON.stringify(
-        {
-          format: 'phasewright-export/1',
-          run: run.id,
-          revision: reportInput.revisionNumber,
-          exportedAt: record.at.toISOString(),
-          exportedBy: userId,
-          gdsii: { ...options, regenerated, userUnitUm: 1, angles: 'degrees counter-clockwise, θ mod 180° (0 for square pillars)' },
-          designRules: { rules: check.rules, counts: check.counts, total: check.total },
-          overrides: check.overrides,
-        },
-        null,
-        2,
-      ) + '\n',
-      name('export.json'),
-    );
     try {
+      zip.pipe(out);
+      const date = run.finishedAt ?? new Date();
+      const name = (file: string) => ({ name: `${folder}/${file}`, date });
+      let closed = false;
+      void gone.then(() => (closed = true));
+      /**
+       * Appends a stored file and waits until the archive has taken it in. Archiver pipes every appended stream at
+       * once, so appending all ~30 files of a run together would read the first chunks (up to 8 MiB each) of every
+       * one into memory; one at a time holds a chunk or two, whatever the run's size.
+       */
+      const appendStream = async (source: Readable, data: ReturnType<typeof name> & { store?: boolean }) => {
+        if (closed) return;
+        const taken = once(zip, 'entry');
+        taken.catch(() => undefined);
+        zip.append(source, data);
+        await Promise.race([taken, failed, gone]);
+      };
+      await appendStream(gdsFile ? createReadStream(gdsFile) : artifactStream(storedGds!.id), name('layout.gds'));
+      const previews: { file: string; caption: string }[] = [];
+      const placed: { place: string; label: string }[] = [{ place: 'layout.gds', label: '' }];
+      for (const a of artifacts) {
+        if (a.name === 'layout.gds') continue;
+        const ids = await findArtifact(run.id, a.name);
+        if (!ids) continue;
+        const place = a.name.endsWith('.npy') ? `arrays/${a.name}` : a.name.endsWith('.png') ? `previews/${a.name}` : a.name;
+        if (a.name.endsWith('.png')) {
+          // README "Picture convention": each preview's axes in words (the report shows the PNG as it is).
+          const frame = pictureFrameText((run.plots as Record<string, unknown> | null)?.pictures, a.name);
+          previews.push({ file: place, caption: frame ? `${a.label} — ${frame}` : a.label });
+        }
+        placed.push({ place, label: a.label });
+        await appendStream(artifactStream(ids.id), { ...name(place), store: a.name.endsWith('.png') });
+      }
+      const overrideNote = check.total > 0 && check.overrides.length ? ` Exported under the owner’s override of ${check.total} design-rule violations.` : '';
+      const exportNote = `Fab package exported ${record.at.toISOString().slice(0, 16).replace('T', ' ')} UTC: GDSII layer ${options.layer}, datatype ${options.datatype}, database unit ${options.dbUnitNm} nm.${overrideNote}`;
+      zip.append(reportHtml(buildReportModel(reportInput), previews, exportNote), name('report.html'));
+      placed.push({ place: 'report.html', label: '' }, { place: 'export.json', label: '' });
+      const { design } = reportInput;
+      zip.append(
+        fabReadme({
+          folder,
+          projectName,
+          designName: design.name,
+          revisionNumber: reportInput.revisionNumber,
+          runId: run.id,
+          files: placed,
+          cells: design.setup.cells,
+          periodNm: design.setup.periodNm,
+          wavelengthNm: design.setup.wavelengthNm,
+          gds: { ...options, regenerated },
+          library: reportInput.library,
+          exportNote,
+        }),
+        name('README.txt'),
+      );
+      zip.append(
+        JSON.stringify(
+          {
+            format: 'phasewright-export/1',
+            run: run.id,
+            revision: reportInput.revisionNumber,
+            exportedAt: record.at.toISOString(),
+            exportedBy: userId,
+            gdsii: { ...options, regenerated, userUnitUm: 1, angles: 'degrees counter-clockwise, θ mod 180° (0 for square pillars)' },
+            designRules: { rules: check.rules, counts: check.counts, total: check.total },
+            overrides: check.overrides,
+          },
+          null,
+          2,
+        ) + '\n',
+        name('export.json'),
+      );
       await Promise.race([zip.finalize(), failed, gone]);
     } finally {
       await removeGds();

@@ -10,7 +10,7 @@ import { AppError } from '../../lib/app-error';
 import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { RunArtifactModel, type RunModel } from '../runs/run.model';
 import type { GdsOptions, LayoutData, LayoutJob, LayoutJobResult, StoredDrc } from './layout-task';
-import { readArtifactById, requireSucceeded } from './run-data';
+import { readArtifactById, readArtifactOwned, requireSucceeded } from './run-data';
 import type { LayoutRegion } from '../../../shared/schemas/fab';
 
 const TASK_FILE = workerFile('layout-task', import.meta.url);
@@ -31,22 +31,32 @@ export async function stopLayoutJobs(): Promise<void> {
   if (closing) await closing.destroy();
 }
 
-/** The ids of the run's layout files (in LAYOUT_FILES order), which name exactly these bytes; 409 when one is missing. */
-async function layoutFileIds(run: RunModel): Promise<number[]> {
-  const rows = await RunArtifactModel.findAll({ where: { runId: run.id, name: [...LAYOUT_FILES] }, attributes: ['id', 'name'] });
-  const missing = LAYOUT_FILES.filter((name) => !rows.some((row) => row.name === name));
-  if (missing.length) throw new AppError(409, `Run ${run.id} has no ${missing.join(', ')}; start the run again to produce it`);
-  return LAYOUT_FILES.map((name) => rows.find((row) => row.name === name)!.id);
+interface LayoutFile {
+  id: number;
+  size: number;
 }
 
-/** A copy in a buffer of its own, so handing it to the worker detaches nothing else. */
-const own = (bytes: Buffer) => new Uint8Array(bytes);
+/** The run's layout files (in LAYOUT_FILES order), whose ids name exactly these bytes; 409 when one is missing. */
+async function layoutFiles(run: RunModel): Promise<LayoutFile[]> {
+  const rows = await RunArtifactModel.findAll({ where: { runId: run.id, name: [...LAYOUT_FILES] }, attributes: ['id', 'name', 'size'] });
+  const missing = LAYOUT_FILES.filter((name) => !rows.some((row) => row.name === name));
+  if (missing.length) throw new AppError(409, `Run ${run.id} has no ${missing.join(', ')}; start the run again to produce it`);
+  return LAYOUT_FILES.map((name) => rows.find((row) => row.name === name)!).map((row) => ({ id: row.id, size: row.size }));
+}
 
-/** The bytes of the very files `ids` names (the ones the job's key names). */
-async function layoutData(run: RunModel, ids: number[]): Promise<LayoutData> {
-  const [design, atoms, index, theta] = await Promise.all(ids.map((id) => readArtifactById(id)));
+/**
+ * The bytes of the very files `files` names (the ones the job's key names). The arrays (201 MB at 4096²) are
+ * read straight into buffers of their own, which go to the worker without a copy.
+ */
+async function layoutData(run: RunModel, files: LayoutFile[]): Promise<LayoutData> {
+  const [design, atoms, index, theta] = [
+    await readArtifactById(files[0].id),
+    await readArtifactById(files[1].id),
+    await readArtifactOwned(files[2].id, files[2].size),
+    await readArtifactOwned(files[3].id, files[3].size),
+  ];
   if (!design.length || !atoms.length || !index.length || !theta.length) throw new AppError(409, `Run ${run.id}'s layout files changed while being read; try again`);
-  return { designJson: design.toString('utf8'), atomsCsv: atoms.toString('utf8'), atomIndexNpy: own(index), thetaNpy: own(theta) };
+  return { designJson: design.toString('utf8'), atomsCsv: atoms.toString('utf8'), atomIndexNpy: index, thetaNpy: theta };
 }
 
 type JobOf<K extends LayoutJob['kind']> = Omit<Extract<LayoutJob, { kind: K }>, 'runId' | 'key' | 'data'>;
@@ -55,8 +65,8 @@ async function runJob(config: AppConfig, run: RunModel, job: JobOf<'region'> | J
   requireSucceeded(run);
   const limitMs = config.FAB_JOB_TIME_LIMIT_SECONDS * 1000;
   const signal = AbortSignal.timeout(limitMs);
-  const ids = await layoutFileIds(run);
-  const key = `${run.id}:${ids.join(',')}`;
+  const files = await layoutFiles(run);
+  const key = `${run.id}:${files.map((f) => f.id).join(',')}`;
   const submit = (data?: LayoutData) =>
     layoutPool().run({ ...job, runId: run.id, key, data } as LayoutJob, {
       signal,
@@ -64,7 +74,7 @@ async function runJob(config: AppConfig, run: RunModel, job: JobOf<'region'> | J
     });
   try {
     let result = await submit();
-    if (result.ok === 'need-data') result = await submit(await layoutData(run, ids));
+    if (result.ok === 'need-data') result = await submit(await layoutData(run, files));
     if (result.ok === 'need-data') throw new Error('the layout worker asked twice for the same data');
     if (result.ok === false) throw new AppError(result.status, result.message, result.details);
     return result;

@@ -10,7 +10,7 @@ import { once } from 'node:events';
 import { parseAtomLibraryCsv, placementAngle, type AtomLibrary } from '../../../shared/optics/atoms';
 import { checkDesignRules, type DrcKind } from '../../../shared/optics/drc';
 import { gdsiiChunks } from '../../../shared/optics/gdsii';
-import { decodeNpy } from '../../../shared/optics/npy-decode';
+import { decodeNpy, readNpyHeader, type DecodedNpy } from '../../../shared/optics/npy-decode';
 import type { Design } from '../../../shared/schemas/design';
 import type { DesignRuleViolationView, LayoutPillar, LayoutRegion, ProjectDesignRules } from '../../../shared/schemas/fab';
 import { violationView } from '../../cli/drc-record';
@@ -74,15 +74,30 @@ class JobProblem extends Error {
   }
 }
 
-/** The layouts of the last few runs (two 2048² layouts are ~100 MB). */
+/** The layouts of the last few runs (a 2048² layout is ~50 MB, a 4096² one ~200 MB). */
 const cache = new Map<string, RunLayout>();
 const CACHE_ENTRIES = 2;
+
+/**
+ * A .npy array as a view of its own bytes when they are little-endian int32 or float64 in C order and aligned, as
+ * the run's files are (numpy pads the header to 64 bytes): a 4096² layout is then held once, not twice.
+ * Anything else is decoded into a copy.
+ */
+function npyArray(bytes: Uint8Array): DecodedNpy {
+  const header = readNpyHeader(bytes);
+  const offset = bytes.byteOffset + header.dataOffset;
+  if (!header.fortranOrder && offset % header.itemSize === 0) {
+    if (header.descr === '<i4') return { descr: header.descr, shape: header.shape, data: new Int32Array(bytes.buffer, offset, header.count) };
+    if (header.descr === '<f8') return { descr: header.descr, shape: header.shape, data: new Float64Array(bytes.buffer, offset, header.count) };
+  }
+  return decodeNpy(bytes);
+}
 
 function decodeLayout(runId: number, data: LayoutData): RunLayout {
   const design = JSON.parse(data.designJson) as Design;
   const { library } = parseAtomLibraryCsv(data.atomsCsv);
-  const index = decodeNpy(data.atomIndexNpy);
-  const theta = decodeNpy(data.thetaNpy);
+  const index = npyArray(data.atomIndexNpy);
+  const theta = npyArray(data.thetaNpy);
   const n = design.setup.cells;
   const square = (shape: number[]) => shape.length === 2 && shape[0] === n && shape[1] === n;
   if (!square(index.shape) || !square(theta.shape) || !(index.data instanceof Int32Array) || !(theta.data instanceof Float64Array)) {

@@ -36,6 +36,22 @@ export async function readArtifactById(artifactId: number): Promise<Buffer> {
   return Buffer.concat(parts);
 }
 
+/**
+ * The whole artifact in a buffer of its own of `size` bytes (its recorded size), filled chunk by chunk: the
+ * artifact's bytes once and one chunk more, never a second copy, and transferable to a worker thread. Empty when
+ * the stored chunks do not add up to `size` (the files changed while being read).
+ */
+export async function readArtifactOwned(artifactId: number, size: number): Promise<Uint8Array> {
+  const out = new Uint8Array(size);
+  let at = 0;
+  for await (const chunk of artifactChunks(artifactId)) {
+    if (at + chunk.length > size) return new Uint8Array(0);
+    out.set(chunk, at);
+    at += chunk.length;
+  }
+  return at === size ? out : new Uint8Array(0);
+}
+
 /** The whole artifact in one buffer (arrays and small records only), or null when the run lacks it. */
 export async function readArtifact(runId: number, name: string): Promise<Buffer | null> {
   const artifact = await findArtifact(runId, name);

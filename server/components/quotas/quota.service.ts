@@ -1,6 +1,7 @@
 /**
  * What one person and one project may make the server do: queued + running runs, tolerance studies and
- * library builds (RUNS_PER_USER, RUNS_PER_PROJECT) and stored bytes (PROJECT_STORAGE_MB: uploads + run files).
+ * library builds (RUNS_PER_USER, RUNS_PER_PROJECT), stored bytes (PROJECT_STORAGE_MB: uploads + run files) and
+ * the memory one run may take (RUN_MEMORY_BUDGET_MB).
  *
  * Counting and inserting happen in one transaction that first locks the person's row and then the project's
  * (always in that order, so two such transactions never wait on each other crosswise) and reads at READ
@@ -14,6 +15,7 @@ import { AppError } from '../../lib/app-error';
 import { ProjectModel } from '../projects/project.model';
 import { UserModel } from '../users/user.model';
 import { retryOnDeadlock } from '../../db/retry';
+import { estimateRunMemory, type MemoryDesign } from '../../../shared/optics/run-memory';
 
 const MIB = 1024 * 1024;
 
@@ -156,4 +158,27 @@ export function timeLimitMessage(what: 'run' | 'study', minutes: number): string
     `The ${what} was stopped after the time limit of ${minutes} minute${minutes === 1 ? '' : 's'} (RUN_TIME_LIMIT_MINUTES). ` +
     'Make the design smaller (fewer cells or iterations), or ask your administrator to raise the limit.'
   );
+}
+
+/**
+ * Why a design may not run under a memory budget of `budgetMb` MiB (RUN_MEMORY_BUDGET_MB), naming its estimated
+ * peak (shared/optics/run-memory.ts, with tile pyramids up to `tilesMaxSide`) and the budget; null when it fits.
+ */
+export function memoryBudgetRefusal(design: MemoryDesign, budgetMb: number, tilesMaxSide: number): string | null {
+  const estimate = estimateRunMemory(design, { tilesMaxSide });
+  if (estimate.mib <= budgetMb) return null;
+  return (
+    `This design needs an estimated ${estimate.mib} MiB of memory to run (${estimate.parts.map((p) => `${p.what} ${Math.ceil(p.bytes / MIB)} MiB`).join(', ')}), ` +
+    `more than the ${budgetMb} MiB a run may use on this server (RUN_MEMORY_BUDGET_MB). ` +
+    'Choose fewer cells (or padding 1 for beams and image planes at a distance), or ask your administrator to raise the budget.'
+  );
+}
+
+/** 413 naming the estimate and the budget when the design does not fit RUN_MEMORY_BUDGET_MB. */
+export function requireMemoryBudget(config: Pick<AppConfig, 'RUN_MEMORY_BUDGET_MB' | 'PREVIEW_TILES_MAX_SIDE'>, design: MemoryDesign): void {
+  const tilesMaxSide = config.PREVIEW_TILES_MAX_SIDE;
+  const refusal = memoryBudgetRefusal(design, config.RUN_MEMORY_BUDGET_MB, tilesMaxSide);
+  if (refusal) {
+    throw new AppError(413, refusal, { estimatedMiB: String(estimateRunMemory(design, { tilesMaxSide }).mib), budgetMiB: String(config.RUN_MEMORY_BUDGET_MB) });
+  }
 }

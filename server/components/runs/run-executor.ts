@@ -18,7 +18,7 @@ import { DEFAULT_TILES_MAX_SIDE, type AppConfig } from '../../config';
 import { workerExecArgv, workerFile } from '../../lib/worker-pool';
 import { rulesForRun } from '../fab/design-rules.service';
 import { libraryForRun } from '../atom-libraries/atom-library.service';
-import { reserveRunFiles, timeLimitMessage } from '../quotas/quota.service';
+import { memoryBudgetRefusal, reserveRunFiles, timeLimitMessage } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { UploadModel } from '../uploads/upload.model';
 import { createToleranceExecutor, type ToleranceExecutor } from '../tolerance/tolerance-executor';
@@ -43,6 +43,11 @@ export interface RunExecutorOptions {
   limits?: Pick<AppConfig, 'RUN_TIME_LIMIT_MINUTES' | 'PROJECT_STORAGE_MB'> & Partial<Pick<AppConfig, 'LIBRARY_BUILD_TIME_LIMIT_MINUTES' | 'PREVIEW_TILES_MAX_SIDE'>>;
   /** Nice value of the pool's threads (0–19, default 0): see `createRunPool`. */
   nice?: number;
+  /**
+   * Memory one run may take, MiB (RUN_MEMORY_BUDGET_MB): a run whose estimate is larger fails before it starts,
+   * and it is the JavaScript heap limit of the pool's threads. Default: no check, V8's own heap limit.
+   */
+  memoryBudgetMb?: number;
 }
 
 const WORKER_FILE = workerFile('run-worker', import.meta.url);
@@ -66,9 +71,11 @@ export interface RunPoolThreadData {
  * lowers its own scheduling priority when it takes its first task (`lowerPoolThreadPriority`), so a computing
  * run takes the cores only while requests and the database leave them idle.
  */
-export function createRunPool(threads: number, nice = 0): Piscina<RunTask, RunTaskResult> {
+export function createRunPool(threads: number, nice = 0, memoryBudgetMb?: number): Piscina<RunTask, RunTaskResult> {
   const workerData: RunPoolThreadData = { nice };
   return new Piscina<RunTask, RunTaskResult>({
+    // The large arrays live outside the JavaScript heap; the heap limit only has to be no smaller than the budget.
+    ...(memoryBudgetMb ? { resourceLimits: { maxOldGenerationSizeMb: memoryBudgetMb } } : {}),
     filename: WORKER_FILE.href,
     maxThreads: threads,
     minThreads: 0,
@@ -118,6 +125,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
   const limits = options.limits;
   const timeLimitMs = limits ? limits.RUN_TIME_LIMIT_MINUTES * 60_000 : null;
   const nice = options.nice ?? 0;
+  const { memoryBudgetMb } = options;
   const tileSide = limits?.PREVIEW_TILES_MAX_SIDE ?? DEFAULT_TILES_MAX_SIDE;
   const tiles = tileSide > 0 ? { maxSide: tileSide } : null;
   const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval, timeLimitMs });
@@ -237,6 +245,12 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
     if (!accepting || !pool || active.has(runId)) return null;
     const loaded = await loadTask(runId);
     if (!loaded || !accepting) return null;
+    // Checked again here: the run may have been queued under another budget, or by a server with another one.
+    const overBudget = memoryBudgetMb ? memoryBudgetRefusal(loaded.design, memoryBudgetMb, tileSide) : null;
+    if (overBudget) {
+      if (await markFailed(runId, overBudget, ['queued'])) changed(runId);
+      return null;
+    }
     const workDir = await mkdtemp(join(tmpdir(), `phasewright-run-${runId}-`));
     if (!accepting || !pool || active.has(runId)) {
       await rm(workDir, { recursive: true, force: true });
@@ -308,7 +322,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
     execute,
     start() {
       if (accepting) return;
-      pool = createRunPool(threads, nice);
+      pool = createRunPool(threads, nice, memoryBudgetMb);
       accepting = true;
     },
     async stop() {

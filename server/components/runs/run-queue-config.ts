@@ -7,7 +7,7 @@ import { createRedisRunQueue, type RedisRunWorkerOptions } from './run-queue-red
 
 /** Threads, helper threads, limits and priority of the runs' pool, as configured. */
 export function executorOptions(config: AppConfig, logger: Logger, threads = config.RUN_WORKERS): RunExecutorOptions {
-  return { logger, threads, parallelWithinRuns: config.RUN_HELPER_THREADS, limits: config, nice: config.RUN_WORKER_NICE };
+  return { logger, threads, parallelWithinRuns: config.RUN_HELPER_THREADS, limits: config, nice: config.RUN_WORKER_NICE, memoryBudgetMb: config.RUN_MEMORY_BUDGET_MB };
 }
 
 /** RUN_QUEUE=embedded: runs on this process's threads; RUN_QUEUE=redis: this process only enqueues. */

@@ -4,7 +4,7 @@ import { FINISHED_STATUSES, type ListRunsQuery, type RunDetail, type RunHeadline
 import type { AppContext } from '../../context';
 import { jsonColumn, jsonColumnText, select } from '../../db/select';
 import { AppError } from '../../lib/app-error';
-import { withRunSlot } from '../quotas/quota.service';
+import { requireMemoryBudget, withRunSlot } from '../quotas/quota.service';
 import { uploadIdsOf } from '../revisions/design-assets';
 import { findRevision } from '../revisions/revision.service';
 import { touchProject } from '../projects/project.model';
@@ -159,12 +159,15 @@ export async function listRuns(projectId: number, query: ListRunsQuery): Promise
 
 /**
  * Queues a run of revision `number`; the queue picks it up off the request thread. 429 past the person's
- * or the project's limit of runs at once, 413 while the project's storage is full (quota.service.ts).
+ * or the project's limit of runs at once, 413 while the project's storage is full or when the design's estimated
+ * memory exceeds RUN_MEMORY_BUDGET_MB (quota.service.ts).
  */
 export async function startRun(ctx: AppContext, projectId: number, number: number, userId: number): Promise<RunDetail> {
   const revision = await findRevision(projectId, number);
-  const missing = await deletedUploadsOf(projectId, JSON.parse(revision.design) as Design);
+  const design = JSON.parse(revision.design) as Design;
+  const missing = await deletedUploadsOf(projectId, design);
   if (missing) throw new AppError(409, `Revision ${number} ${missing}`);
+  requireMemoryBudget(ctx.config, design);
   const runId = await withRunSlot(ctx, { userId, projectId, needsStorage: true }, (transaction) => createQueuedRun(projectId, revision.id, userId, transaction));
   ctx.runQueue.enqueue(runId);
   return getRun(projectId, runId);

@@ -6,8 +6,8 @@ import { authKeys } from '@/features/auth/api/query-keys';
 export interface MeResponse {
   user: User | null;
   signupOpen: boolean;
-  /** This server's upload limits (its UPLOAD_MAX_MIB and UPLOAD_MAX_SIDE). */
-  limits?: { uploadMaxBytes: number; uploadMaxSide: number };
+  /** This server's upload limits (its UPLOAD_MAX_MIB and UPLOAD_MAX_SIDE) and memory budget of one run (RUN_MEMORY_BUDGET_MB). */
+  limits?: { uploadMaxBytes: number; uploadMaxSide: number; runMemoryBudgetMb?: number };
 }
 
 export function getMe({ signal }: { signal?: AbortSignal } = {}): Promise<MeResponse> {

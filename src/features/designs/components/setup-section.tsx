@@ -1,4 +1,6 @@
+import { estimateRunMemory, formatMemory } from '@shared/optics/run-memory';
 import { CELL_COUNTS } from '@shared/schemas/design';
+import { useMe } from '@/features/auth/api/get-me';
 import { Banner } from '@/components/ui/banner';
 import { Card } from '@/components/ui/card';
 import { DesignNumber, DesignSelect, DesignText } from '@/features/designs/components/design-inputs';
@@ -25,6 +27,34 @@ function Figure({ term, value, note }: { term: string; value: string; note?: str
       <dt className="text-xs font-bold tracking-wide text-ink-soft uppercase">{term}</dt>
       <dd className="mt-0.5 font-extrabold tabular-nums">{value}</dd>
       {note ? <dd className="text-xs text-ink-soft">{note}</dd> : null}
+    </div>
+  );
+}
+
+/** The run's estimated peak memory (shared/optics/run-memory.ts) against this server's budget for one run. */
+function MemoryEstimate() {
+  const draft = useDesignEditor((state) => state.draft);
+  const budgetMb = useMe().data?.limits?.runMemoryBudgetMb;
+  if (!draft) return null;
+  const estimate = estimateRunMemory(draft);
+  const over = budgetMb !== undefined && estimate.mib > budgetMb;
+  return (
+    <div className="flex flex-col gap-1.5">
+      <span className="text-sm font-bold">Run memory (estimate)</span>
+      <output
+        aria-live="polite"
+        data-testid="memory-estimate"
+        className={`flex h-10 items-center rounded-xl px-3.5 font-extrabold tabular-nums ${over ? 'bg-danger-wash text-danger' : 'bg-paper'}`}
+      >
+        {formatMemory(estimate.bytes)}
+      </output>
+      <span className="text-xs text-ink-soft">
+        {budgetMb === undefined
+          ? 'Peak memory of the run, from its cells, propagation and previews.'
+          : over
+            ? `More than the ${formatMemory(budgetMb * 1024 * 1024)} a run may use on this server: the run would be refused. Choose fewer cells.`
+            : `This server allows ${formatMemory(budgetMb * 1024 * 1024)} per run.`}
+      </span>
     </div>
   );
 }
@@ -57,6 +87,8 @@ export function SetupSection() {
           </output>
           <span className="text-xs text-ink-soft">Side length of the square device.</span>
         </div>
+        <MemoryEstimate />
+        <div aria-hidden="true" className="hidden sm:block" />
         <DesignSelect
           path={['setup', 'illumination', 'kind']}
           label="Illumination"

@@ -1,0 +1,65 @@
+/**
+ * The memory budget of a run (RUN_MEMORY_BUDGET_MB): a design whose estimated peak (shared/optics/run-memory.ts)
+ * is larger is refused before it starts, with a message naming both numbers; one queued under another budget
+ * fails at the worker with the same message, never reaching a pool thread; a design that fits runs.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { RunModel } from '../../server/components/runs/run.model';
+import { estimateRunMemory } from '../../shared/optics/run-memory';
+import { designSchema } from '../../shared/schemas/design';
+import { twinImageDesign, waitForRun } from '../support/designs';
+import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
+
+const BUDGET_MB = 1024;
+
+describe('run memory budget', () => {
+  let t: TestApp;
+  let designer: ApiClient;
+  let projectId: number;
+
+  beforeAll(async () => {
+    t = await createTestApp({ RUN_MEMORY_BUDGET_MB: String(BUDGET_MB) });
+    designer = await signedInClient(t.app, await makeUser({ name: 'Budget Designer' }));
+    projectId = (await designer.post('/api/projects', { name: 'Large tag' })).body.project.id;
+  });
+  afterAll(async () => {
+    await t?.close();
+  });
+
+  async function saveRevision(design: object) {
+    const res = await designer.post(`/api/projects/${projectId}/revisions`, { design });
+    expect(res.status, JSON.stringify(res.body)).toBe(201);
+    return res.body.revision as { id: number; number: number };
+  }
+
+  it('refuses a 4096² design whose estimate exceeds the budget, naming the estimate and the budget', async () => {
+    const design = twinImageDesign({ cells: 4096, iterations: 2 });
+    const estimate = estimateRunMemory(designSchema.parse(design));
+    expect(estimate.mib).toBeGreaterThan(BUDGET_MB);
+    const { number } = await saveRevision(design);
+    const res = await designer.post(`/api/projects/${projectId}/revisions/${number}/runs`);
+    expect(res.status).toBe(413);
+    expect(res.body.error).toContain(`estimated ${estimate.mib} MiB`);
+    expect(res.body.error).toContain(`${BUDGET_MB} MiB a run may use on this server (RUN_MEMORY_BUDGET_MB)`);
+    expect(res.body.details).toEqual({ estimatedMiB: String(estimate.mib), budgetMiB: String(BUDGET_MB) });
+    expect(await RunModel.count({ where: { projectId } })).toBe(0);
+  });
+
+  it('fails a run queued under a larger budget before it reaches a worker thread', async () => {
+    const { id: revisionId } = await saveRevision(twinImageDesign({ cells: 4096, iterations: 2, name: 'Queued elsewhere' }));
+    const queued = await RunModel.create({ projectId, revisionId, startedById: null, queuedAt: new Date(), stage: 'queued' });
+    t.ctx.runQueue.enqueue(queued.id);
+    const run = await waitForRun(designer, projectId, queued.id);
+    expect(run.status).toBe('failed');
+    expect(run.error).toMatch(/^This design needs an estimated \d+ MiB of memory to run .*more than the 1024 MiB a run may use on this server \(RUN_MEMORY_BUDGET_MB\)/);
+    expect(run.startedAt).toBeNull();
+  });
+
+  it('runs a design that fits the budget', async () => {
+    const { number } = await saveRevision(twinImageDesign());
+    const res = await designer.post(`/api/projects/${projectId}/revisions/${number}/runs`);
+    expect(res.status).toBe(202);
+    const run = await waitForRun(designer, projectId, res.body.run.id);
+    expect(run.status, run.error ?? '').toBe('succeeded');
+  });
+});
