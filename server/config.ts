@@ -105,7 +105,7 @@ const envSchema = z.object({
     .refine((v) => v === 0 || v >= 256, 'use 0 (no tile pyramids) or at least 256, the side of one tile')
     .default(DEFAULT_TILES_MAX_SIDE),
   /** Bytes one project may store (uploads + run files), in MiB. */
-  PROJECT_STORAGE_MB: z.coerce.number().positive().default(2048),
+  PROJECT_STORAGE_MB: z.coerce.number().positive().default(10240),
   /** Run event streams (Server-Sent Events) one person may hold open at once. */
   EVENT_STREAMS_PER_USER: z.coerce.number().int().min(1).default(8),
   /** How often an open event stream checks again that its reader may still see the project. */
