@@ -3,7 +3,6 @@
  * database instead of failing the run, and runs it once MariaDB is back. A MariaDB of this file's own, so that
  * stopping it disturbs no other test.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
@@ -13,14 +12,14 @@ import { startMariaDb, type RunningMariaDb } from '../../scripts/lib/mariadb';
 import { deflectorDesign, waitForRun } from '../support/designs';
 import { TEST_DB_PASSWORD, TEST_DB_PATTERN, TEST_DB_USER } from '../support/global-services';
 import { createTestApp, makeUser, signedInClient, type ApiClient, type TestApp } from '../support/test-app';
+import { startWorkerProcess, stopWorkerProcess, type WorkerProcess } from '../support/worker-process';
 
 let t: TestApp;
 let db: RunningMariaDb;
 let dbPort: number;
 let dataDir: string;
 let designer: ApiClient;
-let worker: ChildProcess | null = null;
-const log: string[] = [];
+let worker: WorkerProcess | null = null;
 
 const startDb = () => startMariaDb({ dataDir, port: dbPort, user: TEST_DB_USER, password: TEST_DB_PASSWORD, databases: [], grants: [TEST_DB_PATTERN] });
 
@@ -33,11 +32,7 @@ beforeAll(async () => {
 }, 120_000);
 
 afterAll(async () => {
-  if (worker && worker.exitCode === null) {
-    const exited = new Promise((resolve) => worker!.once('exit', resolve));
-    worker.kill('SIGTERM');
-    await exited;
-  }
+  if (worker) await stopWorkerProcess(worker);
   await t?.close();
   await db?.stop();
   rmSync(dataDir, { recursive: true, force: true });
@@ -48,37 +43,20 @@ describe('MariaDB unreachable', () => {
     const projectId = (await designer.post('/api/projects', { name: 'Outage queue' })).body.project.id as number;
     const number = (await designer.post(`/api/projects/${projectId}/revisions`, { design: deflectorDesign() })).body.revision.number as number;
     const revisionId = (await designer.get(`/api/projects/${projectId}/revisions/${number}`)).body.revision.id as number;
-    const c = t.ctx.config;
-    worker = spawn(process.execPath, ['--import', 'tsx', 'server/worker-main.ts'], {
-      stdio: ['ignore', 'pipe', 'pipe'],
-      env: {
-        PATH: process.env.PATH,
-        NODE_ENV: 'test',
-        DB_PORT: String(dbPort),
-        DB_NAME: c.DB_NAME,
-        DB_USER: c.DB_USER,
-        DB_PASSWORD: c.DB_PASSWORD,
-        REDIS_URL: c.REDIS_URL,
-        REDIS_PREFIX: c.REDIS_PREFIX,
-        RUN_WORKERS: '1',
-        RUN_WORKER_NICE: '0',
-        LOG_LEVEL: 'info',
-      },
-    });
-    worker.stdout!.setEncoding('utf8').on('data', (chunk: string) => log.push(chunk));
-    worker.stderr!.setEncoding('utf8').on('data', (chunk: string) => log.push(chunk));
-    await expect.poll(() => log.join(''), { timeout: 30_000, interval: 200 }).toMatch(/run worker taking jobs/);
+    worker = startWorkerProcess(t.ctx.config);
+    const log = worker.messages;
+    await expect.poll(() => log.join('\n'), { timeout: 30_000, interval: 200 }).toMatch(/run worker taking jobs/);
     // A queued run whose job reaches the worker while MariaDB is down.
     const { RunModel } = await import('../../server/components/runs/run.model');
     const id = (await RunModel.create({ projectId, revisionId, startedById: null, queuedAt: new Date(), stage: 'queued' })).id;
     await db.stop();
     t.ctx.runQueue.enqueue(id);
-    await expect.poll(() => log.join(''), { timeout: 30_000, interval: 200 }).toMatch(/MariaDB does not answer: waiting for it/);
+    await expect.poll(() => log.join('\n'), { timeout: 30_000, interval: 200 }).toMatch(/MariaDB does not answer: waiting for it/);
     await new Promise((resolve) => setTimeout(resolve, 3_000));
     db = await startDb();
     const run = await waitForRun(designer, projectId, id, undefined, 60_000);
     expect(run.status, run.error ?? '').toBe('succeeded');
     expect(run.attempts).toBe(1);
-    expect(log.join('')).toMatch(/MariaDB answers again/);
+    expect(log.join('\n')).toMatch(/MariaDB answers again/);
   }, 150_000);
 });

@@ -13,6 +13,8 @@ export interface WorkerProcess {
   takenStudies: number[];
   /** When this worker logged "run cancelled", by run id (ms since the epoch). */
   cancelledAt: Map<number, number>;
+  /** Every log line's message, in order. */
+  messages: string[];
 }
 
 /** Starts one worker process with what a worker needs (the database and Redis) and one run thread. */
@@ -37,7 +39,7 @@ export function startWorkerProcess(c: AppConfig, env: Record<string, string> = {
       ...env,
     },
   });
-  const worker: WorkerProcess = { child, taken: [], takenStudies: [], cancelledAt: new Map() };
+  const worker: WorkerProcess = { child, taken: [], takenStudies: [], cancelledAt: new Map(), messages: [] };
   let buffered = '';
   child.stdout!.setEncoding('utf8');
   child.stdout!.on('data', (chunk: string) => {
@@ -46,6 +48,7 @@ export function startWorkerProcess(c: AppConfig, env: Record<string, string> = {
     buffered = lines.pop()!;
     for (const line of lines) {
       const entry = JSON.parse(line) as { msg: string; runId?: number; studyId?: number };
+      worker.messages.push(entry.msg);
       if (entry.msg === 'run taken') worker.taken.push(entry.runId!);
       if (entry.msg === 'tolerance study taken') worker.takenStudies.push(entry.studyId!);
       if (entry.msg === 'run cancelled') worker.cancelledAt.set(entry.runId!, Date.now());
