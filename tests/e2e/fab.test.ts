@@ -35,9 +35,10 @@ describe('atom library → run → layout → fab package', () => {
 
     const csvPath = path.join(work, 'bench-library.csv');
     writeFileSync(csvPath, atomLibraryToCsv({ ...demoAtomLibrary(), name: 'Bench library 633' }));
-    await page.getByLabel('Library CSV file').setInputFiles(csvPath);
-    await page.getByLabel('Library name').fill('Bench library 633');
-    await page.getByRole('button', { name: 'Upload library' }).click();
+    const upload = page.getByRole('form', { name: 'Upload a library' });
+    await upload.getByLabel('Library CSV file').setInputFiles(csvPath);
+    await upload.getByLabel('Library name').fill('Bench library 633');
+    await upload.getByRole('button', { name: 'Upload library' }).click();
     await page.getByText('Bench library 633').first().waitFor();
     await screenshot(page, 'fab-01-library');
     await expectAccessible(page, 'fab-01-library');

@@ -51,7 +51,7 @@ export function UploadAtomLibraryForm({ projectId, onUploaded }: UploadAtomLibra
   const problems = isApiError(error) ? Object.entries(error.details) : [];
 
   return (
-    <form onSubmit={(event) => void submit(event)} noValidate className="flex flex-col gap-4">
+    <form aria-label="Upload a library" onSubmit={(event) => void submit(event)} noValidate className="flex flex-col gap-4">
       <div className="flex flex-col gap-1.5">
         <label htmlFor={fileId} className="text-sm font-bold text-ink">
           Library CSV file
