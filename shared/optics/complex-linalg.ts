@@ -501,30 +501,8 @@ function schur(h: CMatrix, z: CMatrix): void {
       const c = cs[k];
       const sr = snr[k];
       const si = sni[k];
-      const top = Math.min(k + 2, hi);
-      for (let i = 0; i <= top; i++) {
-        const p = i * n + k;
-        const pr = re[p];
-        const pi = im[p];
-        const qr = re[p + 1];
-        const qi = im[p + 1];
-        // col k: c·p + conj(s)·q ; col k+1: −s·p + c·q
-        re[p] = c * pr + (sr * qr + si * qi);
-        im[p] = c * pi + (sr * qi - si * qr);
-        re[p + 1] = c * qr - (sr * pr - si * pi);
-        im[p + 1] = c * qi - (sr * pi + si * pr);
-      }
-      for (let i = 0; i < n; i++) {
-        const p = i * n + k;
-        const pr = zr[p];
-        const pi = zi[p];
-        const qr = zr[p + 1];
-        const qi = zi[p + 1];
-        zr[p] = c * pr + (sr * qr + si * qi);
-        zi[p] = c * pi + (sr * qi - si * qr);
-        zr[p + 1] = c * qr - (sr * pr - si * pi);
-        zi[p + 1] = c * qi - (sr * pi + si * pr);
-      }
+      rotateColumns(re, im, n, k, Math.min(k + 2, hi) + 1, c, sr, si);
+      rotateColumns(zr, zi, n, k, n, c, sr, si);
     }
     for (let k = lo; k <= hi; k++) {
       re[k * n + k] += mr;
@@ -634,4 +612,22 @@ export function cEig(input: CMatrix): CEig {
     }
   }
   return { valuesRe, valuesIm, vectors: x };
+}
+
+/**
+ * Rotates columns k and k+1 of the row-major n × n matrix (re, im) in rows 0 … rows−1 by the Givens rotation
+ * (c, s = sr + i·si) from the right: column k ← c·p + conj(s)·q, column k+1 ← −s·p + c·q.
+ */
+function rotateColumns(re: Float64Array, im: Float64Array, n: number, k: number, rows: number, c: number, sr: number, si: number) {
+  for (let i = 0; i < rows; i++) {
+    const p = i * n + k;
+    const pr = re[p];
+    const pi = im[p];
+    const qr = re[p + 1];
+    const qi = im[p + 1];
+    re[p] = c * pr + (sr * qr + si * qi);
+    im[p] = c * pi + (sr * qi - si * qr);
+    re[p + 1] = c * qr - (sr * pr - si * pi);
+    im[p + 1] = c * qi - (sr * pi + si * pr);
+  }
 }
