@@ -15,7 +15,8 @@
  * other load than the latencies do (≈ ±20 % rather than several times). autocannon itself runs in this
  * process, on the same cores as the server.
  *
- * Options: `--duration S` (30), `--connections N` (50), `--only me|runs|mix`, `--no-idle`, `--no-busy`,
+ * Options: `--duration S` (30), `--connections N` (50), `--only me|runs|mix`, `--path /api/…` (drive that one
+ * request alone instead, e.g. to find which request of the mix makes its tail), `--no-idle`, `--no-busy`,
  * `--cpu-prof DIR` (the server writes a V8 CPU profile into DIR when it stops; open it in Chrome's DevTools).
  * The server's environment passes through (e.g. `RUN_WORKERS=1 npm run bench:load`).
  * Target (issue 10): p99 under 100 ms and no errors at 50 connections while a run computes.
@@ -37,6 +38,7 @@ function option(name: string, fallback: string): string {
 const DURATION_S = Number(option('duration', '30'));
 const CONNECTIONS = Number(option('connections', '50'));
 const ONLY = option('only', '');
+const ONE_PATH = option('path', '');
 const WITH_IDLE = !process.argv.includes('--no-idle');
 const WITH_BUSY = !process.argv.includes('--no-busy');
 const CPU_PROFILE_DIR = option('cpu-prof', '');
@@ -128,6 +130,7 @@ const MIXES: Record<string, { label: string; paths: string[] }> = {
     label: 'projects, runs, run 1, notifications',
     paths: ['/api/projects', '/api/projects/1/runs', '/api/projects/1/runs/1', '/api/notifications'],
   },
+  ...(ONE_PATH.startsWith('/api/') ? { path: { label: `GET ${ONE_PATH}`, paths: [ONE_PATH] } } : {}),
 };
 
 interface PhaseResult {
@@ -168,7 +171,7 @@ function printRow(r: PhaseResult) {
 
 async function main() {
   const profiling = CPU_PROFILE_DIR ? ['--cpu-prof', `--cpu-prof-dir=${path.resolve(CPU_PROFILE_DIR)}`] : [];
-  const { base, config, server, dbPid } = await startBenchStack('load', {}, { serverArgs: profiling });
+  const { base, config, server, dbPid } = await startBenchStack('load', process.env.BENCH_SERVER_NODE_OPTIONS ? { NODE_OPTIONS: process.env.BENCH_SERVER_NODE_OPTIONS } : {}, { serverArgs: profiling });
   const owner = DEMO_PEOPLE.find((p) => p.key === 'tomas')!;
   const session = new Session(base);
   await session.signIn(owner.email, DEMO_PASSWORD);
@@ -187,7 +190,7 @@ async function main() {
 
   const results: PhaseResult[] = [];
   for (const mix of Object.keys(MIXES)) {
-    if (ONLY && ONLY !== mix) continue;
+    if (ONE_PATH ? mix !== 'path' : (ONLY && ONLY !== mix) || mix === 'path') continue;
     const phases = [...(WITH_IDLE ? ['no run'] : []), ...(WITH_BUSY ? ['while a run computes'] : [])];
     for (const phase of phases) {
       await sleep(2000);

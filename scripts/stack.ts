@@ -48,6 +48,8 @@ async function main() {
     databases: [config.DB_NAME],
   });
   stoppers.push(() => db.stop());
+  // The server and local workers reach the private MariaDB through its unix socket (cheaper than loopback TCP).
+  if (!process.env.DB_SOCKET) process.env.DB_SOCKET = db.socket;
 
   say(`Starting the mail fake: SMTP 127.0.0.1:${config.SMTP_PORT}, inbox http://127.0.0.1:${mailWebPort}`);
   const mail = await startMailFake(config.SMTP_PORT, mailWebPort);

@@ -76,7 +76,7 @@ export function runBenchmark(main: () => Promise<void>) {
 
 /** Starts `node --import tsx <entry>` in ROOT with `env`, its output in `<dataDir>/<label>.log`; stopped on clean-up. */
 export function startNodeProcess(label: string, entry: string, env: Record<string, string>, dataDir: string, nodeArgs: string[] = []): ChildProcess {
-  const file = path.join(dataDir, `${label.replace(/\W+/g, '-')}.log`);
+  const file = path.join(process.env.BENCH_LOG_DIR ?? dataDir, `${label.replace(/\W+/g, "-")}.log`);
   logs.push({ label, file });
   const log = createWriteStream(file);
   const child = spawn(process.execPath, [...nodeArgs, '--import', 'tsx', entry], {
@@ -146,6 +146,7 @@ export async function startBenchStack(name: string, extraEnv: Record<string, str
   console.log(`Starting MariaDB on 127.0.0.1:${dbPort}${options.redis ? ', Redis' : ''} and the mail fake (data in ${dataDir})`);
   const db = await startMariaDb({ dataDir: path.join(dataDir, 'mariadb'), port: dbPort, user: config.DB_USER, password: config.DB_PASSWORD, databases: [config.DB_NAME] });
   onCleanUp(() => db.stop());
+  if (process.env.BENCH_DB_TCP !== 'true') env.DB_SOCKET = db.socket;
   const mail = await startMailFake(smtpPort, mailWebPort, ROOT);
   onCleanUp(() => mail.stop());
 

@@ -177,16 +177,19 @@ export async function startMariaDb(options: MariaDbOptions): Promise<RunningMari
     return r.stdout;
   };
   secureAccounts(sql, adminUser);
-  const app = `${quote(options.user)}@'127.0.0.1'`;
+  // The app's account over loopback TCP (127.0.0.1) and over the unix socket (localhost), one password.
+  const apps = [`${quote(options.user)}@'127.0.0.1'`, `${quote(options.user)}@'localhost'`];
   sql(
     [
       ...options.databases.map(
         (db) => `CREATE DATABASE IF NOT EXISTS \`${db}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci`,
       ),
-      `CREATE USER IF NOT EXISTS ${app} IDENTIFIED BY ${quote(options.password)}`,
-      // Also takes back what earlier starts granted on *.* (FILE and the rest).
-      `REVOKE ALL PRIVILEGES, GRANT OPTION FROM ${app}`,
-      ...(options.grants ?? options.databases).map((db) => `GRANT ALL PRIVILEGES ON \`${db}\`.* TO ${app}`),
+      ...apps.flatMap((app) => [
+        `CREATE USER IF NOT EXISTS ${app} IDENTIFIED BY ${quote(options.password)}`,
+        // Also takes back what earlier starts granted on *.* (FILE and the rest).
+        `REVOKE ALL PRIVILEGES, GRANT OPTION FROM ${app}`,
+        ...(options.grants ?? options.databases).map((db) => `GRANT ALL PRIVILEGES ON \`${db}\`.* TO ${app}`),
+      ]),
       'FLUSH PRIVILEGES',
     ].join(';'),
   );

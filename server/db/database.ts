@@ -25,7 +25,7 @@ import { migrations } from './migrations/index';
 import { bindSelect } from './select';
 import { watchRunDetailWrites } from '../components/runs/run-detail-cache';
 
-export type DbConfig = Pick<AppConfig, 'DB_HOST' | 'DB_PORT' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD'>;
+export type DbConfig = Pick<AppConfig, 'DB_HOST' | 'DB_PORT' | 'DB_NAME' | 'DB_USER' | 'DB_PASSWORD'> & Partial<Pick<AppConfig, 'DB_SOCKET'>>;
 
 /** Opens the connection pool and binds every model to it. */
 export function createSequelize(config: DbConfig, log?: (sql: string) => void): Sequelize {
@@ -34,7 +34,7 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
     port: config.DB_PORT,
     dialect: 'mariadb',
     logging: log ?? false,
-    dialectOptions: { connectTimeout: 5000, charset: 'utf8mb4' },
+    dialectOptions: { connectTimeout: 5000, charset: 'utf8mb4', ...(config.DB_SOCKET ? { socketPath: config.DB_SOCKET } : {}) },
     define: { charset: 'utf8mb4', collate: 'utf8mb4_unicode_ci' },
     pool: { max: 10, min: 0, idle: 10_000 },
   });

@@ -5,7 +5,7 @@
 import { createServer, type Socket } from 'node:net';
 import pino from 'pino';
 import request from 'supertest';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { createApp } from '../../server/app';
 import { createEmbeddedRunQueue } from '../../server/components/runs/run-queue';
 import { createSequelize } from '../../server/db/database';
@@ -32,6 +32,19 @@ describe('GET /api/health', () => {
       inputs: { maxThreads: 1, running: 0, queued: 0, maxQueue: 8 },
     });
     expect(res.body.database.ms).toBeLessThan(100);
+  });
+
+  it('reaches the database through its unix socket when DB_SOCKET is set (as `npm start` does)', async () => {
+    const overSocket = await createTestApp({ DB_SOCKET: inject('dbSocket') });
+    try {
+      const res = await request(overSocket.app).get('/api/health').expect(200);
+      expect(res.body.database).toMatchObject({ ok: true });
+      // The account MariaDB matched: @localhost is the socket's, @127.0.0.1 would be loopback TCP.
+      const [who] = (await overSocket.ctx.sequelize.query('SELECT CURRENT_USER() AS who', { type: 'SELECT' })) as { who: string }[];
+      expect(who.who).toMatch(/@localhost$/);
+    } finally {
+      await overSocket.close();
+    }
   });
 
   it('answers 503 within 200 ms when the database takes connections but never answers', async () => {

@@ -33,8 +33,11 @@ describe('configuration off loopback', () => {
 describe('the private MariaDB', () => {
   const port = () => inject('dbPort');
 
-  it('gives the app’s user privileges on its own databases only: nothing on *.*, no FILE', async () => {
-    const conn = await mariadb.createConnection({ host: '127.0.0.1', port: port(), user: TEST_DB_USER, password: TEST_DB_PASSWORD });
+  it.each([
+    ['over loopback TCP', () => ({ host: '127.0.0.1', port: port() })],
+    ['through the unix socket (DB_SOCKET)', () => ({ socketPath: inject('dbSocket') })],
+  ])('gives the app’s user privileges on its own databases only: nothing on *.*, no FILE — %s', async (_way, where) => {
+    const conn = await mariadb.createConnection({ ...where(), user: TEST_DB_USER, password: TEST_DB_PASSWORD });
     try {
       const grants = ((await conn.query('SHOW GRANTS')) as Record<string, string>[]).map((row) => Object.values(row)[0]);
       const global = grants.filter((g) => g.includes(' ON *.* '));
@@ -45,6 +48,10 @@ describe('the private MariaDB', () => {
     } finally {
       await conn.end();
     }
+  });
+
+  it('takes the app’s account through the unix socket only with its password', async () => {
+    await expect(mariadb.createConnection({ socketPath: inject('dbSocket'), user: TEST_DB_USER, password: 'not-the-password', connectTimeout: 3000 })).rejects.toThrow(/Access denied/);
   });
 
   it('lets nobody sign in as root over TCP without a password', async () => {

@@ -14,6 +14,8 @@ import { startRedis } from '../../scripts/lib/redis';
 declare module 'vitest' {
   export interface ProvidedContext {
     dbPort: number;
+    /** The same MariaDB's unix socket (DB_SOCKET). */
+    dbSocket: string;
     smtpPort: number;
     mailWebPort: number;
     /** The test Redis (RUN_QUEUE=redis); each test file uses its own key prefix. */
@@ -35,6 +37,7 @@ export default async function setup(project: TestProject) {
   const redis = await startRedis({ port: await freePort(), dataDir: null });
   project.provide('redisUrl', redis.url);
   project.provide('dbPort', dbPort);
+  project.provide('dbSocket', db.socket);
   project.provide('smtpPort', smtpPort);
   project.provide('mailWebPort', mailWebPort);
   return async () => {
