@@ -25,6 +25,7 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { availableParallelism } from 'node:os';
 import autocannon from 'autocannon';
+import mariadb, { type Connection } from 'mariadb';
 import { DEMO_PASSWORD, DEMO_PEOPLE } from '../server/db/seed-demo';
 import { FINISHED_STATUSES, type RunStatus } from '../shared/schemas/runs';
 import { loadAverage, runBenchmark, Session, sleep, startBenchStack } from './lib/stack';
@@ -56,6 +57,12 @@ function cpuMs(pid: number, tid?: number): number {
   const stat = readFileSync(tid === undefined ? `/proc/${pid}/stat` : `/proc/${pid}/task/${tid}/stat`, 'utf8');
   const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
   return (Number(fields[11]) + Number(fields[12])) * TICK_MS;
+}
+
+/** MariaDB's count of statements the clients sent (all of them: server, runs, this script). */
+async function statementCount(conn: Connection): Promise<number> {
+  const rows = (await conn.query("SHOW GLOBAL STATUS LIKE 'Questions'")) as { Value: string }[];
+  return Number(rows[0].Value);
 }
 
 interface RunRow {
@@ -141,6 +148,8 @@ interface PhaseResult {
   result: autocannon.Result;
   /** CPU ms per answered request: the server's event-loop thread, and MariaDB. */
   cpuPerRequest: { server: number; db: number };
+  /** MariaDB statements per answered request (a running run's own statements included). */
+  statementsPerRequest: number;
   runs?: { started: number; runningShare: number; durations: number[] };
 }
 
@@ -163,7 +172,7 @@ function printRow(r: PhaseResult) {
       `${MIXES[r.mix].label} | ${r.phase}`,
       `  ${result.requests.average.toFixed(0)} req/s, p50 ${result.latency.p50} ms, p99 ${result.latency.p99} ms, max ${result.latency.max} ms`,
       `  ${result.requests.total} requests; errors ${result.errors}, timeouts ${result.timeouts}, non-2xx ${result.non2xx}`,
-      `  CPU per request: server event loop ${r.cpuPerRequest.server.toFixed(2)} ms, MariaDB ${r.cpuPerRequest.db.toFixed(2)} ms`,
+      `  CPU per request: server event loop ${r.cpuPerRequest.server.toFixed(2)} ms, MariaDB ${r.cpuPerRequest.db.toFixed(2)} ms; MariaDB statements per request ${r.statementsPerRequest.toFixed(2)}`,
       `  load average before ${r.loadBefore}, after ${r.loadAfter}.${runs}`,
     ].join('\n'),
   );
@@ -171,7 +180,7 @@ function printRow(r: PhaseResult) {
 
 async function main() {
   const profiling = CPU_PROFILE_DIR ? ['--cpu-prof', `--cpu-prof-dir=${path.resolve(CPU_PROFILE_DIR)}`] : [];
-  const { base, config, server, dbPid } = await startBenchStack('load', process.env.BENCH_SERVER_NODE_OPTIONS ? { NODE_OPTIONS: process.env.BENCH_SERVER_NODE_OPTIONS } : {}, { serverArgs: profiling });
+  const { base, config, env, server, dbPid } = await startBenchStack('load', process.env.BENCH_SERVER_NODE_OPTIONS ? { NODE_OPTIONS: process.env.BENCH_SERVER_NODE_OPTIONS } : {}, { serverArgs: profiling });
   const owner = DEMO_PEOPLE.find((p) => p.key === 'tomas')!;
   const session = new Session(base);
   await session.signIn(owner.email, DEMO_PASSWORD);
@@ -188,6 +197,7 @@ async function main() {
   console.log(`Server settings: ${settings.map((key) => `${key}=${config[key] ?? '(default)'}`).join(', ')}; ${availableParallelism()} cores`);
   console.log(`Driving ${CONNECTIONS} connections for ${DURATION_S} s per phase (autocannon)\n`);
 
+  const db = await mariadb.createConnection({ host: '127.0.0.1', port: config.DB_PORT, user: config.DB_USER, password: config.DB_PASSWORD, ...(env.DB_SOCKET ? { socketPath: env.DB_SOCKET } : {}) });
   const results: PhaseResult[] = [];
   for (const mix of Object.keys(MIXES)) {
     if (ONE_PATH ? mix !== 'path' : (ONLY && ONLY !== mix) || mix === 'path') continue;
@@ -197,15 +207,17 @@ async function main() {
       const computing = phase === 'no run' ? null : await keepRunComputing(session);
       const loadBefore = loadAverage();
       const cpuBefore = { server: cpuMs(server.pid!, server.pid!), db: cpuMs(dbPid) };
+      const statementsBefore = await statementCount(db);
       const result = await drive(base, session.cookie, MIXES[mix].paths);
       const answered = result['1xx'] + result['2xx'] + result['3xx'] + result['4xx'] + result['5xx'];
       const cpuPerRequest = {
         server: (cpuMs(server.pid!, server.pid!) - cpuBefore.server) / answered,
         db: (cpuMs(dbPid) - cpuBefore.db) / answered,
       };
+      const statementsPerRequest = ((await statementCount(db)) - statementsBefore) / answered;
       const loadAfter = loadAverage();
       const runs = computing ? await computing.stop() : undefined;
-      const row = { mix, phase, loadBefore, loadAfter, result, cpuPerRequest, runs };
+      const row = { mix, phase, loadBefore, loadAfter, result, cpuPerRequest, statementsPerRequest, runs };
       results.push(row);
       printRow(row);
       // Let a cancelled run wind down before the next phase.
@@ -223,6 +235,7 @@ async function main() {
         `${result.errors} | ${result.non2xx} | ${r.cpuPerRequest.server.toFixed(2)}, ${r.cpuPerRequest.db.toFixed(2)} | ${r.loadBefore} → ${r.loadAfter} |`,
     );
   }
+  await db.end();
 }
 
 runBenchmark(main);
