@@ -62,4 +62,18 @@ describe('run memory budget', () => {
     const run = await waitForRun(designer, projectId, res.body.run.id);
     expect(run.status, run.error ?? '').toBe('succeeded');
   });
+
+  it('refuses a bias and detuning sweep of a run whose design no longer fits the budget, naming both numbers', async () => {
+    // A 4096² run finished under a larger budget (its row written here; the study is refused before it reads files).
+    const design = twinImageDesign({ cells: 4096, iterations: 2, name: 'Finished elsewhere' });
+    const { id: revisionId } = await saveRevision(design);
+    const finished = await RunModel.create({ projectId, revisionId, startedById: null, queuedAt: new Date(), stage: 'done', status: 'succeeded', progress: 1 });
+    const estimate = estimateRunMemory(designSchema.parse(design), { tilesMaxSide: 4096 });
+    const res = await designer.post(`/api/projects/${projectId}/runs/${finished.id}/tolerance`, {});
+    expect(res.status, JSON.stringify(res.body)).toBe(413);
+    expect(res.body.error).toMatch(new RegExp(`^A bias and detuning sweep of this run needs up to an estimated ${estimate.mib} MiB`));
+    expect(res.body.error).toContain(`${BUDGET_MB} MiB a run may now use on this server (RUN_MEMORY_BUDGET_MB)`);
+    expect(res.body.details).toEqual({ estimatedMiB: String(estimate.mib), budgetMiB: String(BUDGET_MB) });
+    expect((await designer.get(`/api/projects/${projectId}/runs/${finished.id}/tolerance`)).body.study).toBeNull();
+  });
 });

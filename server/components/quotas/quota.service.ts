@@ -163,21 +163,31 @@ export function timeLimitMessage(what: 'run' | 'study', minutes: number): string
 /**
  * Why a design may not run under a memory budget of `budgetMb` MiB (RUN_MEMORY_BUDGET_MB), naming its estimated
  * peak (shared/optics/run-memory.ts, with tile pyramids up to `tilesMaxSide`) and the budget; null when it fits.
+ * `job` 'study': a bias and detuning sweep of a finished run of `design`, which takes less than the run itself
+ * (measured by `npm run bench:large`), so the run's estimate bounds it.
  */
-export function memoryBudgetRefusal(design: MemoryDesign, budgetMb: number, tilesMaxSide: number): string | null {
+export function memoryBudgetRefusal(design: MemoryDesign, budgetMb: number, tilesMaxSide: number, job: 'run' | 'study' = 'run'): string | null {
   const estimate = estimateRunMemory(design, { tilesMaxSide });
   if (estimate.mib <= budgetMb) return null;
+  const parts = estimate.parts.map((p) => `${p.what} ${Math.ceil(p.bytes / MIB)} MiB`).join(', ');
+  if (job === 'study') {
+    return (
+      `A bias and detuning sweep of this run needs up to an estimated ${estimate.mib} MiB of memory, as the run did (${parts}), ` +
+      `more than the ${budgetMb} MiB a run may now use on this server (RUN_MEMORY_BUDGET_MB). ` +
+      'Ask your administrator to raise the budget, or sweep a run of a design with fewer cells.'
+    );
+  }
   return (
-    `This design needs an estimated ${estimate.mib} MiB of memory to run (${estimate.parts.map((p) => `${p.what} ${Math.ceil(p.bytes / MIB)} MiB`).join(', ')}), ` +
+    `This design needs an estimated ${estimate.mib} MiB of memory to run (${parts}), ` +
     `more than the ${budgetMb} MiB a run may use on this server (RUN_MEMORY_BUDGET_MB). ` +
     'Choose fewer cells (or padding 1 for beams and image planes at a distance), or ask your administrator to raise the budget.'
   );
 }
 
 /** 413 naming the estimate and the budget when the design does not fit RUN_MEMORY_BUDGET_MB. */
-export function requireMemoryBudget(config: Pick<AppConfig, 'RUN_MEMORY_BUDGET_MB' | 'PREVIEW_TILES_MAX_SIDE'>, design: MemoryDesign): void {
+export function requireMemoryBudget(config: Pick<AppConfig, 'RUN_MEMORY_BUDGET_MB' | 'PREVIEW_TILES_MAX_SIDE'>, design: MemoryDesign, job: 'run' | 'study' = 'run'): void {
   const tilesMaxSide = config.PREVIEW_TILES_MAX_SIDE;
-  const refusal = memoryBudgetRefusal(design, config.RUN_MEMORY_BUDGET_MB, tilesMaxSide);
+  const refusal = memoryBudgetRefusal(design, config.RUN_MEMORY_BUDGET_MB, tilesMaxSide, job);
   if (refusal) {
     throw new AppError(413, refusal, { estimatedMiB: String(estimateRunMemory(design, { tilesMaxSide }).mib), budgetMiB: String(config.RUN_MEMORY_BUDGET_MB) });
   }
