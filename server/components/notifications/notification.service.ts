@@ -88,28 +88,29 @@ export async function notifyRunFinished(ctx: AppContext, runId: number, status: 
  * (`select`), as the bell in the header reads them on every page.
  */
 export async function listNotifications(userId: number, unreadOnly: boolean) {
-  const [rows, [count]] = await Promise.all([
-    select<{
-      id: number;
-      kind: NotificationKind;
-      projectId: number;
-      projectName: string | null;
-      runId: number | null;
-      threadId: number | null;
-      actorId: number | null;
-      actorName: string | null;
-      text: string;
-      createdAt: Date;
-      readAt: Date | null;
-    }>(
-      `SELECT n.id, n.kind, n.project_id AS projectId, p.name AS projectName, n.run_id AS runId, n.thread_id AS threadId,
-         a.id AS actorId, a.name AS actorName, n.text, n.created_at AS createdAt, n.read_at AS readAt
-       FROM notifications n LEFT JOIN users a ON a.id = n.actor_id LEFT JOIN projects p ON p.id = n.project_id
-       WHERE n.user_id = ? ${unreadOnly ? 'AND n.read_at IS NULL' : ''} ORDER BY n.id DESC LIMIT 50`,
-      [userId],
-    ),
-    select<{ unread: number | bigint }>('SELECT COUNT(*) AS unread FROM notifications WHERE user_id = ? AND read_at IS NULL', [userId]),
-  ]);
+  // One statement: the unread count rides on every row (MariaDB's subquery cache computes it once). An empty list
+  // means nothing is unread: either none are (unreadOnly) or the person has no notifications at all.
+  const rows = await select<{
+    id: number;
+    kind: NotificationKind;
+    projectId: number;
+    projectName: string | null;
+    runId: number | null;
+    threadId: number | null;
+    actorId: number | null;
+    actorName: string | null;
+    text: string;
+    createdAt: Date;
+    readAt: Date | null;
+    unread: number | bigint;
+  }>(
+    `SELECT n.id, n.kind, n.project_id AS projectId, p.name AS projectName, n.run_id AS runId, n.thread_id AS threadId,
+       a.id AS actorId, a.name AS actorName, n.text, n.created_at AS createdAt, n.read_at AS readAt,
+       (SELECT COUNT(*) FROM notifications u WHERE u.user_id = n.user_id AND u.read_at IS NULL) AS unread
+     FROM notifications n LEFT JOIN users a ON a.id = n.actor_id LEFT JOIN projects p ON p.id = n.project_id
+     WHERE n.user_id = ? ${unreadOnly ? 'AND n.read_at IS NULL' : ''} ORDER BY n.id DESC LIMIT 50`,
+    [userId],
+  );
   const notifications: Notification[] = rows.map((row) => ({
     id: row.id,
     kind: row.kind,
@@ -122,7 +123,7 @@ export async function listNotifications(userId: number, unreadOnly: boolean) {
     createdAt: row.createdAt.toISOString(),
     readAt: row.readAt ? row.readAt.toISOString() : null,
   }));
-  return { notifications, unread: Number(count.unread) };
+  return { notifications, unread: rows.length ? Number(rows[0].unread) : 0 };
 }
 
 export async function markRead(userId: number, notificationId: number) {
