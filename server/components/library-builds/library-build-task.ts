@@ -7,7 +7,7 @@
  * Never touches the database. Aborting the task ends its thread, and with it the helper threads.
  */
 import type { MessagePort } from 'node:worker_threads';
-import { atomLibraryToCsv } from '../../../shared/optics/atoms';
+import { atomLibraryToCsv, type MetaAtom } from '../../../shared/optics/atoms';
 import {
   buildAtomLibrary,
   CHECKED_SPEC, parseLibrarySpec, storedAtoms,
@@ -65,8 +65,11 @@ function convergenceReport(r: ResolvedSpec, built: BuiltLibrary): LibraryBuildRe
   });
 }
 
-/** What the plots need: sizes, per-atom transmission and powers, convergence, subset. */
-function resultOf(r: ResolvedSpec, built: BuiltLibrary, subsetSize: number | null): LibraryBuildResult {
+/**
+ * What the plots need: sizes, per-atom transmission and powers, convergence, and the subset proposed among
+ * `stored` (the atoms the library keeps: `storedAtoms`).
+ */
+function resultOf(r: ResolvedSpec, built: BuiltLibrary, stored: MetaAtom[], subsetSize: number | null): LibraryBuildResult {
   const atoms = built.library.atoms.map((a, i) => ({
     ...built.powers[i],
     widthNm: nm(a.width),
@@ -76,7 +79,6 @@ function resultOf(r: ResolvedSpec, built: BuiltLibrary, subsetSize: number | nul
     ty: a.ty,
     alphaY: a.alphaY,
   }));
-  const stored = storedAtoms(r, built.library.atoms);
   const subset = subsetSize === null ? null : proposeSubset(stored, subsetSize).map((i) => stored[i].id);
   return { sizesNm: r.sizes.map(nm), atoms, convergence: convergenceReport(r, built), subset };
 }
@@ -107,9 +109,10 @@ export default async function libraryBuildTask(task: LibraryBuildTask): Promise<
       stage: 'convergence report',
       progress: { atom: total, atoms: total, fraction: 1, secondsPerAtom: built.secondsPerAtom },
     });
-    const result = resultOf(resolved, built, task.subsetSize);
+    const storedList = storedAtoms(resolved, built.library.atoms);
+    const result = resultOf(resolved, built, storedList, task.subsetSize);
     // Read back as an uploaded atoms.csv is: the stored library is the one a download of it gives back.
-    const stored = { ...built.library, atoms: storedAtoms(resolved, built.library.atoms) };
+    const stored = { ...built.library, atoms: storedList };
     const reading = readAtomLibraryCsv(Buffer.from(atomLibraryToCsv(stored), 'utf8'), { name: task.name, scope: task.scope, material: '', wavelengthNm: undefined, periodNm: undefined, heightNm: undefined }, OWN_FILE);
     // Atoms whose phases leave a gap runs cannot fill: refused as the same file uploaded would be.
     const refusal = reading.library ? null : reading.problems.map((p) => p.message).join('; ') || 'the library could not be read back';
