@@ -100,4 +100,9 @@ export interface LibraryBuildResult {
   convergence: Array<{ atomId: string; widthNm: number; lengthNm: number; rows: LibraryConvergenceRow[] }>;
   /** Proposed subset atom ids (proposeSubset), when subsetSize was given. */
   subset: string[] | null;
+  /**
+   * How many of `atoms` the stored library keeps: all of them, or with `sweep.anyRotation` only the pillars that
+   * fit every rotation. Absent in results stored before it was recorded.
+   */
+  storedCount?: number;
 }

@@ -250,6 +250,8 @@ describe('library builds: validation, roles, personal libraries', () => {
     expect(build.status, build.error ?? '').toBe('succeeded');
     const stored = (await owner.get(`/api/projects/${projectId}/atom-libraries/${build.libraryId}`)).body.atomLibrary;
     expect(stored.atomCount).toBe(fitting);
+    // The build's result says so too (the build page shows "keeps N of these 81 atoms").
+    expect(result!.storedCount).toBe(fitting);
   });
 
   it('a build whose phases leave a gap larger than 2π/8 stores no library and says why; its atoms stay for the plots', async () => {

@@ -80,7 +80,7 @@ function resultOf(r: ResolvedSpec, built: BuiltLibrary, stored: MetaAtom[], subs
     alphaY: a.alphaY,
   }));
   const subset = subsetSize === null ? null : proposeSubset(stored, subsetSize).map((i) => stored[i].id);
-  return { sizesNm: r.sizes.map(nm), atoms, convergence: convergenceReport(r, built), subset };
+  return { sizesNm: r.sizes.map(nm), atoms, convergence: convergenceReport(r, built), subset, storedCount: stored.length };
 }
 
 export default async function libraryBuildTask(task: LibraryBuildTask): Promise<LibraryBuildTaskResult> {

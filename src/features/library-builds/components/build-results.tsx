@@ -65,9 +65,13 @@ export function BuildResults({ build, result }: { build: LibraryBuild; result: L
   const stepNm = build.spec.sweep.stepNm;
   const others = largest(result.atoms, 'otherOrdersX', 'otherOrdersY');
   const reflected = largest(result.atoms, 'reflectedX', 'reflectedY');
+  const kept =
+    result.storedCount !== undefined && result.storedCount < result.atoms.length
+      ? ` The stored library keeps ${result.storedCount} of these ${result.atoms.length} atoms: only the pillars that fit their cell at every rotation.`
+      : '';
   return (
     <div className="flex flex-col gap-6">
-      <Card title="Transmission over (w, l)" description={`Zeroth-order amplitude |t| and phase α of every atom of the sweep. ${ORIENTATION}`}>
+      <Card title="Transmission over (w, l)" description={`Zeroth-order amplitude |t| and phase α of every atom of the sweep.${kept} ${ORIENTATION}`}>
         <MapGrid maps={TRANSMISSION_MAPS} result={result} stepNm={stepNm} columns={2} />
       </Card>
       <Card
