@@ -1,9 +1,14 @@
+import { fileURLToPath } from 'node:url';
 import { defineConfig } from 'vitest/config';
+
+const fromRoot = (path: string) => fileURLToPath(new URL(path, import.meta.url));
 
 export default defineConfig({
   test: {
     projects: [
       {
+        // The client's own import paths (vite.config.ts), for unit tests of its pure helpers.
+        resolve: { alias: { '@/': fromRoot('./src/'), '@shared/': fromRoot('./shared/') } },
         test: {
           name: 'unit',
           include: ['tests/unit/**/*.test.ts'],

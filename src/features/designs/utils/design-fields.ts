@@ -27,6 +27,8 @@ const TOP_FIELDS: Record<string, FieldLabel> = {
   'polarization.chiDeg': { label: 'Ellipticity χ of state A', unit: '°' },
   atomLibrary: { label: 'Atom library' },
   'atomLibrary.source': { label: 'Atom library' },
+  'atomLibrary.id': { label: 'Stored atom library (number)' },
+  'atomLibrary.path': { label: 'Atom library file' },
   simulation: { label: 'Simulation' },
   'simulation.extraInput': { label: 'Third input' },
   'simulation.extraInput.kind': { label: 'Third input, kind' },
