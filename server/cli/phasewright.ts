@@ -1,7 +1,7 @@
 /**
  * The `phasewright` command line: batch runs of design files.
  *
- *   phasewright run DESIGN.json --out DIR [--sequential]
+ *   phasewright run DESIGN.json --out DIR [--sequential] [--tiles[=SIDE]]
  *   phasewright library build SPEC.json --out atoms.csv [--threads N]
  *   phasewright --help
  *
@@ -38,6 +38,11 @@ run          Reads the design file (format phasewright-design/1), retrieves both
              Files named in the design are read relative to the design file's folder.
 --out DIR    Folder for the results (created if missing).
 --sequential Retrieve the two channels one after the other on one thread (default: two worker threads).
+--tiles[=SIDE]
+             Also write tile pyramids of the far fields and maps of designs above 256² cells, as the server
+             does for its run pages: one <picture>.tiles file each (256-px PNG tiles, every level down to
+             one tile; format in README "Tile pyramids"). SIDE: largest side of level 0 (default 4096;
+             larger designs are halved to it).
 library build
              Computes a meta-atom library by RCWA from SPEC.json (wavelengthNm, periodNm, heightNm,
              pillar, substrate, superstrate, illumination, sweep {minFeatureNm, minGapNm, stepNm},
@@ -52,6 +57,17 @@ interface RunArgs {
   design: string;
   out: string;
   sequential: boolean;
+  /** Largest side of the tile pyramids' level 0; null: no pyramids. */
+  tilesMaxSide: number | null;
+}
+
+/** Level 0's largest side of `--tiles` without a value: every design size at full resolution. */
+const CLI_TILES_MAX_SIDE = 4096;
+
+function parseTilesSide(value: string): number {
+  const side = Number(value);
+  if (!/^[0-9]+$/.test(value) || !(side >= 256 && side <= 65_536)) throw new InputError(`--tiles=SIDE needs a whole number of pixels from 256 to 65536, not '${value}'`);
+  return side;
 }
 
 function parseArgs(argv: string[]): { help: true } | { help: false; run: RunArgs } | { help: false; library: LibraryBuildArgs } {
@@ -65,6 +81,7 @@ function parseArgs(argv: string[]): { help: true } | { help: false; run: RunArgs
   let design: string | undefined;
   let out: string | undefined;
   let sequential = false;
+  let tilesMaxSide: number | null = null;
   for (let i = 0; i < rest.length; i++) {
     const arg = rest[i];
     if (arg === '--out' || arg === '-o') {
@@ -72,13 +89,15 @@ function parseArgs(argv: string[]): { help: true } | { help: false; run: RunArgs
       if (!out) throw new InputError('--out needs a folder');
     } else if (arg.startsWith('--out=')) out = arg.slice('--out='.length);
     else if (arg === '--sequential') sequential = true;
+    else if (arg === '--tiles') tilesMaxSide = CLI_TILES_MAX_SIDE;
+    else if (arg.startsWith('--tiles=')) tilesMaxSide = parseTilesSide(arg.slice('--tiles='.length));
     else if (arg.startsWith('-')) throw new InputError(`unknown option '${arg}' (try: phasewright --help)`);
     else if (design === undefined) design = arg;
     else throw new InputError(`unexpected argument '${arg}': give one design file`);
   }
   if (!design) throw new InputError('run needs a design file: phasewright run DESIGN.json --out DIR');
   if (!out) throw new InputError('run needs --out DIR');
-  return { help: false, run: { design, out, sequential } };
+  return { help: false, run: { design, out, sequential, tilesMaxSide } };
 }
 
 /** A metric's value with its unit, as the web app shows it (shared/display-names.ts). */
@@ -177,7 +196,7 @@ export async function main(argv: string[]): Promise<number> {
     return 0;
   }
   if ('library' in parsed) return libraryBuildCommand(parsed.library);
-  const { design, out, sequential } = parsed.run;
+  const { design, out, sequential, tilesMaxSide } = parsed.run;
   const controller = new AbortController();
   const onSigint = () => controller.abort(new Error('interrupted'));
   process.once('SIGINT', onSigint);
@@ -186,6 +205,7 @@ export async function main(argv: string[]): Promise<number> {
     const result = await runDesignFile(design, {
       outDir: out,
       parallel: !sequential,
+      tiles: tilesMaxSide === null ? null : { maxSide: tilesMaxSide },
       signal: controller.signal,
       onProgress: (fraction, stage, detail) => progress.update(fraction, stage, detail),
       onWarning: (message) => process.stderr.write(`phasewright: note: ${message}\n`),

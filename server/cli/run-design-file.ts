@@ -10,6 +10,7 @@ import type { CancelSignal, ProgressCallback } from '../../shared/optics/types';
 import { loadDesignFile, loadDesignResources } from './design-files';
 import type { WrittenFile } from './outputs';
 import { initFftInNode } from '../lib/fft-node';
+import type { TileOptions } from './tiles';
 import { runThreads } from './run-threads';
 
 export interface RunFileOptions {
@@ -19,6 +20,8 @@ export interface RunFileOptions {
    * while the engine and this thread go on (run-threads.ts). false: everything on this thread.
    */
   parallel?: boolean;
+  /** Also write the tile pyramids of the far fields and maps (tiles.ts); null or absent: none. */
+  tiles?: TileOptions | null;
   onProgress?: ProgressCallback;
   /** Problems that do not stop the run (approximate library, wavelength mismatch …). */
   onWarning?: (message: string) => void;
@@ -38,7 +41,7 @@ export async function runDesignFile(designPath: string, options: RunFileOptions)
   await initFftInNode();
   const design = await loadDesignFile(designPath);
   // Started before the inputs are read: the retrieval workers load meanwhile.
-  const threads = runThreads(options.parallel !== false);
+  const threads = runThreads(options.parallel !== false, options.tiles);
   const onProgress: ProgressCallback = (fraction, stage, detail) => {
     threads.onStage(stage);
     options.onProgress?.(fraction, stage, detail);

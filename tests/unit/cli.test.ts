@@ -256,6 +256,27 @@ describe('phasewright run (command line, end to end)', () => {
     expect(unknown.status).toBe(2);
     expect(unknown.stderr).toMatch(/unknown command 'paint'/);
   });
+
+  it('--tiles writes the tile pyramids the server stores for its run pages; --tiles=SIDE is checked', () => {
+    // A 512² design: above one 256-px tile, so each picture has two levels (512 and 256 px).
+    const tiled = { ...design, setup: { ...design.setup, cells: 512 }, channels: { a: design.channels.a, b: { terms: [{ kind: 'tilt', thetaXDeg: 3 }] } } };
+    writeFileSync(join(dir, 'tiled.json'), JSON.stringify(tiled));
+    const result = cli(['run', 'tiled.json', '--out', 'out-tiled', '--tiles', '--sequential']);
+    expect(result.status, result.stderr).toBe(0);
+    for (const picture of ['farfield_a', 'farfield_b', 'farfield_extra', 'phase_a', 'phase_b', 'atom_index', 'rotation']) {
+      const bytes = readFileSync(join(dir, 'out-tiled', `${picture}.tiles`));
+      // README "Tile pyramids": PNG tiles, the JSON index, its length (uint32 LE) and "PWTILES1".
+      expect(bytes.subarray(bytes.length - 8).toString('latin1')).toBe('PWTILES1');
+      const indexBytes = bytes.readUInt32LE(bytes.length - 12);
+      const index = JSON.parse(bytes.subarray(bytes.length - 12 - indexBytes, bytes.length - 12).toString('utf8'));
+      expect(index).toMatchObject({ format: 'phasewright-tiles/1', width: 512, height: 512, tileSize: 256 });
+      expect(index.tiles.map((level: unknown[]) => level.length)).toEqual([4, 1]);
+      expect(result.stdout).toContain(`${picture}.tiles`);
+    }
+    const bad = cli(['run', 'tiled.json', '--out', 'out-tiled-bad', '--tiles=100']);
+    expect(bad.status).toBe(2);
+    expect(bad.stderr).toMatch(/--tiles=SIDE needs a whole number of pixels from 256 to 65536, not '100'/);
+  }, 120_000);
 });
 
 describe('far-field previews split into output polarization components (circular basis)', () => {
