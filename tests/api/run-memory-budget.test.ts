@@ -3,7 +3,13 @@
  * is larger is refused before it starts, with a message naming both numbers; one queued under another budget
  * fails at the worker with the same message, never reaching a pool thread; a design that fits runs.
  */
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { storeArtifacts } from '../../server/components/runs/run-artifacts';
+import { ToleranceStudyModel } from '../../server/components/tolerance/tolerance.model';
+import { toleranceRequestSchema } from '../../shared/schemas/tolerance';
 import { RunModel } from '../../server/components/runs/run.model';
 import { estimateRunMemory } from '../../shared/optics/run-memory';
 import { designSchema } from '../../shared/schemas/design';
@@ -75,5 +81,25 @@ describe('run memory budget', () => {
     expect(res.body.error).toContain(`${BUDGET_MB} MiB a run may now use on this server (RUN_MEMORY_BUDGET_MB)`);
     expect(res.body.details).toEqual({ estimatedMiB: String(estimate.mib), budgetMiB: String(BUDGET_MB) });
     expect((await designer.get(`/api/projects/${projectId}/runs/${finished.id}/tolerance`)).body.study).toBeNull();
+
+    // Queued under a larger budget (the row written here): the worker fails it with the same words after reading
+    // the run's design.json, before it reads the run's arrays (none are stored here).
+    const dir = mkdtempSync(join(tmpdir(), 'phasewright-budget-'));
+    try {
+      const bytes = Buffer.from(JSON.stringify(designSchema.parse(design)));
+      writeFileSync(join(dir, 'design.json'), bytes);
+      await storeArtifacts(finished.id, dir, [{ name: 'design.json', bytes: bytes.length }]);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+    const queued = await ToleranceStudyModel.create({ runId: finished.id, request: toleranceRequestSchema.parse({}), startedById: null, queuedAt: new Date(), stage: 'queued' });
+    t.ctx.runQueue.enqueueTolerance(queued.id);
+    let study: { status: string; error: string | null } | null = null;
+    for (let i = 0; i < 100 && study?.status !== 'failed'; i++) {
+      await new Promise((r) => setTimeout(r, 100));
+      study = (await designer.get(`/api/projects/${projectId}/runs/${finished.id}/tolerance`)).body.study;
+    }
+    expect(study?.status).toBe('failed');
+    expect(study?.error).toMatch(new RegExp(`^A bias and detuning sweep of this run needs up to an estimated ${estimate.mib} MiB`));
   });
 });

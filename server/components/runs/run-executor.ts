@@ -128,7 +128,7 @@ export function createRunExecutor(options: RunExecutorOptions & { changed: (runI
   const { memoryBudgetMb } = options;
   const tileSide = limits?.PREVIEW_TILES_MAX_SIDE ?? DEFAULT_TILES_MAX_SIDE;
   const tiles = tileSide > 0 ? { maxSide: tileSide } : null;
-  const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval, timeLimitMs });
+  const tolerance = createToleranceExecutor({ logger, pool: () => (accepting ? pool : null), progressIntervalMs: progressInterval, timeLimitMs, memoryBudgetMb, tileSide });
   const libraryBuilds = createLibraryBuildExecutor({
     logger,
     pool: () => (accepting ? pool : null),

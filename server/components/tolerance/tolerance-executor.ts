@@ -14,6 +14,7 @@ import type { Logger } from 'pino';
 import { Op, type InferAttributes } from 'sequelize';
 import { parseAtomLibraryCsv } from '../../../shared/optics/atoms';
 import type { Design } from '../../../shared/schemas/design';
+import { memoryBudgetRefusal } from '../quotas/quota.service';
 import type { ToleranceStatus } from '../../../shared/schemas/tolerance';
 import { workerFile } from '../../lib/worker-pool';
 import { timeLimitMessage } from '../quotas/quota.service';
@@ -52,8 +53,12 @@ async function artifactBytes(runId: number, name: string): Promise<Buffer> {
   return Buffer.concat(chunks.map((c) => c.bytes));
 }
 
-async function loadTask(study: ToleranceStudyModel, projectId: number): Promise<Omit<ToleranceTask, 'port' | 'workDir'>> {
-  const design = JSON.parse((await artifactBytes(study.runId, 'design.json')).toString('utf8')) as Design;
+/** The design as the run used it (its stored design.json). */
+async function runDesignOf(study: ToleranceStudyModel): Promise<Design> {
+  return JSON.parse((await artifactBytes(study.runId, 'design.json')).toString('utf8')) as Design;
+}
+
+async function loadTask(study: ToleranceStudyModel, projectId: number, design: Design): Promise<Omit<ToleranceTask, 'port' | 'workDir'>> {
   const ids = uploadIdsOf(design);
   const uploads = ids.length ? await UploadModel.findAll({ where: { id: { [Op.in]: ids }, projectId }, attributes: ['id', 'name', 'mime', 'bytes'] }) : [];
   let atomLibrary: ToleranceTask['atomLibrary'] = null;
@@ -81,6 +86,10 @@ export function createToleranceExecutor(options: {
   progressIntervalMs: number;
   /** Longest a study may run once started (RUN_TIME_LIMIT_MINUTES); null: no limit. */
   timeLimitMs: number | null;
+  /** RUN_MEMORY_BUDGET_MB of this worker (a study queued under a larger one fails here); absent: none. */
+  memoryBudgetMb?: number;
+  /** PREVIEW_TILES_MAX_SIDE, for the run's estimate. */
+  tileSide?: number;
 }): ToleranceExecutor {
   const { logger } = options;
   const active = new Map<number, AbortController>();
@@ -100,7 +109,15 @@ export function createToleranceExecutor(options: {
     if (!run) return;
     let loaded: Omit<ToleranceTask, 'port' | 'workDir'>;
     try {
-      loaded = await loadTask(study, run.projectId);
+      const design = await runDesignOf(study);
+      // Checked again here, before the arrays are read, as for runs: the study may have been queued under
+      // another budget or by another server.
+      const overBudget = options.memoryBudgetMb ? memoryBudgetRefusal(design, options.memoryBudgetMb, options.tileSide ?? 0, 'study') : null;
+      if (overBudget) {
+        await fail(studyId, overBudget);
+        return;
+      }
+      loaded = await loadTask(study, run.projectId, design);
     } catch (error) {
       if (!(error instanceof StudyInputError)) throw error;
       await fail(studyId, error.message);
