@@ -19,9 +19,10 @@ export function atomUsage(atomIndex: Int32Array, atomCount: number): Float64Arra
 
 /** A histogram over equal bins [edges[b], edges[b + 1]); the last bin includes its upper edge. */
 export interface Histogram {
-  /** bins + 1 increasing edges. */
+  /** bins + 1 increasing edges, in `unit`. */
   edges: number[];
   counts: number[];
+  unit: string;
 }
 
 /**
@@ -42,7 +43,7 @@ export function errorHistogram(cost: Float32Array, bins = 24): Histogram {
     counts[b]++;
   }
   const edges = Array.from({ length: bins + 1 }, (_, b) => (b === bins ? top : b * width));
-  return { edges, counts };
+  return { edges, counts, unit: '' };
 }
 
 /** One atom's share of the layout. */
