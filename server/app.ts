@@ -10,6 +10,8 @@ import { adminRoutes } from './components/admin/admin.routes';
 import { withAuditScope } from './components/audit/audit-scope';
 import { atomLibraryRoutes } from './components/atom-libraries/atom-library.routes';
 import { configureAccessCaches } from './components/auth/access-cache';
+import { configureRunDetailCache, forgetRunDetail } from './components/runs/run-detail-cache';
+import { configureListCaches, runsChangedElsewhere } from './db/list-caches';
 import { authRoutes } from './components/auth/auth.routes';
 import { csrfState } from './components/auth/csrf-state';
 import { currentPasswordLimiter } from './components/auth/current-password-limit';
@@ -71,6 +73,8 @@ export function createApp(ctx: AppContext) {
   app.use('/api', healthRoutes(ctx, inputs));
 
   configureAccessCaches(config);
+  configureListCaches(config);
+  configureRunDetailCache(config);
   const store = createSessionStore(ctx.sequelize, { idleMs: Math.min(config.SESSION_IDLE_HOURS * 3600_000, config.SESSION_MAX_DAYS * 24 * 3600_000), touchIntervalMs: config.SESSION_TOUCH_SECONDS * 1000 });
   app.use(
     session({
@@ -135,6 +139,11 @@ export function createApp(ctx: AppContext) {
   }
 
   app.use(errorHandler(logger));
+  // Run workers of other processes change runs (and their projects) without this process's model hooks.
+  ctx.runQueue.onUpdate((runId) => {
+    runsChangedElsewhere();
+    forgetRunDetail(runId);
+  });
   onRunFinished((runId, status) => {
     notifyRunFinished(ctx, runId, status).catch((err: unknown) => logger.error({ err, runId }, 'run notification could not be recorded'));
   });

@@ -52,6 +52,11 @@ const envSchema = z.object({
   ACCESS_CACHE_SECONDS: z.coerce.number().min(0).max(300).default(5),
   /** Accounts and project roles kept in that cache at most. */
   ACCESS_CACHE_ENTRIES: z.coerce.number().int().min(0).max(1_000_000).default(10_000),
+  /**
+   * Memory for the answers of the busiest lists (projects, runs, notifications) kept for ACCESS_CACHE_SECONDS
+   * (server/db/list-caches.ts), MiB; 0 reads them afresh every time.
+   */
+  LIST_CACHE_MIB: z.coerce.number().min(0).max(4096).default(16),
   SIGNIN_LIMIT: z.coerce.number().int().min(1).default(10),
   SIGNIN_WINDOW_MINUTES: z.coerce.number().min(0.01).default(15),
   /** Failed sign-ins allowed from one client address, whatever the e-mails, per SIGNIN_WINDOW_MINUTES. */

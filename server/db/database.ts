@@ -7,6 +7,7 @@ import { AuditEventModel } from '../components/audit/audit.model';
 import { AtomLibraryShareModel } from '../components/atom-libraries/atom-library-share.model';
 import { AtomLibraryModel } from '../components/atom-libraries/atom-library.model';
 import { watchAccessWrites } from '../components/auth/access-cache';
+import { watchListWrites } from './list-caches';
 import { AuthTokenModel } from '../components/auth/auth-token.model';
 import { SessionModel } from '../components/auth/session.model';
 import { ExportOverrideModel, FabExportModel, ProjectDesignRulesModel } from '../components/fab/fab.model';
@@ -90,6 +91,7 @@ export function createSequelize(config: DbConfig, log?: (sql: string) => void): 
   NotificationModel.belongsTo(ProjectModel, { as: 'project', foreignKey: 'projectId' });
   LibraryBuildModel.belongsTo(UserModel, { as: 'createdBy', foreignKey: 'createdById' });
   watchAccessWrites();
+  watchListWrites();
   watchRunDetailWrites();
   bindSelect(sequelize);
   return sequelize;

@@ -3,8 +3,10 @@
  * every change made through the server must still take effect at the very next request.
  */
 import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest';
+import { NotificationModel } from '../../server/components/notifications/notification.model';
+import { RunModel } from '../../server/components/runs/run.model';
 import { ModelReadCache } from '../../server/lib/model-read-cache';
-import { twinImageDesign } from '../support/designs';
+import { deflectorDesign, twinImageDesign, waitForRun } from '../support/designs';
 import { ApiClient, createTestApp, makeUser, signedInClient, type TestApp } from '../support/test-app';
 
 const TTL_SECONDS = 300;
@@ -132,5 +134,112 @@ describe('ModelReadCache', () => {
     cache.configure({ ttlMs: 0, maxEntries: 2 });
     expect(await cache.get('a', load)).toBe(5);
     expect(await cache.get('a', load)).toBe(6);
+  });
+
+  it('keeps at most maxBytes of values by sizeOf, dropping the oldest, and never keeps a value larger than that', async () => {
+    const cache = new ModelReadCache<string>({ ttlMs: 60_000, maxEntries: 100, maxBytes: 10 }, (text) => text.length);
+    let loads = 0;
+    const load = (text: string) => async () => {
+      loads += 1;
+      return text;
+    };
+    await cache.get('a', load('aaaa'));
+    await cache.get('b', load('bbbb'));
+    expect(cache.heldBytes).toBe(8);
+    await cache.get('c', load('cccc')); // 12 bytes: the oldest goes
+    expect(cache.heldBytes).toBe(8);
+    expect(loads).toBe(3);
+    await cache.get('b', load('x'));
+    await cache.get('c', load('x'));
+    expect(loads).toBe(3);
+    expect(await cache.get('a', load('aaaa'))).toBe('aaaa');
+    expect(loads).toBe(4);
+    expect(await cache.get('big', load('far too long'))).toBe('far too long');
+    expect(await cache.get('big', load('far too long'))).toBe('far too long');
+    expect(loads).toBe(6);
+    expect(cache.heldBytes).toBeLessThanOrEqual(10);
+    cache.clear();
+    expect(cache.heldBytes).toBe(0);
+  });
+});
+
+describe('busiest lists and finished runs reused between requests (server/db/list-caches.ts, run-detail-cache.ts)', () => {
+  const later = () => vi.useFakeTimers({ toFake: ['Date'], now: Date.now() + TTL_SECONDS * 1000 + 1000 });
+
+  it('projects: a new project, a rename, a new member and a saved revision show at the next request', async () => {
+    const owner = await signedInClient(t.app, await makeUser());
+    const listed = async () => (await owner.get('/api/projects')).body.projects as { id: number; name: string; memberCount: number; updatedAt: string }[];
+    expect(await listed()).toEqual([]);
+    const id = (await owner.post('/api/projects', { name: 'Listed at once' })).body.project.id as number;
+    expect((await listed()).map((p) => p.name)).toEqual(['Listed at once']);
+    expect((await owner.patch(`/api/projects/${id}`, { name: 'Renamed in the list' })).status).toBe(200);
+    expect((await listed())[0].name).toBe('Renamed in the list');
+    expect((await owner.post(`/api/projects/${id}/members`, { email: (await makeUser()).email, role: 'viewer' })).status).toBe(201);
+    expect((await listed())[0].memberCount).toBe(2);
+    // A saved revision moves the project's last change by a raw update (touchProject), which no model hook sees.
+    const before = (await listed())[0].updatedAt;
+    await new Promise((r) => setTimeout(r, 1100)); // DATETIME keeps whole seconds here
+    expect((await saveRevision(owner, id)).status).toBe(201);
+    expect((await listed())[0].updatedAt > before).toBe(true);
+  });
+
+  it('projects: a change by hand is reused while young and read again after ACCESS_CACHE_SECONDS', async () => {
+    const owner = await signedInClient(t.app, await makeUser());
+    const id = (await owner.post('/api/projects', { name: 'Before the hand edit' })).body.project.id as number;
+    expect((await owner.get('/api/projects')).body.projects[0].name).toBe('Before the hand edit');
+    await t.ctx.sequelize.query('UPDATE projects SET name = ? WHERE id = ?', { replacements: ['After the hand edit', id] });
+    expect((await owner.get('/api/projects')).body.projects[0].name).toBe('Before the hand edit');
+    later();
+    expect((await owner.get('/api/projects')).body.projects[0].name).toBe('After the hand edit');
+  });
+
+  it('runs: a new run row and a status change show at the next request; a hand edit after ACCESS_CACHE_SECONDS', async () => {
+    const { owner, id } = await projectWith('viewer');
+    const revision = await saveRevision(owner, id);
+    const revisionId = (await RunModel.sequelize!.query('SELECT id FROM revisions WHERE project_id = ?', { replacements: [id], plain: true })) as { id: number };
+    expect(revision.status).toBe(201);
+    const listed = async () => (await owner.get(`/api/projects/${id}/runs`)).body.runs as { id: number; status: string; error: string | null }[];
+    expect(await listed()).toEqual([]);
+    // Rows the queue does not pick up: written through the model, as the queue writes them.
+    const run = await RunModel.create({ projectId: id, revisionId: revisionId.id, startedById: null, queuedAt: new Date(), stage: 'queued', status: 'failed', error: 'first reason' });
+    expect((await listed()).map((r) => [r.id, r.status])).toEqual([[run.id, 'failed']]);
+    await RunModel.update({ error: 'second reason' }, { where: { id: run.id } });
+    expect((await listed())[0].error).toBe('second reason');
+    await t.ctx.sequelize.query('UPDATE runs SET error = ? WHERE id = ?', { replacements: ['by hand', run.id] });
+    expect((await listed())[0].error).toBe('second reason');
+    later();
+    expect((await listed())[0].error).toBe('by hand');
+  });
+
+  it('notifications: a new one and one marked read show at the next request', async () => {
+    const person = await makeUser();
+    const client = await signedInClient(t.app, person);
+    const projectId = (await client.post('/api/projects', { name: 'Notified' })).body.project.id as number;
+    const listed = async () => (await client.get('/api/notifications')).body as { notifications: { text: string }[]; unread: number };
+    expect((await listed()).unread).toBe(0);
+    const note = await NotificationModel.create({ userId: person.id, projectId, kind: 'mention', runId: null, threadId: null, actorId: null, text: 'Listed at once' });
+    expect((await listed()).notifications.map((n) => n.text)).toEqual(['Listed at once']);
+    expect((await listed()).unread).toBe(1);
+    expect((await client.post(`/api/notifications/${note.id}/read`)).status).toBe(204);
+    expect((await listed()).unread).toBe(0);
+  });
+
+  it("a finished run's detail: a write through the server shows at once, a hand edit after ACCESS_CACHE_SECONDS", async () => {
+    const owner = await signedInClient(t.app, await makeUser());
+    const id = (await owner.post('/api/projects', { name: 'Finished detail' })).body.project.id as number;
+    const number = (await owner.post(`/api/projects/${id}/revisions`, { design: deflectorDesign(), message: '' })).body.revision.number as number;
+    const finished = await waitForRun(owner, id, (await owner.post(`/api/projects/${id}/revisions/${number}/runs`)).body.run.id);
+    expect(finished.status, finished.error ?? '').toBe('succeeded');
+    const detail = async () => (await owner.get(`/api/projects/${id}/runs/${finished.id}`)).body.run as { stage: string; filesDeletedAt: string | null };
+    expect((await detail()).filesDeletedAt).toBeNull();
+    expect((await owner.delete(`/api/projects/${id}/runs/${finished.id}/files`)).status).toBe(200);
+    expect((await detail()).filesDeletedAt).not.toBeNull();
+    // The run belongs to this project only: another project's id is still a 404, kept or not.
+    const other = (await owner.post('/api/projects', { name: 'Another project' })).body.project.id as number;
+    expect((await owner.get(`/api/projects/${other}/runs/${finished.id}`)).status).toBe(404);
+    await t.ctx.sequelize.query('UPDATE runs SET stage = ?, updated_at = ? WHERE id = ?', { replacements: ['edited by hand', new Date(Date.now() + 5000), finished.id] });
+    expect((await detail()).stage).not.toBe('edited by hand');
+    later();
+    expect((await detail()).stage).toBe('edited by hand');
   });
 });

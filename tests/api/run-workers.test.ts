@@ -50,7 +50,12 @@ beforeAll(async () => {
     await embedded.close();
   }
   // Quick stall detection: a killed worker's run is taken by another within a few seconds.
-  t = await createTestApp({ RUN_QUEUE: 'redis', RUN_STALLED_CHECK_SECONDS: '0.5', RUN_LOCK_SECONDS: '2', RUNS_PER_USER: '10', RUNS_PER_PROJECT: '10' }, { worker: false });
+  // Cached lists and run details live long here: what the server shows of the workers' progress must come from
+  // the workers' announcements (server/db/list-caches.ts), not from the cache running out.
+  t = await createTestApp(
+    { RUN_QUEUE: 'redis', RUN_STALLED_CHECK_SECONDS: '0.5', RUN_LOCK_SECONDS: '2', RUNS_PER_USER: '10', RUNS_PER_PROJECT: '10', ACCESS_CACHE_SECONDS: '300' },
+    { worker: false },
+  );
   designer = await signedInClient(t.app, await makeUser({ name: 'Queue Designer' }));
   projectId = (await designer.post('/api/projects', { name: 'Shared queue' })).body.project.id;
 }, 150_000);
@@ -76,10 +81,14 @@ describe('worker processes on one Redis queue', () => {
   it('two workers share six queued runs, all succeed, and the arrays equal the embedded engine\'s byte for byte', async () => {
     const ids: number[] = [];
     for (let i = 0; i < 6; i++) ids.push(await startRun(designer, projectId, SHARED_DESIGN));
+    const listed = async () => ((await designer.get(`/api/projects/${projectId}/runs`)).body.runs as { id: number; status: string }[]).filter((r) => ids.includes(r.id));
+    expect((await listed()).map((r) => r.status)).toEqual(Array(6).fill('queued'));
     const [a, b] = twoWorkers();
     const runs: RunDetail[] = [];
     for (const id of ids) runs.push(await waitForRun(designer, projectId, id, undefined, 120_000));
     for (const run of runs) expect(run.status, run.error ?? '').toBe('succeeded');
+    // The list read while they were queued is not shown again: the workers' announcements dropped it.
+    expect((await listed()).map((r) => r.status)).toEqual(Array(6).fill('succeeded'));
     expect(a.taken.length, `first worker took ${a.taken.join(', ')}`).toBeGreaterThan(0);
     expect(b.taken.length, `second worker took ${b.taken.join(', ')}`).toBeGreaterThan(0);
     expect([...a.taken, ...b.taken].sort((x, y) => x - y)).toEqual(ids);

@@ -29,6 +29,14 @@ export class ProjectModel extends Model<InferAttributes<ProjectModel>, InferCrea
   }
 }
 
+type TouchListener = (projectId: number, transaction?: Transaction) => void;
+const touchListeners = new Set<TouchListener>();
+
+/** Called after every `touchProject` (whose raw update no model hook sees), e.g. to drop cached answers. */
+export function onProjectTouched(listener: TouchListener): void {
+  touchListeners.add(listener);
+}
+
 /**
  * Moves the project's "last change" to now: a new revision, a run started or a run finished is a change of
  * the project as much as a new name is. Example: after a revision is saved the overview shows its time.
@@ -36,4 +44,5 @@ export class ProjectModel extends Model<InferAttributes<ProjectModel>, InferCrea
 export async function touchProject(projectId: number, transaction?: Transaction): Promise<void> {
   // Sequelize's own update leaves a row alone when only its timestamp changes, so say it in SQL.
   await ProjectModel.sequelize!.query('UPDATE projects SET updated_at = ? WHERE id = ?', { replacements: [new Date(), projectId], transaction });
+  for (const listener of touchListeners) listener(projectId, transaction);
 }

@@ -11,7 +11,7 @@ import { touchProject } from '../projects/project.model';
 import { UploadModel } from '../uploads/upload.model';
 import { UserModel } from '../users/user.model';
 import { findArtifact, listArtifacts } from './run-artifacts';
-import { keepRunDetail, keptRunAnswer, keptRunDetail } from './run-detail-cache';
+import { keepRunDetail, keptRunAnswer, keptRunDetail, recentRunAnswer, recentRunDetail, runDetailWrites } from './run-detail-cache';
 import { RunArtifactModel, RunEventModel, RunModel } from './run.model';
 import { runStatusName, runStatusPhrase } from '../../../shared/display-names';
 
@@ -86,12 +86,16 @@ async function runStamp(projectId: number, runId: number): Promise<{ stamp: numb
 
 /** A run's detail (RunDetail) as JSON text, for the routes that send it as it is. */
 export async function getRunJson(projectId: number, runId: number): Promise<string> {
+  const recent = recentRunDetail(projectId, runId);
+  if (recent) return recent;
   const { stamp, finished } = await runStamp(projectId, runId);
   return (finished && keptRunDetail(runId, stamp)) || readRunJson(projectId, runId);
 }
 
 /** The run route's answer `{"run":…}` as bytes: a finished run's from memory after its first read. */
 export async function getRunAnswer(projectId: number, runId: number): Promise<Buffer> {
+  const recent = recentRunAnswer(projectId, runId);
+  if (recent) return recent;
   const { stamp, finished } = await runStamp(projectId, runId);
   const answer = finished ? keptRunAnswer(runId, stamp) : null;
   return answer ?? Buffer.from(`{"run":${await readRunJson(projectId, runId)}}`);
@@ -99,6 +103,7 @@ export async function getRunAnswer(projectId: number, runId: number): Promise<Bu
 
 /** Reads a run's detail from the database; a finished run's is kept (run-detail-cache.ts) under the `updated_at` read with it. */
 async function readRunJson(projectId: number, runId: number): Promise<string> {
+  const writesBefore = runDetailWrites();
   const [run] = await select<RunSummaryRow & { updatedAt: Date }>(`${SUMMARY_SELECT}, r.updated_at AS updatedAt ${SUMMARY_FROM} WHERE r.id = ? AND r.project_id = ?`, [runId, projectId]);
   if (!run) throw new AppError(404, `This project has no run ${runId}`);
   const [large, events, artifacts] = await Promise.all([
@@ -115,7 +120,7 @@ async function readRunJson(projectId: number, runId: number): Promise<string> {
     artifacts,
   });
   const text = `${small.slice(0, -1)},${large}}`;
-  if (FINISHED_STATUSES.includes(run.status)) keepRunDetail(runId, run.updatedAt.getTime(), text);
+  if (FINISHED_STATUSES.includes(run.status)) keepRunDetail(projectId, runId, run.updatedAt.getTime(), text, writesBefore);
   return text;
 }
 
