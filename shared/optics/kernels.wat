@@ -467,4 +467,73 @@
               (br_if $single (i32.lt_u (local.get $y) (i32.add (local.get $y0) (i32.const 8)))))))
         (local.set $y0 (i32.add (local.get $y0) (i32.const 8)))
         (br $strips))))
+
+  ;; Column copies of a grid whose rows are in the FFT backend's internal order (blocks of four complex values
+  ;; stored as four real parts, then four imaginary parts, 32 bytes): the `count` blocks from block $first — block
+  ;; b holds row positions 4b … 4b + 3 — become rows 0 … 4·count − 1 of $columns, one row of n interleaved
+  ;; (re, im) values per position (toColumns 1), or go back (0). Rows are taken two at a time in
+  ;; strips of 8, so each block of a strip is read and written while its cache lines are loaded.
+  (func (export "copyBlocks") (param $grid i32) (param $n i32) (param $first i32) (param $count i32) (param $columns i32) (param $toColumns i32)
+    (local $stride i32) (local $y0 i32) (local $y i32) (local $i i32) (local $g i32) (local $c i32)
+    (local $re0 v128) (local $im0 v128) (local $re1 v128) (local $im1 v128)
+    (local $lo0 v128) (local $hi0 v128) (local $lo1 v128) (local $hi1 v128)
+    (local $c0 v128) (local $c1 v128) (local $c2 v128) (local $c3 v128) (local $a v128) (local $b v128)
+    (local.set $stride (i32.shl (local.get $n) (i32.const 3)))
+    (block $done
+      (loop $strips
+        (br_if $done (i32.ge_u (local.get $y0) (local.get $n)))
+        (local.set $i (i32.const 0))
+        (block $blocksDone
+          (loop $eachBlock
+            (br_if $blocksDone (i32.ge_u (local.get $i) (local.get $count)))
+            (local.set $y (local.get $y0))
+            (loop $rows
+              ;; $g: row y of the block; $c: row y of the block's first column (its four columns $stride apart)
+              (local.set $g (i32.add (local.get $grid)
+                (i32.add (i32.mul (local.get $y) (local.get $stride))
+                  (i32.shl (i32.add (local.get $first) (local.get $i)) (i32.const 5)))))
+              (local.set $c (i32.add (local.get $columns)
+                (i32.add (i32.mul (i32.shl (local.get $i) (i32.const 2)) (local.get $stride)) (i32.shl (local.get $y) (i32.const 3)))))
+              (if (local.get $toColumns)
+                (then
+                  (local.set $re0 (v128.load (local.get $g)))
+                  (local.set $im0 (v128.load offset=16 (local.get $g)))
+                  (local.set $re1 (v128.load (i32.add (local.get $g) (local.get $stride))))
+                  (local.set $im1 (v128.load offset=16 (i32.add (local.get $g) (local.get $stride))))
+                  ;; (re, im) pairs of rows y and y + 1: values 0, 1 and values 2, 3
+                  (local.set $lo0 (i8x16.shuffle 0 1 2 3 16 17 18 19 4 5 6 7 20 21 22 23 (local.get $re0) (local.get $im0)))
+                  (local.set $hi0 (i8x16.shuffle 8 9 10 11 24 25 26 27 12 13 14 15 28 29 30 31 (local.get $re0) (local.get $im0)))
+                  (local.set $lo1 (i8x16.shuffle 0 1 2 3 16 17 18 19 4 5 6 7 20 21 22 23 (local.get $re1) (local.get $im1)))
+                  (local.set $hi1 (i8x16.shuffle 8 9 10 11 24 25 26 27 12 13 14 15 28 29 30 31 (local.get $re1) (local.get $im1)))
+                  ;; column l gets its value of row y, then of row y + 1
+                  (v128.store (local.get $c) (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23 (local.get $lo0) (local.get $lo1)))
+                  (local.set $c (i32.add (local.get $c) (local.get $stride)))
+                  (v128.store (local.get $c) (i8x16.shuffle 8 9 10 11 12 13 14 15 24 25 26 27 28 29 30 31 (local.get $lo0) (local.get $lo1)))
+                  (local.set $c (i32.add (local.get $c) (local.get $stride)))
+                  (v128.store (local.get $c) (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23 (local.get $hi0) (local.get $hi1)))
+                  (local.set $c (i32.add (local.get $c) (local.get $stride)))
+                  (v128.store (local.get $c) (i8x16.shuffle 8 9 10 11 12 13 14 15 24 25 26 27 28 29 30 31 (local.get $hi0) (local.get $hi1))))
+                (else
+                  ;; column l: (re, im) of row y, then of row y + 1
+                  (local.set $c0 (v128.load (local.get $c)))
+                  (local.set $c1 (v128.load (i32.add (local.get $c) (local.get $stride))))
+                  (local.set $c2 (v128.load (i32.add (local.get $c) (i32.shl (local.get $stride) (i32.const 1)))))
+                  (local.set $c3 (v128.load (i32.add (local.get $c) (i32.mul (local.get $stride) (i32.const 3)))))
+                  ;; row y: (re0, re1, im0, im1) and (re2, re3, im2, im3)
+                  (local.set $a (i8x16.shuffle 0 1 2 3 16 17 18 19 4 5 6 7 20 21 22 23 (local.get $c0) (local.get $c1)))
+                  (local.set $b (i8x16.shuffle 0 1 2 3 16 17 18 19 4 5 6 7 20 21 22 23 (local.get $c2) (local.get $c3)))
+                  (v128.store (local.get $g) (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23 (local.get $a) (local.get $b)))
+                  (v128.store offset=16 (local.get $g) (i8x16.shuffle 8 9 10 11 12 13 14 15 24 25 26 27 28 29 30 31 (local.get $a) (local.get $b)))
+                  ;; row y + 1
+                  (local.set $a (i8x16.shuffle 8 9 10 11 24 25 26 27 12 13 14 15 28 29 30 31 (local.get $c0) (local.get $c1)))
+                  (local.set $b (i8x16.shuffle 8 9 10 11 24 25 26 27 12 13 14 15 28 29 30 31 (local.get $c2) (local.get $c3)))
+                  (local.set $g (i32.add (local.get $g) (local.get $stride)))
+                  (v128.store (local.get $g) (i8x16.shuffle 0 1 2 3 4 5 6 7 16 17 18 19 20 21 22 23 (local.get $a) (local.get $b)))
+                  (v128.store offset=16 (local.get $g) (i8x16.shuffle 8 9 10 11 12 13 14 15 24 25 26 27 28 29 30 31 (local.get $a) (local.get $b)))))
+              (local.set $y (i32.add (local.get $y) (i32.const 2)))
+              (br_if $rows (i32.lt_u (local.get $y) (i32.add (local.get $y0) (i32.const 8)))))
+            (local.set $i (i32.add (local.get $i) (i32.const 1)))
+            (br $eachBlock)))
+        (local.set $y0 (i32.add (local.get $y0) (i32.const 8)))
+        (br $strips))))
 )

@@ -321,6 +321,28 @@ describe('SIMD kernels', () => {
     });
   });
 
+  it("copyBlocks moves blocks of four values stored as four real parts, then four imaginary parts (PFFFT's internal layout) into interleaved columns and back exactly", () => {
+    const n = 64;
+    withOperands([8 * n * n, 8 * n * 8], (arrays) => {
+      const [grid, columns] = [arrays[0].float32(), arrays[1].float32()];
+      const original = Float32Array.from({ length: 2 * n * n }, (_, i) => i);
+      grid.set(original);
+      // Blocks 3 and 4: row positions 12…19 into rows 0…7 of the strip.
+      const re = (y: number, p: number) => original[2 * n * y + 8 * (p >> 2) + (p & 3)];
+      const im = (y: number, p: number) => original[2 * n * y + 8 * (p >> 2) + (p & 3) + 4];
+      fftKernels()!.copyBlocks(arrays[0].pointer, n, 3, 2, arrays[1].pointer, 1);
+      for (let k = 0; k < 8; k++) {
+        for (let y = 0; y < n; y++) expect([columns[2 * (k * n + y)], columns[2 * (k * n + y) + 1]]).toEqual([re(y, 12 + k), im(y, 12 + k)]);
+      }
+      columns.fill(-1);
+      fftKernels()!.copyBlocks(arrays[0].pointer, n, 3, 2, arrays[1].pointer, 0);
+      for (let i = 0; i < 2 * n * n; i++) {
+        const block = (i % (2 * n)) >> 3;
+        expect(grid[i]).toBe(block === 3 || block === 4 ? -1 : original[i]);
+      }
+    });
+  });
+
   // Independent reference: numpy complex128, the published update rules written out (target in the centred
   // layout moved to FFT order by ifftshift, scaled so that Σ T² = N²·Σ a², as the engine does in FFT units).
   const numpyRetrieval = [

@@ -15,7 +15,7 @@ import { AppError } from '../../lib/app-error';
 import { ProjectModel } from '../projects/project.model';
 import { UserModel } from '../users/user.model';
 import { retryOnDeadlock } from '../../db/retry';
-import { estimateRunMemory, type MemoryDesign } from '../../../shared/optics/run-memory';
+import { estimateRunMemory, type MemoryDesign, type RunMemoryEstimate } from '../../../shared/optics/run-memory';
 
 const MIB = 1024 * 1024;
 
@@ -167,7 +167,11 @@ export function timeLimitMessage(what: 'run' | 'study', minutes: number): string
  * (measured by `npm run bench:large`), so the run's estimate bounds it.
  */
 export function memoryBudgetRefusal(design: MemoryDesign, budgetMb: number, tilesMaxSide: number, job: 'run' | 'study' = 'run'): string | null {
-  const estimate = estimateRunMemory(design, { tilesMaxSide });
+  return overBudget(estimateRunMemory(design, { tilesMaxSide }), budgetMb, job);
+}
+
+/** The refusal's words for an estimate over `budgetMb`, or null when it fits. */
+function overBudget(estimate: RunMemoryEstimate, budgetMb: number, job: 'run' | 'study'): string | null {
   if (estimate.mib <= budgetMb) return null;
   const parts = estimate.parts.map((p) => `${p.what} ${Math.ceil(p.bytes / MIB)} MiB`).join(', ');
   if (job === 'study') {
@@ -186,9 +190,7 @@ export function memoryBudgetRefusal(design: MemoryDesign, budgetMb: number, tile
 
 /** 413 naming the estimate and the budget when the design does not fit RUN_MEMORY_BUDGET_MB. */
 export function requireMemoryBudget(config: Pick<AppConfig, 'RUN_MEMORY_BUDGET_MB' | 'PREVIEW_TILES_MAX_SIDE'>, design: MemoryDesign, job: 'run' | 'study' = 'run'): void {
-  const tilesMaxSide = config.PREVIEW_TILES_MAX_SIDE;
-  const refusal = memoryBudgetRefusal(design, config.RUN_MEMORY_BUDGET_MB, tilesMaxSide, job);
-  if (refusal) {
-    throw new AppError(413, refusal, { estimatedMiB: String(estimateRunMemory(design, { tilesMaxSide }).mib), budgetMiB: String(config.RUN_MEMORY_BUDGET_MB) });
-  }
+  const estimate = estimateRunMemory(design, { tilesMaxSide: config.PREVIEW_TILES_MAX_SIDE });
+  const refusal = overBudget(estimate, config.RUN_MEMORY_BUDGET_MB, job);
+  if (refusal) throw new AppError(413, refusal, { estimatedMiB: String(estimate.mib), budgetMiB: String(config.RUN_MEMORY_BUDGET_MB) });
 }
