@@ -7,8 +7,10 @@
  * Engine "GS iteration" is the product path (`retrievePhase`, plain GS, Fourier geometry, SIMD kernels) with a
  * target covering the whole far-field grid, so the amplitude swap runs on every pixel as in the numpy reference;
  * its time is the median interval between progress reports.
- * Each size is measured for the engine and then, right after, for numpy/scipy (bench/numpy_fft_bench.py), twice in
- * turn up to 2048² (the table shows the mean of the two medians), so both see about the same load. Two figures per timing: wall time, and the CPU time of the thread doing the work
+ * Each size is measured for the engine and then, right after, for numpy/scipy (bench/numpy_fft_bench.py), in
+ * turns (five up to 1024², three at 2048², one above), so both see about the same load: the table shows the mean
+ * of the turns' medians, and the GS/scipy ratio is the median of the turns' own ratios (each turn's engine and
+ * reference measured back to back), printed per turn below the table. Two figures per timing: wall time, and the CPU time of the thread doing the work
  * (engine: process.cpuUsage, one busy thread; reference: time.thread_time). On a shared machine the wall time
  * also counts the time other programs held the cores; the CPU time mostly does not, so the ratios are given
  * for both.
@@ -53,6 +55,8 @@ export interface FftBenchRow {
   gs: Timing;
   reference: ReferenceTimes | null;
   load: number;
+  /** GS iteration engine / scipy complex64 of each turn, by wall and by CPU time. */
+  gsScipyTurns: { wall: number[]; cpu: number[] };
 }
 
 /** What one worker saw while it retrieved its channels (Linux /proc of its own thread). */
@@ -293,8 +297,8 @@ export async function main(sizes: number[] = [512, 1024, 2048, 4096]): Promise<F
   let versions: { numpy: string; scipy: string } | null = null;
   for (const n of sizes) {
     const load = load1();
-    // Engine and reference take turns (twice up to 2048²), so a burst of load on the shared machine falls on both.
-    const turns = n <= 2048 ? 2 : 1;
+    // Engine and reference take turns, so a burst of load on the shared machine falls on both.
+    const turns = n <= 1024 ? 5 : n <= 2048 ? 3 : 1;
     const engine: { fft: Timing; gs: Timing }[] = [];
     const references: ReferenceTimes[] = [];
     for (let t = 0; t < turns; t++) {
@@ -303,12 +307,17 @@ export async function main(sizes: number[] = [512, 1024, 2048, 4096]): Promise<F
       versions ??= reference?.versions ?? null;
       if (reference) references.push(reference.times);
     }
+    const gs = engine.map((e) => e.gs);
+    const gsScipyTurns = {
+      wall: references.map((r, t) => gs[t].wallMs / r.scipy_gs_ms),
+      cpu: references.map((r, t) => gs[t].cpuMs / r.scipy_gs_cpu_ms),
+    };
     const mean = (values: number[]) => values.reduce((a, b) => a + b, 0) / values.length;
     const meanTiming = (timings: Timing[]): Timing => ({ wallMs: mean(timings.map((x) => x.wallMs)), cpuMs: mean(timings.map((x) => x.cpuMs)) });
     const reference = references.length
       ? (Object.fromEntries(Object.keys(references[0]).map((key) => [key, mean(references.map((r) => r[key as keyof ReferenceTimes]))])) as unknown as ReferenceTimes)
       : null;
-    rows.push({ n, fft: meanTiming(engine.map((e) => e.fft)), gs: meanTiming(engine.map((e) => e.gs)), reference, load });
+    rows.push({ n, fft: meanTiming(engine.map((e) => e.fft)), gs: meanTiming(gs), reference, load, gsScipyTurns });
   }
 
   const f = (v: number, d = 1) => v.toFixed(d).padStart(6);
@@ -317,7 +326,7 @@ export async function main(sizes: number[] = [512, 1024, 2048, 4096]): Promise<F
     `Engine FFT backend: ${fftBackend()} (float32${fftKernels() ? ', SIMD kernels' : ''})` +
       (versions ? `; reference numpy ${versions.numpy} complex128, scipy ${versions.scipy} complex64 workers=1` : ''),
   );
-  console.log('Times in ms, "wall cpu" (median of each turn, mean of the turns); ratios engine / reference by wall and by CPU time. Load = 1-min load average (2 cores).');
+  console.log('Times in ms, "wall cpu" (median of each turn, mean of the turns); ratios engine / reference by wall and by CPU time (GS/scipy: median of the turns\' ratios). Load = 1-min load average (2 cores).');
   console.log('   N | load | FFT engine    numpy         scipy        | GS it engine  numpy         scipy        | GS/scipy wall cpu | GS/numpy wall cpu | FFT GFLOP/s');
   for (const r of rows) {
     const ref = r.reference;
@@ -325,9 +334,13 @@ export async function main(sizes: number[] = [512, 1024, 2048, 4096]): Promise<F
     console.log(
       `${String(r.n).padStart(4)} | ${r.load.toFixed(1).padStart(4)} | ${pair(r.fft.wallMs, r.fft.cpuMs)} ${ref ? pair(ref.numpy_fft_ms, ref.numpy_fft_cpu_ms) : dash} ${ref ? pair(ref.scipy_fft_ms, ref.scipy_fft_cpu_ms) : dash} | ` +
         `${pair(r.gs.wallMs, r.gs.cpuMs)} ${ref ? pair(ref.numpy_gs_ms, ref.numpy_gs_cpu_ms) : dash} ${ref ? pair(ref.scipy_gs_ms, ref.scipy_gs_cpu_ms) : dash} | ` +
-        `${ref ? `    ${(r.gs.wallMs / ref.scipy_gs_ms).toFixed(2)} ${(r.gs.cpuMs / ref.scipy_gs_cpu_ms).toFixed(2)}` : '       -    -'} | ` +
+        `${ref ? `    ${median(r.gsScipyTurns.wall).toFixed(2)} ${median(r.gsScipyTurns.cpu).toFixed(2)}` : '       -    -'} | ` +
         `${ref ? `    ${(r.gs.wallMs / ref.numpy_gs_ms).toFixed(2)} ${(r.gs.cpuMs / ref.numpy_gs_cpu_ms).toFixed(2)}` : '       -    -'} | ${f(flopsPerFft(r.n) / r.fft.cpuMs / 1e6)}`,
     );
+  }
+  for (const r of rows.filter((row) => row.gsScipyTurns.cpu.length > 1)) {
+    const list = (values: number[]) => values.map((v) => v.toFixed(2)).join(' ');
+    console.log(`GS/scipy per turn at ${r.n}²: wall ${list(r.gsScipyTurns.wall)}; CPU ${list(r.gsScipyTurns.cpu)}`);
   }
   console.log('Targets: GS iteration ≤ 1.0× scipy complex64 at 1024² and 2048².');
 
