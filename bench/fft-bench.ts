@@ -15,14 +15,14 @@
  * also counts the time other programs held the cores; the CPU time mostly does not, so the ratios are given
  * for both.
  *
- * Two channels: two worker threads are started and warmed up (FFT plan, kernels and working arrays paged in),
- * then, from one common start signal, either one worker retrieves both channels one after the other or each
+ * Two channels: two worker threads are started and warmed up (FFT plan, kernels and working arrays paged in, one
+ * whole channel each, two unmeasured rounds), then, from one common start signal, either one worker retrieves both channels one after the other or each
  * retrieves one. Throughput ratio = time(one thread) / time(two threads), both measured by the main thread from
  * the start signal to the last result. Each worker reports what it saw meanwhile (Linux /proc): CPU time on
  * its core, time spent waiting for a core (run queue), minor page faults, GC pause time, the cores it ran on.
  */
 import { execFileSync } from 'node:child_process';
-import { readFileSync } from 'node:fs';
+import { readdirSync, readFileSync, readlinkSync } from 'node:fs';
 import { loadavg } from 'node:os';
 import { PerformanceObserver } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
@@ -61,6 +61,8 @@ export interface FftBenchRow {
 
 /** What one worker saw while it retrieved its channels (Linux /proc of its own thread). */
 interface ThreadReport {
+  /** The worker's thread id. */
+  tid: number;
   wallMs: number;
   cpuMs: number;
   runQueueMs: number;
@@ -79,6 +81,11 @@ export interface ParallelRun {
   one: ThreadReport;
   two: ThreadReport[];
   load: number;
+  /**
+   * CPU time (ms) other threads used while the two retrieved side by side: this process's own (V8's helper
+   * threads: concurrent GC and compilation for the workers) and every other process's on the machine.
+   */
+  othersMs: { process: number; machine: number };
 }
 
 export interface ParallelResult {
@@ -186,8 +193,35 @@ function threadCounters(): { cpuNs: number; waitNs: number; minorFaults: number;
   return { cpuNs, waitNs, minorFaults: Number(fields[7]), migrations, core: Number(fields[36]) };
 }
 
+/** This thread's id (Linux), from /proc/thread-self → …/task/TID. */
+function threadId(): number {
+  return Number(readlinkSync('/proc/thread-self').split('/').pop());
+}
+
+/** CPU time (ns) of every thread on the machine by "pid/tid", from /proc (threads that end meanwhile drop out). */
+function allThreadsCpu(): Map<string, number> {
+  const cpu = new Map<string, number>();
+  for (const pid of readdirSync('/proc').filter((d) => /^\d+$/.test(d))) {
+    let tids: string[];
+    try {
+      tids = readdirSync(`/proc/${pid}/task`);
+    } catch {
+      continue;
+    }
+    for (const tid of tids) {
+      try {
+        cpu.set(`${pid}/${tid}`, Number(readFileSync(`/proc/${pid}/task/${tid}/schedstat`, 'utf8').split(' ')[0]));
+      } catch {
+        // ended meanwhile
+      }
+    }
+  }
+  return cpu;
+}
+
 /**
- * Worker body: loads the engine, warms up (plan, kernels, working arrays paged in), says 'ready', then on each
+ * Worker body: loads the engine, warms up (plan, kernels, working arrays paged in, code optimized by one whole
+ * channel), says 'ready', then on each
  * { channels } message retrieves that many channels one after the other and answers with its ThreadReport.
  */
 async function workerMain(): Promise<void> {
@@ -195,7 +229,9 @@ async function workerMain(): Promise<void> {
   await initFftInNode();
   const grid = benchGrid(n);
   const target = fullGridTarget(grid);
-  retrievePhase({ grid, target, iterations: 2, seed: 1 });
+  // A whole channel first: the engine's code reaches its optimized tier here rather than in the first round, where
+  // V8's compiler threads would take a core from the other worker.
+  retrievePhase({ grid, target, iterations, seed: 1 });
   let gcMs = 0;
   new PerformanceObserver((list) => {
     for (const entry of list.getEntries()) gcMs += entry.duration;
@@ -212,6 +248,7 @@ async function workerMain(): Promise<void> {
     const wallMs = performance.now() - t0;
     const after = threadCounters();
     const report: ThreadReport = {
+      tid: threadId(),
       wallMs,
       cpuMs: (after.cpuNs - before.cpuNs) / 1e6,
       runQueueMs: (after.waitNs - before.waitNs) / 1e6,
@@ -257,13 +294,31 @@ async function race(workers: Worker[], channels: number[]): Promise<{ ms: number
 export async function parallelBench(n: number, iterations: number, rounds: number): Promise<ParallelResult> {
   const workers = await Promise.all([startWorker(n, iterations), startWorker(n, iterations)]);
   try {
+    // Two rounds unmeasured: for the first seconds of a worker's life V8's helper threads still collect its start-up
+    // garbage (memory-reducing GCs), taking 30–80 ms of CPU per round from the other worker's core (printed below
+    // as "other threads of this process"); the rounds then measure the steady state.
+    for (let r = 0; r < 2; r++) {
+      await race([workers[0]], [2]);
+      await race(workers, [1, 1]);
+    }
     const runs: ParallelRun[] = [];
     for (let r = 0; r < rounds; r++) {
       const load = load1();
       const one = await race([workers[0]], [2]);
+      const before = allThreadsCpu();
       const two = await race(workers, [1, 1]);
+      const after = allThreadsCpu();
+      const retrieving = new Set(two.reports.map((t) => `${process.pid}/${t.tid}`));
+      const othersMs = { process: 0, machine: 0 };
+      for (const [key, ns] of after) {
+        const start = before.get(key);
+        if (start === undefined || retrieving.has(key)) continue;
+        const ms = (ns - start) / 1e6;
+        if (key.startsWith(`${process.pid}/`)) othersMs.process += ms;
+        else othersMs.machine += ms;
+      }
       const cpuRatio = one.reports[0].cpuMs / Math.max(...two.reports.map((t) => t.cpuMs));
-      runs.push({ oneThreadMs: one.ms, twoThreadsMs: two.ms, throughputRatio: one.ms / two.ms, cpuRatio, one: one.reports[0], two: two.reports, load });
+      runs.push({ oneThreadMs: one.ms, twoThreadsMs: two.ms, throughputRatio: one.ms / two.ms, cpuRatio, one: one.reports[0], two: two.reports, load, othersMs });
     }
     return { n, iterations, runs, throughputRatio: median(runs.map((r) => r.throughputRatio)), cpuRatio: median(runs.map((r) => r.cpuRatio)) };
   } finally {
@@ -284,6 +339,7 @@ function printParallel(p: ParallelResult): void {
     const alone = r.one.cpuMs / 2;
     const together = (r.two[0].cpuMs + r.two[1].cpuMs) / 2;
     console.log(`           CPU time per channel side by side / alone: ${(together / alone).toFixed(2)}; CPU-time ratio ×${r.cpuRatio.toFixed(2)}`);
+    console.log(`           meanwhile other threads of this process ${f(r.othersMs.process)} ms CPU, other processes ${f(r.othersMs.machine)} ms`);
   }
   console.log(
     `  throughput two threads / one: ×${p.throughputRatio.toFixed(2)} by wall time, ×${p.cpuRatio.toFixed(2)} by CPU time (what two cores free of other work would give) — medians of ${p.runs.length}; target ≥ 1.8`,

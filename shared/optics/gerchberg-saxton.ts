@@ -35,7 +35,7 @@ import { float64Array, type ArrayMemory } from './arrays';
 import { allocateKernelArray, fftKernels, getFft2d, type Fft2d, type FftKernels, type RowOperation, type RowSpans } from './fft';
 import { illuminationAmplitude, incidentPower, type Illumination } from './illumination';
 import { transferFunction } from './propagation';
-import { mulberry32 } from './random';
+import { mulberry32Fill } from './random';
 import type { PixelWindow, TargetPlane } from './target';
 import type { CancelSignal, CellGrid, ProgressCallback } from './types';
 
@@ -141,7 +141,9 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
     const power = incidentPower(illumination);
     const deviceAmplitude = held ? held.amplitudes.float32().fill(0) : new Float32Array(count);
     for (let y = 0; y < n; y++) deviceAmplitude.set(illumination.subarray(y * n, y * n + n), (y + o) * m + o);
-    const uniform = deviceAmplitude.every((a) => a === deviceAmplitude[0]);
+    // A plain loop: `every` would box each value for its callback (16 MB of garbage at 1024²).
+    let uniform = true;
+    for (let i = 1; i < count && uniform; i++) uniform = deviceAmplitude[i] === deviceAmplitude[0];
 
     // Image-plane codes in the layout the plan presents them (Fourier geometry: transposed and unshifted spectrum,
     // each row in the plan's spectrum order; Fresnel: normal centred rows of the image plane): target amplitude ≥ 0
@@ -270,13 +272,15 @@ export function retrievePhase(options: RetrievalOptions): RetrievalResult {
  */
 function loadStartField(plan: Fft2d, n: number, o: number, amplitude: Float32Array, initialPhase: ArrayLike<number> | undefined, seed: number): void {
   if (initialPhase && initialPhase.length !== n * n) throw new RangeError(`Initial phase must have ${n * n} values, got ${initialPhase.length}`);
-  const random = mulberry32(seed);
+  const state = Uint32Array.of(seed);
+  const draws = new Float64Array(n);
   const m = plan.n;
   plan.load(amplitude);
   const data = plan.data;
   for (let y = 0; y < n; y++) {
+    if (!initialPhase) mulberry32Fill(state, draws);
     for (let x = 0; x < n; x++) {
-      const phi = initialPhase ? initialPhase[y * n + x] : 2 * Math.PI * random() - Math.PI;
+      const phi = initialPhase ? initialPhase[y * n + x] : 2 * Math.PI * draws[x] - Math.PI;
       const q = (y + o) * m + x + o;
       const a = amplitude[q];
       data[2 * q] = a * Math.cos(phi);

@@ -2,7 +2,7 @@ import { execFileSync } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { initFft } from '../../shared/optics/fft';
-import { mulberry32 } from '../../shared/optics/random';
+import { mulberry32, mulberry32Fill } from '../../shared/optics/random';
 import { buildTargetPlane, placeWindow, type GrayImage } from '../../shared/optics/target';
 import type { CellGrid } from '../../shared/optics/types';
 import { PYTHON } from '../support/python';
@@ -47,6 +47,13 @@ describe('mulberry32', () => {
     for (const seed of seeds) {
       const random = mulberry32(seed);
       expect(Array.from({ length: count }, () => random())).toEqual(expected[String(seed)]);
+      // The filling form (the retrieval's start phase), in two fills of unequal length: the same values.
+      const state = Uint32Array.of(seed);
+      const first = new Float64Array(24);
+      const rest = new Float64Array(count - 24);
+      mulberry32Fill(state, first);
+      mulberry32Fill(state, rest);
+      expect([...first, ...rest]).toEqual(expected[String(seed)]);
     }
     // The same script's first values, kept as literals so a change of the fixture itself shows up here.
     expect(expected['1'].slice(0, 2)).toEqual([0.6270739405881613, 0.002735721180215478]);
