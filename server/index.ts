@@ -7,6 +7,7 @@ import { createConfiguredRunQueue } from './components/runs/run-queue-config';
 import { loadConfig } from './config';
 import { createSequelize, migrateUp } from './db/database';
 import { createMailer } from './lib/mailer';
+import { stopOnSignals } from './lib/shutdown';
 
 /**
  * Connects, migrates, starts the run queue (which queues runs interrupted by the last stop again), listens.
@@ -29,16 +30,8 @@ async function main() {
     logger.info(`Phasewright listening on ${config.publicUrl}`);
   });
 
-  let stopping = false;
-  const stop = async (signal: string) => {
-    if (stopping) return;
-    stopping = true;
-    logger.info({ signal }, 'shutting down');
-    const force = setTimeout(() => {
-      logger.error('shutdown took longer than 10 s; exiting');
-      process.exit(1);
-    }, 10_000);
-    force.unref();
+  // On SIGTERM/SIGINT, or when the start command that launched this process dies: stop rather than linger.
+  stopOnSignals(logger, 'shutting down', async () => {
     const closing = new Promise<void>((resolve) => {
       server.close(() => resolve());
       server.closeIdleConnections();
@@ -51,12 +44,7 @@ async function main() {
     await inputs.close();
     await mailer.drain();
     await sequelize.close();
-    process.exit(0);
-  };
-  process.on('SIGTERM', () => void stop('SIGTERM'));
-  process.on('SIGINT', () => void stop('SIGINT'));
-  // Started by the start command with an IPC channel: if that command dies abruptly, stop rather than linger.
-  if (process.send) process.on('disconnect', () => void stop('start command exited'));
+  });
 }
 
 main().catch((err) => {

@@ -10,6 +10,7 @@ import { workerOptions } from './components/runs/run-queue-config';
 import { createRedisRunWorker } from './components/runs/run-queue-redis';
 import { loadConfig } from './config';
 import { createSequelize } from './db/database';
+import { stopOnSignals } from './lib/shutdown';
 
 async function main() {
   const config = loadConfig();
@@ -27,19 +28,10 @@ async function main() {
   await worker.start();
   logger.info({ redis: config.REDIS_URL.replace(/\/\/[^@]*@/, '//…@'), threads: config.RUN_WORKERS ?? 'one per core' }, 'run worker taking jobs');
 
-  let stopping = false;
-  const stop = async (signal: string) => {
-    if (stopping) return;
-    stopping = true;
-    logger.info({ signal }, 'run worker stopping');
-    setTimeout(() => process.exit(1), 10_000).unref();
+  stopOnSignals(logger, 'run worker stopping', async () => {
     await worker.stop();
     await sequelize.close();
-    process.exit(0);
-  };
-  process.on('SIGTERM', () => void stop('SIGTERM'));
-  process.on('SIGINT', () => void stop('SIGINT'));
-  if (process.send) process.on('disconnect', () => void stop('start command exited'));
+  });
 }
 
 main().catch((err) => {

@@ -19,10 +19,9 @@ export function atomUsage(atomIndex: Int32Array, atomCount: number): Float64Arra
 
 /** A histogram over equal bins [edges[b], edges[b + 1]); the last bin includes its upper edge. */
 export interface Histogram {
-  /** bins + 1 increasing edges, in `unit`. */
+  /** bins + 1 increasing edges. */
   edges: number[];
   counts: number[];
-  unit: string;
 }
 
 /**
@@ -43,7 +42,7 @@ export function errorHistogram(cost: Float32Array, bins = 24): Histogram {
     counts[b]++;
   }
   const edges = Array.from({ length: bins + 1 }, (_, b) => (b === bins ? top : b * width));
-  return { edges, counts, unit: '' };
+  return { edges, counts };
 }
 
 /** One atom's share of the layout. */

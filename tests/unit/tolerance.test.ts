@@ -257,7 +257,7 @@ describe('mapping report', () => {
   });
 
   it('histogram edges and counts of a small example', () => {
-    expect(errorHistogram(Float32Array.of(0, 0.5, 1), 2)).toEqual({ edges: [0, 0.5, 1], counts: [1, 2], unit: '' });
+    expect(errorHistogram(Float32Array.of(0, 0.5, 1), 2)).toEqual({ edges: [0, 0.5, 1], counts: [1, 2] });
     const report = mappingReport(Int32Array.of(0, 0, 2), new Float32Array(3), { ...demoAtomLibrary(), atoms: demoAtomLibrary().atoms.slice(0, 3) });
     expect(report.topAtoms.map((u) => [u.index, u.cells])).toEqual([
       [0, 2],

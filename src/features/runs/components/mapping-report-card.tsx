@@ -12,7 +12,7 @@ const chartStyle = { width: '100%', height: 260 };
 /** The run's `plots.mappingReport` (shared/optics/mapping-report.ts), as far as this card needs it. */
 interface MappingReportData {
   cells: number;
-  errorHistogram: { edges: number[]; counts: number[]; unit: string };
+  errorHistogram: { edges: number[]; counts: number[] };
   topAtoms: { index: number; id: string; widthNm: number; lengthNm: number; cells: number }[];
   otherCells: number;
   distinctAtoms: number;
