@@ -3,6 +3,7 @@ import { Link } from 'react-router-dom';
 import type { DesignChange, Revision } from '@shared/schemas/revisions';
 import { Badge } from '@/components/ui/badge';
 import { Card } from '@/components/ui/card';
+import { PageLoader } from '@/components/ui/spinner';
 import { paths } from '@/config/paths';
 import { formatDateTime } from '@/lib/format';
 import { signedChange } from '@shared/design-values';
@@ -82,6 +83,8 @@ interface RevisionComparisonProps {
 
 export function RevisionComparison({ projectId, a, b, changes }: RevisionComparisonProps) {
   const uploads = useUploads(projectId);
+  // The changes name uploaded pictures by file name: wait for the names rather than show bare ids first.
+  if (uploads.isPending) return <PageLoader label={`Comparing revisions ${a.number} and ${b.number}`} />;
   const uploadNames = uploads.data ? new Map(uploads.data.map((u) => [u.id, u.name])) : undefined;
   const leavesA = flattenDesign(a.design);
   const leavesB = flattenDesign(b.design);

@@ -7,7 +7,7 @@ import { paths } from '@/config/paths';
 import { isApiError } from '@/lib/api-client';
 import { revisionComparisonQueryOptions, useRevisionComparison } from '@/features/designs/api/compare-revisions';
 import { RevisionComparison } from '@/features/designs/components/revision-comparison';
-import { uploadsQueryOptions, useUploads } from '@/features/designs/api/get-uploads';
+import { uploadsQueryOptions } from '@/features/designs/api/get-uploads';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
 
 function parseNumber(value: string | null): number | null {
@@ -32,7 +32,6 @@ export default function CompareRevisionsRoute() {
   const a = parseNumber(search.get('a'));
   const b = parseNumber(search.get('b'));
   const comparison = useRevisionComparison(project.id, a, b);
-  const uploads = useUploads(project.id);
 
   const back = (
     <Link to={paths.projects.revisions.getHref(project.id)} className="text-sm font-bold text-teal underline-offset-4 hover:underline">
@@ -43,7 +42,7 @@ export default function CompareRevisionsRoute() {
   let body;
   if (a === null || b === null) {
     body = <Banner title="Choose two revisions">Tick two revisions in the list to compare them.</Banner>;
-  } else if (comparison.isPending || uploads.isPending) {
+  } else if (comparison.isPending) {
     body = <PageLoader label={`Comparing revisions ${a} and ${b}`} />;
   } else if (comparison.isError) {
     body = (

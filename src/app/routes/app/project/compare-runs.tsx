@@ -18,7 +18,6 @@ import { RunPairPicker } from '@/features/runs/components/run-pair-picker';
 import { RunStatusBadge } from '@/features/runs/components/run-status-badge';
 import { useRevisionComparison } from '@/features/designs/api/compare-revisions';
 import { RevisionComparison } from '@/features/designs/components/revision-comparison';
-import { useUploads } from '@/features/designs/api/get-uploads';
 import { parseProjectId, useProjectOutlet } from '@/app/routes/app/project/project-context';
 
 function parseRunId(value: string | null): number | null {
@@ -60,7 +59,6 @@ function RunHeader({ projectId, run, side }: { projectId: number; run: RunSummar
 function DesignChanges({ projectId, a, b }: { projectId: number; a: number; b: number }) {
   const same = a === b;
   const comparison = useRevisionComparison(projectId, same ? null : a, same ? null : b);
-  const uploads = useUploads(projectId);
   if (same) {
     return (
       <Card title="Design changes">
@@ -68,8 +66,7 @@ function DesignChanges({ projectId, a, b }: { projectId: number; a: number; b: n
       </Card>
     );
   }
-  // Waits for the upload names too, so uploaded pictures appear by file name from the first paint.
-  if (comparison.isPending || uploads.isPending) return <PageLoader label={`Comparing revisions ${a} and ${b}`} />;
+  if (comparison.isPending) return <PageLoader label={`Comparing revisions ${a} and ${b}`} />;
   if (comparison.isError) return <Banner title="The design changes did not load">{comparison.error.message}</Banner>;
   return <RevisionComparison projectId={projectId} a={comparison.data.a} b={comparison.data.b} changes={comparison.data.changes} />;
 }
