@@ -28,9 +28,12 @@ export const notificationLists = new ModelReadCache<string>(OFF, textBytes);
 
 const caches = [projectLists, runLists, notificationLists];
 
-/** The cache key of a list: whose (person or project) and the parsed query (closed lists and numbers). */
-export function listKey(owner: number, query: object): string {
-  return `${owner} ${JSON.stringify(query)}`;
+/**
+ * A list's answer as JSON text: kept in `cache` under whose it is (person or project) and the parsed query
+ * (closed lists and numbers), else `load`ed and kept.
+ */
+export function cachedList(cache: ModelReadCache<string>, owner: number, query: object, load: () => Promise<unknown>): Promise<string> {
+  return cache.get(`${owner} ${JSON.stringify(query)}`, async () => JSON.stringify(await load()));
 }
 
 export function configureListCaches(config: Pick<AppConfig, 'ACCESS_CACHE_SECONDS' | 'ACCESS_CACHE_ENTRIES' | 'LIST_CACHE_MIB'>) {

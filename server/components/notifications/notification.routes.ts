@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { listNotificationsQuerySchema, notificationPreferencesSchema } from '../../../shared/schemas/review';
 import { parseId, parseInput } from '../../lib/validate';
 import { currentUser, requireUser } from '../auth/auth.middleware';
-import { listKey, notificationLists } from '../../db/list-caches';
+import { cachedList, notificationLists } from '../../db/list-caches';
 import { getPreferences, listNotifications, markAllRead, markRead, setPreferences } from './notification.service';
 
 /** The signed-in user's own notifications and e-mail choices, under `/api/notifications`. */
@@ -13,8 +13,7 @@ export function notificationRoutes() {
   router.get('/', async (req, res) => {
     const query = parseInput(listNotificationsQuerySchema, req.query, 'query');
     const userId = currentUser(req).id;
-    const answer = await notificationLists.get(listKey(userId, query), async () => JSON.stringify(await listNotifications(userId, query.unread === 'true')));
-    res.type('application/json').send(answer);
+    res.type('application/json').send(await cachedList(notificationLists, userId, query, () => listNotifications(userId, query.unread === 'true')));
   });
 
   router.post('/read-all', async (req, res) => {

@@ -14,7 +14,7 @@ import { recordMembershipActivity } from '../review/activity.service';
 import { UserModel } from '../users/user.model';
 import { listPendingInvitations, resendInvitation, revokeInvitation } from './invitation.service';
 import { projectAccess, requireProject } from './project-access';
-import { listKey, projectLists } from '../../db/list-caches';
+import { cachedList, projectLists } from '../../db/list-caches';
 import {
   addMember,
   changeMemberRole,
@@ -33,8 +33,7 @@ export function projectRoutes(ctx: AppContext) {
   router.get('/', requireUser, async (req, res) => {
     const query = parseInput(listProjectsQuerySchema, req.query, 'query');
     const user = currentUser(req);
-    const answer = await projectLists.get(listKey(user.id, query), async () => JSON.stringify({ projects: await listProjects(user, query) }));
-    res.type('application/json').send(answer);
+    res.type('application/json').send(await cachedList(projectLists, user.id, query, async () => ({ projects: await listProjects(user, query) })));
   });
 
   router.post('/', requireUser, async (req, res) => {

@@ -2,9 +2,9 @@
  * The whole detail (RunDetail) of finished runs as JSON text, and the `{"run":…}` answer of the run route as
  * bytes, by run id. A finished run's detail is read on every view of its page: this spares three queries and
  * reading, parsing and writing out again some 50 kB of JSON each time.
- * An entry is used only while the row's `updated_at` is the one it was read at, checked by one small query
- * (the run's status and `updated_at`, which also checks that the run belongs to the project) — at most once
- * per ACCESS_CACHE_SECONDS: in between, the entry is used as it is. It is dropped at once by every write in
+ * An entry answers only for the project its run belongs to, and only while the row's `updated_at` is the one it
+ * was read at, checked by one small query at most once per ACCESS_CACHE_SECONDS (in between, the entry is used
+ * as it is); a run with no entry is read at once, with no check. An entry is dropped at once by every write in
  * this process of the run, of its events or files, or of any account (the detail names who started the run),
  * and by every change of the run another process announces (`forgetRunDetail`); so the wait only bounds how
  * long a change made by hand in the database goes unseen.
@@ -23,55 +23,40 @@ export function configureRunDetailCache(config: Pick<AppConfig, 'ACCESS_CACHE_SE
   entries.clear();
 }
 
-interface Entry {
+/** A kept detail: its JSON text, and the run route's answer made from it on first use (`runAnswerOf`). */
+export interface KeptRunDetail {
+  readonly text: string;
+  answer?: Buffer;
+}
+
+interface Entry extends KeptRunDetail {
   projectId: number;
   stamp: number;
   /** When the stamp was last found current (ms). */
   checkedAt: number;
-  text: string;
-  /** `{"run":text}` encoded, made on first use. */
-  answer?: Buffer;
 }
 const entries = new Map<number, Entry>();
 
-function kept(runId: number, stamp: number): Entry | null {
+/**
+ * The kept detail of finished run `runId` of project `projectId`, or null (not kept: read it from the database).
+ * Used as it is while its stamp was found current within ACCESS_CACHE_SECONDS; otherwise `currentStamp` (the
+ * row's `updated_at`, ms, or null when there is no such row) is asked first and must still equal it.
+ */
+export async function keptRunDetail(projectId: number, runId: number, currentStamp: () => Promise<number | null>): Promise<KeptRunDetail | null> {
   const entry = entries.get(runId);
-  if (!entry || entry.stamp !== stamp) return null;
+  if (!entry || entry.projectId !== projectId) return null;
+  if (Date.now() - entry.checkedAt < checkEveryMs) return entry;
+  const stamp = await currentStamp();
+  // A write meanwhile has dropped or replaced the entry.
+  if (entries.get(runId) !== entry || stamp !== entry.stamp) return null;
   entry.checkedAt = Date.now();
   return entry;
 }
 
-/** The kept entry of run `runId` of project `projectId` when its stamp was found current within ACCESS_CACHE_SECONDS, else null. */
-function recent(projectId: number, runId: number): Entry | null {
-  const entry = entries.get(runId);
-  return entry && entry.projectId === projectId && Date.now() - entry.checkedAt < checkEveryMs ? entry : null;
-}
-
-/** The kept detail text of a finished run with no need to check its stamp now (see above), or null. */
-export function recentRunDetail(projectId: number, runId: number): string | null {
-  return recent(projectId, runId)?.text ?? null;
-}
-
-/** The run route's answer with no need to check the stamp now, or null. */
-export function recentRunAnswer(projectId: number, runId: number): Buffer | null {
-  const entry = recent(projectId, runId);
-  return entry ? answerOf(entry) : null;
-}
-
-function answerOf(entry: Entry): Buffer {
-  entry.answer ??= Buffer.from(`{"run":${entry.text}}`);
-  return entry.answer;
-}
-
-/** The kept detail text of a finished run read at `stamp` (updated_at, ms), or null. */
-export function keptRunDetail(runId: number, stamp: number): string | null {
-  return kept(runId, stamp)?.text ?? null;
-}
-
-/** The run route's answer, `{"run":…}` as UTF-8 bytes, when the detail read at `stamp` is kept; else null. */
-export function keptRunAnswer(runId: number, stamp: number): Buffer | null {
-  const entry = kept(runId, stamp);
-  return entry ? answerOf(entry) : null;
+/** The run route's answer, `{"run":…}` as UTF-8 bytes, of a kept detail (made on first use). */
+export function runAnswerOf(kept: KeptRunDetail): Buffer {
+  kept.answer ??= Buffer.from(`{"run":${kept.text}}`);
+  return kept.answer;
 }
 
 /** Writes seen so far (of any run): a detail read while one happened is not kept. */

@@ -11,7 +11,7 @@ import { runComparisonRoutes } from './run-comparison.routes';
 import { openRunEventStream } from './run-event-stream';
 import { readTile, sendTile, tileManifest } from './run-tiles';
 import { artifactForDownload, cancelRun, deleteRunFiles, getRunAnswer, listRuns, startRun } from './run.service';
-import { listKey, runLists } from '../../db/list-caches';
+import { cachedList, runLists } from '../../db/list-caches';
 
 /** A succeeded run's files never change (a new run gets a new id): browsers keep them a day without asking again. */
 const IMMUTABLE = 'private, max-age=86400, immutable';
@@ -30,8 +30,7 @@ export function runRoutes(ctx: AppContext) {
   router.get('/runs', requireProject('read'), async (req, res) => {
     const query = parseInput(listRunsQuerySchema, req.query, 'query');
     const projectId = projectAccess(req).project.id;
-    const answer = await runLists.get(listKey(projectId, query), async () => JSON.stringify({ runs: await listRuns(projectId, query) }));
-    res.type('application/json').send(answer);
+    res.type('application/json').send(await cachedList(runLists, projectId, query, async () => ({ runs: await listRuns(projectId, query) })));
   });
 
   router.get('/runs/:runId', requireProject('read'), async (req, res) => {

@@ -11,7 +11,7 @@ import { touchProject } from '../projects/project.model';
 import { UploadModel } from '../uploads/upload.model';
 import { UserModel } from '../users/user.model';
 import { findArtifact, listArtifacts } from './run-artifacts';
-import { keepRunDetail, keptRunAnswer, keptRunDetail, recentRunAnswer, recentRunDetail, runDetailWrites } from './run-detail-cache';
+import { keepRunDetail, keptRunDetail, runAnswerOf, runDetailWrites } from './run-detail-cache';
 import { RunArtifactModel, RunEventModel, RunModel } from './run.model';
 import { runStatusName, runStatusPhrase } from '../../../shared/display-names';
 
@@ -77,28 +77,26 @@ export async function findRun(projectId: number, runId: number): Promise<RunMode
   return run;
 }
 
-/** The run's `updated_at` (ms) and whether it has finished; 404 when the project has no such run. */
-async function runStamp(projectId: number, runId: number): Promise<{ stamp: number; finished: boolean }> {
-  const [row] = await select<{ status: RunSummary['status']; updatedAt: Date }>('SELECT status, updated_at AS updatedAt FROM runs WHERE id = ? AND project_id = ?', [runId, projectId]);
-  if (!row) throw new AppError(404, `This project has no run ${runId}`);
-  return { stamp: row.updatedAt.getTime(), finished: FINISHED_STATUSES.includes(row.status) };
+/** The run's `updated_at` (ms), or null when the project has no such run. */
+async function runStamp(projectId: number, runId: number): Promise<number | null> {
+  const [row] = await select<{ updatedAt: Date }>('SELECT updated_at AS updatedAt FROM runs WHERE id = ? AND project_id = ?', [runId, projectId]);
+  return row ? row.updatedAt.getTime() : null;
+}
+
+/** A finished run's detail kept in memory (run-detail-cache.ts), its stamp checked when due; null: read it. */
+function keptDetail(projectId: number, runId: number) {
+  return keptRunDetail(projectId, runId, () => runStamp(projectId, runId));
 }
 
 /** A run's detail (RunDetail) as JSON text, for the routes that send it as it is. */
 export async function getRunJson(projectId: number, runId: number): Promise<string> {
-  const recent = recentRunDetail(projectId, runId);
-  if (recent) return recent;
-  const { stamp, finished } = await runStamp(projectId, runId);
-  return (finished && keptRunDetail(runId, stamp)) || readRunJson(projectId, runId);
+  return (await keptDetail(projectId, runId))?.text ?? readRunJson(projectId, runId);
 }
 
 /** The run route's answer `{"run":…}` as bytes: a finished run's from memory after its first read. */
 export async function getRunAnswer(projectId: number, runId: number): Promise<Buffer> {
-  const recent = recentRunAnswer(projectId, runId);
-  if (recent) return recent;
-  const { stamp, finished } = await runStamp(projectId, runId);
-  const answer = finished ? keptRunAnswer(runId, stamp) : null;
-  return answer ?? Buffer.from(`{"run":${await readRunJson(projectId, runId)}}`);
+  const kept = await keptDetail(projectId, runId);
+  return kept ? runAnswerOf(kept) : Buffer.from(`{"run":${await readRunJson(projectId, runId)}}`);
 }
 
 /** Reads a run's detail from the database; a finished run's is kept (run-detail-cache.ts) under the `updated_at` read with it. */
